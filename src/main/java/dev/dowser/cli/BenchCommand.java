@@ -1,0 +1,147 @@
+package dev.dowser.cli;
+
+import dev.dowser.data.FileFormat;
+import dev.dowser.data.ImportProgress;
+import dev.dowser.data.ImportResult;
+import dev.dowser.data.ImportSpec;
+import dev.dowser.data.Importer;
+import dev.dowser.store.Database;
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.Writer;
+import java.lang.management.ManagementFactory;
+import java.lang.management.MemoryPoolMXBean;
+import java.lang.management.MemoryType;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Clock;
+import java.util.Comparator;
+import java.util.SplittableRandom;
+import java.util.concurrent.Callable;
+import java.util.stream.Stream;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+
+@Command(name = "bench", mixinStandardHelpOptions = true,
+        description = {"Measures this machine and prints key=value lines.",
+            "import: a generated CSV of N rows x 64 numeric features into a fresh pool;",
+            "reports rows per second and the peak heap, at N and at N/10 in the same run,",
+            "so memory that grows with the file would show."})
+final class BenchCommand implements Callable<Integer> {
+
+    static final int FEATURES = 64;
+    static final int FULL_ROWS = 1_000_000;
+    static final int QUICK_ROWS = 100_000;
+    static final long SEED = 20_261_202L;
+
+    @Option(names = "--quick", description = "Smaller sizes, for a first look (" + QUICK_ROWS + " rows).")
+    boolean quick;
+
+    @Option(names = "--rows", paramLabel = "N", description = "Rows of the import benchmark (default: "
+            + FULL_ROWS + ", or " + QUICK_ROWS + " with --quick).")
+    Integer rows;
+
+    @Option(names = "--work", paramLabel = "DIR", description = "Scratch folder (default: a new temporary folder).")
+    Path work;
+
+    @Override
+    public Integer call() throws IOException {
+        int n = rows != null ? rows : quick ? QUICK_ROWS : FULL_ROWS;
+        if (n < 10) {
+            throw new IllegalArgumentException("--rows must be at least 10, got " + n);
+        }
+        Path dir = work != null ? Files.createDirectories(work) : Files.createTempDirectory("dowser-bench-");
+        try {
+            System.out.printf("cores=%d%nmax_heap_mib=%d%n", Runtime.getRuntime().availableProcessors(),
+                    Runtime.getRuntime().maxMemory() >> 20);
+            importSuite(dir, n / 10, "small");
+            importSuite(dir, n, "full");
+        } finally {
+            deleteTree(dir);
+        }
+        return 0;
+    }
+
+    private static void importSuite(Path dir, int n, String tag) throws IOException {
+        Path csv = dir.resolve("bench-" + n + ".csv");
+        writeCsv(csv, n);
+        Path dataDir = dir.resolve("db-" + n);
+        try (Database db = Database.open(dataDir, Clock.systemUTC())) {
+            System.gc();
+            resetPeaks();
+            ImportResult r;
+            try (InputStream in = Files.newInputStream(csv)) {
+                r = new Importer(db).run(in, csv.getFileName().toString(),
+                        ImportSpec.defaults("bench", FileFormat.CSV).withId("id"), ImportProgress.NONE);
+            }
+            long peak = peakHeapBytes();
+            System.out.printf("import_%s_rows=%d%nimport_%s_mib=%.1f%nimport_%s_seconds=%.2f%n"
+                            + "import_%s_rows_per_s=%.0f%nimport_%s_peak_heap_mib=%.0f%n",
+                    tag, r.records(), tag, Files.size(csv) / 1048576.0, tag, r.seconds(), tag, r.recordsPerSecond(),
+                    tag, peak / 1048576.0);
+        }
+        Files.delete(csv);
+    }
+
+    /** n rows: an id, then 64 Gaussian features written with four decimals. */
+    static void writeCsv(Path file, int n) throws IOException {
+        SplittableRandom rng = new SplittableRandom(SEED);
+        try (Writer w = Files.newBufferedWriter(file, StandardCharsets.UTF_8)) {
+            StringBuilder line = new StringBuilder(1024).append("id");
+            for (int f = 0; f < FEATURES; f++) {
+                line.append(",f").append(f);
+            }
+            w.write(line.append('\n').toString());
+            for (int i = 0; i < n; i++) {
+                line.setLength(0);
+                line.append("r").append(i);
+                for (int f = 0; f < FEATURES; f++) {
+                    line.append(',');
+                    appendFixed4(line, rng.nextGaussian() * (1 + f % 5) + f);
+                }
+                w.write(line.append('\n').toString());
+            }
+        }
+    }
+
+    private static void appendFixed4(StringBuilder s, double x) {
+        long scaled = Math.round(x * 10_000);
+        if (scaled < 0) {
+            s.append('-');
+            scaled = -scaled;
+        }
+        s.append(scaled / 10_000).append('.');
+        long frac = scaled % 10_000;
+        for (long d = 1_000; d > 0; d /= 10) {
+            s.append((char) ('0' + (frac / d) % 10));
+        }
+    }
+
+    private static void resetPeaks() {
+        for (MemoryPoolMXBean pool : ManagementFactory.getMemoryPoolMXBeans()) {
+            if (pool.getType() == MemoryType.HEAP) {
+                pool.resetPeakUsage();
+            }
+        }
+    }
+
+    /** Sum of each heap pool's peak: an upper bound on the heap in use at any one time. */
+    private static long peakHeapBytes() {
+        long sum = 0;
+        for (MemoryPoolMXBean pool : ManagementFactory.getMemoryPoolMXBeans()) {
+            if (pool.getType() == MemoryType.HEAP) {
+                sum += pool.getPeakUsage().getUsed();
+            }
+        }
+        return sum;
+    }
+
+    private static void deleteTree(Path dir) throws IOException {
+        try (Stream<Path> paths = Files.walk(dir)) {
+            for (Path p : paths.sorted(Comparator.reverseOrder()).toList()) {
+                Files.deleteIfExists(p);
+            }
+        }
+    }
+}

@@ -1,0 +1,69 @@
+package dev.dowser.cli;
+
+import dev.dowser.data.ImportResult;
+import dev.dowser.demo.DemoPool;
+import dev.dowser.store.Database;
+import dev.dowser.web.WebConfig;
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Clock;
+import java.util.concurrent.Callable;
+import java.util.stream.Stream;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+
+@Command(name = "demo", mixinStandardHelpOptions = true,
+        description = {"Starts the web app on a fresh database holding the demo pool:",
+            "vibration traces from the pumps of Kettlewater Works, an invented water works."})
+final class DemoCommand implements Callable<Integer> {
+
+    @Option(names = "--port", defaultValue = "" + WebConfig.DEFAULT_PORT, paramLabel = "P",
+            description = "TCP port (default: ${DEFAULT-VALUE}).")
+    int port;
+
+    @Option(names = "--data", paramLabel = "DIR",
+            description = "A new or empty folder for the demo database (default: a new temporary folder).")
+    Path dir;
+
+    @Option(names = "--records", defaultValue = "" + DemoPool.DEFAULT_RECORDS, paramLabel = "N",
+            description = "Readings in the demo pool (default: ${DEFAULT-VALUE}).")
+    int records;
+
+    @Option(names = "--seed", defaultValue = "" + DemoPool.DEFAULT_SEED, paramLabel = "N",
+            description = "Seed of the invented readings (default: ${DEFAULT-VALUE}).")
+    long seed;
+
+    @Override
+    public Integer call() throws IOException {
+        if (records < 1) {
+            throw new IllegalArgumentException("--records must be at least 1, got " + records);
+        }
+        Path folder = fresh(dir);
+        Database db = Database.open(folder, Clock.systemUTC());
+        ImportResult r = DemoPool.load(db, folder, records, seed);
+        WebConfig config = new WebConfig(WebConfig.DEFAULT_BIND, port, WebConfig.DEFAULT_MAX_UPLOAD_BYTES,
+                folder.resolve("uploads"));
+        ServerRunner.runUntilStopped(db, config, "Dowser demo: " + r.records() + " pump readings in pool '"
+                + r.poolName() + "'\nOpen {address} in your browser  (data: " + folder.toAbsolutePath()
+                + "; Ctrl-C stops)");
+        return 0;
+    }
+
+    private static Path fresh(Path dir) throws IOException {
+        if (dir == null) {
+            return Files.createTempDirectory("dowser-demo-");
+        }
+        if (Files.exists(dir)) {
+            try (Stream<Path> entries = Files.list(dir)) {
+                if (entries.findAny().isPresent()) {
+                    throw new IllegalArgumentException(dir + " is not empty; the demo needs a new or empty folder");
+                }
+            } catch (IOException e) {
+                throw new UncheckedIOException("cannot read " + dir + ": " + e.getMessage(), e);
+            }
+        }
+        return Files.createDirectories(dir);
+    }
+}

@@ -1,0 +1,51 @@
+package dev.dowser.cli;
+
+import dev.dowser.data.Exporter;
+import dev.dowser.data.FileFormat;
+import dev.dowser.store.Database;
+import java.io.IOException;
+import java.io.OutputStream;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.concurrent.Callable;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
+
+@Command(name = "export", mixinStandardHelpOptions = true,
+        description = {"Writes a pool's labelled records with who labelled them and when."})
+final class ExportCommand implements Callable<Integer> {
+
+    @Mixin
+    DataOption data;
+
+    @Option(names = "--pool", required = true, paramLabel = "NAME", description = "The pool to export.")
+    String pool;
+
+    @Option(names = "--format", defaultValue = "csv", paramLabel = "csv|jsonl",
+            description = "Output format (default: ${DEFAULT-VALUE}).")
+    String format;
+
+    @Option(names = "--out", paramLabel = "F", description = "Output file (default: standard output).")
+    Path out;
+
+    @Override
+    public Integer call() {
+        FileFormat fileFormat = FileFormat.parse(format);
+        try (Database db = data.open()) {
+            long n;
+            if (out == null) {
+                n = new Exporter(db).export(pool, fileFormat, System.out);
+            } else {
+                try (OutputStream o = Files.newOutputStream(out)) {
+                    n = new Exporter(db).export(pool, fileFormat, o);
+                }
+                System.err.printf("exported=%d%nfile=%s%n", n, out);
+            }
+            return 0;
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot write " + out + ": " + e.getMessage(), e);
+        }
+    }
+}

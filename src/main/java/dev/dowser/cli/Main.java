@@ -1,0 +1,43 @@
+package dev.dowser.cli;
+
+import picocli.CommandLine;
+import picocli.CommandLine.Command;
+
+/** The {@code dowser} command line. */
+@Command(name = "dowser",
+        mixinStandardHelpOptions = true,
+        versionProvider = Version.class,
+        description = {
+            "Tells a labelling team which records to label next.",
+            "",
+            "Keeps a pool of records in an embedded database, samples a small Bayesian network's",
+            "posterior, and queues the records whose labels would teach it most."},
+        subcommands = {
+            ServeCommand.class,
+            DemoCommand.class,
+            ImportCommand.class,
+            ExportCommand.class,
+            BenchCommand.class,
+            CommandLine.HelpCommand.class})
+public final class Main implements Runnable {
+
+    @CommandLine.Spec
+    CommandLine.Model.CommandSpec spec;
+
+    public static void main(String[] args) {
+        System.exit(commandLine().execute(args));
+    }
+
+    /** The configured command line, shared by {@link #main} and the tests. */
+    public static CommandLine commandLine() {
+        CommandLine cl = new CommandLine(new Main());
+        cl.setExecutionExceptionHandler(new ErrorHandler());
+        cl.setUsageHelpAutoWidth(true);
+        return cl;
+    }
+
+    @Override
+    public void run() {
+        spec.commandLine().usage(System.out);
+    }
+}

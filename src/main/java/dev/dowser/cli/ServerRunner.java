@@ -1,0 +1,31 @@
+package dev.dowser.cli;
+
+import dev.dowser.store.Database;
+import dev.dowser.web.WebConfig;
+import dev.dowser.web.WebServer;
+import java.util.concurrent.CountDownLatch;
+
+/** Runs the web server until the process is told to stop, then shuts down in order. */
+final class ServerRunner {
+
+    private ServerRunner() {
+    }
+
+    static void runUntilStopped(Database db, WebConfig config, String banner) {
+        WebServer server = WebServer.start(db, config);
+        CountDownLatch stopped = new CountDownLatch(1);
+        Runtime.getRuntime().addShutdownHook(new Thread(() -> {
+            System.err.println("dowser: stopping; letting requests in flight finish");
+            server.close();
+            db.close();
+            stopped.countDown();
+        }, "dowser-shutdown"));
+        System.out.println(banner.replace("{address}", server.address()));
+        System.out.flush();
+        try {
+            stopped.await();
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+        }
+    }
+}

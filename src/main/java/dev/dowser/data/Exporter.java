@@ -1,0 +1,135 @@
+package dev.dowser.data;
+
+import dev.dowser.json.Json;
+import dev.dowser.store.Database;
+import dev.dowser.store.PoolRow;
+import dev.dowser.store.RecordRow;
+import java.io.BufferedWriter;
+import java.io.IOException;
+import java.io.OutputStream;
+import java.io.OutputStreamWriter;
+import java.io.UncheckedIOException;
+import java.io.Writer;
+import java.nio.charset.StandardCharsets;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Set;
+
+/**
+ * Writes a pool's labelled records with their provenance: id, display fields, label, who gave it,
+ * when, and the note. CSV (RFC 4180) or JSON Lines with the same flat field names, so an export
+ * imports back with {@code --id id --label label}.
+ */
+public final class Exporter {
+
+    public static final String ID = "id";
+    public static final String LABEL = "label";
+    public static final String LABELLED_BY = "labelled_by";
+    public static final String LABELLED_AT = "labelled_at";
+    public static final String NOTE = "note";
+    /** Prefix given to a display column whose name is one of the export's own. */
+    public static final String RENAMED_PREFIX = "field.";
+    private static final Set<String> OWN = Set.of(ID, LABEL, LABELLED_BY, LABELLED_AT, NOTE);
+
+    private final Database db;
+
+    public Exporter(Database db) {
+        this.db = db;
+    }
+
+    /** Writes every labelled record of {@code poolName}; returns how many. */
+    public long export(String poolName, FileFormat format, OutputStream out) {
+        PoolRow pool = db.pools().require(poolName);
+        ColumnRoles roles = Json.read(pool.columnRolesJson(), ColumnRoles.class);
+        List<String> header = header(roles.display());
+        Writer w = new BufferedWriter(new OutputStreamWriter(out, StandardCharsets.UTF_8), 1 << 16);
+        long[] count = {0};
+        try {
+            if (format == FileFormat.CSV) {
+                writeCsvRow(w, header);
+            }
+            List<String> cells = new ArrayList<>(header.size());
+            db.records().forEachLabelled(pool.id(), r -> {
+                cells.clear();
+                cells.add(r.key());
+                cells.addAll(r.display());
+                cells.add(r.label());
+                cells.add(r.labelledBy());
+                cells.add(r.labelledAt().toString());
+                cells.add(r.note());
+                try {
+                    if (format == FileFormat.CSV) {
+                        writeCsvRow(w, cells);
+                    } else {
+                        writeJsonLine(w, header, cells);
+                    }
+                } catch (IOException e) {
+                    throw new UncheckedIOException(e);
+                }
+                count[0]++;
+            });
+            w.flush();
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot write the export: " + e.getMessage(), e);
+        }
+        return count[0];
+    }
+
+    static List<String> header(List<String> display) {
+        List<String> h = new ArrayList<>();
+        h.add(ID);
+        for (String d : display) {
+            h.add(OWN.contains(d) || d.startsWith(RENAMED_PREFIX) ? RENAMED_PREFIX + d : d);
+        }
+        h.add(LABEL);
+        h.add(LABELLED_BY);
+        h.add(LABELLED_AT);
+        h.add(NOTE);
+        return h;
+    }
+
+    // RFC 4180: a field with a comma, quote or line break is quoted and its quotes doubled. We also
+    // quote leading or trailing spaces so that no reader trims them away.
+    static void writeCsvRow(Writer w, List<String> cells) throws IOException {
+        for (int i = 0; i < cells.size(); i++) {
+            if (i > 0) {
+                w.write(',');
+            }
+            String c = cells.get(i);
+            if (c == null) {
+                continue;
+            }
+            boolean quote = c.isEmpty() ? false : c.charAt(0) == ' ' || c.charAt(c.length() - 1) == ' ';
+            for (int k = 0; k < c.length() && !quote; k++) {
+                char ch = c.charAt(k);
+                quote = ch == ',' || ch == '"' || ch == '\n' || ch == '\r';
+            }
+            if (quote) {
+                w.write('"');
+                w.write(c.replace("\"", "\"\""));
+                w.write('"');
+            } else {
+                w.write(c);
+            }
+        }
+        w.write("\r\n");
+    }
+
+    private static void writeJsonLine(Writer w, List<String> header, List<String> cells) throws IOException {
+        StringBuilder s = new StringBuilder(256).append('{');
+        for (int i = 0; i < header.size(); i++) {
+            if (i > 0) {
+                s.append(',');
+            }
+            Json.appendString(s, header.get(i));
+            s.append(':');
+            String c = cells.get(i);
+            if (c == null) {
+                s.append("null");
+            } else {
+                Json.appendString(s, c);
+            }
+        }
+        w.write(s.append("}\n").toString());
+    }
+}

@@ -1,0 +1,115 @@
+package dev.dowser.store;
+
+import com.zaxxer.hikari.HikariConfig;
+import com.zaxxer.hikari.HikariDataSource;
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Clock;
+import javax.sql.DataSource;
+import org.flywaydb.core.Flyway;
+
+/**
+ * The embedded H2 file database of one data folder: a connection pool in front of it and the
+ * schema brought up to date by Flyway from {@code migrations/} on the class path. Nothing else in
+ * the project creates or alters tables.
+ */
+public final class Database implements AutoCloseable {
+
+    /** File name stem of the database inside the data folder. */
+    public static final String FILE_STEM = "dowser";
+    /** Where the migration scripts are packaged inside the jar. */
+    public static final String MIGRATIONS = "classpath:migrations";
+    static final int DEFAULT_POOL_SIZE = 8;
+
+    private final HikariDataSource dataSource;
+    private final Clock clock;
+    private final PoolStore pools;
+    private final RecordStore records;
+    private final LabelStore labels;
+
+    private Database(HikariDataSource dataSource, Clock clock) {
+        this.dataSource = dataSource;
+        this.clock = clock;
+        this.labels = new LabelStore(dataSource, clock);
+        this.pools = new PoolStore(dataSource, labels);
+        this.records = new RecordStore(dataSource, labels);
+    }
+
+    /** Opens (creating if needed) the database in {@code dataDir} and applies pending migrations. */
+    public static Database open(Path dataDir, Clock clock) {
+        try {
+            Files.createDirectories(dataDir);
+        } catch (IOException e) {
+            throw new StoreException("cannot create the data folder " + dataDir + ": " + e.getMessage(), e);
+        }
+        HikariDataSource ds = new HikariDataSource(config(dataDir));
+        try {
+            migrate(ds, null);
+        } catch (RuntimeException e) {
+            ds.close();
+            throw e;
+        }
+        return new Database(ds, clock);
+    }
+
+    /** Applies migrations up to {@code target} (all when null); used by tests of the upgrade path. */
+    static void migrate(DataSource ds, String target) {
+        var configuration = Flyway.configure()
+                .dataSource(ds)
+                .locations(MIGRATIONS)
+                .failOnMissingLocations(true);
+        if (target != null) {
+            configuration.target(target);
+        }
+        configuration.load().migrate();
+    }
+
+    static HikariConfig config(Path dataDir) {
+        HikariConfig config = new HikariConfig();
+        // DB_CLOSE_ON_EXIT=FALSE: we close the pool ourselves on shutdown, after the last write.
+        config.setJdbcUrl("jdbc:h2:file:" + dataDir.toAbsolutePath().resolve(FILE_STEM)
+                + ";DB_CLOSE_ON_EXIT=FALSE;MAX_COMPACT_TIME=2000");
+        config.setUsername("dowser");
+        config.setPassword("");
+        config.setMaximumPoolSize(DEFAULT_POOL_SIZE);
+        config.setPoolName("dowser-h2");
+        config.setAutoCommit(true);
+        return config;
+    }
+
+    public PoolStore pools() {
+        return pools;
+    }
+
+    public RecordStore records() {
+        return records;
+    }
+
+    public LabelStore labels() {
+        return labels;
+    }
+
+    /**
+     * Starts the all-or-nothing write of a new pool whose records have {@code columns} fields, those
+     * at {@code displayIndex} shown to people; see {@link PoolWriter}. {@code checkKeys} is false
+     * when record ids are unique by construction; carried-in labels are attributed to
+     * {@code importedBy}.
+     */
+    public PoolWriter newPool(String name, int columns, int[] displayIndex, boolean checkKeys, String importedBy) {
+        return PoolWriter.begin(dataSource, clock, name, columns, displayIndex, checkKeys, importedBy);
+    }
+
+    public Clock clock() {
+        return clock;
+    }
+
+    DataSource dataSource() {
+        return dataSource;
+    }
+
+    @Override
+    public void close() {
+        dataSource.close();
+    }
+}

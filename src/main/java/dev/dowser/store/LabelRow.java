@@ -1,0 +1,7 @@
+package dev.dowser.store;
+
+import java.time.Instant;
+
+/** One stored label of a record, by its place in the pool. */
+public record LabelRow(long row, String label, String labelledBy, Instant labelledAt, String note) {
+}

@@ -1,0 +1,140 @@
+package dev.dowser.store;
+
+import java.sql.Connection;
+import java.sql.PreparedStatement;
+import java.sql.ResultSet;
+import java.sql.SQLException;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import java.util.concurrent.ConcurrentHashMap;
+import java.util.function.Consumer;
+import javax.sql.DataSource;
+
+/**
+ * Reads records: pages for people, feature bytes for the model, labelled records for export,
+ * and a record's place in its pool from its id.
+ */
+public final class RecordStore {
+
+    public static final int MAX_PAGE = 1_000;
+
+    /** Receives one record's raw features: {@code length} bytes of {@code bytes} from {@code offset}. */
+    @FunctionalInterface
+    public interface FeatureSink {
+        void accept(long row, byte[] bytes, int offset, int length);
+    }
+
+    private final DataSource ds;
+    private final LabelStore labels;
+    /** Pools never change after import, so an id index, once built, stays right. */
+    private final Map<Long, Map<String, Long>> keyIndex = new ConcurrentHashMap<>();
+
+    RecordStore(DataSource ds, LabelStore labels) {
+        this.ds = ds;
+        this.labels = labels;
+    }
+
+    public void forEachFeatures(long poolId, FeatureSink sink) {
+        forEachBlock(poolId, 0, Long.MAX_VALUE, (first, block) ->
+                block.features((i, bytes, off, len) -> sink.accept(first + i, bytes, off, len)));
+    }
+
+    /** Records {@code offset} to {@code offset + limit - 1} in pool order, with their current labels. */
+    public List<RecordRow> page(long poolId, long offset, int limit) {
+        if (offset < 0 || limit < 1 || limit > MAX_PAGE) {
+            throw new IllegalArgumentException("offset must be 0 or more and limit between 1 and " + MAX_PAGE);
+        }
+        long end = offset + limit;
+        Map<Long, LabelRow> current = new HashMap<>();
+        labels.forEachCurrent(poolId, offset, end, l -> current.put(l.row(), l));
+        List<RecordRow> out = new ArrayList<>(limit);
+        forEachBlock(poolId, offset, end, (first, block) -> {
+            int from = (int) Math.max(0, offset - first);
+            int to = (int) Math.min(block.size(), end - first);
+            String[] keys = block.keys();
+            long[] lines = block.lines();
+            String[][] display = block.display(from, to);
+            for (int i = from; i < to; i++) {
+                long row = first + i;
+                out.add(new RecordRow(row, keys[i], lines[i], Arrays.asList(display[i - from]), null, null, null,
+                        null).withLabel(current.get(row)));
+            }
+        });
+        return out;
+    }
+
+    public Optional<RecordRow> find(long poolId, String key) {
+        Long row = index(poolId).get(key);
+        if (row == null) {
+            return Optional.empty();
+        }
+        List<RecordRow> one = page(poolId, row, 1);
+        return one.isEmpty() ? Optional.empty() : Optional.of(one.get(0));
+    }
+
+    /** The place in the pool of the record with id {@code key}, if there is one. */
+    public Optional<Long> rowOf(long poolId, String key) {
+        return Optional.ofNullable(index(poolId).get(key));
+    }
+
+    private Map<String, Long> index(long poolId) {
+        return keyIndex.computeIfAbsent(poolId, id -> {
+            Map<String, Long> map = new HashMap<>();
+            forEachBlock(id, 0, Long.MAX_VALUE, (first, block) -> {
+                String[] keys = block.keys();
+                for (int i = 0; i < keys.length; i++) {
+                    map.put(keys[i], first + i);
+                }
+            });
+            return map;
+        });
+    }
+
+    /** Every record with a current label, in pool order, streamed with bounded memory. */
+    public void forEachLabelled(long poolId, Consumer<RecordRow> sink) {
+        labels.withCurrentCursor(poolId, cursor -> forEachBlock(poolId, 0, Long.MAX_VALUE, (first, block) -> {
+            long end = first + block.size();
+            String[] keys = null;
+            long[] lines = null;
+            for (LabelRow l = cursor.peek(); l != null && l.row() < end; l = cursor.peek()) {
+                cursor.next();
+                if (keys == null) {
+                    keys = block.keys();
+                    lines = block.lines();
+                }
+                int i = (int) (l.row() - first);
+                String[] display = block.display(i, i + 1)[0];
+                sink.accept(new RecordRow(l.row(), keys[i], lines[i], Arrays.asList(display), null, null, null, null)
+                        .withLabel(l));
+            }
+        }));
+    }
+
+    @FunctionalInterface
+    private interface BlockVisitor {
+        void visit(long firstRow, RecordBlock block);
+    }
+
+    /** Visits the blocks holding any row in [fromRow, toRow), in pool order. */
+    private void forEachBlock(long poolId, long fromRow, long toRow, BlockVisitor visitor) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT first_row, payload FROM record_blocks"
+                     + " WHERE pool_id = ? AND first_row < ? AND first_row + row_count > ? ORDER BY block_no")) {
+            q.setFetchSize(4);
+            q.setLong(1, poolId);
+            q.setLong(2, toRow);
+            q.setLong(3, fromRow);
+            try (ResultSet rs = q.executeQuery()) {
+                while (rs.next()) {
+                    visitor.visit(rs.getLong(1), new RecordBlock(rs.getBytes(2)));
+                }
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the records of pool " + poolId + ": " + e.getMessage(), e);
+        }
+    }
+}

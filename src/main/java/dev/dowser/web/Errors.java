@@ -1,0 +1,45 @@
+package dev.dowser.web;
+
+import dev.dowser.data.ImportException;
+import dev.dowser.store.ConflictException;
+import dev.dowser.store.NotFoundException;
+import io.undertow.server.HttpServerExchange;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/** The one mapping from exceptions to error responses: {"error": message} with a fitting status. */
+final class Errors {
+
+    private static final Logger LOG = LoggerFactory.getLogger(Errors.class);
+
+    private Errors() {
+    }
+
+    static void send(HttpServerExchange exchange, Throwable e) {
+        int status;
+        String message;
+        if (e instanceof ApiException api) {
+            status = api.status();
+            message = api.getMessage();
+        } else if (e instanceof NotFoundException) {
+            status = 404;
+            message = e.getMessage();
+        } else if (e instanceof ConflictException) {
+            status = 409;
+            message = e.getMessage();
+        } else if (e instanceof ImportException || e instanceof IllegalArgumentException) {
+            status = 400;
+            message = e.getMessage();
+        } else {
+            LOG.error("request {} {} failed", exchange.getRequestMethod(), exchange.getRequestPath(), e);
+            status = 500;
+            message = "the server failed to handle this request; the log has the details";
+        }
+        if (exchange.isResponseStarted()) {
+            exchange.endExchange();
+            return;
+        }
+        var body = dev.dowser.json.Json.object().put("error", message);
+        Responses.json(exchange, status, body);
+    }
+}

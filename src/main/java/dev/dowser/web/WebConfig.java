@@ -1,0 +1,33 @@
+package dev.dowser.web;
+
+import java.nio.file.Path;
+
+/**
+ * How the server listens and what it accepts; validated here, sealed afterwards.
+ *
+ * @param bind            address to listen on
+ * @param port            TCP port; 0 picks a free one
+ * @param maxUploadBytes  largest import upload accepted
+ * @param spoolDir        where uploads wait while they are imported
+ */
+public record WebConfig(String bind, int port, long maxUploadBytes, Path spoolDir) {
+
+    public static final String DEFAULT_BIND = "127.0.0.1";
+    public static final int DEFAULT_PORT = 8080;
+    public static final long DEFAULT_MAX_UPLOAD_BYTES = 2L << 30;
+
+    public WebConfig {
+        if (bind == null || bind.isBlank()) {
+            throw new IllegalArgumentException("bind address is empty; give an address such as 127.0.0.1");
+        }
+        if (port < 0 || port > 65_535) {
+            throw new IllegalArgumentException("port " + port + " is out of range; use 1 to 65535, or 0 for any free port");
+        }
+        if (maxUploadBytes < 1) {
+            throw new IllegalArgumentException("maxUploadBytes must be positive, got " + maxUploadBytes);
+        }
+        if (spoolDir == null) {
+            throw new IllegalArgumentException("spoolDir is required");
+        }
+    }
+}

@@ -1,0 +1,79 @@
+package dev.dowser.web;
+
+import dev.dowser.store.Database;
+import io.undertow.Handlers;
+import io.undertow.Undertow;
+import io.undertow.server.HttpHandler;
+import io.undertow.server.handlers.BlockingHandler;
+import io.undertow.server.handlers.GracefulShutdownHandler;
+import java.net.InetSocketAddress;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * The Undertow server: the JSON API under {@code /api/v1} and the pages from {@code web/}.
+ * Closing it stops taking requests, lets those in flight finish, then stops.
+ */
+public final class WebServer implements AutoCloseable {
+
+    private static final Logger LOG = LoggerFactory.getLogger(WebServer.class);
+    static final long SHUTDOWN_WAIT_MILLIS = 20_000;
+
+    private final Undertow undertow;
+    private final GracefulShutdownHandler graceful;
+    private final ImportJobs imports;
+
+    private WebServer(Undertow undertow, GracefulShutdownHandler graceful, ImportJobs imports) {
+        this.undertow = undertow;
+        this.graceful = graceful;
+        this.imports = imports;
+    }
+
+    public static WebServer start(Database db, WebConfig config) {
+        ImportJobs imports = new ImportJobs(db, config.spoolDir(), config.maxUploadBytes());
+        HttpHandler api = new BlockingHandler(guarded(new Api(db, imports).routes()));
+        HttpHandler root = Handlers.path(StaticFiles.handler()).addPrefixPath(Api.PREFIX, api);
+        GracefulShutdownHandler graceful = Handlers.gracefulShutdown(root);
+        Undertow undertow = Undertow.builder()
+                .addHttpListener(config.port(), config.bind())
+                .setHandler(graceful)
+                .build();
+        undertow.start();
+        return new WebServer(undertow, graceful, imports);
+    }
+
+    /** Every API exception, thrown anywhere below, becomes one JSON error response. */
+    private static HttpHandler guarded(HttpHandler next) {
+        return exchange -> {
+            try {
+                next.handleRequest(exchange);
+            } catch (Exception e) {
+                Errors.send(exchange, e);
+            }
+        };
+    }
+
+    public int port() {
+        return ((InetSocketAddress) undertow.getListenerInfo().get(0).getAddress()).getPort();
+    }
+
+    public String address() {
+        InetSocketAddress a = (InetSocketAddress) undertow.getListenerInfo().get(0).getAddress();
+        String host = a.getAddress().isAnyLocalAddress() ? "localhost" : a.getHostString();
+        return "http://" + host + ":" + a.getPort() + "/";
+    }
+
+    @Override
+    public void close() {
+        graceful.shutdown();
+        try {
+            if (!graceful.awaitShutdown(SHUTDOWN_WAIT_MILLIS)) {
+                LOG.warn("requests still running after {} ms; stopping anyway", SHUTDOWN_WAIT_MILLIS);
+            }
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+        }
+        imports.close();
+        undertow.stop();
+    }
+}
