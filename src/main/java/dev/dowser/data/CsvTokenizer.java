@@ -158,8 +158,10 @@ final class CsvTokenizer {
                     line++;
                 }
             }
-            if (n == scratch.length) {
+            if (n == maxFieldChars) {
                 checkLength(n + 1);
+            }
+            if (n == scratch.length) {
                 scratch = Arrays.copyOf(scratch, scratch.length * 2);
             }
             scratch[n++] = c;

@@ -1,0 +1,168 @@
+package dev.dowser;
+
+import dev.dowser.data.FileFormat;
+import dev.dowser.data.ImportResult;
+import dev.dowser.data.ImportSpec;
+import dev.dowser.data.ImportProgress;
+import dev.dowser.data.Importer;
+import dev.dowser.store.Database;
+import java.io.BufferedReader;
+import java.io.ByteArrayInputStream;
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.InputStreamReader;
+import java.io.UncheckedIOException;
+import java.io.Writer;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.sql.Connection;
+import java.sql.ResultSet;
+import java.sql.SQLException;
+import java.sql.Statement;
+import java.time.Clock;
+import java.time.Instant;
+import java.time.ZoneOffset;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.zip.GZIPInputStream;
+
+/** Shared helpers of the tests: databases, the open datasets, and files to import. */
+public final class TestSupport {
+
+    /** A fixed instant, so stored times are predictable. */
+    public static final Instant NOW = Instant.parse("2026-12-02T09:30:00Z");
+    public static final Clock CLOCK = Clock.fixed(NOW, ZoneOffset.UTC);
+    /** Where {@code ./dowser test} unpacks the open datasets (set by the build). */
+    public static final String DATASETS_PROPERTY = "dowser.datasets";
+
+    private TestSupport() {
+    }
+
+    public static Database openDb(Path dir) {
+        return Database.open(dir, CLOCK);
+    }
+
+    public static ImportResult importText(Database db, String pool, String text, ImportSpec spec) {
+        return new Importer(db).run(new ByteArrayInputStream(text.getBytes(StandardCharsets.UTF_8)), pool + ".csv",
+                spec, ImportProgress.NONE);
+    }
+
+    public static ImportResult importBytes(Database db, byte[] bytes, ImportSpec spec) {
+        return new Importer(db).run(new ByteArrayInputStream(bytes), "fuzz", spec, ImportProgress.NONE);
+    }
+
+    public static ImportSpec csv(String pool) {
+        return ImportSpec.defaults(pool, FileFormat.CSV);
+    }
+
+    public static ImportSpec jsonl(String pool) {
+        return ImportSpec.defaults(pool, FileFormat.JSONL);
+    }
+
+    /**
+     * Rows in every table of the database, to show that a failed operation changed nothing.
+     * Covers every table Flyway created, so a new table is checked without editing this.
+     */
+    public static Map<String, Long> tableCounts(Path dataDir) {
+        String url = "jdbc:h2:file:" + dataDir.toAbsolutePath().resolve(Database.FILE_STEM);
+        Map<String, Long> counts = new LinkedHashMap<>();
+        try (Connection c = java.sql.DriverManager.getConnection(url, "dowser", "");
+             Statement s = c.createStatement()) {
+            List<String> tables = new ArrayList<>();
+            try (ResultSet rs = s.executeQuery("SELECT table_name FROM information_schema.tables"
+                    + " WHERE table_schema = 'PUBLIC' ORDER BY table_name")) {
+                while (rs.next()) {
+                    tables.add(rs.getString(1));
+                }
+            }
+            for (String t : tables) {
+                try (ResultSet rs = s.executeQuery("SELECT COUNT(*) FROM \"" + t + "\"")) {
+                    rs.next();
+                    counts.put(t, rs.getLong(1));
+                }
+            }
+        } catch (SQLException e) {
+            throw new IllegalStateException(e);
+        }
+        return counts;
+    }
+
+    // ---- the open datasets -----------------------------------------------------------------
+
+    /** One of the UCI datasets shipped by Debian's python3-sklearn 1.2.1, rewritten with a header. */
+    public record OpenDataset(String name, Path csv, int rows, int features, List<String> classes) {
+    }
+
+    public static Path datasetsDir() {
+        String dir = System.getProperty(DATASETS_PROPERTY);
+        Path p = dir == null ? null : Path.of(dir);
+        if (p == null || !Files.isRegularFile(p.resolve(".complete"))) {
+            throw new IllegalStateException("the open datasets are missing from " + p
+                    + "; run the tests with ./dowser test, which unpacks them from Debian's python3-sklearn");
+        }
+        return p;
+    }
+
+    /**
+     * Rewrites one of sklearn's bundled files as a CSV with a header row: columns {@code f0..fN}
+     * and {@code label} holding the class name. sklearn's format has a first line giving the row
+     * count, the feature count and the class names, then rows of features and the class index;
+     * digits has no first line and 64 pixel columns then the digit.
+     */
+    public static OpenDataset openDataset(String name, Path workDir) {
+        Path dir = datasetsDir();
+        Path out = workDir.resolve(name + ".csv");
+        try (BufferedReader in = reader(dir, name); Writer w = Files.newBufferedWriter(out)) {
+            List<String> classes;
+            int features;
+            String first = null;
+            if (name.equals("digits")) {
+                features = 64;
+                classes = List.of("0", "1", "2", "3", "4", "5", "6", "7", "8", "9");
+            } else {
+                String[] head = in.readLine().split(",");
+                features = Integer.parseInt(head[1]);
+                classes = Arrays.asList(Arrays.copyOfRange(head, 2, head.length));
+            }
+            StringBuilder header = new StringBuilder();
+            for (int f = 0; f < features; f++) {
+                header.append(name.equals("digits") ? "px" : "f").append(f).append(',');
+            }
+            w.write(header.append("label\n").toString());
+            int rows = 0;
+            String line;
+            while ((line = first != null ? first : in.readLine()) != null) {
+                first = null;
+                if (line.isBlank()) {
+                    continue;
+                }
+                String[] v = line.split(",");
+                int cls = (int) Double.parseDouble(v[features]);
+                w.write(String.join(",", Arrays.copyOfRange(v, 0, features)) + "," + classes.get(cls) + "\n");
+                rows++;
+            }
+            return new OpenDataset(name, out, rows, features, classes);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    private static BufferedReader reader(Path dir, String name) throws IOException {
+        String file = switch (name) {
+            case "iris" -> "iris.csv";
+            case "wine" -> "wine_data.csv";
+            case "breast_cancer" -> "breast_cancer.csv";
+            case "digits" -> "digits.csv.gz";
+            default -> throw new IllegalArgumentException("no open dataset named " + name);
+        };
+        InputStream raw = Files.newInputStream(dir.resolve(file));
+        if (file.endsWith(".gz")) {
+            raw = new GZIPInputStream(raw);
+        }
+        return new BufferedReader(new InputStreamReader(raw, StandardCharsets.UTF_8));
+    }
+}
