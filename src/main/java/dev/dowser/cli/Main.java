@@ -25,6 +25,8 @@ public final class Main implements Runnable {
     CommandLine.Model.CommandSpec spec;
 
     public static void main(String[] args) {
+        // Undertow logs through JBoss Logging; send it to SLF4J so one configuration governs all.
+        System.setProperty("org.jboss.logging.provider", "slf4j");
         System.exit(commandLine().execute(args));
     }
 

@@ -50,18 +50,24 @@ final class KeyCheck implements AutoCloseable {
         }
     }
 
-    // FNV-1a over the UTF-16 units, then the MurmurHash3 64-bit finaliser (Appleby 2011) to spread bits.
+    /** The id's hash: FNV-1a, then the MurmurHash3 64-bit finaliser (Appleby 2011) to spread its bits. */
     static long hash(String s) {
-        long h = 0xcbf29ce484222325L;
-        for (int i = 0; i < s.length(); i++) {
-            h ^= s.charAt(i);
-            h *= 0x100000001b3L;
-        }
+        long h = fnv1a(s);
         h ^= h >>> 33;
         h *= 0xff51afd7ed558ccdL;
         h ^= h >>> 33;
         h *= 0xc4ceb9fe1a85ec53L;
         h ^= h >>> 33;
+        return h;
+    }
+
+    // FNV-1a 64 (Fowler, Noll & Vo) over the UTF-16 units; for ASCII ids that is the published byte-wise hash.
+    static long fnv1a(String s) {
+        long h = 0xcbf29ce484222325L;
+        for (int i = 0; i < s.length(); i++) {
+            h ^= s.charAt(i);
+            h *= 0x100000001b3L;
+        }
         return h;
     }
 

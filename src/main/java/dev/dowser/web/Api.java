@@ -8,6 +8,7 @@ import dev.dowser.data.Exporter;
 import dev.dowser.data.FeatureColumn;
 import dev.dowser.data.FeatureSchema;
 import dev.dowser.data.FileFormat;
+import dev.dowser.data.ImportResult;
 import dev.dowser.data.ImportSpec;
 import dev.dowser.data.LabelKeys;
 import dev.dowser.json.Json;
@@ -26,7 +27,10 @@ import java.util.Map;
 import java.util.concurrent.ExecutionException;
 import java.util.concurrent.Future;
 
-/** The JSON API under {@code /api/v1}. Each handler parses, calls one method, and sends. */
+/**
+ * The JSON API under {@code /api/v1} (route paths here are relative to it). Each handler parses,
+ * calls one method, and sends; every error becomes a JSON response in {@link Errors}.
+ */
 final class Api {
 
     static final String PREFIX = "/api/v1";
@@ -43,13 +47,13 @@ final class Api {
 
     RoutingHandler routes() {
         return new RoutingHandler()
-                .get(PREFIX + "/pools", this::listPools)
-                .get(PREFIX + "/pools/{pool}", this::pool)
-                .get(PREFIX + "/pools/{pool}/records", this::records)
-                .post(PREFIX + "/pools/{pool}/labels", this::addLabel)
-                .get(PREFIX + "/pools/{pool}/export", this::export)
-                .post(PREFIX + "/imports", this::startImport)
-                .get(PREFIX + "/imports/{id}", this::importStatus)
+                .get("/pools", this::listPools)
+                .get("/pools/{pool}", this::pool)
+                .get("/pools/{pool}/records", this::records)
+                .post("/pools/{pool}/labels", this::addLabel)
+                .get("/pools/{pool}/export", this::export)
+                .post("/imports", this::startImport)
+                .get("/imports/{id}", this::importStatus)
                 .setFallbackHandler(ex -> {
                     throw new ApiException(404, "no such resource: " + ex.getRequestMethod() + " "
                             + ex.getRequestPath());
@@ -177,10 +181,23 @@ final class Api {
         ImportJobs.Submission job = imports.submit(ex.getInputStream(), fileName, spec);
         if (Boolean.parseBoolean(query(ex, "wait", "false"))) {
             ImportJobs.Status done = await(job.done());
-            Responses.json(ex, "done".equals(done.state()) ? 201 : 400, done);
+            Responses.json(ex, "done".equals(done.state()) ? 201 : 400, statusJson(done));
         } else {
-            Responses.json(ex, 202, imports.status(job.id()));
+            Responses.json(ex, 202, statusJson(imports.status(job.id())));
         }
+    }
+
+    static ObjectNode statusJson(ImportJobs.Status s) {
+        ObjectNode n = Json.object().put("id", s.id()).put("pool", s.pool()).put("state", s.state())
+                .put("records", s.records()).put("bytes_read", s.bytesRead()).put("total_bytes", s.totalBytes())
+                .put("error", s.error());
+        if (s.result() != null) {
+            ImportResult r = s.result();
+            ObjectNode result = n.putObject("result").put("records", r.records()).put("labelled", r.labelled())
+                    .put("features", r.features()).put("seconds", r.seconds());
+            result.set("classes", Json.mapper().valueToTree(r.classes()));
+        }
+        return n;
     }
 
     private static ImportJobs.Status await(Future<ImportJobs.Status> job) {
@@ -201,7 +218,7 @@ final class Api {
         } catch (NumberFormatException e) {
             throw new ApiException(400, "import id must be a number");
         }
-        Responses.ok(ex, imports.status(id));
+        Responses.ok(ex, statusJson(imports.status(id)));
     }
 
     private static String param(HttpServerExchange ex, String name) {

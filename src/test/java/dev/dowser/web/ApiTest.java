@@ -1,0 +1,138 @@
+package dev.dowser.web;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.dowser.TestSupport;
+import dev.dowser.json.Json;
+import dev.dowser.store.Database;
+import java.io.IOException;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.file.Path;
+import java.util.Map;
+import org.junit.jupiter.api.AfterEach;
+import org.junit.jupiter.api.BeforeEach;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/** The JSON API on a real Undertow server on a loopback port, over the real H2 file database. */
+class ApiTest {
+
+    @TempDir
+    Path dir;
+    Database db;
+    WebServer server;
+    final HttpClient http = HttpClient.newHttpClient();
+
+    @BeforeEach
+    void start() {
+        db = TestSupport.openDb(dir.resolve("db"));
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 4_096, dir.resolve("uploads")));
+    }
+
+    @AfterEach
+    void stop() {
+        server.close();
+        db.close();
+    }
+
+    private HttpResponse<String> send(HttpRequest.Builder b) throws IOException, InterruptedException {
+        return http.send(b.build(), HttpResponse.BodyHandlers.ofString());
+    }
+
+    private HttpRequest.Builder at(String path) {
+        return HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + server.port() + path));
+    }
+
+    private HttpResponse<String> upload(String query, String body) throws IOException, InterruptedException {
+        return send(at("/api/v1/imports?" + query).POST(HttpRequest.BodyPublishers.ofString(body)));
+    }
+
+    @Test
+    void importLabelAndExportThroughTheApi() throws Exception {
+        HttpResponse<String> r = upload("pool=pumps&file_name=p.csv&id=id&label=state&wait=true",
+                "id,flow,state\nu1,1.5,ok\nu2,2.5,\nu3,0.5,fault\n");
+        assertEquals(201, r.statusCode(), r.body());
+        assertEquals("done", Json.tree(r.body()).get("state").asText());
+
+        JsonNode pools = Json.tree(send(at("/api/v1/pools")).body()).get("pools");
+        assertEquals("pumps", pools.get(0).get("name").asText());
+        assertEquals(3, pools.get(0).get("records").asInt());
+        assertEquals(2, pools.get(0).get("labelled").asInt());
+
+        JsonNode pool = Json.tree(send(at("/api/v1/pools/pumps")).body());
+        assertEquals("fault", pool.get("classes").get(0).get("name").asText());
+        assertEquals("1", pool.get("classes").get(0).get("key").asText());
+
+        JsonNode page = Json.tree(send(at("/api/v1/pools/pumps/records?offset=1&limit=1")).body());
+        assertEquals("u2", page.get("records").get(0).get("id").asText());
+        assertEquals("2.5", page.get("records").get(0).get("fields").get("flow").asText());
+
+        HttpResponse<String> labelled = send(at("/api/v1/pools/pumps/labels").POST(HttpRequest.BodyPublishers
+                .ofString("{\"record\":\"u2\",\"label\":\"ok\",\"labelled_by\":\"ana\",\"note\":\"by ear\"}")));
+        assertEquals(201, labelled.statusCode(), labelled.body());
+        assertEquals("ana", Json.tree(labelled.body()).get("labelled_by").asText());
+
+        HttpResponse<String> csv = send(at("/api/v1/pools/pumps/export?format=csv"));
+        assertEquals(200, csv.statusCode());
+        assertTrue(csv.headers().firstValue("content-disposition").orElse("").contains("pumps-labels.csv"));
+        assertEquals(4, csv.body().split("\r\n").length, csv.body());
+        assertTrue(csv.body().contains("u2,2.5,ok,ana,"), csv.body());
+    }
+
+    @Test
+    void errorsAreJsonWithAMessageAndLeaveDataAlone() throws Exception {
+        upload("pool=kept&wait=true", "a\n1\n");
+        Map<String, Long> before = TestSupport.tableCounts(dir.resolve("db"));
+
+        HttpResponse<String> bad = upload("pool=p&wait=true", "a,b\n1,2\n3\n");
+        assertEquals(400, bad.statusCode());
+        assertEquals("line 3: the record has 1 field where the header has 2; quote fields that contain commas",
+                Json.tree(bad.body()).get("error").asText());
+
+        HttpResponse<String> big = upload("pool=p&wait=true", "a\n" + "1\n".repeat(5_000));
+        assertEquals(413, big.statusCode());
+        assertEquals("the upload is larger than the limit of 4096 bytes; nothing was imported",
+                Json.tree(big.body()).get("error").asText());
+
+        HttpResponse<String> missing = send(at("/api/v1/pools/nope"));
+        assertEquals(404, missing.statusCode());
+        assertEquals("no pool named 'nope'", Json.tree(missing.body()).get("error").asText());
+
+        HttpResponse<String> wrongLabel = send(at("/api/v1/pools/kept/labels").POST(HttpRequest.BodyPublishers
+                .ofString("{\"record\":\"2\",\"label\":\"zzz\",\"labelled_by\":\"ana\"}")));
+        assertEquals(400, wrongLabel.statusCode());
+
+        HttpResponse<String> hostile = send(at("/api/v1/pools/kept/labels").POST(HttpRequest.BodyPublishers
+                .ofString("{\"record\":")));
+        assertEquals(400, hostile.statusCode());
+        assertTrue(Json.tree(hostile.body()).get("error").asText().startsWith("not valid JSON"));
+
+        assertEquals(before, TestSupport.tableCounts(dir.resolve("db")));
+    }
+
+    @Test
+    void importProgressCanBeFollowed() throws Exception {
+        HttpResponse<String> r = upload("pool=later", "a\n1\n2\n");
+        assertEquals(202, r.statusCode());
+        long id = Json.tree(r.body()).get("id").asLong();
+        String state = "";
+        for (int i = 0; i < 200 && !state.equals("done"); i++) {
+            state = Json.tree(send(at("/api/v1/imports/" + id)).body()).get("state").asText();
+            Thread.sleep(20);
+        }
+        assertEquals("done", state);
+    }
+
+    @Test
+    void pagesAreServedWithCachingHeaders() throws Exception {
+        HttpResponse<String> page = send(at("/"));
+        assertEquals(200, page.statusCode());
+        assertEquals("no-cache", page.headers().firstValue("cache-control").orElse(""));
+        assertEquals("nosniff", page.headers().firstValue("x-content-type-options").orElse(""));
+    }
+}
