@@ -21,6 +21,8 @@ import java.util.SplittableRandom;
 import java.util.concurrent.Callable;
 import java.util.stream.Stream;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Model.CommandSpec;
+import picocli.CommandLine.Spec;
 import picocli.CommandLine.Option;
 
 @Command(name = "bench", mixinStandardHelpOptions = true,
@@ -29,6 +31,9 @@ import picocli.CommandLine.Option;
             "reports rows per second and the peak heap, at N and at N/10 in the same run,",
             "so memory that grows with the file would show."})
 final class BenchCommand implements Callable<Integer> {
+
+    @Spec
+    CommandSpec spec;
 
     static final int FEATURES = 64;
     static final int FULL_ROWS = 1_000_000;
@@ -53,17 +58,17 @@ final class BenchCommand implements Callable<Integer> {
         }
         Path dir = work != null ? Files.createDirectories(work) : Files.createTempDirectory("dowser-bench-");
         try {
-            System.out.printf("cores=%d%nmax_heap_mib=%d%n", Runtime.getRuntime().availableProcessors(),
+            spec.commandLine().getOut().printf("cores=%d%nmax_heap_mib=%d%n", Runtime.getRuntime().availableProcessors(),
                     Runtime.getRuntime().maxMemory() >> 20);
-            importSuite(dir, n / 10, "small");
-            importSuite(dir, n, "full");
+            importSuite(spec.commandLine().getOut(), dir, n / 10, "small");
+            importSuite(spec.commandLine().getOut(), dir, n, "full");
         } finally {
             deleteTree(dir);
         }
         return 0;
     }
 
-    private static void importSuite(Path dir, int n, String tag) throws IOException {
+    private static void importSuite(java.io.PrintWriter out, Path dir, int n, String tag) throws IOException {
         Path csv = dir.resolve("bench-" + n + ".csv");
         writeCsv(csv, n);
         Path dataDir = dir.resolve("db-" + n);
@@ -76,7 +81,7 @@ final class BenchCommand implements Callable<Integer> {
                         ImportSpec.defaults("bench", FileFormat.CSV).withId("id"), ImportProgress.NONE);
             }
             long peak = peakHeapBytes();
-            System.out.printf("import_%s_rows=%d%nimport_%s_mib=%.1f%nimport_%s_seconds=%.2f%n"
+            out.printf("import_%s_rows=%d%nimport_%s_mib=%.1f%nimport_%s_seconds=%.2f%n"
                             + "import_%s_rows_per_s=%.0f%nimport_%s_peak_heap_mib=%.0f%n",
                     tag, r.records(), tag, Files.size(csv) / 1048576.0, tag, r.seconds(), tag, r.recordsPerSecond(),
                     tag, peak / 1048576.0);

@@ -10,12 +10,17 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.concurrent.Callable;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Model.CommandSpec;
+import picocli.CommandLine.Spec;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 
 @Command(name = "export", mixinStandardHelpOptions = true,
         description = {"Writes a pool's labelled records with who labelled them and when."})
 final class ExportCommand implements Callable<Integer> {
+
+    @Spec
+    CommandSpec spec;
 
     @Mixin
     DataOption data;
@@ -41,7 +46,7 @@ final class ExportCommand implements Callable<Integer> {
                 try (OutputStream o = Files.newOutputStream(out)) {
                     n = new Exporter(db).export(pool, fileFormat, o);
                 }
-                System.err.printf("exported=%d%nfile=%s%n", n, out);
+                spec.commandLine().getErr().printf("exported=%d%nfile=%s%n", n, out);
             }
             return 0;
         } catch (IOException e) {

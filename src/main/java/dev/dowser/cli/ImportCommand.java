@@ -13,6 +13,8 @@ import java.nio.file.Path;
 import java.util.List;
 import java.util.concurrent.Callable;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Model.CommandSpec;
+import picocli.CommandLine.Spec;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 
@@ -21,6 +23,9 @@ import picocli.CommandLine.Option;
             "All or nothing: a bad line stops the import with its line and column named,",
             "and the database stays exactly as it was."})
 final class ImportCommand implements Callable<Integer> {
+
+    @Spec
+    CommandSpec command;
 
     @Mixin
     DataOption data;
@@ -81,7 +86,7 @@ final class ImportCommand implements Callable<Integer> {
             ImportResult r = new Importer(db).run(in, file.getFileName().toString(), spec,
                     (rows, bytes) -> bar.show(bytes, size, rows));
             bar.finish();
-            System.out.printf("pool=%s%nrecords=%d%nlabelled=%d%nclasses=%s%nfeatures=%d%nseconds=%.2f%n"
+            command.commandLine().getOut().printf("pool=%s%nrecords=%d%nlabelled=%d%nclasses=%s%nfeatures=%d%nseconds=%.2f%n"
                             + "records_per_s=%.0f%n", r.poolName(), r.records(), r.labelled(),
                     String.join(",", r.classes()), r.features(), r.seconds(), r.recordsPerSecond());
             return 0;

@@ -40,6 +40,6 @@ public final class Main implements Runnable {
 
     @Override
     public void run() {
-        spec.commandLine().usage(System.out);
+        spec.commandLine().usage(spec.commandLine().getOut());
     }
 }

@@ -1,0 +1,79 @@
+package dev.dowser.cli;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.PrintWriter;
+import java.io.StringWriter;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import picocli.CommandLine;
+
+/** The commands as a person types them: help for each, and import then export through the real database. */
+class CommandLineTest {
+
+    @TempDir
+    Path dir;
+
+    record Run(int exit, String out, String err) {
+    }
+
+    private static Run run(String... args) {
+        CommandLine cl = Main.commandLine();
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        cl.setOut(new PrintWriter(out));
+        cl.setErr(new PrintWriter(err));
+        int exit = cl.execute(args);
+        return new Run(exit, out.toString(), err.toString());
+    }
+
+    @Test
+    void everyCommandExplainsItself() {
+        for (String command : List.of("serve", "demo", "import", "export", "bench")) {
+            Run r = run(command, "--help");
+            assertEquals(0, r.exit(), command);
+            assertTrue(r.out().startsWith("Usage: dowser " + command), command + ": " + r.out());
+        }
+        Run top = run("--help");
+        assertEquals(0, top.exit());
+        for (String command : List.of("serve", "demo", "import", "export", "bench")) {
+            assertTrue(top.out().contains("  " + command + " "), command + " missing from:\n" + top.out());
+        }
+    }
+
+    @Test
+    void importThenExport() throws Exception {
+        Path csv = dir.resolve("in.csv");
+        Files.writeString(csv, "id,x,y\na,1,up\nb,2,\nc,3,down\n");
+        String data = dir.resolve("data").toString();
+        Run imported = run("import", "--data", data, "--pool", "p", "--file", csv.toString(), "--id", "id",
+                "--label", "y");
+        assertEquals(0, imported.exit(), imported.err());
+        assertTrue(imported.out().contains("records=3"), imported.out());
+        assertTrue(imported.out().contains("labelled=2"), imported.out());
+        assertTrue(imported.out().contains("classes=down,up"), imported.out());
+
+        Path out = dir.resolve("out.csv");
+        Run exported = run("export", "--data", data, "--pool", "p", "--out", out.toString());
+        assertEquals(0, exported.exit(), exported.err());
+        assertEquals(List.of("id,x,label,labelled_by,labelled_at,note", "a,1,up,import,", "c,3,down,import,"),
+                Files.readAllLines(out).stream().map(l -> l.replaceAll(",20\\d\\d-.*$", ",")).toList());
+    }
+
+    @Test
+    void badInputIsOneSentenceAndExitCode2() throws Exception {
+        Path csv = dir.resolve("bad.csv");
+        Files.writeString(csv, "a,b\n1,2\n3\n");
+        Run r = run("import", "--data", dir.resolve("data").toString(), "--pool", "p", "--file", csv.toString());
+        assertEquals(2, r.exit());
+        assertEquals("dowser: line 3: the record has 1 field where the header has 2; quote fields that contain"
+                + " commas", r.err().strip());
+        Run missing = run("export", "--data", dir.resolve("data").toString(), "--pool", "nope");
+        assertEquals(2, missing.exit());
+        assertEquals("dowser: no pool named 'nope'", missing.err().strip());
+    }
+}
