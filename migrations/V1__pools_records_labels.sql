@@ -21,7 +21,7 @@ CREATE TABLE record_blocks (
     block_no     INTEGER NOT NULL,
     first_row    BIGINT  NOT NULL,
     row_count    INTEGER NOT NULL,
-    payload      BINARY VARYING(1000000000) NOT NULL,
+    payload      BINARY LARGE OBJECT NOT NULL,  -- a LOB: kept out of the B-tree pages, so it is written once
     CONSTRAINT record_blocks_pk PRIMARY KEY (pool_id, block_no)
 );
 

@@ -89,6 +89,11 @@ final class ByteSink {
         putBytes(other.buf, 0, other.size);
     }
 
+    /** Reads the bytes written so far, without copying them. */
+    java.io.InputStream asInputStream() {
+        return new java.io.ByteArrayInputStream(buf, 0, size);
+    }
+
     byte[] toArray() {
         return Arrays.copyOf(buf, size);
     }

@@ -30,7 +30,7 @@ public final class PoolWriter implements AutoCloseable {
 
     public static final Pattern POOL_NAME = Pattern.compile("[A-Za-z0-9][A-Za-z0-9._-]{0,99}");
     static final int BLOCK_MAX_ROWS = 4_096;
-    static final int BATCHES = 4;
+    static final int BATCHES = 6;
     static final String UNIQUE_VIOLATION = "23505";
 
     private static final RecordBatch END = new RecordBatch(0, new int[0], 0);
@@ -188,6 +188,7 @@ public final class PoolWriter implements AutoCloseable {
              PreparedStatement label = connection.prepareStatement("INSERT INTO labels"
                      + " (pool_id, row_no, label, labelled_by, labelled_at, note) VALUES (?, ?, ?, ?, ?, ?)")) {
             Timestamp now = Timestamp.from(clock.instant());
+            ByteSink payload = new ByteSink(RecordBatch.TARGET_CHARS * 2);
             while (true) {
                 RecordBatch job = queue.take();
                 if (job == END) {
@@ -200,7 +201,8 @@ public final class PoolWriter implements AutoCloseable {
                     insert.setInt(2, job.blockNo);
                     insert.setLong(3, job.firstRow);
                     insert.setInt(4, job.rows());
-                    insert.setBytes(5, block.seal());
+                    block.sealInto(payload);
+                    insert.setBinaryStream(5, payload.asInputStream(), payload.size());
                     insert.executeUpdate();
                     boolean anyLabel = false;
                     for (int i = 0; i < job.rows(); i++) {

@@ -191,6 +191,13 @@ final class RecordBlock {
 
         byte[] seal() {
             ByteSink out = new ByteSink(bytes());
+            sealInto(out);
+            return out.toArray();
+        }
+
+        /** Writes the finished block into {@code out}, which is cleared first; lets a writer reuse one buffer. */
+        void sealInto(ByteSink out) {
+            out.clear();
             int keysAt = HEADER_BYTES + lines.size();
             int labelsAt = keysAt + keys.size();
             int displayAt = labelsAt + labels.size();
@@ -207,7 +214,6 @@ final class RecordBlock {
             out.putSink(labels);
             out.putSink(display);
             out.putSink(features);
-            return out.toArray();
         }
 
         void clear() {
