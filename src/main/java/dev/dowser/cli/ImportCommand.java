@@ -85,7 +85,6 @@ final class ImportCommand implements Callable<Integer> {
         try (Database db = data.open(); InputStream in = Files.newInputStream(file)) {
             ImportResult r = new Importer(db).run(in, file.getFileName().toString(), spec,
                     (rows, bytes) -> bar.show(bytes, size, rows));
-            bar.finish();
             command.commandLine().getOut().printf("pool=%s%nrecords=%d%nlabelled=%d%nclasses=%s%nfeatures=%d%nseconds=%.2f%n"
                             + "records_per_s=%.0f%n", r.poolName(), r.records(), r.labelled(),
                     String.join(",", r.classes()), r.features(), r.seconds(), r.recordsPerSecond());

@@ -17,11 +17,7 @@ record ColumnPlan(ColumnRoles roles, int idIndex, int labelIndex, int[] featureI
         }
         List<String> features = new ArrayList<>();
         if (spec.featureColumns().isEmpty()) {
-            for (int i = 0; i < header.size(); i++) {
-                if (i != id && i != label) {
-                    features.add(header.get(i));
-                }
-            }
+            features.addAll(allBut(header, id, label));
         } else {
             for (String f : distinct(spec.featureColumns(), "feature")) {
                 int at = indexOf(header, f, "feature");
@@ -37,11 +33,7 @@ record ColumnPlan(ColumnRoles roles, int idIndex, int labelIndex, int[] featureI
         }
         List<String> display = new ArrayList<>();
         if (spec.displayColumns().isEmpty()) {
-            for (int i = 0; i < header.size(); i++) {
-                if (i != id && i != label) {
-                    display.add(header.get(i));
-                }
-            }
+            display.addAll(allBut(header, id, label));
         } else {
             for (String d : distinct(spec.displayColumns(), "display")) {
                 indexOf(header, d, "display");
@@ -57,6 +49,17 @@ record ColumnPlan(ColumnRoles roles, int idIndex, int labelIndex, int[] featureI
         ColumnRoles roles = new ColumnRoles(spec.idColumn(), features, display, spec.labelColumn(),
                 spec.categorical());
         return new ColumnPlan(roles, id, label, indices(header, features), indices(header, display));
+    }
+
+    /** Every column of the header except those at the two indices (-1 for none). */
+    private static List<String> allBut(List<String> header, int id, int label) {
+        List<String> out = new ArrayList<>();
+        for (int i = 0; i < header.size(); i++) {
+            if (i != id && i != label) {
+                out.add(header.get(i));
+            }
+        }
+        return out;
     }
 
     private static List<String> distinct(List<String> names, String role) {

@@ -43,14 +43,28 @@ public final class Database implements AutoCloseable {
         } catch (IOException e) {
             throw new StoreException("cannot create the data folder " + dataDir + ": " + e.getMessage(), e);
         }
-        HikariDataSource ds = new HikariDataSource(config(dataDir));
+        HikariDataSource ds;
+        try {
+            ds = new HikariDataSource(config(dataDir));
+        } catch (RuntimeException e) {
+            throw new StoreException("cannot open the database in " + dataDir + ": " + rootMessage(e)
+                    + " (is another Dowser using this folder?)", e);
+        }
         try {
             migrate(ds, null);
         } catch (RuntimeException e) {
             ds.close();
-            throw e;
+            throw new StoreException("cannot bring the database in " + dataDir + " up to date: " + rootMessage(e), e);
         }
         return new Database(ds, clock);
+    }
+
+    private static String rootMessage(Throwable e) {
+        Throwable t = e;
+        while (t.getCause() != null && t.getCause() != t) {
+            t = t.getCause();
+        }
+        return t.getMessage();
     }
 
     /** Applies migrations up to {@code target} (all when null); used by tests of the upgrade path. */

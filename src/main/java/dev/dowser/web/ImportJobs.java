@@ -49,6 +49,21 @@ final class ImportJobs implements AutoCloseable {
         this.db = db;
         this.spoolDir = spoolDir;
         this.maxUploadBytes = maxUploadBytes;
+        removeLeftovers(spoolDir);
+    }
+
+    /** Uploads spooled by a server that stopped before importing them are of no further use. */
+    private static void removeLeftovers(Path spoolDir) {
+        if (!Files.isDirectory(spoolDir)) {
+            return;
+        }
+        try (var files = Files.newDirectoryStream(spoolDir, "upload-*.part")) {
+            for (Path f : files) {
+                Files.deleteIfExists(f);
+            }
+        } catch (IOException e) {
+            LOG.warn("cannot clean the upload folder {}", spoolDir, e);
+        }
     }
 
     /** A queued import: its id, and its final status once done. */

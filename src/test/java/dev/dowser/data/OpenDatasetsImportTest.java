@@ -72,13 +72,17 @@ class OpenDatasetsImportTest {
         return db.pools().labelCounts(p);
     }
 
+    private void assertShape(String name, int records, int features, Map<String, Long> classes) throws IOException {
+        ImportResult r = load(name);
+        assertEquals(records, r.records(), name + " records");
+        assertEquals(features, r.features(), name + " features");
+        assertEquals(classes, counts(name), name + " classes");
+    }
+
     @Test
     void irisHas150RecordsOf4FeaturesIn3ClassesOf50() throws IOException {
-        ImportResult r = load("iris");
-        assertEquals(150, r.records());
-        assertEquals(4, r.features());
         // Class distribution from iris.rst: "150 (50 in each of three classes)".
-        assertEquals(Map.of("setosa", 50L, "versicolor", 50L, "virginica", 50L), counts("iris"));
+        assertShape("iris", 150, 4, Map.of("setosa", 50L, "versicolor", 50L, "virginica", 50L));
     }
 
     /**
@@ -101,11 +105,8 @@ class OpenDatasetsImportTest {
 
     @Test
     void wineHas178RecordsOf13FeaturesIn59_71_48() throws IOException {
-        ImportResult r = load("wine");
-        assertEquals(178, r.records());
-        assertEquals(13, r.features());
         // Class distribution from wine_data.rst: class_0 (59), class_1 (71), class_2 (48).
-        assertEquals(Map.of("class_0", 59L, "class_1", 71L, "class_2", 48L), counts("wine"));
+        assertShape("wine", 178, 13, Map.of("class_0", 59L, "class_1", 71L, "class_2", 48L));
     }
 
     /**
@@ -130,11 +131,8 @@ class OpenDatasetsImportTest {
 
     @Test
     void breastCancerHas569RecordsOf30FeaturesIn212And357() throws IOException {
-        ImportResult r = load("breast_cancer");
-        assertEquals(569, r.records());
-        assertEquals(30, r.features());
         // Class distribution from sklearn's breast_cancer.rst: 212 malignant, 357 benign.
-        assertEquals(Map.of("malignant", 212L, "benign", 357L), counts("breast_cancer"));
+        assertShape("breast_cancer", 569, 30, Map.of("malignant", 212L, "benign", 357L));
     }
 
     @Test
