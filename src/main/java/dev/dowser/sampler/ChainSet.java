@@ -1,0 +1,68 @@
+package dev.dowser.sampler;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.Future;
+
+/**
+ * Runs several chains at once on a bounded pool of threads, one chain per task, so chains, not
+ * matrix products, are what runs in parallel. Results come back in chain order whatever the
+ * finishing order, so a run is reproducible from its seeds.
+ */
+public final class ChainSet implements AutoCloseable {
+
+    /** One chain's part in a round. */
+    public record Job(Chain chain, State start) {
+    }
+
+    private final ExecutorService pool;
+
+    public ChainSet(int threads) {
+        if (threads < 1) {
+            throw new IllegalArgumentException("a chain set needs at least one thread, got " + threads);
+        }
+        this.pool = Executors.newFixedThreadPool(threads, r -> {
+            Thread t = new Thread(r, "dowser-chain");
+            t.setDaemon(true);
+            return t;
+        });
+    }
+
+    /** Threads to use by default: one per core, no more than there are chains. */
+    public static int defaultThreads(int chains) {
+        return Math.max(1, Math.min(chains, Runtime.getRuntime().availableProcessors()));
+    }
+
+    public List<ChainRun> run(List<Job> jobs, ChainConfig config) {
+        List<Future<ChainRun>> futures = new ArrayList<>();
+        for (Job job : jobs) {
+            futures.add(pool.submit(() -> job.chain().run(job.start(), config)));
+        }
+        List<ChainRun> out = new ArrayList<>();
+        try {
+            for (Future<ChainRun> f : futures) {
+                out.add(f.get());
+            }
+        } catch (InterruptedException e) {
+            futures.forEach(f -> f.cancel(true));
+            Thread.currentThread().interrupt();
+            throw new IllegalStateException("interrupted while sampling", e);
+        } catch (ExecutionException e) {
+            futures.forEach(f -> f.cancel(true));
+            Throwable cause = e.getCause();
+            if (cause instanceof RuntimeException re) {
+                throw re;
+            }
+            throw new IllegalStateException("a chain failed: " + cause, cause);
+        }
+        return out;
+    }
+
+    @Override
+    public void close() {
+        pool.shutdownNow();
+    }
+}

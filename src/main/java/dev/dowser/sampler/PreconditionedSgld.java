@@ -1,0 +1,85 @@
+package dev.dowser.sampler;
+
+import java.util.SplittableRandom;
+
+/**
+ * Preconditioned SGLD with the RMSprop preconditioner (Li, Chen, Carlson & Carin 2016,
+ * "Preconditioned Stochastic Gradient Langevin Dynamics for Deep Neural Networks", Algorithm 1):
+ * V = alpha V + (1 - alpha) gbar * gbar; G = 1 / (lambda + sqrt(V));
+ * theta' = theta + eps/2 * G * g + N(0, eps G), with the correction term Gamma dropped, as the
+ * paper allows for small step sizes. gbar is the gradient estimate per datum, g / N; unlike the
+ * paper's likelihood-only average it includes the prior's share (grad log p(theta) / N), which
+ * spares a second gradient pass and changes V by a term of order 1/N.
+ */
+public final class PreconditionedSgld implements Kernel {
+
+    public static final double DEFAULT_ALPHA = 0.99;
+    public static final double DEFAULT_LAMBDA = 1e-5;
+
+    private final Target target;
+    private final double temperature;
+    private final float alpha;
+    private final float lambda;
+
+    public PreconditionedSgld(Target target, double temperature) {
+        this(target, temperature, DEFAULT_ALPHA, DEFAULT_LAMBDA);
+    }
+
+    public PreconditionedSgld(Target target, double temperature, double alpha, double lambda) {
+        if (!(alpha > 0 && alpha < 1)) {
+            throw new IllegalArgumentException("alpha must lie strictly between 0 and 1, got " + alpha);
+        }
+        if (!(lambda > 0)) {
+            throw new IllegalArgumentException("lambda must be positive, got " + lambda);
+        }
+        this.target = target;
+        this.temperature = Kernels.checkTemperature(temperature);
+        this.alpha = (float) alpha;
+        this.lambda = (float) lambda;
+    }
+
+    @Override
+    public State step(State s, Batch batch, SplittableRandom rng) {
+        double eps = s.stepSize();
+        float[] x = s.position();
+        float[] g = s.gradient();
+        float[] v = s.preconditioner();
+        float[] nextV = new float[x.length];
+        float[] next = new float[x.length];
+        float perDatum = 1f / target.dataSize();
+        float half = (float) (eps / 2 / temperature);
+        for (int i = 0; i < x.length; i++) {
+            float gbar = g[i] * perDatum;
+            float vi = alpha * v[i] + (1 - alpha) * gbar * gbar;
+            nextV[i] = vi;
+            float precond = 1f / (lambda + (float) Math.sqrt(vi));
+            next[i] = (float) (x[i] + half * precond * g[i] + Math.sqrt(eps * precond) * rng.nextGaussian());
+        }
+        float[] grad = new float[x.length];
+        double logp = target.logDensity(next, s.hyper(), batch, grad);
+        return new State(next, grad, logp, nextV, s.hyper(), s.stepSize(), s.step() + 1, s.accepted(), s.proposed());
+    }
+
+    @Override
+    public boolean fullBatch() {
+        return false;
+    }
+
+    @Override
+    public String name() {
+        return "psgld";
+    }
+
+    @Override
+    public State start(float[] position, double[] hyper, double stepSize, Batch batch) {
+        float[] grad = new float[position.length];
+        double logp = target.logDensity(position, hyper, batch, grad);
+        // Start V at the first gradient's square, so the first steps are not wildly large.
+        float[] v = new float[position.length];
+        float perDatum = 1f / target.dataSize();
+        for (int i = 0; i < v.length; i++) {
+            v[i] = grad[i] * perDatum * grad[i] * perDatum;
+        }
+        return new State(position.clone(), grad, logp, v, hyper, stepSize, 0, 0, 0);
+    }
+}

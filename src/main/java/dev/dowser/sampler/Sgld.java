@@ -1,0 +1,53 @@
+package dev.dowser.sampler;
+
+import java.util.SplittableRandom;
+
+/**
+ * Stochastic gradient Langevin dynamics (Welling & Teh 2011, "Bayesian Learning via Stochastic
+ * Gradient Langevin Dynamics", eq. 4): theta' = theta + eps/2 * g + eta, eta ~ N(0, eps), where g
+ * is the mini-batch estimate of the log posterior's gradient (likelihood scaled by N/n). At
+ * temperature T the target is p^(1/T), so g is divided by T and the noise is unchanged.
+ */
+public final class Sgld implements Kernel {
+
+    private final Target target;
+    private final double temperature;
+
+    public Sgld(Target target, double temperature) {
+        this.target = target;
+        this.temperature = Kernels.checkTemperature(temperature);
+    }
+
+    @Override
+    public State step(State s, Batch batch, SplittableRandom rng) {
+        double eps = s.stepSize();
+        float half = (float) (eps / 2 / temperature);
+        double sd = Math.sqrt(eps);
+        float[] x = s.position();
+        float[] next = new float[x.length];
+        float[] g = s.gradient();
+        for (int i = 0; i < x.length; i++) {
+            next[i] = (float) (x[i] + half * g[i] + sd * rng.nextGaussian());
+        }
+        float[] grad = new float[x.length];
+        double logp = target.logDensity(next, s.hyper(), batch, grad);
+        return new State(next, grad, logp, null, s.hyper(), s.stepSize(), s.step() + 1, s.accepted(), s.proposed());
+    }
+
+    @Override
+    public boolean fullBatch() {
+        return false;
+    }
+
+    @Override
+    public String name() {
+        return "sgld";
+    }
+
+    @Override
+    public State start(float[] position, double[] hyper, double stepSize, Batch batch) {
+        float[] grad = new float[position.length];
+        double logp = target.logDensity(position, hyper, batch, grad);
+        return new State(position.clone(), grad, logp, null, hyper, stepSize, 0, 0, 0);
+    }
+}

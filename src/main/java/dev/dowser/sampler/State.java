@@ -1,0 +1,49 @@
+package dev.dowser.sampler;
+
+/**
+ * Where a chain stands after a step. Immutable by convention: a kernel never writes into the
+ * arrays of a state it was given, it returns a new state.
+ *
+ * @param position       the parameters theta
+ * @param gradient       the gradient of the log density at theta, as last estimated
+ * @param logDensity     the log density at theta, as last estimated
+ * @param preconditioner the running mean square of the gradient (preconditioned SGLD); null otherwise
+ * @param hyper          hyperparameters (layer precisions of a hierarchical prior); null when none
+ * @param stepSize       the base step size; a schedule scales it, a divergence halves it
+ * @param step           steps taken since the chain began, over all rounds
+ * @param accepted       Metropolis-Hastings proposals accepted (MALA)
+ * @param proposed       Metropolis-Hastings proposals made (MALA)
+ */
+public record State(float[] position, float[] gradient, double logDensity, float[] preconditioner, double[] hyper,
+                    double stepSize, long step, long accepted, long proposed) {
+
+    public State withStepSize(double newStepSize) {
+        return new State(position, gradient, logDensity, preconditioner, hyper, newStepSize, step, accepted, proposed);
+    }
+
+    public State withHyper(double[] newHyper) {
+        return new State(position, gradient, logDensity, preconditioner, newHyper, stepSize, step, accepted, proposed);
+    }
+
+    /** True when the density and every gradient entry are finite: the state is usable. */
+    public boolean isFinite() {
+        if (!Double.isFinite(logDensity)) {
+            return false;
+        }
+        for (float g : gradient) {
+            if (!Float.isFinite(g)) {
+                return false;
+            }
+        }
+        for (float x : position) {
+            if (!Float.isFinite(x)) {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    public double acceptanceRate() {
+        return proposed == 0 ? Double.NaN : (double) accepted / proposed;
+    }
+}
