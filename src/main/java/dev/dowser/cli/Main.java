@@ -17,9 +17,13 @@ import picocli.CommandLine.Command;
             DemoCommand.class,
             ImportCommand.class,
             ExportCommand.class,
+            FitCommand.class,
             BenchCommand.class,
             CommandLine.HelpCommand.class})
 public final class Main implements Runnable {
+
+    /** Held here: the logging system keeps loggers only weakly, and would forget the level. */
+    private static final java.util.logging.Logger NETLIB_LOG = java.util.logging.Logger.getLogger("dev.ludovic.netlib");
 
     @CommandLine.Spec
     CommandLine.Model.CommandSpec spec;
@@ -27,6 +31,8 @@ public final class Main implements Runnable {
     public static void main(String[] args) {
         // Undertow logs through JBoss Logging; send it to SLF4J so one configuration governs all.
         System.setProperty("org.jboss.logging.provider", "slf4j");
+        // The BLAS loader reports each implementation it skips; which one it chose is in `dowser bench`.
+        NETLIB_LOG.setLevel(java.util.logging.Level.SEVERE);
         System.exit(commandLine().execute(args));
     }
 

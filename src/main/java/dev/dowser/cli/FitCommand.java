@@ -1,0 +1,149 @@
+package dev.dowser.cli;
+
+import dev.dowser.data.FeatureMatrix;
+import dev.dowser.data.FileFormat;
+import dev.dowser.data.ImportProgress;
+import dev.dowser.data.ImportSpec;
+import dev.dowser.data.Importer;
+import dev.dowser.data.LabelledSet;
+import dev.dowser.model.Activation;
+import dev.dowser.model.Prior;
+import dev.dowser.sampler.Health;
+import dev.dowser.sampler.KernelChoice;
+import dev.dowser.sampler.PosteriorSampler;
+import dev.dowser.sampler.Predictive;
+import dev.dowser.sampler.Sample;
+import dev.dowser.sampler.SamplerConfig;
+import dev.dowser.stats.Metrics;
+import dev.dowser.stats.Splits;
+import dev.dowser.store.Database;
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.PrintWriter;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Clock;
+import java.util.Arrays;
+import java.util.List;
+import java.util.concurrent.Callable;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Model.CommandSpec;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+
+@Command(name = "fit", mixinStandardHelpOptions = true,
+        description = {"Shows how good a model the labels in a file already give.",
+            "Holds out a stratified test split, samples the network's posterior on the rest,",
+            "and prints key=value lines: accuracy, nll, ece (15 bins), rhat_max, ess_min,",
+            "kernel, draws, seconds."})
+final class FitCommand implements Callable<Integer> {
+
+    static final int ECE_BINS = 15;
+    static final int PROBE_ROWS = 8;
+
+    @Spec
+    CommandSpec command;
+
+    @Option(names = "--csv", required = true, paramLabel = "F", description = "CSV (or JSON Lines) file with labels.")
+    Path file;
+
+    @Option(names = "--label", required = true, paramLabel = "COL", description = "The label column.")
+    String label;
+
+    @Option(names = "--id", paramLabel = "COL", description = "Id column, left out of the features.")
+    String id;
+
+    @Option(names = "--test-fraction", defaultValue = "0.3", paramLabel = "F",
+            description = "Share held out for testing, per class (default: ${DEFAULT-VALUE}).")
+    double testFraction;
+
+    @Option(names = "--seed", defaultValue = "1", paramLabel = "N", description = "Seed (default: ${DEFAULT-VALUE}).")
+    long seed;
+
+    @Option(names = "--hidden", split = ",", defaultValue = "128", paramLabel = "N",
+            description = "Hidden layer widths, e.g. 128 or 64,64 (default: ${DEFAULT-VALUE}).")
+    List<Integer> hidden;
+
+    @Option(names = "--activation", defaultValue = "relu", paramLabel = "relu|tanh",
+            description = "Hidden nonlinearity (default: ${DEFAULT-VALUE}).")
+    String activation;
+
+    @Option(names = "--chains", defaultValue = "4", paramLabel = "K", description = "Chains (default: ${DEFAULT-VALUE}).")
+    int chains;
+
+    @Option(names = "--draws", defaultValue = "64", paramLabel = "S",
+            description = "Draws kept over all chains (default: ${DEFAULT-VALUE}).")
+    int draws;
+
+    @Option(names = "--kernel", defaultValue = "auto", paramLabel = "auto|sgld|psgld|mala",
+            description = "Sampler kernel (default: ${DEFAULT-VALUE}: MALA up to 2048 training rows,"
+                    + " preconditioned SGLD beyond).")
+    String kernel;
+
+    @Option(names = "--burn-in", defaultValue = "" + SamplerConfig.DEFAULT_BURN_IN_STEPS, paramLabel = "N",
+            description = "Burn-in steps per chain (default: ${DEFAULT-VALUE}).")
+    int burnIn;
+
+    @Option(names = "--thin", defaultValue = "" + SamplerConfig.DEFAULT_THIN_STEPS, paramLabel = "N",
+            description = "Steps between kept draws (default: ${DEFAULT-VALUE}).")
+    int thin;
+
+    @Option(names = "--learning-rate", defaultValue = "" + SamplerConfig.DEFAULT_LEARNING_RATE, paramLabel = "ETA",
+            description = "Step size eps = 2 ETA / N (default: ${DEFAULT-VALUE}).")
+    double learningRate;
+
+    @Option(names = "--prior-scale", defaultValue = "" + Prior.DEFAULT_WEIGHT_SCALE, paramLabel = "S",
+            description = "Weight prior N(0, (S / sqrt(fan-in))^2) (default: ${DEFAULT-VALUE}).")
+    double priorScale;
+
+    @Option(names = "--hierarchical", description = "Sample each layer's weight precision (Gamma hyperprior).")
+    boolean hierarchical;
+
+    @Option(names = "--temperature", defaultValue = "1", paramLabel = "T",
+            description = "Posterior temperature; 1 is the true posterior (default: ${DEFAULT-VALUE}).")
+    double temperature;
+
+    @Override
+    public Integer call() throws IOException {
+        Path work = Files.createTempDirectory("dowser-fit-");
+        try (Database db = Database.open(work, Clock.systemUTC())) {
+            FileFormat format = FileFormat.fromFileName(file.toString());
+            ImportSpec spec = ImportSpec.defaults("fit", format).withLabel(label).withId(id);
+            try (InputStream in = Files.newInputStream(file)) {
+                new Importer(db).run(in, file.getFileName().toString(), spec, ImportProgress.NONE);
+            }
+            FeatureMatrix matrix = FeatureMatrix.load(db, "fit");
+            LabelledSet all = LabelledSet.of(db, "fit", matrix);
+            int classes = all.classes().size();
+            Splits.Split split = Splits.stratified(all.labels(), classes, testFraction, seed);
+            LabelledSet train = all.subset(split.train());
+            LabelledSet test = all.subset(split.test());
+            SamplerConfig config = new SamplerConfig(KernelChoice.parse(kernel), SamplerConfig.DEFAULT_MALA_MAX_ROWS,
+                    hidden, Activation.valueOf(activation.toUpperCase(java.util.Locale.ROOT)),
+                    new Prior(priorScale, Prior.DEFAULT_BIAS_SCALE, hierarchical, Prior.DEFAULT_HYPER_SHAPE), chains,
+                    draws, burnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS, thin, 128, learningRate, 0, temperature,
+                    seed, dev.dowser.sampler.ChainSet.defaultThreads(chains));
+            float[] probe = Arrays.copyOf(test.x(), Math.min(PROBE_ROWS, test.rows()) * test.cols());
+            Sample sample = new PosteriorSampler(config).sample(train.x(), train.labels(), classes, null, probe, 0);
+            float[] p = Predictive.meanProbabilities(sample.layout(), sample.draws(), test.x(), test.rows());
+            Health h = sample.health();
+            PrintWriter out = command.commandLine().getOut();
+            out.printf("train_rows=%d%ntest_rows=%d%naccuracy=%.4f%nnll=%.4f%nece=%.4f%nrhat_max=%.3f%n"
+                            + "ess_min=%.1f%nkernel=%s%nkernel_why=%s%ndraws=%d%ndivergences=%d%nacceptance=%.3f%n"
+                            + "seconds=%.2f%n",
+                    train.rows(), test.rows(), Metrics.accuracy(p, test.labels(), classes),
+                    Metrics.nll(p, test.labels(), classes), Metrics.ece(p, test.labels(), classes, ECE_BINS),
+                    h.rhatMax(), Math.min(h.essBulkMin(), h.essTailMin()), sample.choice().kernel().word(),
+                    sample.choice().why(), sample.draws().size(), h.divergences(), h.acceptance(), sample.seconds());
+            for (String a : h.advice()) {
+                out.println("advice=" + a);
+            }
+            out.flush();
+            return 0;
+        } finally {
+            try (var paths = Files.walk(work)) {
+                paths.sorted(java.util.Comparator.reverseOrder()).forEach(q -> q.toFile().delete());
+            }
+        }
+    }
+}

@@ -1,0 +1,138 @@
+package dev.dowser.sampler;
+
+import dev.dowser.model.Layout;
+import dev.dowser.model.Mlp;
+import java.util.ArrayList;
+import java.util.List;
+
+/**
+ * How usable the chains are, judged on function-space summaries (weights themselves are not
+ * identifiable: hidden units can be permuted): the labelled-set log-likelihood of each draw, and
+ * the predictive probability each draw gives a few probe rows. Reported against the thresholds
+ * Vehtari et al. (2021) recommend, as advice: a network's posterior is multimodal, and chains that
+ * settle in different modes will show it.
+ *
+ * @param rhatMax        largest rank-normalised split R-hat over the summaries
+ * @param essBulkMin     smallest bulk effective sample size
+ * @param essTailMin     smallest tail effective sample size
+ * @param acceptance     mean MH acceptance rate (MALA), NaN otherwise
+ * @param meanStepSize   mean base step size over chains at the end
+ * @param divergences    divergences recovered from
+ * @param advice         plain-language advice
+ */
+public record Health(double rhatMax, double essBulkMin, double essTailMin, double acceptance, double meanStepSize,
+                     int divergences, List<String> advice) {
+
+    public Health {
+        advice = List.copyOf(advice);
+    }
+
+    static Health of(List<ChainRun> runs, MlpPosterior target, Layout layout, float[] probe) {
+        int chains = runs.size();
+        int draws = runs.get(0).draws().size();
+        int inputs = layout.architecture().inputs();
+        int classes = layout.architecture().classes();
+        int probeRows = probe == null ? 0 : probe.length / inputs;
+        List<double[][]> summaries = new ArrayList<>();
+        double[][] logLik = new double[chains][draws];
+        double[][][] probeP = new double[probeRows][chains][draws];
+        Mlp mlp = new Mlp(layout, Math.max(1, probeRows));
+        float[] p = new float[Math.max(1, probeRows) * classes];
+        for (int c = 0; c < chains; c++) {
+            for (int d = 0; d < draws; d++) {
+                float[] theta = runs.get(c).draws().get(d);
+                logLik[c][d] = target.logLikelihood(theta);
+                if (probeRows > 0) {
+                    mlp.probabilities(theta, probe, 0, probeRows, p);
+                    for (int r = 0; r < probeRows; r++) {
+                        probeP[r][c][d] = p[r * classes];
+                    }
+                }
+            }
+        }
+        summaries.add(logLik);
+        for (double[][] s : probeP) {
+            summaries.add(s);
+        }
+        double rhat = Double.NaN;
+        double bulk = Double.NaN;
+        double tail = Double.NaN;
+        if (draws >= 4) {
+            rhat = 0;
+            bulk = Double.POSITIVE_INFINITY;
+            tail = Double.POSITIVE_INFINITY;
+            for (double[][] s : summaries) {
+                if (constant(s)) {
+                    continue;
+                }
+                rhat = finiteMax(rhat, Diagnostics.rhat(s));
+                bulk = finiteMin(bulk, Diagnostics.essBulk(s));
+                tail = finiteMin(tail, Diagnostics.essTail(s));
+            }
+        }
+        double acc = 0;
+        double step = 0;
+        int divergences = 0;
+        int withMh = 0;
+        for (ChainRun r : runs) {
+            if (r.last().proposed() > 0) {
+                acc += r.last().acceptanceRate();
+                withMh++;
+            }
+            step += r.last().stepSize();
+            divergences += r.divergences().size();
+        }
+        double acceptance = withMh > 0 ? acc / withMh : Double.NaN;
+        return new Health(rhat, bulk, tail, acceptance, step / chains, divergences,
+                advice(rhat, bulk, tail, chains, divergences, draws));
+    }
+
+    /** A summary whose indicator never varies (every draw on one side of a quantile) says nothing: skip it. */
+    private static double finiteMin(double a, double b) {
+        return Double.isFinite(b) ? Math.min(a, b) : a;
+    }
+
+    private static double finiteMax(double a, double b) {
+        return Double.isFinite(b) ? Math.max(a, b) : a;
+    }
+
+    private static boolean constant(double[][] s) {
+        double first = s[0][0];
+        for (double[] c : s) {
+            for (double v : c) {
+                if (v != first) {
+                    return false;
+                }
+            }
+        }
+        return true;
+    }
+
+    static List<String> advice(double rhat, double bulk, double tail, int chains, int divergences, int draws) {
+        List<String> out = new ArrayList<>();
+        double essAdvice = Diagnostics.ESS_PER_CHAIN_ADVICE * chains;
+        if (draws < 4) {
+            out.add("too few draws per chain to judge the chains; keep at least 4 per chain");
+            return out;
+        }
+        if (rhat >= Diagnostics.RHAT_ADVICE) {
+            out.add(String.format("R-hat is %.3f (advice: below %.2f): the chains disagree. A network's posterior"
+                    + " has many modes, so some disagreement is expected; averaging over the chains still helps."
+                    + " Longer burn-in or more steps between draws will bring them closer.", rhat,
+                    Diagnostics.RHAT_ADVICE));
+        }
+        if (bulk < essAdvice || tail < essAdvice) {
+            out.add(String.format("effective sample size is %.0f in the bulk and %.0f in the tails (advice: above"
+                    + " %.0f for %d chains): the draws are strongly correlated; more steps between draws help.",
+                    bulk, tail, essAdvice, chains));
+        }
+        if (divergences > 0) {
+            out.add(divergences + " steps diverged and were undone with a halved step size; if this recurs,"
+                    + " lower the learning rate.");
+        }
+        if (out.isEmpty()) {
+            out.add("the chains agree and mix well by the usual thresholds.");
+        }
+        return out;
+    }
+}

@@ -1,0 +1,124 @@
+package dev.dowser.sampler;
+
+import dev.dowser.model.Architecture;
+import dev.dowser.model.Layout;
+import dev.dowser.model.Prior;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.SplittableRandom;
+
+/**
+ * Samples the network's posterior given labelled rows: picks the kernel, starts the chains (from
+ * scratch, or from where the previous round's chains stopped: a warm start), runs them side by
+ * side, and summarises their health on function-space quantities.
+ */
+public final class PosteriorSampler {
+
+    private final SamplerConfig config;
+
+    public PosteriorSampler(SamplerConfig config) {
+        this.config = config;
+    }
+
+    public SamplerConfig config() {
+        return config;
+    }
+
+    /** The kernel for a labelled set of {@code rows}, and why, in words for the person who runs the pool. */
+    public record Choice(KernelChoice kernel, String why) {
+    }
+
+    public static Choice choose(SamplerConfig config, int rows) {
+        if (config.kernel() != KernelChoice.AUTO) {
+            return new Choice(config.kernel(), config.kernel().word() + " was asked for");
+        }
+        if (rows <= config.malaMaxRows()) {
+            return new Choice(KernelChoice.MALA, rows + " labelled rows are few enough (at most "
+                    + config.malaMaxRows() + ") for full-batch gradients, so MALA's accept-reject test"
+                    + " makes the draws exact in the limit");
+        }
+        return new Choice(KernelChoice.PSGLD, rows + " labelled rows are more than " + config.malaMaxRows()
+                + ", so mini-batches of " + config.batchRows() + " keep steps cheap; preconditioned SGLD adapts"
+                + " each weight's step to its gradient's scale");
+    }
+
+    public Layout layout(int inputs, int classes) {
+        return new Layout(new Architecture(inputs, config.hidden(), classes, config.activation()));
+    }
+
+    /** The generator of chain {@code chain} in round {@code round}: reproducible, and fresh every round. */
+    static SplittableRandom rngFor(long seed, int round, int chain) {
+        long z = seed ^ (0x9E3779B97F4A7C15L * (1 + round * 1_000_003L + chain));
+        // SplitMix64's finaliser (Steele, Lea & Flood 2014), so nearby seeds give unrelated streams.
+        z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9L;
+        z = (z ^ (z >>> 27)) * 0x94D049BB133111EBL;
+        return new SplittableRandom(z ^ (z >>> 31));
+    }
+
+    /**
+     * Runs one round on the labelled rows {@code x} (standardised, row-major) with class indices
+     * {@code labels}. {@code previous} holds the chains' last states from the round before (same
+     * network), or is null to start from scratch. {@code probe} holds rows whose predictive
+     * probabilities serve as diagnostics summaries (may be empty).
+     */
+    public Sample sample(float[] x, int[] labels, int classes, List<State> previous, float[] probe, int round) {
+        long begun = System.nanoTime();
+        int rows = labels.length;
+        if (rows == 0) {
+            throw new IllegalArgumentException("the posterior needs at least one labelled row");
+        }
+        int inputs = x.length / rows;
+        Layout layout = layout(inputs, classes);
+        Choice choice = choose(config, rows);
+        boolean warm = previous != null && !previous.isEmpty();
+        if (warm && previous.size() != config.chains()) {
+            throw new IllegalArgumentException(previous.size() + " saved chains but " + config.chains() + " asked for");
+        }
+        int perChain = config.draws() / config.chains();
+        StepSchedule schedule = config.cycles() > 0 ? StepSchedule.cyclical(config.cycles()) : StepSchedule.CONSTANT;
+        ChainConfig chainConfig = new ChainConfig(warm ? config.reburnInSteps() : config.burnInSteps(), perChain,
+                config.thinSteps(), config.batchRows(), schedule, true, ChainConfig.DEFAULT_GIBBS_EVERY);
+        double stepSize = 2 * config.learningRate() / rows;
+        List<ChainSet.Job> jobs = new ArrayList<>();
+        List<MlpPosterior> targets = new ArrayList<>();
+        int workRows = Math.min(rows, Math.max(config.batchRows(), 256));
+        for (int c = 0; c < config.chains(); c++) {
+            MlpPosterior target = new MlpPosterior(layout, config.prior(), x, labels, workRows);
+            targets.add(target);
+            Kernel kernel = kernel(choice.kernel(), target);
+            SplittableRandom rng = rngFor(config.seed(), round, c);
+            State start;
+            Batch first = kernel.fullBatch() ? Batch.full(rows) : Batch.full(Math.min(rows, config.batchRows()));
+            if (warm) {
+                State p = previous.get(c);
+                if (p.position().length != layout.dimension()) {
+                    throw new IllegalArgumentException("the saved chains are for a different network");
+                }
+                // Continue from the last position; the density changed with the labels, so re-evaluate it.
+                State fresh = kernel.start(p.position(), p.hyper(), p.stepSize(), first);
+                float[] v = p.preconditioner() != null && fresh.preconditioner() != null ? p.preconditioner()
+                        : fresh.preconditioner();
+                start = new State(fresh.position(), fresh.gradient(), fresh.logDensity(), v, fresh.hyper(),
+                        p.stepSize(), p.step(), p.accepted(), p.proposed());
+            } else {
+                start = kernel.start(Prior.start(layout, rng), target.initialHyper(), stepSize, first);
+            }
+            jobs.add(new ChainSet.Job(new Chain(c, kernel, target, rng), start));
+        }
+        List<ChainRun> runs;
+        try (ChainSet set = new ChainSet(config.threads())) {
+            runs = set.run(jobs, chainConfig);
+        }
+        Health health = Health.of(runs, targets.get(0), layout, probe);
+        return new Sample(choice, layout, runs, health, warm, (System.nanoTime() - begun) / 1e9,
+                chainConfig.totalSteps() * config.chains());
+    }
+
+    private Kernel kernel(KernelChoice k, Target target) {
+        return switch (k) {
+            case SGLD -> new Sgld(target, config.temperature());
+            case PSGLD, AUTO -> new PreconditionedSgld(target, config.temperature());
+            case MALA -> new Mala(target, config.temperature());
+        };
+    }
+}

@@ -1,0 +1,49 @@
+package dev.dowser.stats;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.SplittableRandom;
+
+/** Seeded splits of labelled rows. */
+public final class Splits {
+
+    private Splits() {
+    }
+
+    /** Train and test row indices. */
+    public record Split(int[] train, int[] test) {
+    }
+
+    /**
+     * A stratified split: within each class, rows are shuffled with the seed and round(fraction *
+     * n_class) go to the test side, so both sides keep the class shares.
+     */
+    public static Split stratified(int[] labels, int classes, double testFraction, long seed) {
+        if (!(testFraction > 0 && testFraction < 1)) {
+            throw new IllegalArgumentException("the test fraction must lie strictly between 0 and 1, got "
+                    + testFraction);
+        }
+        SplittableRandom rng = new SplittableRandom(seed);
+        List<Integer> train = new ArrayList<>();
+        List<Integer> test = new ArrayList<>();
+        for (int k = 0; k < classes; k++) {
+            List<Integer> rows = new ArrayList<>();
+            for (int i = 0; i < labels.length; i++) {
+                if (labels[i] == k) {
+                    rows.add(i);
+                }
+            }
+            for (int i = rows.size() - 1; i > 0; i--) {
+                int j = rng.nextInt(i + 1);
+                Integer t = rows.get(i);
+                rows.set(i, rows.get(j));
+                rows.set(j, t);
+            }
+            int nTest = (int) Math.round(testFraction * rows.size());
+            test.addAll(rows.subList(0, nTest));
+            train.addAll(rows.subList(nTest, rows.size()));
+        }
+        return new Split(train.stream().mapToInt(Integer::intValue).sorted().toArray(),
+                test.stream().mapToInt(Integer::intValue).sorted().toArray());
+    }
+}
