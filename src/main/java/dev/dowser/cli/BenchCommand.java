@@ -29,6 +29,10 @@ import picocli.CommandLine.Option;
 
 @Command(name = "bench", mixinStandardHelpOptions = true,
         description = {"Measures this machine and prints key=value lines.",
+            "sgemm: square single-precision matrix products through the BLAS the model uses.",
+            "sampler: preconditioned SGLD on a 64-128-10 network, 1000 labelled rows,",
+            "mini-batch 128, 4 chains; chain-steps per second and the share of sgemm reached;",
+            "a round's re-burn-in plus draws, timed.",
             "import: a generated CSV of N rows x 64 numeric features into a fresh pool;",
             "reports rows per second, the peak heap (an upper bound: what the collector let",
             "the heap grow to) and the live heap (the most still in use just after a",
@@ -54,20 +58,42 @@ final class BenchCommand implements Callable<Integer> {
     @Option(names = "--work", paramLabel = "DIR", description = "Scratch folder (default: a new temporary folder).")
     Path work;
 
+    @Option(names = "--only", split = ",", paramLabel = "SUITE",
+            description = "Suites to run: sgemm, sampler, import (default: all).")
+    java.util.List<String> only;
+
+    private boolean wants(String suite) {
+        return only == null || only.contains(suite);
+    }
+
     @Override
     public Integer call() throws IOException {
         int n = rows != null ? rows : quick ? QUICK_ROWS : FULL_ROWS;
         if (n < 10) {
             throw new IllegalArgumentException("--rows must be at least 10, got " + n);
         }
-        Path dir = work != null ? Files.createDirectories(work) : Files.createTempDirectory("dowser-bench-");
-        try {
-            spec.commandLine().getOut().printf("cores=%d%nmax_heap_mib=%d%n", Runtime.getRuntime().availableProcessors(),
-                    Runtime.getRuntime().maxMemory() >> 20);
-            importSuite(spec.commandLine().getOut(), dir, n / 10, "small");
-            importSuite(spec.commandLine().getOut(), dir, n, "full");
-        } finally {
-            deleteTree(dir);
+        java.io.PrintWriter out = spec.commandLine().getOut();
+        out.printf("cores=%d%nmax_heap_mib=%d%nblas=%s%n", Runtime.getRuntime().availableProcessors(),
+                Runtime.getRuntime().maxMemory() >> 20, dev.dowser.kernel.Blas.implementation());
+        out.flush();
+        double sgemm = Double.NaN;
+        if (wants("sgemm") || wants("sampler")) {
+            sgemm = SamplerBench.sgemmGflops(quick ? 1024 : 2048);
+            out.printf("sgemm_gflops=%.1f%n", sgemm);
+            out.flush();
+        }
+        if (wants("sampler")) {
+            SamplerBench.run(out, sgemm, quick);
+            out.flush();
+        }
+        if (wants("import")) {
+            Path dir = work != null ? Files.createDirectories(work) : Files.createTempDirectory("dowser-bench-");
+            try {
+                importSuite(out, dir, n / 10, "small");
+                importSuite(out, dir, n, "full");
+            } finally {
+                deleteTree(dir);
+            }
         }
         return 0;
     }

@@ -8,10 +8,10 @@ public enum Activation {
     /** a = f(z), in place over {@code n} values from {@code off}. */
     void apply(float[] z, int off, int n) {
         if (this == RELU) {
+            // Written without a branch: signs are random, and a mispredicted branch per unit
+            // cost more than the matrix product feeding it (measured with dowser bench).
             for (int i = off; i < off + n; i++) {
-                if (z[i] < 0f) {
-                    z[i] = 0f;
-                }
+                z[i] = Math.max(z[i], 0f);
             }
         } else {
             for (int i = off; i < off + n; i++) {
@@ -26,10 +26,11 @@ public enum Activation {
      */
     void backward(float[] a, float[] delta, int n) {
         if (this == RELU) {
+            // a >= 0 here, so a > 0 exactly when its bits are positive; -bits >>> 31 is then 1, and
+            // -(that) is an all-ones mask. Integer masking keeps the loop free of branches.
             for (int i = 0; i < n; i++) {
-                if (a[i] <= 0f) {
-                    delta[i] = 0f;
-                }
+                int keep = -((-Float.floatToRawIntBits(a[i])) >>> 31);
+                delta[i] = Float.intBitsToFloat(Float.floatToRawIntBits(delta[i]) & keep);
             }
         } else {
             for (int i = 0; i < n; i++) {

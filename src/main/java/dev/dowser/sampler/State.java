@@ -27,20 +27,16 @@ public record State(float[] position, float[] gradient, double logDensity, float
 
     /** True when the density and every gradient entry are finite: the state is usable. */
     public boolean isFinite() {
-        if (!Double.isFinite(logDensity)) {
-            return false;
+        return Double.isFinite(logDensity) && allFinite(gradient) && allFinite(position);
+    }
+
+    /** x * 0 is 0 for every finite x and NaN for an infinity or NaN, so one sum tells, without a branch per entry. */
+    private static boolean allFinite(float[] v) {
+        float acc = 0f;
+        for (float x : v) {
+            acc += x * 0f;
         }
-        for (float g : gradient) {
-            if (!Float.isFinite(g)) {
-                return false;
-            }
-        }
-        for (float x : position) {
-            if (!Float.isFinite(x)) {
-                return false;
-            }
-        }
-        return true;
+        return acc == 0f;
     }
 
     public double acceptanceRate() {
