@@ -27,6 +27,7 @@ public final class Database implements AutoCloseable {
     private final PoolStore pools;
     private final RecordStore records;
     private final LabelStore labels;
+    private final ChainStateStore chains;
 
     private Database(HikariDataSource dataSource, Clock clock) {
         this.dataSource = dataSource;
@@ -34,6 +35,7 @@ public final class Database implements AutoCloseable {
         this.labels = new LabelStore(dataSource, clock);
         this.pools = new PoolStore(dataSource, labels);
         this.records = new RecordStore(dataSource, labels);
+        this.chains = new ChainStateStore(dataSource, clock);
     }
 
     /** Opens (creating if needed) the database in {@code dataDir} and applies pending migrations. */
@@ -102,6 +104,10 @@ public final class Database implements AutoCloseable {
 
     public LabelStore labels() {
         return labels;
+    }
+
+    public ChainStateStore chains() {
+        return chains;
     }
 
     /**

@@ -1,0 +1,49 @@
+package dev.dowser.rounds;
+
+import dev.dowser.json.Json;
+import dev.dowser.model.Architecture;
+import dev.dowser.sampler.Sample;
+import dev.dowser.sampler.State;
+import dev.dowser.store.SavedChain;
+import java.util.ArrayList;
+import java.util.List;
+
+/** Turns the sampler's chain states into stored rows and back. */
+final class ChainStates {
+
+    private ChainStates() {
+    }
+
+    static List<SavedChain> toSaved(Sample sample, int round) {
+        String network = Json.write(sample.layout().architecture());
+        List<SavedChain> out = new ArrayList<>();
+        List<State> states = sample.lastStates();
+        for (int c = 0; c < states.size(); c++) {
+            State s = states.get(c);
+            out.add(new SavedChain(c, round, sample.choice().kernel().word(), network, s.position(),
+                    s.preconditioner(), s.hyper(), s.stepSize(), s.step(), s.accepted(), s.proposed()));
+        }
+        return out;
+    }
+
+    /**
+     * The saved chains as states to continue from, or null when they cannot be continued: none
+     * saved, a different network, or a different number of chains.
+     */
+    static List<State> continuable(List<SavedChain> saved, Architecture arch, int chains) {
+        if (saved.size() != chains) {
+            return null;
+        }
+        String network = Json.write(arch);
+        List<State> out = new ArrayList<>();
+        for (SavedChain s : saved) {
+            if (!s.networkJson().equals(network)) {
+                return null;
+            }
+            // The density and gradient depend on the labels, which have changed: the sampler re-evaluates them.
+            out.add(new State(s.position(), new float[s.position().length], Double.NaN, s.preconditioner(), s.hyper(),
+                    s.stepSize(), s.step(), s.accepted(), s.proposed()));
+        }
+        return out;
+    }
+}

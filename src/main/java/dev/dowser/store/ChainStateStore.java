@@ -1,0 +1,109 @@
+package dev.dowser.store;
+
+import dev.dowser.json.Json;
+import java.io.ByteArrayInputStream;
+import java.nio.ByteBuffer;
+import java.nio.ByteOrder;
+import java.sql.Connection;
+import java.sql.PreparedStatement;
+import java.sql.ResultSet;
+import java.sql.SQLException;
+import java.sql.Timestamp;
+import java.sql.Types;
+import java.time.Clock;
+import java.util.ArrayList;
+import java.util.List;
+import javax.sql.DataSource;
+
+/** Saves and loads the chains' last states, all of a pool's chains together. */
+public final class ChainStateStore {
+
+    private final DataSource ds;
+    private final Clock clock;
+
+    ChainStateStore(DataSource ds, Clock clock) {
+        this.ds = ds;
+        this.clock = clock;
+    }
+
+    /** Replaces the pool's saved chains with these, in one transaction. */
+    public void save(long poolId, List<SavedChain> chains) {
+        try (Connection c = ds.getConnection()) {
+            c.setAutoCommit(false);
+            try (PreparedStatement del = c.prepareStatement("DELETE FROM chain_states WHERE pool_id = ?");
+                 PreparedStatement ins = c.prepareStatement("INSERT INTO chain_states (pool_id, chain_no, round_no,"
+                         + " kernel, network, position, preconditioner, hyper, step_size, step_count, accepted,"
+                         + " proposed, saved_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)")) {
+                del.setLong(1, poolId);
+                del.executeUpdate();
+                Timestamp now = Timestamp.from(clock.instant());
+                for (SavedChain s : chains) {
+                    ins.setLong(1, poolId);
+                    ins.setInt(2, s.chain());
+                    ins.setInt(3, s.round());
+                    ins.setString(4, s.kernel());
+                    ins.setString(5, s.networkJson());
+                    byte[] position = toBytes(s.position());
+                    ins.setBinaryStream(6, new ByteArrayInputStream(position), position.length);
+                    if (s.preconditioner() == null) {
+                        ins.setNull(7, Types.BLOB);
+                    } else {
+                        byte[] v = toBytes(s.preconditioner());
+                        ins.setBinaryStream(7, new ByteArrayInputStream(v), v.length);
+                    }
+                    ins.setString(8, s.hyper() == null ? null : Json.write(s.hyper()));
+                    ins.setDouble(9, s.stepSize());
+                    ins.setLong(10, s.step());
+                    ins.setLong(11, s.accepted());
+                    ins.setLong(12, s.proposed());
+                    ins.setTimestamp(13, now);
+                    ins.executeUpdate();
+                }
+                c.commit();
+            } catch (SQLException | RuntimeException e) {
+                c.rollback();
+                throw e;
+            } finally {
+                c.setAutoCommit(true);
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot save the chains of pool " + poolId + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** The pool's saved chains in chain order; empty when none were saved. */
+    public List<SavedChain> load(long poolId) {
+        List<SavedChain> out = new ArrayList<>();
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT chain_no, round_no, kernel, network, position,"
+                     + " preconditioner, hyper, step_size, step_count, accepted, proposed FROM chain_states"
+                     + " WHERE pool_id = ? ORDER BY chain_no")) {
+            q.setLong(1, poolId);
+            try (ResultSet rs = q.executeQuery()) {
+                while (rs.next()) {
+                    byte[] v = rs.getBytes(6);
+                    String hyper = rs.getString(7);
+                    out.add(new SavedChain(rs.getInt(1), rs.getInt(2), rs.getString(3), rs.getString(4),
+                            toFloats(rs.getBytes(5)), v == null ? null : toFloats(v),
+                            hyper == null ? null : Json.read(hyper, double[].class), rs.getDouble(8), rs.getLong(9),
+                            rs.getLong(10), rs.getLong(11)));
+                }
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot load the chains of pool " + poolId + ": " + e.getMessage(), e);
+        }
+        return out;
+    }
+
+    static byte[] toBytes(float[] v) {
+        ByteBuffer b = ByteBuffer.allocate(4 * v.length).order(ByteOrder.LITTLE_ENDIAN);
+        b.asFloatBuffer().put(v);
+        return b.array();
+    }
+
+    static float[] toFloats(byte[] bytes) {
+        float[] v = new float[bytes.length / 4];
+        ByteBuffer.wrap(bytes).order(ByteOrder.LITTLE_ENDIAN).asFloatBuffer().get(v);
+        return v;
+    }
+}
