@@ -125,15 +125,17 @@ public final class Mlp {
             for (int k = 0; k < c; k++) {
                 max = Math.max(max, z[o + k]);
             }
+            // exp once per class: e_k = exp(z_k - max), p_k = e_k / sum e, log p_y = z_y - max - log sum e.
             double s = 0;
             for (int k = 0; k < c; k++) {
-                s += Math.exp(z[o + k] - max);
+                double e = Math.exp(z[o + k] - max);
+                delta[o + k] = (float) e;
+                s += e;
             }
-            double lse = max + Math.log(s);
-            sum += z[o + y] - lse;
+            sum += z[o + y] - max - Math.log(s);
+            double inv = 1 / s;
             for (int k = 0; k < c; k++) {
-                double p = Math.exp(z[o + k] - lse);
-                delta[o + k] = (float) (scale * ((k == y ? 1 : 0) - p));
+                delta[o + k] = (float) (scale * ((k == y ? 1 : 0) - delta[o + k] * inv));
             }
         }
         return sum;

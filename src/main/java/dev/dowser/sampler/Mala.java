@@ -1,5 +1,6 @@
 package dev.dowser.sampler;
 
+import dev.dowser.stats.RandomVariates;
 import java.util.SplittableRandom;
 
 /**
@@ -17,10 +18,12 @@ public final class Mala implements Kernel {
 
     private final Target target;
     private final double temperature;
+    private final Buffers buffers;
 
     public Mala(Target target, double temperature) {
         this.target = target;
         this.temperature = Kernels.checkTemperature(temperature);
+        this.buffers = new Buffers(target.dimension(), false);
     }
 
     @Override
@@ -30,11 +33,12 @@ public final class Mala implements Kernel {
         float[] x = s.position();
         float[] gx = s.gradient();
         double invT = 1 / temperature;
-        float[] y = new float[x.length];
+        int set = buffers.free(s);
+        float[] y = buffers.position(set);
         for (int i = 0; i < x.length; i++) {
-            y[i] = (float) (x[i] + eps / 2 * invT * gx[i] + sd * rng.nextGaussian());
+            y[i] = (float) (x[i] + eps / 2 * invT * gx[i] + sd * RandomVariates.normal(rng));
         }
-        float[] gy = new float[x.length];
+        float[] gy = buffers.gradient(set);
         double logpY = target.logDensity(y, s.hyper(), Batch.full(target.dataSize()), gy);
         double logRatio = invT * (logpY - s.logDensity()) + logQ(x, y, gy, eps, invT) - logQ(y, x, gx, eps, invT);
         boolean accept = Double.isFinite(logpY) && Math.log(rng.nextDouble()) < logRatio;

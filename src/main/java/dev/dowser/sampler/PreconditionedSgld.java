@@ -1,5 +1,6 @@
 package dev.dowser.sampler;
 
+import dev.dowser.stats.RandomVariates;
 import java.util.SplittableRandom;
 
 /**
@@ -20,6 +21,7 @@ public final class PreconditionedSgld implements Kernel {
     private final double temperature;
     private final float alpha;
     private final float lambda;
+    private final Buffers buffers;
 
     public PreconditionedSgld(Target target, double temperature) {
         this(target, temperature, DEFAULT_ALPHA, DEFAULT_LAMBDA);
@@ -36,6 +38,7 @@ public final class PreconditionedSgld implements Kernel {
         this.temperature = Kernels.checkTemperature(temperature);
         this.alpha = (float) alpha;
         this.lambda = (float) lambda;
+        this.buffers = new Buffers(target.dimension(), true);
     }
 
     @Override
@@ -44,8 +47,9 @@ public final class PreconditionedSgld implements Kernel {
         float[] x = s.position();
         float[] g = s.gradient();
         float[] v = s.preconditioner();
-        float[] nextV = new float[x.length];
-        float[] next = new float[x.length];
+        int set = buffers.free(s);
+        float[] nextV = buffers.extra(set);
+        float[] next = buffers.position(set);
         float perDatum = 1f / target.dataSize();
         float half = (float) (eps / 2 / temperature);
         for (int i = 0; i < x.length; i++) {
@@ -53,9 +57,9 @@ public final class PreconditionedSgld implements Kernel {
             float vi = alpha * v[i] + (1 - alpha) * gbar * gbar;
             nextV[i] = vi;
             float precond = 1f / (lambda + (float) Math.sqrt(vi));
-            next[i] = (float) (x[i] + half * precond * g[i] + Math.sqrt(eps * precond) * rng.nextGaussian());
+            next[i] = (float) (x[i] + half * precond * g[i] + Math.sqrt(eps * precond) * RandomVariates.normal(rng));
         }
-        float[] grad = new float[x.length];
+        float[] grad = buffers.gradient(set);
         double logp = target.logDensity(next, s.hyper(), batch, grad);
         return new State(next, grad, logp, nextV, s.hyper(), s.stepSize(), s.step() + 1, s.accepted(), s.proposed());
     }

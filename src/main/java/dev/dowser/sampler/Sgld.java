@@ -1,5 +1,6 @@
 package dev.dowser.sampler;
 
+import dev.dowser.stats.RandomVariates;
 import java.util.SplittableRandom;
 
 /**
@@ -12,10 +13,12 @@ public final class Sgld implements Kernel {
 
     private final Target target;
     private final double temperature;
+    private final Buffers buffers;
 
     public Sgld(Target target, double temperature) {
         this.target = target;
         this.temperature = Kernels.checkTemperature(temperature);
+        this.buffers = new Buffers(target.dimension(), false);
     }
 
     @Override
@@ -24,12 +27,13 @@ public final class Sgld implements Kernel {
         float half = (float) (eps / 2 / temperature);
         double sd = Math.sqrt(eps);
         float[] x = s.position();
-        float[] next = new float[x.length];
+        int set = buffers.free(s);
+        float[] next = buffers.position(set);
         float[] g = s.gradient();
         for (int i = 0; i < x.length; i++) {
-            next[i] = (float) (x[i] + half * g[i] + sd * rng.nextGaussian());
+            next[i] = (float) (x[i] + half * g[i] + sd * RandomVariates.normal(rng));
         }
-        float[] grad = new float[x.length];
+        float[] grad = buffers.gradient(set);
         double logp = target.logDensity(next, s.hyper(), batch, grad);
         return new State(next, grad, logp, null, s.hyper(), s.stepSize(), s.step() + 1, s.accepted(), s.proposed());
     }

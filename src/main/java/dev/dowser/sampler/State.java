@@ -1,8 +1,11 @@
 package dev.dowser.sampler;
 
 /**
- * Where a chain stands after a step. Immutable by convention: a kernel never writes into the
- * arrays of a state it was given, it returns a new state.
+ * Where a chain stands after a step. A kernel never writes into the arrays of the state it is
+ * given; it returns a new state. To spare an allocation per step, a kernel reuses the arrays of
+ * the state before the one it was given: a state stays intact until its kernel's next-but-one
+ * step, so a caller that keeps a state longer (a draw, a chain's last state) copies it or stops
+ * using the kernel.
  *
  * @param position       the parameters theta
  * @param gradient       the gradient of the log density at theta, as last estimated
