@@ -85,14 +85,14 @@ public final class PreconditionedSgld implements Kernel {
 
     @Override
     public State start(float[] position, double[] hyper, double stepSize, Batch batch) {
-        float[] grad = new float[position.length];
-        double logp = target.logDensity(position, hyper, batch, grad);
+        State first = Kernels.evaluate(target, position, hyper, stepSize, batch);
+        float[] grad = first.gradient();
         // Start V at the first gradient's square, so the first steps are not wildly large.
         float[] v = new float[position.length];
         float perDatum = 1f / target.dataSize();
         for (int i = 0; i < v.length; i++) {
             v[i] = grad[i] * perDatum * grad[i] * perDatum;
         }
-        return new State(position.clone(), grad, logp, v, hyper, stepSize, 0, 0, 0);
+        return new State(first.position(), grad, first.logDensity(), v, hyper, stepSize, 0, 0, 0);
     }
 }

@@ -50,8 +50,6 @@ public final class Sgld implements Kernel {
 
     @Override
     public State start(float[] position, double[] hyper, double stepSize, Batch batch) {
-        float[] grad = new float[position.length];
-        double logp = target.logDensity(position, hyper, batch, grad);
-        return new State(position.clone(), grad, logp, null, hyper, stepSize, 0, 0, 0);
+        return Kernels.evaluate(target, position, hyper, stepSize, batch);
     }
 }
