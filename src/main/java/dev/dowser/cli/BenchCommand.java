@@ -29,7 +29,11 @@ import picocli.CommandLine.Option;
 
 @Command(name = "bench", mixinStandardHelpOptions = true,
         description = {"Measures this machine and prints key=value lines.",
-            "sgemm: square single-precision matrix products through the BLAS the model uses.",
+            "sgemm: square single-precision products through the BLAS the model uses, one per",
+            "core at once (the machine's throughput) and on one thread.",
+            "score: BALD and friends over pools of shapes (a) 100k x 64-128-10, 64 draws;",
+            "(b) 1M x 64-128-10, 32 draws; (c) 100k x 784-256-10, 32 draws; GFLOP/s count the",
+            "matrix products only, 2 N S (d h + h C).",
             "sampler: preconditioned SGLD on a 64-128-10 network, 1000 labelled rows,",
             "mini-batch 128, 4 chains; chain-steps per second and the share of sgemm reached;",
             "a round's re-burn-in plus draws, timed.",
@@ -59,7 +63,7 @@ final class BenchCommand implements Callable<Integer> {
     Path work;
 
     @Option(names = "--only", split = ",", paramLabel = "SUITE",
-            description = "Suites to run: sgemm, sampler, import (default: all).")
+            description = "Suites to run: sgemm, score, sampler, import (default: all).")
     java.util.List<String> only;
 
     private boolean wants(String suite) {
@@ -77,10 +81,14 @@ final class BenchCommand implements Callable<Integer> {
                 Runtime.getRuntime().maxMemory() >> 20, dev.dowser.kernel.Blas.implementation());
         out.flush();
         double sgemm = Double.NaN;
-        if (wants("sgemm") || wants("sampler")) {
-            sgemm = SamplerBench.sgemmGflops(quick ? 1024 : 2048);
-            out.printf("sgemm_gflops=%.1f%n", sgemm);
+        if (wants("sgemm") || wants("sampler") || wants("score")) {
+            double one = SamplerBench.sgemmGflops(quick ? 1024 : 2048);
+            sgemm = ScoreBench.machineSgemmGflops(quick ? 1024 : 2048);
+            out.printf("sgemm_one_thread_gflops=%.1f%nsgemm_gflops=%.1f%n", one, sgemm);
             out.flush();
+        }
+        if (wants("score")) {
+            ScoreBench.run(out, sgemm, quick);
         }
         if (wants("sampler")) {
             SamplerBench.run(out, sgemm, quick);

@@ -1,0 +1,241 @@
+package dev.dowser.acquire;
+
+import dev.dowser.kernel.Blas;
+import dev.dowser.model.Activation;
+import dev.dowser.model.Architecture;
+import dev.dowser.model.Layout;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.Future;
+
+/**
+ * Scores every record of a pool from S posterior draws in one fused pass. Rows go in blocks; for
+ * each block, the first layer of all draws is one matrix product (the draws' first-layer weights
+ * stacked side by side, d x S*h), then each draw's remaining layers, and then, per row and draw,
+ * the softmax, the entropy (H = logsumexp(z) - sum p z) and the vote are folded into running sums
+ * in double. Nothing of size N x S x C is ever held: memory is the draws plus one block per thread.
+ * Blocks are spread over threads; BLAS itself stays single-threaded.
+ */
+public final class PoolScorer implements AutoCloseable {
+
+    public static final int DEFAULT_BLOCK_ROWS = 128;
+
+    /** Per record: BALD, predictive entropy, variation ratio, and the mean class probabilities. */
+    public record Result(double[] bald, double[] entropy, double[] variationRatio, float[] meanProbabilities,
+                         int classes) {
+    }
+
+    private final ExecutorService pool;
+    private final int threads;
+    private final int blockRows;
+
+    public PoolScorer(int threads, int blockRows) {
+        if (threads < 1 || blockRows < 1) {
+            throw new IllegalArgumentException("threads and blockRows must be at least 1");
+        }
+        this.threads = threads;
+        this.blockRows = blockRows;
+        this.pool = Executors.newFixedThreadPool(threads, r -> {
+            Thread t = new Thread(r, "dowser-score");
+            t.setDaemon(true);
+            return t;
+        });
+    }
+
+    public static PoolScorer withAllCores() {
+        return new PoolScorer(Runtime.getRuntime().availableProcessors(), DEFAULT_BLOCK_ROWS);
+    }
+
+    /** Scores rows {@code 0..rows} of x (row-major, the network's inputs per row). */
+    public Result score(Layout layout, List<float[]> draws, float[] x, int rows) {
+        Architecture a = layout.architecture();
+        int classes = a.classes();
+        int s = draws.size();
+        int h1 = a.fanOut(0);
+        int d = a.inputs();
+        // The first layer of every draw side by side: row i holds W1[i][*] of draw 0, then of draw 1...
+        float[] w1 = new float[d * s * h1];
+        float[] b1 = new float[s * h1];
+        for (int k = 0; k < s; k++) {
+            float[] theta = draws.get(k);
+            for (int i = 0; i < d; i++) {
+                System.arraycopy(theta, layout.weightOffset(0) + i * h1, w1, i * s * h1 + k * h1, h1);
+            }
+            System.arraycopy(theta, layout.biasOffset(0), b1, k * h1, h1);
+        }
+        Result out = new Result(new double[rows], new double[rows], new double[rows], new float[rows * classes],
+                classes);
+        int blocks = (rows + blockRows - 1) / blockRows;
+        List<Future<?>> futures = new ArrayList<>();
+        for (int t = 0; t < threads; t++) {
+            int first = t;
+            futures.add(pool.submit(() -> {
+                Block work = new Block(layout, draws, w1, b1, blockRows);
+                for (int b = first; b < blocks; b += threads) {
+                    int start = b * blockRows;
+                    work.score(x, start, Math.min(blockRows, rows - start), out);
+                }
+            }));
+        }
+        try {
+            for (Future<?> f : futures) {
+                f.get();
+            }
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            throw new IllegalStateException("interrupted while scoring", e);
+        } catch (ExecutionException e) {
+            throw new IllegalStateException("scoring failed: " + e.getCause(), e.getCause());
+        }
+        return out;
+    }
+
+    /** One thread's work buffers and the fused per-block computation. */
+    private static final class Block {
+
+        private final Layout layout;
+        private final Architecture arch;
+        private final List<float[]> draws;
+        private final float[] w1;
+        private final float[] b1;
+        private final int s;
+        private final int h1;
+        private final int classes;
+        private final float[] hidden;
+        private final float[][] deeper;
+        private final float[] logits;
+        private final double[] meanP;
+        private final double[] meanH;
+        private final int[] votes;
+        private final double[] expZ;
+
+        Block(Layout layout, List<float[]> draws, float[] w1, float[] b1, int blockRows) {
+            this.layout = layout;
+            this.arch = layout.architecture();
+            this.draws = draws;
+            this.w1 = w1;
+            this.b1 = b1;
+            this.s = draws.size();
+            this.h1 = arch.fanOut(0);
+            this.classes = arch.classes();
+            this.hidden = new float[blockRows * s * h1];
+            int layers = arch.layers();
+            this.deeper = new float[Math.max(0, layers - 2)][];
+            for (int l = 1; l < layers - 1; l++) {
+                deeper[l - 1] = new float[blockRows * arch.fanOut(l)];
+            }
+            this.logits = new float[blockRows * classes];
+            this.meanP = new double[blockRows * classes];
+            this.meanH = new double[blockRows];
+            this.votes = new int[blockRows * classes];
+            this.expZ = new double[classes];
+        }
+
+        void score(float[] x, int start, int n, Result out) {
+            int d = arch.inputs();
+            int width = s * h1;
+            int layers = arch.layers();
+            // First layer, all draws at once: hidden = X W1_all + b1_all, then the nonlinearity.
+            for (int r = 0; r < n; r++) {
+                System.arraycopy(b1, 0, hidden, r * width, width);
+            }
+            Blas.gemm(false, false, n, width, d, 1f, x, start * d, d, w1, 0, width, 1f, hidden, 0, width);
+            if (layers > 1) {
+                activate(hidden, n * width);
+            }
+            java.util.Arrays.fill(meanP, 0, n * classes, 0);
+            java.util.Arrays.fill(meanH, 0, n, 0);
+            java.util.Arrays.fill(votes, 0, n * classes, 0);
+            for (int k = 0; k < s; k++) {
+                float[] theta = draws.get(k);
+                float[] in = hidden;
+                int inOff = k * h1;
+                int lda = width;
+                for (int l = 1; l < layers; l++) {
+                    int fanIn = arch.fanIn(l);
+                    int fanOut = arch.fanOut(l);
+                    float[] outBuf = l == layers - 1 ? logits : deeper[l - 1];
+                    for (int r = 0; r < n; r++) {
+                        System.arraycopy(theta, layout.biasOffset(l), outBuf, r * fanOut, fanOut);
+                    }
+                    Blas.gemm(false, false, n, fanOut, fanIn, 1f, in, inOff, lda, theta, layout.weightOffset(l), fanOut,
+                            1f, outBuf, 0, fanOut);
+                    if (l < layers - 1) {
+                        activate(outBuf, n * fanOut);
+                    }
+                    in = outBuf;
+                    inOff = 0;
+                    lda = fanOut;
+                }
+                accumulate(n);
+            }
+            for (int r = 0; r < n; r++) {
+                int row = start + r;
+                double h = 0;
+                int mode = 0;
+                for (int c = 0; c < classes; c++) {
+                    double p = meanP[r * classes + c] / s;
+                    out.meanProbabilities()[row * classes + c] = (float) p;
+                    if (p > 0) {
+                        h -= p * Math.log(p);
+                    }
+                    mode = Math.max(mode, votes[r * classes + c]);
+                }
+                out.entropy()[row] = h;
+                out.bald()[row] = Math.max(0, h - meanH[r] / s);
+                out.variationRatio()[row] = 1 - (double) mode / s;
+            }
+        }
+
+        private void activate(float[] z, int count) {
+            if (arch.activation() == Activation.RELU) {
+                for (int i = 0; i < count; i++) {
+                    z[i] = Math.max(z[i], 0f);
+                }
+            } else {
+                for (int i = 0; i < count; i++) {
+                    z[i] = (float) Math.tanh(z[i]);
+                }
+            }
+        }
+
+        /** Folds one draw's logits into the running sums: p = softmax(z), H = lse - sum p z, the vote. */
+        private void accumulate(int n) {
+            for (int r = 0; r < n; r++) {
+                int o = r * classes;
+                float max = logits[o];
+                int best = 0;
+                for (int c = 1; c < classes; c++) {
+                    if (logits[o + c] > max) {
+                        max = logits[o + c];
+                        best = c;
+                    }
+                }
+                double sum = 0;
+                for (int c = 0; c < classes; c++) {
+                    double e = Math.exp(logits[o + c] - max);
+                    expZ[c] = e;
+                    sum += e;
+                }
+                double inv = 1 / sum;
+                double lse = max + Math.log(sum);
+                double pz = 0;
+                for (int c = 0; c < classes; c++) {
+                    double p = expZ[c] * inv;
+                    meanP[o + c] += p;
+                    pz += p * logits[o + c];
+                }
+                meanH[r] += lse - pz;
+                votes[o + best]++;
+            }
+        }
+    }
+
+    @Override
+    public void close() {
+        pool.shutdownNow();
+    }
+}
