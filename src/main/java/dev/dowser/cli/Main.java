@@ -18,6 +18,7 @@ import picocli.CommandLine.Command;
             ImportCommand.class,
             ExportCommand.class,
             FitCommand.class,
+            SimulateCommand.class,
             BenchCommand.class,
             CommandLine.HelpCommand.class})
 public final class Main implements Runnable {
