@@ -22,6 +22,16 @@ import java.util.concurrent.Future;
 public final class PoolScorer implements AutoCloseable {
 
     public static final int DEFAULT_BLOCK_ROWS = 128;
+    /**
+     * Draws whose first layers are stacked into one product. Bounding it bounds a thread's buffer
+     * (block rows x group x hidden) whatever the number of draws: beyond the draws themselves,
+     * memory does not grow with S.
+     */
+    public static final int GROUP_DRAWS = 32;
+
+    /** The first layers of draws first..first+count, stacked side by side. */
+    private record Group(int first, int count, float[] w1, float[] b1) {
+    }
 
     /** Per record: BALD, predictive entropy, variation ratio, and the mean class probabilities. */
     public record Result(double[] bald, double[] entropy, double[] variationRatio, float[] meanProbabilities,
@@ -57,14 +67,19 @@ public final class PoolScorer implements AutoCloseable {
         int h1 = a.fanOut(0);
         int d = a.inputs();
         // The first layer of every draw side by side: row i holds W1[i][*] of draw 0, then of draw 1...
-        float[] w1 = new float[d * s * h1];
-        float[] b1 = new float[s * h1];
-        for (int k = 0; k < s; k++) {
-            float[] theta = draws.get(k);
-            for (int i = 0; i < d; i++) {
-                System.arraycopy(theta, layout.weightOffset(0) + i * h1, w1, i * s * h1 + k * h1, h1);
+        List<Group> groups = new ArrayList<>();
+        for (int first = 0; first < s; first += GROUP_DRAWS) {
+            int count = Math.min(GROUP_DRAWS, s - first);
+            float[] w1 = new float[d * count * h1];
+            float[] b1 = new float[count * h1];
+            for (int k = 0; k < count; k++) {
+                float[] theta = draws.get(first + k);
+                for (int i = 0; i < d; i++) {
+                    System.arraycopy(theta, layout.weightOffset(0) + i * h1, w1, i * count * h1 + k * h1, h1);
+                }
+                System.arraycopy(theta, layout.biasOffset(0), b1, k * h1, h1);
             }
-            System.arraycopy(theta, layout.biasOffset(0), b1, k * h1, h1);
+            groups.add(new Group(first, count, w1, b1));
         }
         Result out = new Result(new double[rows], new double[rows], new double[rows], new float[rows * classes],
                 classes);
@@ -73,7 +88,7 @@ public final class PoolScorer implements AutoCloseable {
         for (int t = 0; t < threads; t++) {
             int first = t;
             futures.add(pool.submit(() -> {
-                Block work = new Block(layout, draws, w1, b1, blockRows);
+                Block work = new Block(layout, draws, groups, blockRows);
                 for (int b = first; b < blocks; b += threads) {
                     int start = b * blockRows;
                     work.score(x, start, Math.min(blockRows, rows - start), out);
@@ -99,8 +114,7 @@ public final class PoolScorer implements AutoCloseable {
         private final Layout layout;
         private final Architecture arch;
         private final List<float[]> draws;
-        private final float[] w1;
-        private final float[] b1;
+        private final List<Group> groups;
         private final int s;
         private final int h1;
         private final int classes;
@@ -112,16 +126,15 @@ public final class PoolScorer implements AutoCloseable {
         private final int[] votes;
         private final double[] expZ;
 
-        Block(Layout layout, List<float[]> draws, float[] w1, float[] b1, int blockRows) {
+        Block(Layout layout, List<float[]> draws, List<Group> groups, int blockRows) {
             this.layout = layout;
             this.arch = layout.architecture();
             this.draws = draws;
-            this.w1 = w1;
-            this.b1 = b1;
+            this.groups = groups;
             this.s = draws.size();
             this.h1 = arch.fanOut(0);
             this.classes = arch.classes();
-            this.hidden = new float[blockRows * s * h1];
+            this.hidden = new float[blockRows * Math.min(s, GROUP_DRAWS) * h1];
             int layers = arch.layers();
             this.deeper = new float[Math.max(0, layers - 2)][];
             for (int l = 1; l < layers - 1; l++) {
@@ -136,41 +149,43 @@ public final class PoolScorer implements AutoCloseable {
 
         void score(float[] x, int start, int n, Result out) {
             int d = arch.inputs();
-            int width = s * h1;
             int layers = arch.layers();
-            // First layer, all draws at once: hidden = X W1_all + b1_all, then the nonlinearity.
-            for (int r = 0; r < n; r++) {
-                System.arraycopy(b1, 0, hidden, r * width, width);
-            }
-            Blas.gemm(false, false, n, width, d, 1f, x, start * d, d, w1, 0, width, 1f, hidden, 0, width);
-            if (layers > 1) {
-                activate(hidden, n * width);
-            }
             java.util.Arrays.fill(meanP, 0, n * classes, 0);
             java.util.Arrays.fill(meanH, 0, n, 0);
             java.util.Arrays.fill(votes, 0, n * classes, 0);
-            for (int k = 0; k < s; k++) {
-                float[] theta = draws.get(k);
-                float[] in = hidden;
-                int inOff = k * h1;
-                int lda = width;
-                for (int l = 1; l < layers; l++) {
-                    int fanIn = arch.fanIn(l);
-                    int fanOut = arch.fanOut(l);
-                    float[] outBuf = l == layers - 1 ? logits : deeper[l - 1];
-                    for (int r = 0; r < n; r++) {
-                        System.arraycopy(theta, layout.biasOffset(l), outBuf, r * fanOut, fanOut);
-                    }
-                    Blas.gemm(false, false, n, fanOut, fanIn, 1f, in, inOff, lda, theta, layout.weightOffset(l), fanOut,
-                            1f, outBuf, 0, fanOut);
-                    if (l < layers - 1) {
-                        activate(outBuf, n * fanOut);
-                    }
-                    in = outBuf;
-                    inOff = 0;
-                    lda = fanOut;
+            for (Group g : groups) {
+                int width = g.count() * h1;
+                // First layer of the group's draws at once: hidden = X W1_group + b1_group, then f.
+                for (int r = 0; r < n; r++) {
+                    System.arraycopy(g.b1(), 0, hidden, r * width, width);
                 }
-                accumulate(n);
+                Blas.gemm(false, false, n, width, d, 1f, x, start * d, d, g.w1(), 0, width, 1f, hidden, 0, width);
+                if (layers > 1) {
+                    activate(hidden, n * width);
+                }
+                for (int k = 0; k < g.count(); k++) {
+                    float[] theta = draws.get(g.first() + k);
+                    float[] in = hidden;
+                    int inOff = k * h1;
+                    int lda = width;
+                    for (int l = 1; l < layers; l++) {
+                        int fanIn = arch.fanIn(l);
+                        int fanOut = arch.fanOut(l);
+                        float[] outBuf = l == layers - 1 ? logits : deeper[l - 1];
+                        for (int r = 0; r < n; r++) {
+                            System.arraycopy(theta, layout.biasOffset(l), outBuf, r * fanOut, fanOut);
+                        }
+                        Blas.gemm(false, false, n, fanOut, fanIn, 1f, in, inOff, lda, theta, layout.weightOffset(l),
+                                fanOut, 1f, outBuf, 0, fanOut);
+                        if (l < layers - 1) {
+                            activate(outBuf, n * fanOut);
+                        }
+                        in = outBuf;
+                        inOff = 0;
+                        lda = fanOut;
+                    }
+                    accumulate(n);
+                }
             }
             for (int r = 0; r < n; r++) {
                 int row = start + r;

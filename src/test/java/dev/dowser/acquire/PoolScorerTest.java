@@ -63,6 +63,7 @@ class PoolScorerTest {
         }
         PoolScorer.Result r;
         try (PoolScorer scorer = new PoolScorer(2, 7)) {
+            // Block size 7 and, below, more draws than one group: every edge of the blocking is crossed.
             r = scorer.score(layout, ds, x, rows);
         }
         int c = arch.classes();
@@ -87,6 +88,11 @@ class PoolScorerTest {
     @Test
     void oneHiddenLayer() {
         check(new Architecture(6, List.of(9), 4, Activation.RELU), 45, 5, 1);
+    }
+
+    @Test
+    void moreDrawsThanOneGroup() {
+        check(new Architecture(4, List.of(5), 3, Activation.RELU), 20, PoolScorer.GROUP_DRAWS + 5, 4);
     }
 
     @Test
