@@ -9,8 +9,38 @@ public final class Pickers {
     private Pickers() {
     }
 
+    /** Batches up to this size are selected in one pass over the scores instead of a full sort. */
+    static final int SMALL_BATCH = 64;
+
     /** The b highest scores, best first; ties keep the lower index first. */
     public static int[] topB(double[] scores, int b) {
+        if (b <= SMALL_BATCH) {
+            return topSmall(scores, Math.min(b, scores.length));
+        }
+        return topBySorting(scores, b);
+    }
+
+    /** One pass keeping the best b so far in order; a record enters only if it beats the b-th. */
+    private static int[] topSmall(double[] scores, int b) {
+        int[] best = new int[b];
+        int size = 0;
+        for (int i = 0; i < scores.length; i++) {
+            double v = scores[i];
+            if (size == b && !(v > scores[best[b - 1]])) {
+                continue;
+            }
+            int at = size < b ? size++ : b - 1;
+            // Shift down past every kept record this one beats; equal scores keep the earlier index ahead.
+            while (at > 0 && v > scores[best[at - 1]]) {
+                best[at] = best[at - 1];
+                at--;
+            }
+            best[at] = i;
+        }
+        return best;
+    }
+
+    private static int[] topBySorting(double[] scores, int b) {
         Integer[] order = new Integer[scores.length];
         for (int i = 0; i < order.length; i++) {
             order[i] = i;

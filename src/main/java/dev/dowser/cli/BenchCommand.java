@@ -37,6 +37,8 @@ import picocli.CommandLine.Option;
             "sampler: preconditioned SGLD on a 64-128-10 network, 1000 labelled rows,",
             "mini-batch 128, 4 chains; chain-steps per second and the share of sgemm reached;",
             "a round's re-burn-in plus draws, timed.",
+            "round: a whole round on a 100,000-row pool with 1000 labels: continue the chains,",
+            "score the pool with 64 draws, pick 10.",
             "import: a generated CSV of N rows x 64 numeric features into a fresh pool;",
             "reports rows per second, the peak heap (an upper bound: what the collector let",
             "the heap grow to) and the live heap (the most still in use just after a",
@@ -63,7 +65,7 @@ final class BenchCommand implements Callable<Integer> {
     Path work;
 
     @Option(names = "--only", split = ",", paramLabel = "SUITE",
-            description = "Suites to run: sgemm, score, sampler, import (default: all).")
+            description = "Suites to run: sgemm, score, sampler, round, import (default: all).")
     java.util.List<String> only;
 
     private boolean wants(String suite) {
@@ -93,6 +95,9 @@ final class BenchCommand implements Callable<Integer> {
         if (wants("sampler")) {
             SamplerBench.run(out, sgemm, quick);
             out.flush();
+        }
+        if (wants("round")) {
+            RoundBench.run(out, quick);
         }
         if (wants("import")) {
             Path dir = work != null ? Files.createDirectories(work) : Files.createTempDirectory("dowser-bench-");

@@ -27,6 +27,26 @@ class PickersTest {
     }
 
     @Test
+    void topBAgreesWithAFullSortIncludingTies() {
+        SplittableRandom rng = new SplittableRandom(9);
+        for (int t = 0; t < 200; t++) {
+            double[] scores = new double[1 + rng.nextInt(300)];
+            for (int i = 0; i < scores.length; i++) {
+                scores[i] = rng.nextInt(20);
+            }
+            int b = 1 + rng.nextInt(80);
+            Integer[] order = new Integer[scores.length];
+            for (int i = 0; i < order.length; i++) {
+                order[i] = i;
+            }
+            Arrays.sort(order, (x, y) -> scores[y] != scores[x] ? Double.compare(scores[y], scores[x])
+                    : Integer.compare(x, y));
+            int[] expected = Arrays.stream(order).limit(b).mapToInt(Integer::intValue).toArray();
+            assertArrayEquals(expected, Pickers.topB(scores, b), "scores " + Arrays.toString(scores) + ", b " + b);
+        }
+    }
+
+    @Test
     void batchBaldOfOneIsBald() {
         SplittableRandom rng = new SplittableRandom(1);
         int n = 12;
