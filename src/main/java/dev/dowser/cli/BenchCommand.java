@@ -82,6 +82,16 @@ final class BenchCommand implements Callable<Integer> {
         out.printf("cores=%d%nmax_heap_mib=%d%nblas=%s%n", Runtime.getRuntime().availableProcessors(),
                 Runtime.getRuntime().maxMemory() >> 20, dev.dowser.kernel.Blas.implementation());
         out.flush();
+        // The import runs first, on a fresh heap, so the pools the other suites build do not weigh on it.
+        if (wants("import")) {
+            Path dir = work != null ? Files.createDirectories(work) : Files.createTempDirectory("dowser-bench-");
+            try {
+                importSuite(out, dir, n / 10, "small");
+                importSuite(out, dir, n, "full");
+            } finally {
+                deleteTree(dir);
+            }
+        }
         double sgemm = Double.NaN;
         if (wants("sgemm") || wants("sampler") || wants("score")) {
             double one = SamplerBench.sgemmGflops(quick ? 1024 : 2048);
@@ -98,15 +108,6 @@ final class BenchCommand implements Callable<Integer> {
         }
         if (wants("round")) {
             RoundBench.run(out, quick);
-        }
-        if (wants("import")) {
-            Path dir = work != null ? Files.createDirectories(work) : Files.createTempDirectory("dowser-bench-");
-            try {
-                importSuite(out, dir, n / 10, "small");
-                importSuite(out, dir, n, "full");
-            } finally {
-                deleteTree(dir);
-            }
         }
         return 0;
     }
