@@ -74,6 +74,21 @@ public record Prior(double weightScale, double biasScale, boolean hierarchical, 
         return -0.5 * tau * ss + n * (0.5 * Math.log(tau) - HALF_LOG_2PI);
     }
 
+    /** grad = d log p(theta | tau) / d theta = -tau * theta, overwriting grad: it starts a gradient. */
+    public void setGradient(Layout layout, float[] theta, double[] tau, float[] grad) {
+        double biasPrecision = 1 / (biasScale * biasScale);
+        for (int l = 0; l < tau.length; l++) {
+            scaleTo(theta, grad, layout.weightOffset(l), layout.weightCount(l), (float) -tau[l]);
+            scaleTo(theta, grad, layout.biasOffset(l), layout.architecture().fanOut(l), (float) -biasPrecision);
+        }
+    }
+
+    private static void scaleTo(float[] x, float[] y, int off, int n, float a) {
+        for (int i = off; i < off + n; i++) {
+            y[i] = a * x[i];
+        }
+    }
+
     /** grad += scale * d log p(theta | tau) / d theta = -scale * tau * theta, layer by layer. */
     public void addGradient(Layout layout, float[] theta, double[] tau, float[] grad, double scale) {
         double biasPrecision = 1 / (biasScale * biasScale);

@@ -3,7 +3,6 @@ package dev.dowser.sampler;
 import dev.dowser.model.Layout;
 import dev.dowser.model.Mlp;
 import dev.dowser.model.Prior;
-import java.util.Arrays;
 import java.util.SplittableRandom;
 
 /**
@@ -55,11 +54,11 @@ public final class MlpPosterior implements Target {
 
     @Override
     public double logDensity(float[] theta, double[] hyper, Batch batch, float[] grad) {
-        Arrays.fill(grad, 0f);
+        double[] tau = hyper != null ? hyper : fixedPrecisions;
+        // The prior's gradient starts grad (no separate zeroing pass); the likelihood's is added to it.
+        prior.setGradient(layout, theta, tau, grad);
         double scale = (double) rows / batch.size();
         double logLik = mlp.logLikelihood(theta, x, labels, batch.rows(), 0, batch.size(), grad, (float) scale);
-        double[] tau = hyper != null ? hyper : fixedPrecisions;
-        prior.addGradient(layout, theta, tau, grad, 1.0);
         return prior.logDensity(layout, theta, tau) + scale * logLik;
     }
 
