@@ -29,21 +29,20 @@ import picocli.CommandLine.Option;
 
 @Command(name = "bench", mixinStandardHelpOptions = true,
         description = {"Measures this machine and prints key=value lines.",
-            "sgemm: square single-precision products through the BLAS the model uses, one per",
-            "core at once (the machine's throughput) and on one thread.",
-            "score: BALD and friends over pools of shapes (a) 100k x 64-128-10, 64 draws;",
-            "(b) 1M x 64-128-10, 32 draws; (c) 100k x 784-256-10, 32 draws; GFLOP/s count the",
-            "matrix products only, 2 N S (d h + h C).",
-            "sampler: preconditioned SGLD on a 64-128-10 network, 1000 labelled rows,",
-            "mini-batch 128, 4 chains; chain-steps per second and the share of sgemm reached;",
-            "a round's re-burn-in plus draws, timed.",
-            "round: a whole round on a 100,000-row pool with 1000 labels: continue the chains,",
-            "score the pool with 64 draws, pick 10.",
-            "import: a generated CSV of N rows x 64 numeric features into a fresh pool;",
-            "reports rows per second, the peak heap (an upper bound: what the collector let",
-            "the heap grow to) and the live heap (the most still in use just after a",
-            "collection), at N/10 and at N in the same run, so memory that grows with the",
-            "file would show."})
+            "",
+            "import: a generated CSV of N rows x 64 numeric features into a fresh pool, at N/10 and at N in"
+                + " the same run; rows per second, the peak heap (what the collector let the heap grow to) and"
+                + " the live heap (the most still in use just after a collection), so memory that grows with"
+                + " the file would show.",
+            "sgemm: square single-precision products through the BLAS the model uses, one per core at once"
+                + " (the machine's throughput) and on one thread.",
+            "score: BALD and friends over pools of shapes (a) 100k x 64-128-10 with 64 draws, (b) 1M x"
+                + " 64-128-10 with 32 draws, (c) 100k x 784-256-10 with 32 draws; GFLOP/s count the matrix"
+                + " products only, 2 N S (d h + h C).",
+            "sampler: preconditioned SGLD on a 64-128-10 network, 1000 labelled rows, mini-batch 128, 4"
+                + " chains: chain-steps per second, the share of sgemm reached, and a warm round timed.",
+            "round: a whole round on a 100,000-row pool with 1000 labels: continue the chains, score the"
+                + " pool with 64 draws, pick 10."})
 final class BenchCommand implements Callable<Integer> {
 
     @Spec

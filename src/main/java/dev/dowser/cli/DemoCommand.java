@@ -15,8 +15,9 @@ import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
 
 @Command(name = "demo", mixinStandardHelpOptions = true,
-        description = {"Starts the web app on a fresh database holding the demo pool:",
-            "vibration traces from the pumps of Kettlewater Works, an invented water works."})
+        description = {"Starts the web app on a fresh database holding the demo pool.",
+            "The pool holds vibration traces from the pumps of Kettlewater Works, an invented water works,"
+                + " each to be labelled with one of five conditions."})
 final class DemoCommand implements Callable<Integer> {
 
     @Option(names = "--port", defaultValue = "" + WebConfig.DEFAULT_PORT, paramLabel = "P",

@@ -33,9 +33,8 @@ import picocli.CommandLine.Spec;
 
 @Command(name = "fit", mixinStandardHelpOptions = true,
         description = {"Shows how good a model the labels in a file already give.",
-            "Holds out a stratified test split, samples the network's posterior on the rest,",
-            "and prints key=value lines: accuracy, nll, ece (15 bins), rhat_max, ess_min,",
-            "kernel, draws, seconds."})
+            "Holds out a stratified test split, samples the network's posterior on the rest, and prints"
+                + " key=value lines: accuracy, nll, ece (15 bins), rhat_max, ess_min, kernel, draws, seconds."})
 final class FitCommand implements Callable<Integer> {
 
     static final int ECE_BINS = 15;

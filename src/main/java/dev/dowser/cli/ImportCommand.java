@@ -20,8 +20,8 @@ import picocli.CommandLine.Option;
 
 @Command(name = "import", mixinStandardHelpOptions = true,
         description = {"Creates a pool from a CSV or JSON Lines file.",
-            "All or nothing: a bad line stops the import with its line and column named,",
-            "and the database stays exactly as it was."})
+            "All or nothing: a bad line stops the import with its line and column named, and the database"
+                + " stays exactly as it was."})
 final class ImportCommand implements Callable<Integer> {
 
     @Spec

@@ -10,8 +10,10 @@ import picocli.CommandLine.Command;
         description = {
             "Tells a labelling team which records to label next.",
             "",
-            "Keeps a pool of records in an embedded database, samples a small Bayesian network's",
-            "posterior, and queues the records whose labels would teach it most."},
+            "Keeps a pool of records in an embedded database, samples the posterior of a small Bayesian"
+                + " neural network, and queues the records whose labels would teach it most.",
+            "",
+            "Start with: dowser demo"},
         subcommands = {
             ServeCommand.class,
             DemoCommand.class,

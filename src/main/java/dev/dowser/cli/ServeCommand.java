@@ -8,8 +8,8 @@ import picocli.CommandLine.Option;
 
 @Command(name = "serve", mixinStandardHelpOptions = true,
         description = {"Runs the web app on the database in --data until stopped (Ctrl-C).",
-            "Listens on loopback by default; put it behind your own network and TLS before",
-            "letting others reach it."})
+            "Listens on loopback by default; put it behind your own network and TLS before letting others"
+                + " reach it."})
 final class ServeCommand implements Callable<Integer> {
 
     @Mixin

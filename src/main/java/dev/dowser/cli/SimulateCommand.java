@@ -27,9 +27,9 @@ import picocli.CommandLine.Spec;
 
 @Command(name = "simulate", mixinStandardHelpOptions = true,
         description = {"Shows, on your own labelled data, how many labels picking saves over labelling at random.",
-            "Runs the whole loop offline with the file's labels acting as the labeller, chains",
-            "continued between rounds as the app does; writes DIR/curves.csv, curves.svg and",
-            "curves.png, prints a table and labels_to_<target>_<strategy>=N lines."})
+            "Runs the whole loop offline with the file's labels acting as the labeller, chains continued"
+                + " between rounds as the app does; writes DIR/curves.csv, curves.svg and curves.png, and prints"
+                + " a table and labels_to_<target>_<strategy>=N lines."})
 final class SimulateCommand implements Callable<Integer> {
 
     @Spec
