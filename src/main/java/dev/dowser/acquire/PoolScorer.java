@@ -29,8 +29,8 @@ public final class PoolScorer implements AutoCloseable {
      */
     public static final int GROUP_DRAWS = 32;
 
-    /** The first layers of draws first..first+count, stacked side by side. */
-    private record Group(int first, int count, float[] w1, float[] b1) {
+    /** The first layers of draws first..first+count, stacked side by side, biases in the last row. */
+    private record Group(int first, int count, float[] w1) {
     }
 
     /** Per record: BALD, predictive entropy, variation ratio, and the mean class probabilities. */
@@ -70,16 +70,16 @@ public final class PoolScorer implements AutoCloseable {
         List<Group> groups = new ArrayList<>();
         for (int first = 0; first < s; first += GROUP_DRAWS) {
             int count = Math.min(GROUP_DRAWS, s - first);
-            float[] w1 = new float[d * count * h1];
-            float[] b1 = new float[count * h1];
+            // d + 1 rows: the weights, then the biases, which meet a column of ones appended to X.
+            float[] w1 = new float[(d + 1) * count * h1];
             for (int k = 0; k < count; k++) {
                 float[] theta = draws.get(first + k);
                 for (int i = 0; i < d; i++) {
                     System.arraycopy(theta, layout.weightOffset(0) + i * h1, w1, i * count * h1 + k * h1, h1);
                 }
-                System.arraycopy(theta, layout.biasOffset(0), b1, k * h1, h1);
+                System.arraycopy(theta, layout.biasOffset(0), w1, d * count * h1 + k * h1, h1);
             }
-            groups.add(new Group(first, count, w1, b1));
+            groups.add(new Group(first, count, w1));
         }
         Result out = new Result(new double[rows], new double[rows], new double[rows], new float[rows * classes],
                 classes);
@@ -121,6 +121,7 @@ public final class PoolScorer implements AutoCloseable {
         private final float[] hidden;
         private final float[][] deeper;
         private final float[] logits;
+        private final float[] xOnes;
         private final double[] meanP;
         private final double[] meanH;
         private final int[] votes;
@@ -141,6 +142,7 @@ public final class PoolScorer implements AutoCloseable {
                 deeper[l - 1] = new float[blockRows * arch.fanOut(l)];
             }
             this.logits = new float[blockRows * classes];
+            this.xOnes = new float[blockRows * (arch.inputs() + 1)];
             this.meanP = new double[blockRows * classes];
             this.meanH = new double[blockRows];
             this.votes = new int[blockRows * classes];
@@ -149,17 +151,19 @@ public final class PoolScorer implements AutoCloseable {
 
         void score(float[] x, int start, int n, Result out) {
             int d = arch.inputs();
+            for (int r = 0; r < n; r++) {
+                System.arraycopy(x, (start + r) * d, xOnes, r * (d + 1), d);
+                xOnes[r * (d + 1) + d] = 1f;
+            }
             int layers = arch.layers();
             java.util.Arrays.fill(meanP, 0, n * classes, 0);
             java.util.Arrays.fill(meanH, 0, n, 0);
             java.util.Arrays.fill(votes, 0, n * classes, 0);
             for (Group g : groups) {
                 int width = g.count() * h1;
-                // First layer of the group's draws at once: hidden = X W1_group + b1_group, then f.
-                for (int r = 0; r < n; r++) {
-                    System.arraycopy(g.b1(), 0, hidden, r * width, width);
-                }
-                Blas.gemm(false, false, n, width, d, 1f, x, start * d, d, g.w1(), 0, width, 1f, hidden, 0, width);
+                // First layer of the group's draws at once: hidden = [X 1] [W1; b1], then f. The bias
+                // rides in the product (beta = 0), sparing a pass over the block's largest buffer.
+                Blas.gemm(false, false, n, width, d + 1, 1f, xOnes, 0, d + 1, g.w1(), 0, width, 0f, hidden, 0, width);
                 if (layers > 1) {
                     activate(hidden, n * width);
                 }
