@@ -33,14 +33,14 @@ class CommandLineTest {
 
     @Test
     void everyCommandExplainsItself() {
-        for (String command : List.of("serve", "demo", "import", "export", "bench")) {
+        for (String command : List.of("serve", "demo", "import", "export", "fit", "simulate", "bench")) {
             Run r = run(command, "--help");
             assertEquals(0, r.exit(), command);
             assertTrue(r.out().startsWith("Usage: dowser " + command), command + ": " + r.out());
         }
         Run top = run("--help");
         assertEquals(0, top.exit());
-        for (String command : List.of("serve", "demo", "import", "export", "bench")) {
+        for (String command : List.of("serve", "demo", "import", "export", "fit", "simulate", "bench")) {
             assertTrue(top.out().contains("  " + command + " "), command + " missing from:\n" + top.out());
         }
     }
