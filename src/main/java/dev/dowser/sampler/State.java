@@ -28,9 +28,13 @@ public record State(float[] position, float[] gradient, double logDensity, float
         return new State(position, gradient, logDensity, preconditioner, newHyper, stepSize, step, accepted, proposed);
     }
 
-    /** True when the density and every gradient entry are finite: the state is usable. */
+    /**
+     * True when the density and every gradient entry are finite: the state is usable. The position
+     * needs no check of its own: every target here has a proper prior, whose gradient term
+     * (-tau * theta for a Gaussian) turns an infinite or NaN weight into a non-finite gradient.
+     */
     public boolean isFinite() {
-        return Double.isFinite(logDensity) && allFinite(gradient) && allFinite(position);
+        return Double.isFinite(logDensity) && allFinite(gradient);
     }
 
     /** x * 0 is 0 for every finite x and NaN for an infinity or NaN, so one sum tells, without a branch per entry. */
