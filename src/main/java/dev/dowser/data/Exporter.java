@@ -3,7 +3,6 @@ package dev.dowser.data;
 import dev.dowser.json.Json;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
-import dev.dowser.store.RecordRow;
 import java.io.BufferedWriter;
 import java.io.IOException;
 import java.io.OutputStream;
