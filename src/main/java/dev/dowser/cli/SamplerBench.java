@@ -18,6 +18,7 @@ final class SamplerBench {
     static final int ROWS = 1_000;
     static final int BATCH = 128;
     static final int CHAINS = 4;
+    static final int MEASURED_ROUNDS = 3;
 
     private SamplerBench() {
     }
@@ -66,16 +67,24 @@ final class SamplerBench {
         SamplerConfig config = SamplerConfig.defaults(3).withKernel(KernelChoice.PSGLD)
                 .withHidden(List.of(HIDDEN)).withChains(CHAINS, CHAINS * 10).withSteps(steps, 300, 20);
         PosteriorSampler sampler = new PosteriorSampler(config);
-        // Warm-up round for the JIT, then the measured cold round and a warm-started round.
+        // A warm-up round for the JIT, then three measured cold rounds: the median is reported, with
+        // the range, since other work on a shared machine moves single runs by about 10%.
         sampler.sample(x, y, CLASSES, null, new float[0], 0);
-        Sample cold = sampler.sample(x, y, CLASSES, null, new float[0], 1);
-        double stepsPerSecond = cold.chainSteps() / cold.seconds();
-        out.printf("sgld_steps_per_s=%.0f%n", stepsPerSecond);
+        double[] rates = new double[MEASURED_ROUNDS];
+        Sample cold = null;
+        for (int r = 0; r < MEASURED_ROUNDS; r++) {
+            cold = sampler.sample(x, y, CLASSES, null, new float[0], 1 + r);
+            rates[r] = cold.chainSteps() / cold.seconds();
+        }
+        java.util.Arrays.sort(rates);
+        double stepsPerSecond = rates[MEASURED_ROUNDS / 2];
+        out.printf("sgld_steps_per_s=%.0f%nsgld_steps_per_s_min=%.0f%nsgld_steps_per_s_max=%.0f%n", stepsPerSecond,
+                rates[0], rates[MEASURED_ROUNDS - 1]);
         out.printf("sgld_gflops=%.1f%n", stepsPerSecond * flopsPerStep() / 1e9);
         if (sgemmGflops > 0) {
             out.printf("sgld_fraction_of_sgemm=%.3f%n", stepsPerSecond * flopsPerStep() / 1e9 / sgemmGflops);
         }
-        Sample warm = sampler.sample(x, y, CLASSES, cold.lastStates(), new float[0], 2);
+        Sample warm = sampler.sample(x, y, CLASSES, cold.lastStates(), new float[0], 1 + MEASURED_ROUNDS);
         out.printf("round_sampling_seconds=%.3f%n", warm.seconds());
         out.printf("round_sampling_chain_steps=%d%n", warm.chainSteps());
     }
