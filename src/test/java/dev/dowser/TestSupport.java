@@ -46,6 +46,31 @@ public final class TestSupport {
         return Database.open(dir, CLOCK);
     }
 
+    /** A clock the test moves by hand, for leases and expiries. */
+    public static final class MutableClock extends Clock {
+
+        private volatile Instant now = NOW;
+
+        public void advance(java.time.Duration d) {
+            now = now.plus(d);
+        }
+
+        @Override
+        public java.time.ZoneId getZone() {
+            return ZoneOffset.UTC;
+        }
+
+        @Override
+        public Clock withZone(java.time.ZoneId zone) {
+            return this;
+        }
+
+        @Override
+        public Instant instant() {
+            return now;
+        }
+    }
+
     public static ImportResult importText(Database db, String pool, String text, ImportSpec spec) {
         return new Importer(db).run(new ByteArrayInputStream(text.getBytes(StandardCharsets.UTF_8)), pool + ".csv",
                 spec, ImportProgress.NONE);

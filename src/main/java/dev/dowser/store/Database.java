@@ -28,6 +28,7 @@ public final class Database implements AutoCloseable {
     private final RecordStore records;
     private final LabelStore labels;
     private final ChainStateStore chains;
+    private final QueueStore queues;
 
     private Database(HikariDataSource dataSource, Clock clock) {
         this.dataSource = dataSource;
@@ -36,6 +37,7 @@ public final class Database implements AutoCloseable {
         this.pools = new PoolStore(dataSource, labels);
         this.records = new RecordStore(dataSource, labels);
         this.chains = new ChainStateStore(dataSource, clock);
+        this.queues = new QueueStore(dataSource, clock);
     }
 
     /** Opens (creating if needed) the database in {@code dataDir} and applies pending migrations. */
@@ -108,6 +110,10 @@ public final class Database implements AutoCloseable {
 
     public ChainStateStore chains() {
         return chains;
+    }
+
+    public QueueStore queues() {
+        return queues;
     }
 
     /**

@@ -1,0 +1,146 @@
+package dev.dowser.store;
+
+import java.sql.Connection;
+import java.sql.PreparedStatement;
+import java.sql.ResultSet;
+import java.sql.SQLException;
+import java.sql.Timestamp;
+import java.time.Clock;
+import java.time.Duration;
+import java.time.Instant;
+import java.util.List;
+import java.util.Optional;
+import javax.sql.DataSource;
+
+/**
+ * Publishes queues and hands their records out under leases. A record goes to one person at a
+ * time: a lease is taken by a conditional update that succeeds only while the entry is free (never
+ * leased, lease run out, or already this person's), so two people asking at once cannot both win
+ * it. Records labelled since the queue was published are skipped.
+ */
+public final class QueueStore {
+
+    private final DataSource ds;
+    private final Clock clock;
+
+    QueueStore(DataSource ds, Clock clock) {
+        this.ds = ds;
+        this.clock = clock;
+    }
+
+    /** Writes a round's queue and makes it the one served, in one transaction. */
+    public void publish(long poolId, int round, List<QueueEntry> entries) {
+        try (Connection c = ds.getConnection()) {
+            c.setAutoCommit(false);
+            try (PreparedStatement ins = c.prepareStatement("INSERT INTO queue_entries (pool_id, round_no, position,"
+                    + " row_no, score, spot_check, prediction) VALUES (?, ?, ?, ?, ?, ?, ?)");
+                 PreparedStatement del = c.prepareStatement("DELETE FROM served_queues WHERE pool_id = ?");
+                 PreparedStatement serve = c.prepareStatement(
+                         "INSERT INTO served_queues (pool_id, round_no) VALUES (?, ?)")) {
+                for (QueueEntry e : entries) {
+                    ins.setLong(1, poolId);
+                    ins.setInt(2, round);
+                    ins.setInt(3, e.position());
+                    ins.setLong(4, e.row());
+                    ins.setDouble(5, e.score());
+                    ins.setBoolean(6, e.spotCheck());
+                    ins.setString(7, e.predictionJson());
+                    ins.addBatch();
+                }
+                ins.executeBatch();
+                del.setLong(1, poolId);
+                del.executeUpdate();
+                serve.setLong(1, poolId);
+                serve.setInt(2, round);
+                serve.executeUpdate();
+                c.commit();
+            } catch (SQLException | RuntimeException e) {
+                c.rollback();
+                throw e;
+            } finally {
+                c.setAutoCommit(true);
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot publish the queue of round " + round + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** The round whose queue is served, if any. */
+    public Optional<Integer> servedRound(long poolId) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT round_no FROM served_queues WHERE pool_id = ?")) {
+            q.setLong(1, poolId);
+            try (ResultSet rs = q.executeQuery()) {
+                return rs.next() ? Optional.of(rs.getInt(1)) : Optional.empty();
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the served queue of pool " + poolId + ": " + e.getMessage(), e);
+        }
+    }
+
+    /**
+     * Leases the first free, still unlabelled record of the served queue to {@code person} for
+     * {@code lease}; a record this person already holds comes back to them first. Empty when the
+     * queue has nothing left to hand out.
+     */
+    public Optional<QueueEntry> lease(long poolId, String person, Duration lease) {
+        Instant now = clock.instant();
+        Instant until = now.plus(lease);
+        try (Connection c = ds.getConnection();
+             PreparedStatement find = c.prepareStatement("SELECT q.round_no, q.position, q.row_no, q.score,"
+                     + " q.spot_check, q.prediction FROM queue_entries q JOIN served_queues s"
+                     + " ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+                     + " WHERE q.pool_id = ? AND (q.leased_to IS NULL OR q.lease_until <= ? OR q.leased_to = ?)"
+                     + " AND NOT EXISTS (SELECT 1 FROM labels l WHERE l.pool_id = q.pool_id AND l.row_no = q.row_no)"
+                     + " ORDER BY CASE WHEN q.leased_to = ? THEN 0 ELSE 1 END, q.position FETCH FIRST 16 ROWS ONLY");
+             PreparedStatement take = c.prepareStatement("UPDATE queue_entries SET leased_to = ?, lease_until = ?"
+                     + " WHERE pool_id = ? AND round_no = ? AND position = ?"
+                     + " AND (leased_to IS NULL OR lease_until <= ? OR leased_to = ?)")) {
+            while (true) {
+                find.setLong(1, poolId);
+                find.setTimestamp(2, Timestamp.from(now));
+                find.setString(3, person);
+                find.setString(4, person);
+                boolean any = false;
+                try (ResultSet rs = find.executeQuery()) {
+                    while (rs.next()) {
+                        any = true;
+                        int round = rs.getInt(1);
+                        int position = rs.getInt(2);
+                        take.setString(1, person);
+                        take.setTimestamp(2, Timestamp.from(until));
+                        take.setLong(3, poolId);
+                        take.setInt(4, round);
+                        take.setInt(5, position);
+                        take.setTimestamp(6, Timestamp.from(now));
+                        take.setString(7, person);
+                        if (take.executeUpdate() == 1) {
+                            return Optional.of(new QueueEntry(round, position, rs.getLong(3), rs.getDouble(4),
+                                    rs.getBoolean(5), rs.getString(6), person, until));
+                        }
+                    }
+                }
+                if (!any) {
+                    return Optional.empty();
+                }
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot lease a record of pool " + poolId + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** Gives a lease back early (a skip): the record is free for the next person at once. */
+    public void release(long poolId, int round, int position, String person) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement u = c.prepareStatement("UPDATE queue_entries SET leased_to = NULL, lease_until = NULL"
+                     + " WHERE pool_id = ? AND round_no = ? AND position = ? AND leased_to = ?")) {
+            u.setLong(1, poolId);
+            u.setInt(2, round);
+            u.setInt(3, position);
+            u.setString(4, person);
+            u.executeUpdate();
+        } catch (SQLException e) {
+            throw new StoreException("cannot release the lease: " + e.getMessage(), e);
+        }
+    }
+}
