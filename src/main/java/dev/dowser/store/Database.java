@@ -29,6 +29,7 @@ public final class Database implements AutoCloseable {
     private final LabelStore labels;
     private final ChainStateStore chains;
     private final QueueStore queues;
+    private final RoundStore rounds;
 
     private Database(HikariDataSource dataSource, Clock clock) {
         this.dataSource = dataSource;
@@ -38,6 +39,7 @@ public final class Database implements AutoCloseable {
         this.records = new RecordStore(dataSource, labels);
         this.chains = new ChainStateStore(dataSource, clock);
         this.queues = new QueueStore(dataSource, clock);
+        this.rounds = new RoundStore(dataSource, clock);
     }
 
     /** Opens (creating if needed) the database in {@code dataDir} and applies pending migrations. */
@@ -114,6 +116,10 @@ public final class Database implements AutoCloseable {
 
     public QueueStore queues() {
         return queues;
+    }
+
+    public RoundStore rounds() {
+        return rounds;
     }
 
     /**

@@ -1,0 +1,46 @@
+package dev.dowser.rounds;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.dowser.json.Json;
+
+/**
+ * A pool's picking settings, kept as JSON with the pool; a missing field takes its default.
+ *
+ * @param batchSize       records a round picks, and labels that start the next round
+ * @param spotCheckShare  share of each queue drawn at random for honest accuracy estimates
+ * @param leaseMinutes    how long a person holds a record before it returns to the queue
+ * @param strategy        how a round picks
+ */
+public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinutes, Strategy strategy) {
+
+    public static final int DEFAULT_BATCH_SIZE = 10;
+    public static final double DEFAULT_SPOT_CHECK_SHARE = 0.10;
+    public static final int DEFAULT_LEASE_MINUTES = 10;
+
+    public PoolSettings {
+        if (batchSize < 1 || batchSize > 1_000) {
+            throw new IllegalArgumentException("batchSize must be 1 to 1000, got " + batchSize);
+        }
+        if (!(spotCheckShare >= 0 && spotCheckShare <= 1)) {
+            throw new IllegalArgumentException("spotCheckShare must lie between 0 and 1, got " + spotCheckShare);
+        }
+        if (leaseMinutes < 1) {
+            throw new IllegalArgumentException("leaseMinutes must be at least 1, got " + leaseMinutes);
+        }
+        if (strategy == null) {
+            throw new IllegalArgumentException("a strategy is required");
+        }
+    }
+
+    public static PoolSettings defaults() {
+        return new PoolSettings(DEFAULT_BATCH_SIZE, DEFAULT_SPOT_CHECK_SHARE, DEFAULT_LEASE_MINUTES, Strategy.BALD);
+    }
+
+    public static PoolSettings parse(String json) {
+        JsonNode n = Json.tree(json == null || json.isBlank() ? "{}" : json);
+        PoolSettings d = defaults();
+        return new PoolSettings(n.path("batchSize").asInt(d.batchSize()),
+                n.path("spotCheckShare").asDouble(d.spotCheckShare()), n.path("leaseMinutes").asInt(d.leaseMinutes()),
+                n.has("strategy") ? Strategy.parse(n.get("strategy").asText()) : d.strategy());
+    }
+}

@@ -1,0 +1,114 @@
+package dev.dowser.rounds;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.dowser.TestSupport;
+import dev.dowser.acquire.PoolScorer;
+import dev.dowser.data.ImportProgress;
+import dev.dowser.data.Importer;
+import dev.dowser.sampler.KernelChoice;
+import dev.dowser.sampler.SamplerConfig;
+import dev.dowser.store.Database;
+import dev.dowser.store.PoolRow;
+import dev.dowser.store.QueueEntry;
+import dev.dowser.store.RoundStore;
+import java.io.IOException;
+import java.io.InputStream;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Optional;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/** Rounds on a pool: the cold start, a round from labels, and a failing round that leaves the queue alone. */
+class RoundServiceTest {
+
+    @TempDir
+    Path dir;
+
+    static SamplerConfig small() {
+        return SamplerConfig.defaults(3).withHidden(List.of(16)).withChains(2, 8).withSteps(100, 50, 5);
+    }
+
+    /** Iris (Fisher 1936, as shipped by Debian's python3-sklearn), imported without its labels. */
+    private Database irisWithoutLabels() throws IOException {
+        TestSupport.OpenDataset iris = TestSupport.openDataset("iris", dir);
+        Database db = TestSupport.openDb(dir.resolve("db"));
+        try (InputStream in = Files.newInputStream(iris.csv())) {
+            new Importer(db).run(in, "iris.csv", TestSupport.csv("iris")
+                    .withFeatures(List.of("f0", "f1", "f2", "f3"))
+                    .withClasses(List.of("setosa", "versicolor", "virginica")), ImportProgress.NONE);
+        }
+        return db;
+    }
+
+    private static List<QueueEntry> drain(Database db, PoolRow pool) {
+        List<QueueEntry> out = new ArrayList<>();
+        for (int i = 0; i < 100; i++) {
+            Optional<QueueEntry> e = db.queues().lease(pool.id(), "person-" + i, Duration.ofMinutes(10));
+            if (e.isEmpty()) {
+                break;
+            }
+            out.add(e.get());
+        }
+        return out;
+    }
+
+    @Test
+    void coldStartThenARoundFromLabels() throws IOException {
+        try (Database db = irisWithoutLabels(); PoolScorer scorer = new PoolScorer(2, 64)) {
+            PoolRow pool = db.pools().require("iris");
+            RoundService rounds = new RoundService(db, small(), scorer);
+            RoundService.Outcome first = rounds.run("iris");
+            assertTrue(first.published(), first.message());
+            assertEquals(1, first.round());
+            assertEquals("none", first.kernel());
+            List<QueueEntry> queue = drain(db, pool);
+            assertEquals(10, queue.size());
+            assertEquals(1, queue.stream().filter(QueueEntry::spotCheck).count(), "a tenth are spot checks");
+            // Label the first batch (class by the petal length, a stand-in labeller for the test).
+            for (QueueEntry e : queue) {
+                db.labels().add(pool.id(), e.row(), e.row() < 50 ? "setosa" : e.row() < 100 ? "versicolor"
+                        : "virginica", "test", null);
+            }
+            RoundService.Outcome second = rounds.run("iris");
+            assertTrue(second.published(), second.message());
+            assertEquals(2, second.round());
+            assertEquals("mala", second.kernel());
+            List<QueueEntry> next = drain(db, pool);
+            assertEquals(10, next.size());
+            for (QueueEntry e : next) {
+                assertFalse(queue.stream().anyMatch(q -> q.row() == e.row()), "a labelled record was queued again");
+                assertTrue(e.predictionJson() != null && e.predictionJson().startsWith("["));
+            }
+            List<RoundStore.RoundRow> rows = db.rounds().list(pool.id());
+            assertEquals("published", rows.get(0).status());
+            assertTrue(rows.get(0).healthJson().contains("rhatMax"));
+        }
+    }
+
+    @Test
+    void aFailingRoundLeavesThePreviousQueueInService() throws IOException {
+        try (Database db = irisWithoutLabels(); PoolScorer scorer = new PoolScorer(2, 64)) {
+            PoolRow pool = db.pools().require("iris");
+            assertTrue(new RoundService(db, small(), scorer).run("iris").published());
+            db.labels().add(pool.id(), 0, "setosa", "test", null);
+            db.labels().add(pool.id(), 70, "versicolor", "test", null);
+            // Plain SGLD with an absurd learning rate diverges at every step: the chain gives up.
+            SamplerConfig broken = small().withKernel(KernelChoice.SGLD).withLearningRate(1e30);
+            RoundService.Outcome failed = new RoundService(db, broken, scorer).run("iris");
+            assertFalse(failed.published());
+            assertTrue(failed.message().contains("diverged"), failed.message());
+            assertEquals(Optional.of(1), db.queues().servedRound(pool.id()), "the first round's queue stays served");
+            RoundStore.RoundRow last = db.rounds().list(pool.id()).get(0);
+            assertEquals("failed", last.status());
+            assertEquals(failed.message(), last.message());
+            assertFalse(drain(db, pool).isEmpty(), "the old queue still hands out records");
+        }
+    }
+}
