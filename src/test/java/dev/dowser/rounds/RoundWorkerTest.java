@@ -1,0 +1,70 @@
+package dev.dowser.rounds;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.dowser.TestSupport;
+import dev.dowser.acquire.PoolScorer;
+import dev.dowser.data.ImportProgress;
+import dev.dowser.data.Importer;
+import dev.dowser.store.Database;
+import dev.dowser.store.PoolRow;
+import dev.dowser.store.QueueEntry;
+import java.io.IOException;
+import java.io.InputStream;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.List;
+import java.util.function.BooleanSupplier;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/** The worker starts a round on request and after every batch of new labels, and only then. */
+class RoundWorkerTest {
+
+    @TempDir
+    Path dir;
+
+    private static void await(BooleanSupplier done, String what) throws InterruptedException {
+        long until = System.nanoTime() + 60_000_000_000L;
+        while (!done.getAsBoolean()) {
+            if (System.nanoTime() > until) {
+                throw new AssertionError("timed out waiting for " + what);
+            }
+            Thread.sleep(20);
+        }
+    }
+
+    @Test
+    void roundsFollowRequestsAndBatchesOfLabels() throws IOException, InterruptedException {
+        // Iris (Fisher 1936, as shipped by Debian's python3-sklearn), imported without its labels.
+        TestSupport.OpenDataset iris = TestSupport.openDataset("iris", dir);
+        try (Database db = TestSupport.openDb(dir.resolve("db")); PoolScorer scorer = new PoolScorer(2, 64)) {
+            try (InputStream in = Files.newInputStream(iris.csv())) {
+                new Importer(db).run(in, "iris.csv", TestSupport.csv("iris").withFeatures(List.of("f0", "f1", "f2", "f3"))
+                        .withClasses(List.of("setosa", "versicolor", "virginica")), ImportProgress.NONE);
+            }
+            PoolRow pool = db.pools().require("iris");
+            try (RoundWorker worker = new RoundWorker(new RoundService(db, RoundServiceTest.small(), scorer), "iris", 5)) {
+                worker.request();
+                await(() -> worker.roundsRun() == 1, "the requested round");
+                assertTrue(worker.lastOutcome().published());
+                for (int i = 0; i < 4; i++) {
+                    QueueEntry e = db.queues().lease(pool.id(), "ana", Duration.ofMinutes(10)).orElseThrow();
+                    db.labels().add(pool.id(), e.row(), "setosa", "ana", null);
+                    worker.labelAdded();
+                }
+                Thread.sleep(200);
+                assertEquals(1, worker.roundsRun(), "four labels of a batch of five must not start a round");
+                assertEquals(1, worker.labelsToNextRound());
+                QueueEntry e = db.queues().lease(pool.id(), "ana", Duration.ofMinutes(10)).orElseThrow();
+                db.labels().add(pool.id(), e.row(), "versicolor", "ana", null);
+                worker.labelAdded();
+                await(() -> worker.roundsRun() == 2, "the round after five labels");
+                assertTrue(worker.lastOutcome().published(), worker.lastOutcome().message());
+                assertEquals(2, db.queues().servedRound(pool.id()).orElseThrow());
+            }
+        }
+    }
+}
