@@ -15,7 +15,11 @@ import dev.dowser.json.Json;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.PoolSummary;
+import dev.dowser.store.QueueEntry;
 import dev.dowser.store.RecordRow;
+import dev.dowser.store.RoundStore;
+import dev.dowser.rounds.PoolSettings;
+import dev.dowser.rounds.Rounds;
 import io.undertow.server.HttpServerExchange;
 import io.undertow.server.RoutingHandler;
 import io.undertow.util.Headers;
@@ -39,10 +43,12 @@ final class Api {
 
     private final Database db;
     private final ImportJobs imports;
+    private final Rounds rounds;
 
-    Api(Database db, ImportJobs imports) {
+    Api(Database db, ImportJobs imports, Rounds rounds) {
         this.db = db;
         this.imports = imports;
+        this.rounds = rounds;
     }
 
     RoutingHandler routes() {
@@ -51,6 +57,9 @@ final class Api {
                 .get("/pools/{pool}", this::pool)
                 .get("/pools/{pool}/records", this::records)
                 .post("/pools/{pool}/labels", this::addLabel)
+                .get("/pools/{pool}/rounds", this::listRounds)
+                .post("/pools/{pool}/rounds", this::requestRound)
+                .post("/pools/{pool}/queue/next", this::nextRecord)
                 .get("/pools/{pool}/export", this::export)
                 .post("/imports", this::startImport)
                 .get("/imports/{id}", this::importStatus)
@@ -151,8 +160,66 @@ final class Api {
         long row = db.records().rowOf(pool.id(), record).orElseThrow(() ->
                 new ApiException(404, "no record '" + record + "' in pool '" + pool.name() + "'"));
         db.labels().add(pool.id(), row, label, by, note);
+        rounds.worker(pool.name()).labelAdded();
         RecordRow r = db.records().page(pool.id(), row, 1).get(0);
         Responses.json(ex, 201, recordJson(r, Json.read(pool.columnRolesJson(), ColumnRoles.class).display()));
+    }
+
+    private void listRounds(HttpServerExchange ex) {
+        PoolRow pool = db.pools().require(param(ex, "pool"));
+        ArrayNode out = Json.array();
+        for (RoundStore.RoundRow r : db.rounds().list(pool.id())) {
+            ObjectNode n = out.addObject().put("round", r.round()).put("status", r.status())
+                    .put("started_at", r.startedAt().toString())
+                    .put("finished_at", r.finishedAt() == null ? null : r.finishedAt().toString())
+                    .put("labels_at_start", r.labelsAtStart()).put("kernel", r.kernel()).put("message", r.message());
+            if (r.healthJson() != null) {
+                n.set("health", Json.tree(r.healthJson()));
+            }
+        }
+        ObjectNode body = Json.object();
+        body.set("rounds", out);
+        db.queues().servedRound(pool.id()).ifPresent(round -> body.put("served_round", round));
+        body.put("labels_to_next_round", rounds.worker(pool.name()).labelsToNextRound());
+        Responses.ok(ex, body);
+    }
+
+    private void requestRound(HttpServerExchange ex) {
+        PoolRow pool = db.pools().require(param(ex, "pool"));
+        rounds.worker(pool.name()).request();
+        Responses.json(ex, 202, Json.object().put("requested", true));
+    }
+
+    /** Leases the next record of the served queue to the person named in the body. */
+    private void nextRecord(HttpServerExchange ex) throws IOException {
+        PoolRow pool = db.pools().require(param(ex, "pool"));
+        ex.startBlocking();
+        byte[] bytes = ex.getInputStream().readNBytes(MAX_LABEL_BODY_BYTES + 1);
+        if (bytes.length > MAX_LABEL_BODY_BYTES) {
+            throw new ApiException(413, "a request may hold at most " + MAX_LABEL_BODY_BYTES + " bytes");
+        }
+        String person = requiredText(Json.tree(new String(bytes, java.nio.charset.StandardCharsets.UTF_8)), "person");
+        if (person.length() > dev.dowser.store.LabelStore.MAX_LABELLER_CHARS) {
+            throw new ApiException(400, "person must be at most " + dev.dowser.store.LabelStore.MAX_LABELLER_CHARS
+                    + " characters");
+        }
+        int leaseMinutes = PoolSettings.parse(pool.settingsJson()).leaseMinutes();
+        java.util.Optional<QueueEntry> next = db.queues().lease(pool.id(), person, java.time.Duration.ofMinutes(leaseMinutes));
+        if (next.isEmpty()) {
+            Responses.json(ex, 200, Json.object().putNull("record").put("message",
+                    "nothing to label in the served queue; the next round will bring more"));
+            return;
+        }
+        QueueEntry e = next.get();
+        RecordRow r = db.records().page(pool.id(), e.row(), 1).get(0);
+        ObjectNode body = Json.object().put("round", e.round()).put("position", e.position())
+                .put("spot_check", e.spotCheck()).put("score", e.score()).put("lease_until", e.leaseUntil().toString());
+        body.set("record", recordJson(r, Json.read(pool.columnRolesJson(), ColumnRoles.class).display()));
+        if (e.predictionJson() != null && !e.spotCheck()) {
+            // Spot checks stay an honest test: the model's belief is not shown for them.
+            body.set("prediction", Json.tree(e.predictionJson()));
+        }
+        Responses.ok(ex, body);
     }
 
     private void export(HttpServerExchange ex) {

@@ -1,5 +1,7 @@
 package dev.dowser.web;
 
+import dev.dowser.rounds.Rounds;
+import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import io.undertow.Handlers;
 import io.undertow.Undertow;
@@ -18,20 +20,30 @@ public final class WebServer implements AutoCloseable {
 
     private static final Logger LOG = LoggerFactory.getLogger(WebServer.class);
     static final long SHUTDOWN_WAIT_MILLIS = 20_000;
+    /** Rounds are reproducible: the chains' generators all come from this seed, the round and the chain. */
+    public static final long DEFAULT_SEED = 1;
 
     private final Undertow undertow;
     private final GracefulShutdownHandler graceful;
     private final ImportJobs imports;
+    private final Rounds rounds;
 
-    private WebServer(Undertow undertow, GracefulShutdownHandler graceful, ImportJobs imports) {
+    private WebServer(Undertow undertow, GracefulShutdownHandler graceful, ImportJobs imports, Rounds rounds) {
         this.undertow = undertow;
         this.graceful = graceful;
         this.imports = imports;
+        this.rounds = rounds;
     }
 
     public static WebServer start(Database db, WebConfig config) {
+        return start(db, config, SamplerConfig.defaults(DEFAULT_SEED));
+    }
+
+    /** Starts the server; rounds sample with {@code sampler}. */
+    public static WebServer start(Database db, WebConfig config, SamplerConfig sampler) {
         ImportJobs imports = new ImportJobs(db, config.spoolDir(), config.maxUploadBytes());
-        HttpHandler api = new BlockingHandler(guarded(new Api(db, imports).routes()));
+        Rounds rounds = new Rounds(db, sampler);
+        HttpHandler api = new BlockingHandler(guarded(new Api(db, imports, rounds).routes()));
         HttpHandler root = Handlers.path(StaticFiles.handler()).addPrefixPath(Api.PREFIX, api);
         GracefulShutdownHandler graceful = Handlers.gracefulShutdown(root);
         Undertow undertow = Undertow.builder()
@@ -39,7 +51,7 @@ public final class WebServer implements AutoCloseable {
                 .setHandler(graceful)
                 .build();
         undertow.start();
-        return new WebServer(undertow, graceful, imports);
+        return new WebServer(undertow, graceful, imports, rounds);
     }
 
     /** Every API exception, thrown anywhere below, becomes one JSON error response. */
@@ -74,6 +86,8 @@ public final class WebServer implements AutoCloseable {
             Thread.currentThread().interrupt();
         }
         imports.close();
+        // A running round finishes (its chains are saved at its end); no new one starts.
+        rounds.close();
         undertow.stop();
     }
 }

@@ -128,6 +128,40 @@ class ApiTest {
         assertEquals("done", state);
     }
 
+    /** Iris (Fisher 1936, as shipped by Debian's python3-sklearn) without its labels: a first round, a lease, a label. */
+    @Test
+    void aRoundIsServedOneRecordAtATime() throws Exception {
+        TestSupport.OpenDataset iris = TestSupport.openDataset("iris", dir);
+        HttpResponse<String> imported = send(at("/api/v1/imports?pool=iris&file_name=iris.csv&features=f0,f1,f2,f3"
+                + "&classes=setosa,versicolor,virginica&wait=true").POST(HttpRequest.BodyPublishers.ofFile(iris.csv())));
+        assertEquals(201, imported.statusCode(), imported.body());
+        assertEquals(202, send(at("/api/v1/pools/iris/rounds").POST(HttpRequest.BodyPublishers.noBody())).statusCode());
+        JsonNode rounds = null;
+        for (int i = 0; i < 500; i++) {
+            rounds = Json.tree(send(at("/api/v1/pools/iris/rounds")).body());
+            if (rounds.has("served_round") && rounds.get("rounds").get(0).get("status").asText().equals("published")) {
+                break;
+            }
+            Thread.sleep(20);
+        }
+        assertEquals(1, rounds.get("served_round").asInt(), rounds.toString());
+        assertEquals("published", rounds.get("rounds").get(0).get("status").asText());
+
+        HttpResponse<String> next = send(at("/api/v1/pools/iris/queue/next").POST(
+                HttpRequest.BodyPublishers.ofString("{\"person\":\"ana\"}")));
+        assertEquals(200, next.statusCode(), next.body());
+        JsonNode lease = Json.tree(next.body());
+        String id = lease.get("record").get("id").asText();
+        // Another person asking at the same time gets another record.
+        JsonNode other = Json.tree(send(at("/api/v1/pools/iris/queue/next").POST(
+                HttpRequest.BodyPublishers.ofString("{\"person\":\"ben\"}"))).body());
+        assertTrue(!id.equals(other.get("record").get("id").asText()), "two people got record " + id);
+        HttpResponse<String> labelled = send(at("/api/v1/pools/iris/labels").POST(HttpRequest.BodyPublishers
+                .ofString("{\"record\":\"" + id + "\",\"label\":\"setosa\",\"labelled_by\":\"ana\"}")));
+        assertEquals(201, labelled.statusCode(), labelled.body());
+        assertEquals(9, Json.tree(send(at("/api/v1/pools/iris/rounds")).body()).get("labels_to_next_round").asInt());
+    }
+
     @Test
     void pagesAreServedWithCachingHeaders() throws Exception {
         HttpResponse<String> page = send(at("/"));

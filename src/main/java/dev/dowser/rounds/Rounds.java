@@ -1,0 +1,33 @@
+package dev.dowser.rounds;
+
+import dev.dowser.acquire.PoolScorer;
+import dev.dowser.sampler.SamplerConfig;
+import dev.dowser.store.Database;
+import java.util.concurrent.ConcurrentHashMap;
+
+/** Every pool's round worker, made when first needed and closed together on shutdown. */
+public final class Rounds implements AutoCloseable {
+
+    private final Database db;
+    private final RoundService service;
+    private final PoolScorer scorer;
+    private final ConcurrentHashMap<String, RoundWorker> workers = new ConcurrentHashMap<>();
+
+    public Rounds(Database db, SamplerConfig config) {
+        this.db = db;
+        this.scorer = PoolScorer.withAllCores();
+        this.service = new RoundService(db, config, scorer);
+    }
+
+    /** The pool's worker; the pool must exist. */
+    public RoundWorker worker(String pool) {
+        int batch = PoolSettings.parse(db.pools().require(pool).settingsJson()).batchSize();
+        return workers.computeIfAbsent(pool, p -> new RoundWorker(service, p, batch));
+    }
+
+    @Override
+    public void close() {
+        workers.values().forEach(RoundWorker::close);
+        scorer.close();
+    }
+}
