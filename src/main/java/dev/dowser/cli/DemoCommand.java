@@ -46,9 +46,10 @@ final class DemoCommand implements Callable<Integer> {
         ImportResult r = DemoPool.load(db, folder, records, seed);
         WebConfig config = new WebConfig(WebConfig.DEFAULT_BIND, port, WebConfig.DEFAULT_MAX_UPLOAD_BYTES,
                 folder.resolve("uploads"));
+        // The first round (a batch spread over the pool by k-means++) is ready before anyone looks.
         ServerRunner.runUntilStopped(db, config, "Dowser demo: " + r.records() + " pump readings in pool '"
                 + r.poolName() + "'\nOpen {address} in your browser  (data: " + folder.toAbsolutePath()
-                + "; Ctrl-C stops)");
+                + "; Ctrl-C stops)", server -> server.requestRound(r.poolName()));
         return 0;
     }
 

@@ -12,7 +12,14 @@ final class ServerRunner {
     }
 
     static void runUntilStopped(Database db, WebConfig config, String banner) {
+        runUntilStopped(db, config, banner, server -> { });
+    }
+
+    /** As above, calling {@code onStart} once the server listens. */
+    static void runUntilStopped(Database db, WebConfig config, String banner,
+                                java.util.function.Consumer<WebServer> onStart) {
         WebServer server = WebServer.start(db, config);
+        onStart.accept(server);
         CountDownLatch stopped = new CountDownLatch(1);
         Runtime.getRuntime().addShutdownHook(new Thread(() -> {
             System.err.println("dowser: stopping; letting requests in flight finish");

@@ -65,6 +65,11 @@ public final class WebServer implements AutoCloseable {
         };
     }
 
+    /** Asks for a round of the pool now, as {@code POST /api/v1/pools/{pool}/rounds} does. */
+    public void requestRound(String pool) {
+        rounds.worker(pool).request();
+    }
+
     public int port() {
         return ((InetSocketAddress) undertow.getListenerInfo().get(0).getAddress()).getPort();
     }
