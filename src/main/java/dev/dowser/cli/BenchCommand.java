@@ -18,10 +18,8 @@ import java.nio.channels.FileChannel;
 import java.nio.file.Path;
 import java.nio.file.StandardOpenOption;
 import java.time.Clock;
-import java.util.Comparator;
 import java.util.SplittableRandom;
 import java.util.concurrent.Callable;
-import java.util.stream.Stream;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Spec;
@@ -88,7 +86,7 @@ final class BenchCommand implements Callable<Integer> {
                 importSuite(out, dir, n / 10, "small");
                 importSuite(out, dir, n, "full");
             } finally {
-                deleteTree(dir);
+                Folders.deleteTree(dir);
             }
         }
         double sgemm = Double.NaN;
@@ -189,13 +187,5 @@ final class BenchCommand implements Callable<Integer> {
             }
         }
         return sum;
-    }
-
-    private static void deleteTree(Path dir) throws IOException {
-        try (Stream<Path> paths = Files.walk(dir)) {
-            for (Path p : paths.sorted(Comparator.reverseOrder()).toList()) {
-                Files.deleteIfExists(p);
-            }
-        }
     }
 }

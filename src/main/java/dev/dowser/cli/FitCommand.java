@@ -1,10 +1,5 @@
 package dev.dowser.cli;
 
-import dev.dowser.data.FeatureMatrix;
-import dev.dowser.data.FileFormat;
-import dev.dowser.data.ImportProgress;
-import dev.dowser.data.ImportSpec;
-import dev.dowser.data.Importer;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.model.Activation;
 import dev.dowser.model.Prior;
@@ -16,17 +11,13 @@ import dev.dowser.sampler.Sample;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.stats.Metrics;
 import dev.dowser.stats.Splits;
-import dev.dowser.store.Database;
 import java.io.IOException;
-import java.io.InputStream;
 import java.io.PrintWriter;
-import java.nio.file.Files;
-import java.nio.file.Path;
-import java.time.Clock;
 import java.util.Arrays;
 import java.util.List;
 import java.util.concurrent.Callable;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
@@ -43,14 +34,8 @@ final class FitCommand implements Callable<Integer> {
     @Spec
     CommandSpec command;
 
-    @Option(names = "--csv", required = true, paramLabel = "F", description = "CSV (or JSON Lines) file with labels.")
-    Path file;
-
-    @Option(names = "--label", required = true, paramLabel = "COL", description = "The label column.")
-    String label;
-
-    @Option(names = "--id", paramLabel = "COL", description = "Id column, left out of the features.")
-    String id;
+    @Mixin
+    LabelledFile input;
 
     @Option(names = "--test-fraction", defaultValue = "0.3", paramLabel = "F",
             description = "Share held out for testing, per class (default: ${DEFAULT-VALUE}).")
@@ -104,45 +89,32 @@ final class FitCommand implements Callable<Integer> {
 
     @Override
     public Integer call() throws IOException {
-        Path work = Files.createTempDirectory("dowser-fit-");
-        try (Database db = Database.open(work, Clock.systemUTC())) {
-            FileFormat format = FileFormat.fromFileName(file.toString());
-            ImportSpec spec = ImportSpec.defaults("fit", format).withLabel(label).withId(id);
-            try (InputStream in = Files.newInputStream(file)) {
-                new Importer(db).run(in, file.getFileName().toString(), spec, ImportProgress.NONE);
-            }
-            FeatureMatrix matrix = FeatureMatrix.load(db, "fit");
-            LabelledSet all = LabelledSet.of(db, "fit", matrix);
-            int classes = all.classes().size();
-            Splits.Split split = Splits.stratified(all.labels(), classes, testFraction, seed);
-            LabelledSet train = all.subset(split.train());
-            LabelledSet test = all.subset(split.test());
-            SamplerConfig config = new SamplerConfig(KernelChoice.parse(kernel), SamplerConfig.DEFAULT_MALA_MAX_ROWS,
-                    hidden, Activation.valueOf(activation.toUpperCase(java.util.Locale.ROOT)),
-                    new Prior(priorScale, Prior.DEFAULT_BIAS_SCALE, hierarchical, Prior.DEFAULT_HYPER_SHAPE), chains,
-                    draws, burnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS, thin, 128, learningRate, 0, temperature,
-                    seed, dev.dowser.sampler.ChainSet.defaultThreads(chains));
-            float[] probe = Arrays.copyOf(test.x(), Math.min(PROBE_ROWS, test.rows()) * test.cols());
-            Sample sample = new PosteriorSampler(config).sample(train.x(), train.labels(), classes, null, probe, 0);
-            float[] p = Predictive.meanProbabilities(sample.layout(), sample.draws(), test.x(), test.rows());
-            Health h = sample.health();
-            PrintWriter out = command.commandLine().getOut();
-            out.printf("train_rows=%d%ntest_rows=%d%naccuracy=%.4f%nnll=%.4f%nece=%.4f%nrhat_max=%.3f%n"
-                            + "ess_min=%.1f%nkernel=%s%nkernel_why=%s%ndraws=%d%ndivergences=%d%nacceptance=%.3f%n"
-                            + "seconds=%.2f%n",
-                    train.rows(), test.rows(), Metrics.accuracy(p, test.labels(), classes),
-                    Metrics.nll(p, test.labels(), classes), Metrics.ece(p, test.labels(), classes, ECE_BINS),
-                    h.rhatMax(), Math.min(h.essBulkMin(), h.essTailMin()), sample.choice().kernel().word(),
-                    sample.choice().why(), sample.draws().size(), h.divergences(), h.acceptance(), sample.seconds());
-            for (String a : h.advice()) {
-                out.println("advice=" + a);
-            }
-            out.flush();
-            return 0;
-        } finally {
-            try (var paths = Files.walk(work)) {
-                paths.sorted(java.util.Comparator.reverseOrder()).forEach(q -> q.toFile().delete());
-            }
+        LabelledSet all = input.read();
+        int classes = all.classes().size();
+        Splits.Split split = Splits.stratified(all.labels(), classes, testFraction, seed);
+        LabelledSet train = all.subset(split.train());
+        LabelledSet test = all.subset(split.test());
+        SamplerConfig config = new SamplerConfig(KernelChoice.parse(kernel), SamplerConfig.DEFAULT_MALA_MAX_ROWS,
+                hidden, Activation.valueOf(activation.toUpperCase(java.util.Locale.ROOT)),
+                new Prior(priorScale, Prior.DEFAULT_BIAS_SCALE, hierarchical, Prior.DEFAULT_HYPER_SHAPE), chains,
+                draws, burnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS, thin, 128, learningRate, 0, temperature,
+                seed, dev.dowser.sampler.ChainSet.defaultThreads(chains));
+        float[] probe = Arrays.copyOf(test.x(), Math.min(PROBE_ROWS, test.rows()) * test.cols());
+        Sample sample = new PosteriorSampler(config).sample(train.x(), train.labels(), classes, null, probe, 0);
+        float[] p = Predictive.meanProbabilities(sample.layout(), sample.draws(), test.x(), test.rows());
+        Health h = sample.health();
+        PrintWriter out = command.commandLine().getOut();
+        out.printf("train_rows=%d%ntest_rows=%d%naccuracy=%.4f%nnll=%.4f%nece=%.4f%nrhat_max=%.3f%n"
+                        + "ess_min=%.1f%nkernel=%s%nkernel_why=%s%ndraws=%d%ndivergences=%d%nacceptance=%.3f%n"
+                        + "seconds=%.2f%n",
+                train.rows(), test.rows(), Metrics.accuracy(p, test.labels(), classes),
+                Metrics.nll(p, test.labels(), classes), Metrics.ece(p, test.labels(), classes, ECE_BINS),
+                h.rhatMax(), Math.min(h.essBulkMin(), h.essTailMin()), sample.choice().kernel().word(),
+                sample.choice().why(), sample.draws().size(), h.divergences(), h.acceptance(), sample.seconds());
+        for (String a : h.advice()) {
+            out.println("advice=" + a);
         }
+        out.flush();
+        return 0;
     }
 }

@@ -1,26 +1,18 @@
 package dev.dowser.cli;
 
-import dev.dowser.data.FeatureMatrix;
-import dev.dowser.data.FileFormat;
-import dev.dowser.data.ImportProgress;
-import dev.dowser.data.ImportSpec;
-import dev.dowser.data.Importer;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.rounds.Simulation;
 import dev.dowser.rounds.SimulationReport;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.sampler.SamplerConfig;
-import dev.dowser.store.Database;
 import java.io.IOException;
-import java.io.InputStream;
 import java.io.PrintWriter;
-import java.nio.file.Files;
 import java.nio.file.Path;
-import java.time.Clock;
 import java.util.List;
 import java.util.concurrent.Callable;
 import java.util.concurrent.atomic.AtomicInteger;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
@@ -35,14 +27,8 @@ final class SimulateCommand implements Callable<Integer> {
     @Spec
     CommandSpec command;
 
-    @Option(names = "--csv", required = true, paramLabel = "F", description = "CSV (or JSON Lines) file with labels.")
-    Path file;
-
-    @Option(names = "--label", required = true, paramLabel = "COL", description = "The label column.")
-    String label;
-
-    @Option(names = "--id", paramLabel = "COL", description = "Id column, left out of the features.")
-    String id;
+    @Mixin
+    LabelledFile input;
 
     @Option(names = "--strategies", split = ",", defaultValue = "bald,random", paramLabel = "S",
             description = "Strategies: bald, power, batchbald, entropy, random (default: ${DEFAULT-VALUE}).")
@@ -87,29 +73,17 @@ final class SimulateCommand implements Callable<Integer> {
         SamplerConfig sampler = SamplerConfig.defaults(1).withChains(SamplerConfig.DEFAULT_CHAINS, draws)
                 .withSteps(Math.max(reburnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS), reburnIn, 10);
         Simulation.Plan plan = new Simulation.Plan(chosen, seeds, seedLabels, batch, budget, testFraction, sampler);
-        Path work = Files.createTempDirectory("dowser-simulate-");
-        try (Database db = Database.open(work, Clock.systemUTC())) {
-            ImportSpec spec = ImportSpec.defaults("simulate", FileFormat.fromFileName(file.toString())).withLabel(label)
-                    .withId(id);
-            try (InputStream in = Files.newInputStream(file)) {
-                new Importer(db).run(in, file.getFileName().toString(), spec, ImportProgress.NONE);
-            }
-            LabelledSet all = LabelledSet.of(db, "simulate", FeatureMatrix.load(db, "simulate"));
-            int total = plan.roundsEach() * chosen.size() * seeds;
-            ProgressBar bar = new ProgressBar(System.err, "rounds");
-            AtomicInteger done = new AtomicInteger();
-            List<Simulation.Point> points = Simulation.run(all, plan, k -> bar.show(done.addAndGet(k), total, done.get()));
-            bar.finish();
-            SimulationReport.write(out, points, plan);
-            PrintWriter w = command.commandLine().getOut();
-            SimulationReport.summary(w, points, plan, targets);
-            w.printf("curves=%s%n", out.resolve(SimulationReport.CSV));
-            w.flush();
-            return 0;
-        } finally {
-            try (var paths = Files.walk(work)) {
-                paths.sorted(java.util.Comparator.reverseOrder()).forEach(q -> q.toFile().delete());
-            }
-        }
+        LabelledSet all = input.read();
+        int total = plan.roundsEach() * chosen.size() * seeds;
+        ProgressBar bar = new ProgressBar(System.err, "rounds");
+        AtomicInteger done = new AtomicInteger();
+        List<Simulation.Point> points = Simulation.run(all, plan, k -> bar.show(done.addAndGet(k), total, done.get()));
+        bar.finish();
+        SimulationReport.write(out, points, plan);
+        PrintWriter w = command.commandLine().getOut();
+        SimulationReport.summary(w, points, plan, targets);
+        w.printf("curves=%s%n", out.resolve(SimulationReport.CSV));
+        w.flush();
+        return 0;
     }
 }
