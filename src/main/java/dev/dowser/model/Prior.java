@@ -89,22 +89,6 @@ public record Prior(double weightScale, double biasScale, boolean hierarchical, 
         }
     }
 
-    /** grad += scale * d log p(theta | tau) / d theta = -scale * tau * theta, layer by layer. */
-    public void addGradient(Layout layout, float[] theta, double[] tau, float[] grad, double scale) {
-        double biasPrecision = 1 / (biasScale * biasScale);
-        for (int l = 0; l < tau.length; l++) {
-            scaleInto(theta, grad, layout.weightOffset(l), layout.weightCount(l), (float) (-scale * tau[l]));
-            scaleInto(theta, grad, layout.biasOffset(l), layout.architecture().fanOut(l),
-                    (float) (-scale * biasPrecision));
-        }
-    }
-
-    private static void scaleInto(float[] x, float[] y, int off, int n, float a) {
-        for (int i = off; i < off + n; i++) {
-            y[i] += a * x[i];
-        }
-    }
-
     /**
      * The conjugate Gibbs step of the hierarchical prior: new layer precisions given the weights.
      * Returns the fixed precisions when the prior is not hierarchical.
