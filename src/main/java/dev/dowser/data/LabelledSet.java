@@ -24,10 +24,10 @@ public record LabelledSet(float[] x, int[] labels, long[] poolRows, int cols, Li
         PoolRow pool = db.pools().require(poolName);
         List<String> classes = pool.classes();
         List<long[]> found = new ArrayList<>();
-        db.records().forEachLabelled(pool.id(), r -> {
-            int k = classes.indexOf(r.label());
+        db.labels().forEachCurrent(pool.id(), l -> {
+            int k = classes.indexOf(l.label());
             if (k >= 0) {
-                found.add(new long[] {r.row(), k});
+                found.add(new long[] {l.row(), k});
             }
         });
         int cols = matrix.cols();

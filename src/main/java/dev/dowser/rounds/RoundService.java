@@ -45,12 +45,11 @@ public final class RoundService {
     public Outcome run(String poolName) {
         PoolRow pool = db.pools().require(poolName);
         PoolSettings settings = PoolSettings.parse(pool.settingsJson());
-        long labels = db.labels().counts(pool.id()).values().stream().mapToLong(Long::longValue).sum();
-        int round = db.rounds().start(pool.id(), labels);
+        Set<Long> labelled = new HashSet<>();
+        db.labels().forEachCurrent(pool.id(), l -> labelled.add(l.row()));
+        int round = db.rounds().start(pool.id(), labelled.size());
         try {
             FeatureMatrix m = matrices.computeIfAbsent(poolName, name -> FeatureMatrix.load(db, name));
-            Set<Long> labelled = new HashSet<>();
-            db.records().forEachLabelled(pool.id(), r -> labelled.add(r.row()));
             int[] candidates = new int[m.rows() - labelled.size()];
             int at = 0;
             for (int i = 0; i < m.rows() && at < candidates.length; i++) {

@@ -56,8 +56,13 @@ public final class LabelStore {
     /** Records per current label; classes with no records are left to the caller. */
     public Map<String, Long> counts(long poolId) {
         Map<String, Long> counts = new LinkedHashMap<>();
-        forEachCurrent(poolId, 0, Long.MAX_VALUE, l -> counts.merge(l.label(), 1L, Long::sum));
+        forEachCurrent(poolId, l -> counts.merge(l.label(), 1L, Long::sum));
         return counts;
+    }
+
+    /** The current label of every labelled record of the pool, in row order, without reading the records. */
+    public void forEachCurrent(long poolId, Consumer<LabelRow> sink) {
+        forEachCurrent(poolId, 0, Long.MAX_VALUE, sink);
     }
 
     /** The current label of each labelled record with row in [from, to), in row order. */
