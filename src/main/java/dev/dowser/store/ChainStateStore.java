@@ -28,44 +28,40 @@ public final class ChainStateStore {
 
     /** Replaces the pool's saved chains with these, in one transaction. */
     public void save(long poolId, List<SavedChain> chains) {
-        try (Connection c = ds.getConnection()) {
-            c.setAutoCommit(false);
-            try (PreparedStatement del = c.prepareStatement("DELETE FROM chain_states WHERE pool_id = ?");
-                 PreparedStatement ins = c.prepareStatement("INSERT INTO chain_states (pool_id, chain_no, round_no,"
-                         + " kernel, network, position, preconditioner, hyper, step_size, step_count, accepted,"
-                         + " proposed, saved_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)")) {
-                del.setLong(1, poolId);
-                del.executeUpdate();
-                Timestamp now = Timestamp.from(clock.instant());
-                for (SavedChain s : chains) {
-                    ins.setLong(1, poolId);
-                    ins.setInt(2, s.chain());
-                    ins.setInt(3, s.round());
-                    ins.setString(4, s.kernel());
-                    ins.setString(5, s.networkJson());
-                    byte[] position = toBytes(s.position());
-                    ins.setBinaryStream(6, new ByteArrayInputStream(position), position.length);
-                    if (s.preconditioner() == null) {
-                        ins.setNull(7, Types.BLOB);
-                    } else {
-                        byte[] v = toBytes(s.preconditioner());
-                        ins.setBinaryStream(7, new ByteArrayInputStream(v), v.length);
+        try {
+            Transactions.run(ds, c -> {
+                try (PreparedStatement del = c.prepareStatement("DELETE FROM chain_states WHERE pool_id = ?");
+                     PreparedStatement ins = c.prepareStatement("INSERT INTO chain_states (pool_id, chain_no, round_no,"
+                             + " kernel, network, position, preconditioner, hyper, step_size, step_count, accepted,"
+                             + " proposed, saved_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)")) {
+                    del.setLong(1, poolId);
+                    del.executeUpdate();
+                    Timestamp now = Timestamp.from(clock.instant());
+                    for (SavedChain s : chains) {
+                        ins.setLong(1, poolId);
+                        ins.setInt(2, s.chain());
+                        ins.setInt(3, s.round());
+                        ins.setString(4, s.kernel());
+                        ins.setString(5, s.networkJson());
+                        byte[] position = toBytes(s.position());
+                        ins.setBinaryStream(6, new ByteArrayInputStream(position), position.length);
+                        if (s.preconditioner() == null) {
+                            ins.setNull(7, Types.BLOB);
+                        } else {
+                            byte[] v = toBytes(s.preconditioner());
+                            ins.setBinaryStream(7, new ByteArrayInputStream(v), v.length);
+                        }
+                        ins.setString(8, s.hyper() == null ? null : Json.write(s.hyper()));
+                        ins.setDouble(9, s.stepSize());
+                        ins.setLong(10, s.step());
+                        ins.setLong(11, s.accepted());
+                        ins.setLong(12, s.proposed());
+                        ins.setTimestamp(13, now);
+                        ins.executeUpdate();
                     }
-                    ins.setString(8, s.hyper() == null ? null : Json.write(s.hyper()));
-                    ins.setDouble(9, s.stepSize());
-                    ins.setLong(10, s.step());
-                    ins.setLong(11, s.accepted());
-                    ins.setLong(12, s.proposed());
-                    ins.setTimestamp(13, now);
-                    ins.executeUpdate();
                 }
-                c.commit();
-            } catch (SQLException | RuntimeException e) {
-                c.rollback();
-                throw e;
-            } finally {
-                c.setAutoCommit(true);
-            }
+                return null;
+            });
         } catch (SQLException e) {
             throw new StoreException("cannot save the chains of pool " + poolId + ": " + e.getMessage(), e);
         }

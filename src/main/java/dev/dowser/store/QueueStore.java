@@ -30,36 +30,32 @@ public final class QueueStore {
 
     /** Writes a round's queue and makes it the one served, in one transaction. */
     public void publish(long poolId, int round, List<QueueEntry> entries) {
-        try (Connection c = ds.getConnection()) {
-            c.setAutoCommit(false);
-            try (PreparedStatement ins = c.prepareStatement("INSERT INTO queue_entries (pool_id, round_no, position,"
-                    + " row_no, score, spot_check, prediction) VALUES (?, ?, ?, ?, ?, ?, ?)");
-                 PreparedStatement del = c.prepareStatement("DELETE FROM served_queues WHERE pool_id = ?");
-                 PreparedStatement serve = c.prepareStatement(
-                         "INSERT INTO served_queues (pool_id, round_no) VALUES (?, ?)")) {
-                for (QueueEntry e : entries) {
-                    ins.setLong(1, poolId);
-                    ins.setInt(2, round);
-                    ins.setInt(3, e.position());
-                    ins.setLong(4, e.row());
-                    ins.setDouble(5, e.score());
-                    ins.setBoolean(6, e.spotCheck());
-                    ins.setString(7, e.predictionJson());
-                    ins.addBatch();
+        try {
+            Transactions.run(ds, c -> {
+                try (PreparedStatement ins = c.prepareStatement("INSERT INTO queue_entries (pool_id, round_no, position,"
+                        + " row_no, score, spot_check, prediction) VALUES (?, ?, ?, ?, ?, ?, ?)");
+                     PreparedStatement del = c.prepareStatement("DELETE FROM served_queues WHERE pool_id = ?");
+                     PreparedStatement serve = c.prepareStatement(
+                             "INSERT INTO served_queues (pool_id, round_no) VALUES (?, ?)")) {
+                    for (QueueEntry e : entries) {
+                        ins.setLong(1, poolId);
+                        ins.setInt(2, round);
+                        ins.setInt(3, e.position());
+                        ins.setLong(4, e.row());
+                        ins.setDouble(5, e.score());
+                        ins.setBoolean(6, e.spotCheck());
+                        ins.setString(7, e.predictionJson());
+                        ins.addBatch();
+                    }
+                    ins.executeBatch();
+                    del.setLong(1, poolId);
+                    del.executeUpdate();
+                    serve.setLong(1, poolId);
+                    serve.setInt(2, round);
+                    serve.executeUpdate();
                 }
-                ins.executeBatch();
-                del.setLong(1, poolId);
-                del.executeUpdate();
-                serve.setLong(1, poolId);
-                serve.setInt(2, round);
-                serve.executeUpdate();
-                c.commit();
-            } catch (SQLException | RuntimeException e) {
-                c.rollback();
-                throw e;
-            } finally {
-                c.setAutoCommit(true);
-            }
+                return null;
+            });
         } catch (SQLException e) {
             throw new StoreException("cannot publish the queue of round " + round + ": " + e.getMessage(), e);
         }

@@ -28,31 +28,26 @@ public final class RoundStore {
 
     /** Records the start of the pool's next round and returns its number (1, 2, ...). */
     public int start(long poolId, long labels) {
-        try (Connection c = ds.getConnection()) {
-            c.setAutoCommit(false);
-            try (PreparedStatement max = c.prepareStatement(
-                         "SELECT COALESCE(MAX(round_no), 0) FROM rounds WHERE pool_id = ?");
-                 PreparedStatement ins = c.prepareStatement("INSERT INTO rounds (pool_id, round_no, status,"
-                         + " started_at, labels_at_start) VALUES (?, ?, 'running', ?, ?)")) {
-                max.setLong(1, poolId);
-                int round;
-                try (ResultSet rs = max.executeQuery()) {
-                    rs.next();
-                    round = rs.getInt(1) + 1;
+        try {
+            return Transactions.run(ds, c -> {
+                try (PreparedStatement max = c.prepareStatement(
+                             "SELECT COALESCE(MAX(round_no), 0) FROM rounds WHERE pool_id = ?");
+                     PreparedStatement ins = c.prepareStatement("INSERT INTO rounds (pool_id, round_no, status,"
+                             + " started_at, labels_at_start) VALUES (?, ?, 'running', ?, ?)")) {
+                    max.setLong(1, poolId);
+                    int round;
+                    try (ResultSet rs = max.executeQuery()) {
+                        rs.next();
+                        round = rs.getInt(1) + 1;
+                    }
+                    ins.setLong(1, poolId);
+                    ins.setInt(2, round);
+                    ins.setTimestamp(3, Timestamp.from(clock.instant()));
+                    ins.setLong(4, labels);
+                    ins.executeUpdate();
+                    return round;
                 }
-                ins.setLong(1, poolId);
-                ins.setInt(2, round);
-                ins.setTimestamp(3, Timestamp.from(clock.instant()));
-                ins.setLong(4, labels);
-                ins.executeUpdate();
-                c.commit();
-                return round;
-            } catch (SQLException | RuntimeException e) {
-                c.rollback();
-                throw e;
-            } finally {
-                c.setAutoCommit(true);
-            }
+            });
         } catch (SQLException e) {
             throw new StoreException("cannot start a round of pool " + poolId + ": " + e.getMessage(), e);
         }
