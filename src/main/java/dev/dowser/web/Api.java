@@ -143,12 +143,7 @@ final class Api {
 
     private void addLabel(HttpServerExchange ex) throws IOException {
         PoolRow pool = db.pools().require(param(ex, "pool"));
-        ex.startBlocking();
-        byte[] bytes = ex.getInputStream().readNBytes(MAX_LABEL_BODY_BYTES + 1);
-        if (bytes.length > MAX_LABEL_BODY_BYTES) {
-            throw new ApiException(413, "a label request may hold at most " + MAX_LABEL_BODY_BYTES + " bytes");
-        }
-        JsonNode body = Json.tree(new String(bytes, java.nio.charset.StandardCharsets.UTF_8));
+        JsonNode body = jsonBody(ex, "a label request");
         String record = requiredText(body, "record");
         String label = requiredText(body, "label");
         String by = requiredText(body, "labelled_by");
@@ -193,12 +188,7 @@ final class Api {
     /** Leases the next record of the served queue to the person named in the body. */
     private void nextRecord(HttpServerExchange ex) throws IOException {
         PoolRow pool = db.pools().require(param(ex, "pool"));
-        ex.startBlocking();
-        byte[] bytes = ex.getInputStream().readNBytes(MAX_LABEL_BODY_BYTES + 1);
-        if (bytes.length > MAX_LABEL_BODY_BYTES) {
-            throw new ApiException(413, "a request may hold at most " + MAX_LABEL_BODY_BYTES + " bytes");
-        }
-        String person = requiredText(Json.tree(new String(bytes, java.nio.charset.StandardCharsets.UTF_8)), "person");
+        String person = requiredText(jsonBody(ex, "a request"), "person");
         if (person.length() > dev.dowser.store.LabelStore.MAX_LABELLER_CHARS) {
             throw new ApiException(400, "person must be at most " + dev.dowser.store.LabelStore.MAX_LABELLER_CHARS
                     + " characters");
@@ -320,6 +310,16 @@ final class Api {
         } catch (NumberFormatException e) {
             throw new ApiException(400, "query parameter '" + name + "' must be a whole number, got '" + v + "'");
         }
+    }
+
+    /** The request's JSON body, refused past {@value #MAX_LABEL_BODY_BYTES} bytes; {@code what} names it in the error. */
+    private static JsonNode jsonBody(HttpServerExchange ex, String what) throws IOException {
+        ex.startBlocking();
+        byte[] bytes = ex.getInputStream().readNBytes(MAX_LABEL_BODY_BYTES + 1);
+        if (bytes.length > MAX_LABEL_BODY_BYTES) {
+            throw new ApiException(413, what + " may hold at most " + MAX_LABEL_BODY_BYTES + " bytes");
+        }
+        return Json.tree(new String(bytes, java.nio.charset.StandardCharsets.UTF_8));
     }
 
     private static String requiredText(JsonNode body, String field) {
