@@ -116,6 +116,46 @@ public final class TestSupport {
         return counts;
     }
 
+    // ---- a reference network -------------------------------------------------------------
+
+    /**
+     * Log class probabilities of one row, log softmax(z), the network written out with plain loops
+     * in double straight from the layout's definition: the reference the fast code is checked against.
+     */
+    public static double[] referenceLogProbabilities(dev.dowser.model.Layout layout, double[] theta, float[] x,
+                                                     int row) {
+        dev.dowser.model.Architecture a = layout.architecture();
+        double[] h = new double[a.inputs()];
+        for (int i = 0; i < h.length; i++) {
+            h[i] = x[row * a.inputs() + i];
+        }
+        for (int l = 0; l < a.layers(); l++) {
+            double[] z = new double[a.fanOut(l)];
+            for (int j = 0; j < z.length; j++) {
+                double v = theta[layout.biasOffset(l) + j];
+                for (int i = 0; i < h.length; i++) {
+                    v += h[i] * theta[layout.weightOffset(l) + i * z.length + j];
+                }
+                boolean hidden = l < a.layers() - 1;
+                z[j] = !hidden ? v : a.activation() == dev.dowser.model.Activation.RELU ? Math.max(0, v) : Math.tanh(v);
+            }
+            h = z;
+        }
+        double max = Double.NEGATIVE_INFINITY;
+        for (double v : h) {
+            max = Math.max(max, v);
+        }
+        double sum = 0;
+        for (double v : h) {
+            sum += Math.exp(v - max);
+        }
+        double lse = max + Math.log(sum);
+        for (int c = 0; c < h.length; c++) {
+            h[c] -= lse;
+        }
+        return h;
+    }
+
     // ---- the open datasets -----------------------------------------------------------------
 
     /** One of the UCI datasets shipped by Debian's python3-sklearn 1.2.1, rewritten with a header. */

@@ -2,6 +2,7 @@ package dev.dowser.acquire;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
+import dev.dowser.TestSupport;
 import dev.dowser.model.Activation;
 import dev.dowser.model.Architecture;
 import dev.dowser.model.Layout;
@@ -13,35 +14,15 @@ import org.junit.jupiter.api.Test;
 /** The fused pool scorer against a plain reference: double precision, one row and one draw at a time, no fusion. */
 class PoolScorerTest {
 
-    /** Class probabilities of one row under one draw, straight from the layout's definition. */
+    /** Class probabilities of one row under one draw, from the plain double reference network. */
     static double[] reference(Layout layout, float[] theta, float[] x, int row) {
-        Architecture a = layout.architecture();
-        double[] h = new double[a.inputs()];
-        for (int i = 0; i < h.length; i++) {
-            h[i] = x[row * a.inputs() + i];
+        double[] t = new double[theta.length];
+        for (int i = 0; i < t.length; i++) {
+            t[i] = theta[i];
         }
-        for (int l = 0; l < a.layers(); l++) {
-            double[] z = new double[a.fanOut(l)];
-            for (int j = 0; j < z.length; j++) {
-                double v = theta[layout.biasOffset(l) + j];
-                for (int i = 0; i < h.length; i++) {
-                    v += h[i] * theta[layout.weightOffset(l) + i * z.length + j];
-                }
-                z[j] = l == a.layers() - 1 ? v : a.activation() == Activation.RELU ? Math.max(0, v) : Math.tanh(v);
-            }
-            h = z;
-        }
-        double max = Double.NEGATIVE_INFINITY;
-        for (double v : h) {
-            max = Math.max(max, v);
-        }
-        double sum = 0;
-        for (double v : h) {
-            sum += Math.exp(v - max);
-        }
-        double[] p = new double[h.length];
-        for (int c = 0; c < h.length; c++) {
-            p[c] = Math.exp(h[c] - max) / sum;
+        double[] p = TestSupport.referenceLogProbabilities(layout, t, x, row);
+        for (int c = 0; c < p.length; c++) {
+            p[c] = Math.exp(p[c]);
         }
         return p;
     }
