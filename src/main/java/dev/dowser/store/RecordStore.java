@@ -100,15 +100,17 @@ public final class RecordStore {
             long end = first + block.size();
             String[] keys = null;
             long[] lines = null;
+            String[][] display = null;
             for (LabelRow l = cursor.peek(); l != null && l.row() < end; l = cursor.peek()) {
                 cursor.next();
                 if (keys == null) {
+                    // The display section is read from its start; decode it once per block, not once per record.
                     keys = block.keys();
                     lines = block.lines();
+                    display = block.display(0, block.size());
                 }
                 int i = (int) (l.row() - first);
-                String[] display = block.display(i, i + 1)[0];
-                sink.accept(new RecordRow(l.row(), keys[i], lines[i], Arrays.asList(display), null, null, null, null)
+                sink.accept(new RecordRow(l.row(), keys[i], lines[i], Arrays.asList(display[i]), null, null, null, null)
                         .withLabel(l));
             }
         }));
