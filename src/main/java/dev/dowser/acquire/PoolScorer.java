@@ -14,9 +14,10 @@ import java.util.concurrent.Future;
 /**
  * Scores every record of a pool from S posterior draws in one fused pass. Rows go in blocks; for
  * each block, the first layer of all draws is one matrix product (the draws' first-layer weights
- * stacked side by side, d x S*h), then each draw's remaining layers, and then, per row and draw,
- * the softmax, the entropy (H = logsumexp(z) - sum p z) and the vote are folded into running sums
- * in double. Nothing of size N x S x C is ever held: memory is the draws plus one block per thread.
+ * stacked side by side, d x S*h), then each draw's remaining layers, the output layer transposed
+ * (classes x rows), and then the softmax, the entropy (H = logsumexp(z) - sum p z) and the vote
+ * are folded into running sums in double, in loops along rows that the JIT vectorises (the
+ * per-element Math.exp they replace took a third of the time on shape (a) of the bench). Nothing of size N x S x C is ever held: memory is the draws plus one block per thread.
  * Blocks are spread over threads; BLAS itself stays single-threaded.
  */
 public final class PoolScorer implements AutoCloseable {
@@ -120,12 +121,16 @@ public final class PoolScorer implements AutoCloseable {
         private final int classes;
         private final float[] hidden;
         private final float[][] deeper;
-        private final float[] logits;
+        private final float[] logitsT;
+        private final float[] rowMax;
+        private final double[] rowSum;
         private final float[] xOnes;
         private final double[] meanP;
         private final double[] meanH;
         private final int[] votes;
-        private final double[] expZ;
+        private final double[] shifted;
+        private final double[] expU;
+        private final double[] sumProduct;
 
         Block(Layout layout, List<float[]> draws, List<Group> groups, int blockRows) {
             this.layout = layout;
@@ -141,12 +146,16 @@ public final class PoolScorer implements AutoCloseable {
             for (int l = 1; l < layers - 1; l++) {
                 deeper[l - 1] = new float[blockRows * arch.fanOut(l)];
             }
-            this.logits = new float[blockRows * classes];
+            this.logitsT = new float[blockRows * classes];
+            this.rowMax = new float[blockRows];
+            this.rowSum = new double[blockRows];
             this.xOnes = new float[blockRows * (arch.inputs() + 1)];
             this.meanP = new double[blockRows * classes];
             this.meanH = new double[blockRows];
             this.votes = new int[blockRows * classes];
-            this.expZ = new double[classes];
+            this.shifted = new double[blockRows * classes];
+            this.expU = new double[blockRows * classes];
+            this.sumProduct = new double[blockRows];
         }
 
         void score(float[] x, int start, int n, Result out) {
@@ -159,6 +168,7 @@ public final class PoolScorer implements AutoCloseable {
             java.util.Arrays.fill(meanP, 0, n * classes, 0);
             java.util.Arrays.fill(meanH, 0, n, 0);
             java.util.Arrays.fill(votes, 0, n * classes, 0);
+            java.util.Arrays.fill(sumProduct, 0, n, 1);
             for (Group g : groups) {
                 int width = g.count() * h1;
                 // First layer of the group's draws at once: hidden = [X 1] [W1; b1], then f. The bias
@@ -169,39 +179,26 @@ public final class PoolScorer implements AutoCloseable {
                 }
                 for (int k = 0; k < g.count(); k++) {
                     float[] theta = draws.get(g.first() + k);
-                    float[] in = hidden;
-                    int inOff = k * h1;
-                    int lda = width;
-                    for (int l = 1; l < layers; l++) {
-                        int fanIn = arch.fanIn(l);
-                        int fanOut = arch.fanOut(l);
-                        float[] outBuf = l == layers - 1 ? logits : deeper[l - 1];
-                        for (int r = 0; r < n; r++) {
-                            System.arraycopy(theta, layout.biasOffset(l), outBuf, r * fanOut, fanOut);
-                        }
-                        Blas.gemm(false, false, n, fanOut, fanIn, 1f, in, inOff, lda, theta, layout.weightOffset(l),
-                                fanOut, 1f, outBuf, 0, fanOut);
-                        if (l < layers - 1) {
-                            activate(outBuf, n * fanOut);
-                        }
-                        in = outBuf;
-                        inOff = 0;
-                        lda = fanOut;
+                    if (layers == 1) {
+                        transposeLogits(hidden, k * classes, width, n);
+                    } else {
+                        forwardDeeper(theta, k * h1, width, n);
                     }
                     accumulate(n);
                 }
+                flushLogs(n);
             }
             for (int r = 0; r < n; r++) {
                 int row = start + r;
                 double h = 0;
                 int mode = 0;
                 for (int c = 0; c < classes; c++) {
-                    double p = meanP[r * classes + c] / s;
+                    double p = meanP[c * n + r] / s;
                     out.meanProbabilities()[row * classes + c] = (float) p;
                     if (p > 0) {
                         h -= p * Math.log(p);
                     }
-                    mode = Math.max(mode, votes[r * classes + c]);
+                    mode = Math.max(mode, votes[c * n + r]);
                 }
                 out.entropy()[row] = h;
                 out.bald()[row] = Math.max(0, h - meanH[r] / s);
@@ -221,34 +218,106 @@ public final class PoolScorer implements AutoCloseable {
             }
         }
 
-        /** Folds one draw's logits into the running sums: p = softmax(z), H = lse - sum p z, the vote. */
-        private void accumulate(int n) {
+        /**
+         * The layers after the first for one draw, whose first-layer output sits at column
+         * {@code inOff} of the hidden buffer. The output layer is computed transposed, logits^T =
+         * W^T h^T (classes x rows), so that {@link #accumulate} runs along rows, in vector lanes.
+         */
+        private void forwardDeeper(float[] theta, int inOff, int lda, int n) {
+            int layers = arch.layers();
+            float[] in = hidden;
+            for (int l = 1; l < layers - 1; l++) {
+                int fanIn = arch.fanIn(l);
+                int fanOut = arch.fanOut(l);
+                float[] outBuf = deeper[l - 1];
+                for (int r = 0; r < n; r++) {
+                    System.arraycopy(theta, layout.biasOffset(l), outBuf, r * fanOut, fanOut);
+                }
+                Blas.gemm(false, false, n, fanOut, fanIn, 1f, in, inOff, lda, theta, layout.weightOffset(l),
+                        fanOut, 1f, outBuf, 0, fanOut);
+                activate(outBuf, n * fanOut);
+                in = outBuf;
+                inOff = 0;
+                lda = fanOut;
+            }
+            int last = layers - 1;
+            int bias = layout.biasOffset(last);
+            for (int c = 0; c < classes; c++) {
+                java.util.Arrays.fill(logitsT, c * n, (c + 1) * n, theta[bias + c]);
+            }
+            Blas.gemm(true, true, classes, n, arch.fanIn(last), 1f, theta, layout.weightOffset(last), classes,
+                    in, inOff, lda, 1f, logitsT, 0, n);
+        }
+
+        /** Without hidden layers the group product already holds the logits; lay them out by class. */
+        private void transposeLogits(float[] z, int colOff, int ld, int n) {
             for (int r = 0; r < n; r++) {
-                int o = r * classes;
-                float max = logits[o];
-                int best = 0;
-                for (int c = 1; c < classes; c++) {
-                    if (logits[o + c] > max) {
-                        max = logits[o + c];
-                        best = c;
-                    }
-                }
-                double sum = 0;
                 for (int c = 0; c < classes; c++) {
-                    double e = Math.exp(logits[o + c] - max);
-                    expZ[c] = e;
-                    sum += e;
+                    logitsT[c * n + r] = z[r * ld + colOff + c];
                 }
-                double inv = 1 / sum;
-                double lse = max + Math.log(sum);
-                double pz = 0;
-                for (int c = 0; c < classes; c++) {
-                    double p = expZ[c] * inv;
-                    meanP[o + c] += p;
-                    pz += p * logits[o + c];
+            }
+        }
+
+        /**
+         * Folds one draw's logits (by class, z[c][r]) into the running sums. With m the row's largest
+         * logit and u = z - m: p = exp(u) / sum, H = log(sum) - sum_c p u, the vote is the first
+         * argmax. Every loop but the vote runs along rows, so the JIT vectorises it, the
+         * exponentials included ({@link FastExp}); the log of each row's sum waits in a product
+         * until the group ends ({@link #flushLogs}).
+         */
+        private void accumulate(int n) {
+            System.arraycopy(logitsT, 0, rowMax, 0, n);
+            for (int c = 1; c < classes; c++) {
+                int o = c * n;
+                for (int r = 0; r < n; r++) {
+                    rowMax[r] = Math.max(rowMax[r], logitsT[o + r]);
                 }
-                meanH[r] += lse - pz;
-                votes[o + best]++;
+            }
+            for (int r = 0; r < n; r++) {
+                int c = 0;
+                while (c < classes - 1 && logitsT[c * n + r] != rowMax[r]) {
+                    c++;
+                }
+                votes[c * n + r]++;
+            }
+            for (int c = 0; c < classes; c++) {
+                int o = c * n;
+                for (int r = 0; r < n; r++) {
+                    shifted[o + r] = logitsT[o + r] - rowMax[r];
+                }
+            }
+            FastExp.exp(shifted, expU, n * classes);
+            java.util.Arrays.fill(rowSum, 0, n, 0);
+            for (int c = 0; c < classes; c++) {
+                int o = c * n;
+                for (int r = 0; r < n; r++) {
+                    rowSum[r] += expU[o + r];
+                }
+            }
+            for (int r = 0; r < n; r++) {
+                rowSum[r] = 1 / rowSum[r];
+            }
+            for (int c = 0; c < classes; c++) {
+                int o = c * n;
+                for (int r = 0; r < n; r++) {
+                    double p = expU[o + r] * rowSum[r];
+                    meanP[o + r] += p;
+                    meanH[r] -= p * shifted[o + r];
+                }
+            }
+            for (int r = 0; r < n; r++) {
+                sumProduct[r] /= rowSum[r];
+            }
+        }
+
+        /**
+         * Adds the logs of the row sums held in the product: one log per row and group instead of
+         * one per row and draw. Each sum lies in [1, C], so a group's product stays below C^32.
+         */
+        private void flushLogs(int n) {
+            for (int r = 0; r < n; r++) {
+                meanH[r] += Math.log(sumProduct[r]);
+                sumProduct[r] = 1;
             }
         }
     }

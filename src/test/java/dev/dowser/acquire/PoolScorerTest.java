@@ -77,6 +77,11 @@ class PoolScorerTest {
     }
 
     @Test
+    void noHiddenLayer() {
+        check(new Architecture(6, List.of(), 5, Activation.RELU), 19, 6, 5);
+    }
+
+    @Test
     void deeperAndTanh() {
         check(new Architecture(5, List.of(7, 6), 3, Activation.TANH), 30, 4, 2);
         check(new Architecture(3, List.of(4, 5, 6), 2, Activation.RELU), 23, 3, 3);
