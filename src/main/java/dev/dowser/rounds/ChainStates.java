@@ -15,12 +15,15 @@ final class ChainStates {
     }
 
     static List<SavedChain> toSaved(Sample sample, int round) {
-        String network = Json.write(sample.layout().architecture());
+        return toSaved(sample.lastStates(), sample.choice().kernel().word(), sample.layout().architecture(), round);
+    }
+
+    static List<SavedChain> toSaved(List<State> states, String kernel, Architecture arch, int round) {
+        String network = Json.write(arch);
         List<SavedChain> out = new ArrayList<>();
-        List<State> states = sample.lastStates();
         for (int c = 0; c < states.size(); c++) {
             State s = states.get(c);
-            out.add(new SavedChain(c, round, sample.choice().kernel().word(), network, s.position(),
+            out.add(new SavedChain(c, round, kernel, network, s.position(),
                     s.preconditioner(), s.hyper(), s.stepSize(), s.step(), s.accepted(), s.proposed()));
         }
         return out;

@@ -43,4 +43,10 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
                 n.path("spotCheckShare").asDouble(d.spotCheckShare()), n.path("leaseMinutes").asInt(d.leaseMinutes()),
                 n.has("strategy") ? Strategy.parse(n.get("strategy").asText()) : d.strategy());
     }
+
+    /** The document kept with the pool, read back by {@link #parse}. */
+    public String toJson() {
+        return Json.write(Json.object().put("batchSize", batchSize).put("spotCheckShare", spotCheckShare)
+                .put("leaseMinutes", leaseMinutes).put("strategy", strategy.word()));
+    }
 }

@@ -5,8 +5,11 @@ import dev.dowser.acquire.PoolScorer;
 import dev.dowser.acquire.SpotChecks;
 import dev.dowser.data.FeatureMatrix;
 import dev.dowser.json.Json;
+import dev.dowser.sampler.Predictive;
 import dev.dowser.sampler.Sample;
 import dev.dowser.sampler.SamplerConfig;
+import dev.dowser.sampler.SamplingStopped;
+import dev.dowser.sampler.StopSignal;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
@@ -14,6 +17,7 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.HashSet;
 import java.util.List;
+import java.util.Map;
 import java.util.Set;
 import java.util.SplittableRandom;
 import java.util.concurrent.ConcurrentHashMap;
@@ -26,28 +30,60 @@ import java.util.concurrent.ConcurrentHashMap;
  */
 public final class RoundService {
 
-    /** What a round did. */
-    public record Outcome(int round, boolean published, int queued, String kernel, String message) {
+    /** What a round did: its status is {@code published}, {@code failed} or {@code stopped}. */
+    public record Outcome(int round, String status, int queued, String kernel, String message, double seconds) {
+
+        public boolean published() {
+            return PUBLISHED.equals(status);
+        }
     }
+
+    public static final String PUBLISHED = "published";
+    public static final String FAILED = "failed";
+    public static final String STOPPED = "stopped";
 
     private final Database db;
     private final SamplerConfig config;
     private final PoolScorer scorer;
+    private final RoundEvents events;
     /** Pools never change after import, so their feature matrices are loaded once. */
     private final ConcurrentHashMap<String, FeatureMatrix> matrices = new ConcurrentHashMap<>();
 
     public RoundService(Database db, SamplerConfig config, PoolScorer scorer) {
+        this(db, config, scorer, RoundEvents.NONE);
+    }
+
+    public RoundService(Database db, SamplerConfig config, PoolScorer scorer, RoundEvents events) {
         this.db = db;
         this.config = config;
         this.scorer = scorer;
+        this.events = events;
     }
 
     public Outcome run(String poolName) {
+        return run(poolName, StopSignal.never());
+    }
+
+    /**
+     * Runs one round. Raising {@code stop} ends the sampling at a safe point: the chains are saved,
+     * the round is recorded as stopped and the served queue stays as it was.
+     */
+    public Outcome run(String poolName, StopSignal stop) {
+        long begun = System.nanoTime();
         PoolRow pool = db.pools().require(poolName);
         PoolSettings settings = PoolSettings.parse(pool.settingsJson());
         Set<Long> labelled = new HashSet<>();
         db.labels().forEachCurrent(pool.id(), l -> labelled.add(l.row()));
         int round = db.rounds().start(pool.id(), labelled.size());
+        events.roundStarted(poolName, round);
+        Outcome outcome = runStarted(pool, settings, labelled, round, stop, begun);
+        events.roundEnded(poolName, outcome);
+        return outcome;
+    }
+
+    private Outcome runStarted(PoolRow pool, PoolSettings settings, Set<Long> labelled, int round, StopSignal stop,
+                               long begun) {
+        String poolName = pool.name();
         try {
             FeatureMatrix m = matrices.computeIfAbsent(poolName, name -> FeatureMatrix.load(db, name));
             int[] candidates = new int[m.rows() - labelled.size()];
@@ -73,28 +109,48 @@ public final class RoundService {
                 kernel = "none";
                 message = "no labels yet: the first batch is spread over the pool by k-means++";
             } else {
-                Sample sample = new PoolPosterior(db, config).sampleRound(poolName, m, probe(m, candidates));
+                Sample sample = new PoolPosterior(db, config).sampleRound(poolName, m, probe(m, candidates), stop);
                 float[] cx = gather(m, candidates);
                 PoolScorer.Result scores = scorer.score(sample.layout(), sample.draws(), cx, candidates.length);
                 int[] picks = BatchPicker.pick(settings.strategy(), b, scores, cx, sample.layout(), sample.draws(), rng);
-                int c = scores.classes();
-                for (SpotChecks.Entry e : SpotChecks.mix(picks, candidates.length, b, settings.spotCheckShare(), rng)) {
-                    float[] p = Arrays.copyOfRange(scores.meanProbabilities(), e.candidate() * c, (e.candidate() + 1) * c);
-                    entries.add(new QueueEntry(round, entries.size(), candidates[e.candidate()],
-                            scores.bald()[e.candidate()], e.spotCheck(), Json.write(p), null, null));
+                List<SpotChecks.Entry> mixed = SpotChecks.mix(picks, candidates.length, b, settings.spotCheckShare(), rng);
+                int[] queued = mixed.stream().mapToInt(e -> candidates[e.candidate()]).toArray();
+                Predictive.Belief belief = Predictive.belief(sample.layout(), sample.draws(), gather(m, queued),
+                        queued.length);
+                for (SpotChecks.Entry e : mixed) {
+                    int i = entries.size();
+                    entries.add(new QueueEntry(round, i, candidates[e.candidate()], scores.bald()[e.candidate()],
+                            e.spotCheck(), beliefJson(belief, i), null, null));
                 }
                 kernel = sample.choice().kernel().word();
                 message = sample.choice().why();
                 health = Json.write(sample.health());
             }
+            db.records().warm(pool.id(), entries.stream().mapToLong(QueueEntry::row).toArray());
             db.queues().publish(pool.id(), round, entries);
             db.rounds().finish(pool.id(), round, kernel, message, health);
-            return new Outcome(round, true, entries.size(), kernel, message);
+            return new Outcome(round, PUBLISHED, entries.size(), kernel, message, seconds(begun));
+        } catch (SamplingStopped e) {
+            String why = "stopped at a safe point because the server is shutting down; the chains were saved"
+                    + " and the next round continues them";
+            db.rounds().stop(pool.id(), round, e.choice().kernel().word(), why);
+            return new Outcome(round, STOPPED, 0, e.choice().kernel().word(), why, seconds(begun));
         } catch (RuntimeException e) {
             String why = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
             db.rounds().fail(pool.id(), round, why);
-            return new Outcome(round, false, 0, null, why);
+            return new Outcome(round, FAILED, 0, null, why, seconds(begun));
         }
+    }
+
+    private static double seconds(long begun) {
+        return (System.nanoTime() - begun) / 1e9;
+    }
+
+    /** The belief kept with a queued record: {"mean": [...], "sd": [...]} over the classes. */
+    private static String beliefJson(Predictive.Belief belief, int i) {
+        int c = belief.classes();
+        return Json.write(Map.of("mean", Arrays.copyOfRange(belief.mean(), i * c, (i + 1) * c),
+                "sd", Arrays.copyOfRange(belief.sd(), i * c, (i + 1) * c)));
     }
 
     private static float[] gather(FeatureMatrix m, int[] rows) {

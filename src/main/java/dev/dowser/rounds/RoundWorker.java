@@ -1,5 +1,6 @@
 package dev.dowser.rounds;
 
+import dev.dowser.sampler.StopSignal;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.TimeUnit;
@@ -11,7 +12,8 @@ import java.util.concurrent.atomic.AtomicReference;
  * A pool's background worker: runs a round on request, and by itself after every {@code batch}
  * new labels. Labelling never waits for it: people keep taking records from the queue being
  * served while the next is computed. Requests that arrive during a round fold into one more round
- * after it. Closing lets a running round finish (its chains are saved at its end) and starts no more.
+ * after it. Closing stops a running round at its chains' next safe point (their states are saved,
+ * the served queue stays) and starts no more.
  */
 public final class RoundWorker implements AutoCloseable {
 
@@ -19,12 +21,13 @@ public final class RoundWorker implements AutoCloseable {
 
     private final RoundService service;
     private final String pool;
-    private final int batch;
+    private volatile int batch;
     private final ExecutorService thread;
     private final AtomicBoolean queued = new AtomicBoolean();
     private final AtomicInteger labelsSinceRound = new AtomicInteger();
     private final AtomicInteger roundsRun = new AtomicInteger();
     private final AtomicReference<RoundService.Outcome> last = new AtomicReference<>();
+    private final StopSignal stop = new StopSignal();
 
     public RoundWorker(RoundService service, String pool, int batch) {
         if (batch < 1) {
@@ -46,7 +49,9 @@ public final class RoundWorker implements AutoCloseable {
             thread.execute(() -> {
                 queued.set(false);
                 labelsSinceRound.set(0);
-                last.set(service.run(pool));
+                if (!stop.requested()) {
+                    last.set(service.run(pool, stop));
+                }
                 roundsRun.incrementAndGet();
             });
         }
@@ -55,6 +60,23 @@ public final class RoundWorker implements AutoCloseable {
     /** Counts a new label; the {@code batch}-th since the last round starts the next. */
     public void labelAdded() {
         if (labelsSinceRound.incrementAndGet() >= batch) {
+            labelsSinceRound.set(0);
+            request();
+        }
+    }
+
+    /** A label was taken back: it no longer counts toward the next round. */
+    public void labelWithdrawn() {
+        labelsSinceRound.updateAndGet(n -> Math.max(0, n - 1));
+    }
+
+    /** The pool's batch size changed: rounds now start after this many labels. */
+    public void batchChanged(int newBatch) {
+        if (newBatch < 1) {
+            throw new IllegalArgumentException("batch must be at least 1, got " + newBatch);
+        }
+        batch = newBatch;
+        if (labelsSinceRound.get() >= newBatch) {
             labelsSinceRound.set(0);
             request();
         }
@@ -75,6 +97,7 @@ public final class RoundWorker implements AutoCloseable {
 
     @Override
     public void close() {
+        stop.request();
         thread.shutdown();
         try {
             if (!thread.awaitTermination(CLOSE_WAIT_SECONDS, TimeUnit.SECONDS)) {

@@ -14,9 +14,13 @@ public final class Rounds implements AutoCloseable {
     private final ConcurrentHashMap<String, RoundWorker> workers = new ConcurrentHashMap<>();
 
     public Rounds(Database db, SamplerConfig config) {
+        this(db, config, RoundEvents.NONE);
+    }
+
+    public Rounds(Database db, SamplerConfig config, RoundEvents events) {
         this.db = db;
         this.scorer = PoolScorer.withAllCores();
-        this.service = new RoundService(db, config, scorer);
+        this.service = new RoundService(db, config, scorer, events);
     }
 
     /** The pool's worker; the pool must exist. */

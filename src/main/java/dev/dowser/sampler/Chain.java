@@ -33,6 +33,11 @@ public final class Chain {
     }
 
     public ChainRun run(State start, ChainConfig config) {
+        return run(start, config, StopSignal.never());
+    }
+
+    /** Runs the round; when {@code stop} is raised the chain ends after the step it is taking. */
+    public ChainRun run(State start, ChainConfig config, StopSignal stop) {
         long begun = System.nanoTime();
         long total = config.totalSteps();
         int n = Math.min(config.batchRows(), target.dataSize());
@@ -41,7 +46,7 @@ public final class Chain {
         double[] drawLogDensity = new double[config.draws()];
         List<Divergence> divergences = new ArrayList<>();
         int inARow = 0;
-        for (long k = 1; k <= total; k++) {
+        for (long k = 1; k <= total && !stop.requested(); k++) {
             Batch batch = kernel.fullBatch() ? Batch.full(target.dataSize()) : nextBatch(n);
             double base = s.stepSize();
             State next = kernel.step(s.withStepSize(base * config.schedule().factor(k, total)), batch, rng)

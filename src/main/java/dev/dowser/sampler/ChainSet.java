@@ -37,9 +37,14 @@ public final class ChainSet implements AutoCloseable {
     }
 
     public List<ChainRun> run(List<Job> jobs, ChainConfig config) {
+        return run(jobs, config, StopSignal.never());
+    }
+
+    /** Runs every job to its end, or each to its next safe point once {@code stop} is raised. */
+    public List<ChainRun> run(List<Job> jobs, ChainConfig config, StopSignal stop) {
         List<Future<ChainRun>> futures = new ArrayList<>();
         for (Job job : jobs) {
-            futures.add(pool.submit(() -> job.chain().run(job.start(), config)));
+            futures.add(pool.submit(() -> job.chain().run(job.start(), config, stop)));
         }
         List<ChainRun> out = new ArrayList<>();
         try {

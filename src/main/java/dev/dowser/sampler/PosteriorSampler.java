@@ -62,6 +62,15 @@ public final class PosteriorSampler {
      * probabilities serve as diagnostics summaries (may be empty).
      */
     public Sample sample(float[] x, int[] labels, int classes, List<State> previous, float[] probe, int round) {
+        return sample(x, labels, classes, previous, probe, round, StopSignal.never());
+    }
+
+    /**
+     * As above; when {@code stop} is raised the chains end at their next safe point and
+     * {@link SamplingStopped} carries their states.
+     */
+    public Sample sample(float[] x, int[] labels, int classes, List<State> previous, float[] probe, int round,
+                         StopSignal stop) {
         long begun = System.nanoTime();
         int rows = labels.length;
         if (rows == 0) {
@@ -107,7 +116,10 @@ public final class PosteriorSampler {
         }
         List<ChainRun> runs;
         try (ChainSet set = new ChainSet(config.threads())) {
-            runs = set.run(jobs, chainConfig);
+            runs = set.run(jobs, chainConfig, stop);
+        }
+        if (stop.requested()) {
+            throw new SamplingStopped(choice, layout, runs.stream().map(ChainRun::last).toList());
         }
         Health health = Health.of(runs, targets.get(0), layout, probe);
         return new Sample(choice, layout, runs, health, warm, (System.nanoTime() - begun) / 1e9,

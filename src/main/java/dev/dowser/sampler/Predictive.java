@@ -12,12 +12,22 @@ public final class Predictive {
     private Predictive() {
     }
 
+    /** Per row and class: the mean probability over draws and its standard deviation across them. */
+    public record Belief(float[] mean, float[] sd, int classes) {
+    }
+
     /** Mean probabilities of {@code rows} rows of x over the draws, row-major (rows x classes). */
     public static float[] meanProbabilities(Layout layout, List<float[]> draws, float[] x, int rows) {
+        return belief(layout, draws, x, rows).mean();
+    }
+
+    /** The mean class probabilities of {@code rows} rows of x over the draws, with their spread across draws. */
+    public static Belief belief(Layout layout, List<float[]> draws, float[] x, int rows) {
         int c = layout.architecture().classes();
         int block = Math.max(1, Math.min(BLOCK_ROWS, rows));
         Mlp mlp = new Mlp(layout, block);
         double[] sum = new double[rows * c];
+        double[] sumSq = new double[rows * c];
         float[] p = new float[block * c];
         for (float[] theta : draws) {
             for (int start = 0; start < rows; start += block) {
@@ -25,13 +35,19 @@ public final class Predictive {
                 mlp.probabilities(theta, x, start, n, p);
                 for (int i = 0; i < n * c; i++) {
                     sum[start * c + i] += p[i];
+                    sumSq[start * c + i] += (double) p[i] * p[i];
                 }
             }
         }
-        float[] out = new float[rows * c];
-        for (int i = 0; i < out.length; i++) {
-            out[i] = (float) (sum[i] / draws.size());
+        int s = draws.size();
+        float[] mean = new float[rows * c];
+        float[] sd = new float[rows * c];
+        for (int i = 0; i < mean.length; i++) {
+            double m = sum[i] / s;
+            mean[i] = (float) m;
+            // Population spread of the draws' probabilities; tiny negatives from rounding read as 0.
+            sd[i] = (float) Math.sqrt(Math.max(0, sumSq[i] / s - m * m));
         }
-        return out;
+        return new Belief(mean, sd, c);
     }
 }

@@ -53,6 +53,47 @@ public final class LabelStore {
         }
     }
 
+    /**
+     * Takes back the current label of the record at {@code row}, which must be {@code person}'s:
+     * appends a withdrawal, after which the record is unlabelled. Returns the label taken back.
+     */
+    public LabelRow withdraw(long poolId, long row, String person) {
+        try {
+            return Transactions.run(ds, c -> {
+                LabelRow newest;
+                try (PreparedStatement q = c.prepareStatement("SELECT label, labelled_by, labelled_at, note, withdrawn"
+                        + " FROM labels WHERE pool_id = ? AND row_no = ? ORDER BY id DESC FETCH FIRST ROW ONLY FOR UPDATE")) {
+                    q.setLong(1, poolId);
+                    q.setLong(2, row);
+                    try (ResultSet rs = q.executeQuery()) {
+                        if (!rs.next() || rs.getBoolean(5)) {
+                            throw new ConflictException("the record has no label to take back");
+                        }
+                        newest = new LabelRow(row, rs.getString(1), rs.getString(2), rs.getTimestamp(3).toInstant(),
+                                rs.getString(4));
+                    }
+                }
+                if (!newest.labelledBy().equals(person)) {
+                    throw new ConflictException("the record's label '" + newest.label() + "' was given by "
+                            + newest.labelledBy() + "; only they can take it back");
+                }
+                try (PreparedStatement p = c.prepareStatement("INSERT INTO labels (pool_id, row_no, label, labelled_by,"
+                        + " labelled_at, note, withdrawn) VALUES (?, ?, ?, ?, ?, ?, TRUE)")) {
+                    p.setLong(1, poolId);
+                    p.setLong(2, row);
+                    p.setString(3, newest.label());
+                    p.setString(4, person);
+                    p.setTimestamp(5, Timestamp.from(clock.instant()));
+                    p.setString(6, null);
+                    p.executeUpdate();
+                }
+                return newest;
+            });
+        } catch (SQLException e) {
+            throw new StoreException("cannot take back the label of row " + row + ": " + e.getMessage(), e);
+        }
+    }
+
     /** Records per current label; classes with no records are left to the caller. */
     public Map<String, Long> counts(long poolId) {
         Map<String, Long> counts = new LinkedHashMap<>();
@@ -80,7 +121,7 @@ public final class LabelStore {
 
     private void withCursor(long poolId, long from, long to, Consumer<Cursor> use) {
         try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT row_no, label, labelled_by, labelled_at, note"
+             PreparedStatement q = c.prepareStatement("SELECT row_no, label, labelled_by, labelled_at, note, withdrawn"
                      + " FROM labels WHERE pool_id = ? AND row_no >= ? AND row_no < ? ORDER BY row_no, id")) {
             q.setFetchSize(4_096);
             q.setLong(1, poolId);
@@ -94,12 +135,13 @@ public final class LabelStore {
         }
     }
 
-    /** Walks the current labels in row order: of several rows for one record, only the newest. */
+    /**
+     * Walks the current labels in row order: of several rows for one record, only the newest, and
+     * nothing for a record whose newest row is a withdrawal.
+     */
     static final class Cursor {
 
         private final ResultSet rs;
-        /** The first stored row of the next record, already read. */
-        private LabelRow lookahead;
         /** The next record's newest label, once worked out. */
         private LabelRow current;
 
@@ -121,27 +163,37 @@ public final class LabelStore {
         }
 
         private LabelRow collapse() {
-            LabelRow newest = lookahead != null ? lookahead : read();
-            lookahead = null;
-            if (newest == null) {
-                return null;
+            while (true) {
+                Stored newest = lookahead != null ? lookahead : read();
+                lookahead = null;
+                if (newest == null) {
+                    return null;
+                }
+                Stored r;
+                while ((r = read()) != null && r.label().row() == newest.label().row()) {
+                    newest = r;
+                }
+                lookahead = r;
+                if (!newest.withdrawn()) {
+                    return newest.label();
+                }
             }
-            LabelRow r;
-            while ((r = read()) != null && r.row() == newest.row()) {
-                newest = r;
-            }
-            lookahead = r;
-            return newest;
         }
 
-        private LabelRow read() {
+        /** The first stored row of the next record, already read. */
+        private Stored lookahead;
+
+        private record Stored(LabelRow label, boolean withdrawn) {
+        }
+
+        private Stored read() {
             try {
                 if (!rs.next()) {
                     return null;
                 }
                 Timestamp at = rs.getTimestamp(4);
-                return new LabelRow(rs.getLong(1), rs.getString(2), rs.getString(3), at.toInstant(),
-                        rs.getString(5));
+                return new Stored(new LabelRow(rs.getLong(1), rs.getString(2), rs.getString(3), at.toInstant(),
+                        rs.getString(5)), rs.getBoolean(6));
             } catch (SQLException e) {
                 throw new StoreException("cannot read labels: " + e.getMessage(), e);
             }

@@ -43,6 +43,20 @@ public final class PoolStore {
         return find(name).orElseThrow(() -> new NotFoundException("no pool named '" + name + "'"));
     }
 
+    /** Replaces the pool's settings document (validated by the caller). */
+    public void updateSettings(long poolId, String settingsJson) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement u = c.prepareStatement("UPDATE pools SET settings = ? WHERE id = ?")) {
+            u.setString(1, settingsJson);
+            u.setLong(2, poolId);
+            if (u.executeUpdate() != 1) {
+                throw new NotFoundException("no pool with id " + poolId);
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot save the settings of pool " + poolId + ": " + e.getMessage(), e);
+        }
+    }
+
     public List<PoolSummary> list() {
         List<PoolRow> pools = new ArrayList<>();
         try (Connection c = ds.getConnection();

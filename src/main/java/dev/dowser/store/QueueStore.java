@@ -8,6 +8,7 @@ import java.sql.Timestamp;
 import java.time.Clock;
 import java.time.Duration;
 import java.time.Instant;
+import java.util.ArrayList;
 import java.util.List;
 import java.util.Optional;
 import javax.sql.DataSource;
@@ -19,6 +20,15 @@ import javax.sql.DataSource;
  * it. Records labelled since the queue was published are skipped.
  */
 public final class QueueStore {
+
+    /** A current label of the queue entry q's record: a label row, not a withdrawal, with none newer. */
+    static final String CURRENT_LABEL = "SELECT 1 FROM labels l WHERE l.pool_id = q.pool_id AND l.row_no = q.row_no"
+            + " AND NOT l.withdrawn AND NOT EXISTS (SELECT 1 FROM labels w WHERE w.pool_id = l.pool_id"
+            + " AND w.row_no = l.row_no AND w.id > l.id)";
+
+    /** One entry of the served queue as the overview shows it. */
+    public record Served(QueueEntry entry, boolean labelled) {
+    }
 
     private final DataSource ds;
     private final Clock clock;
@@ -87,7 +97,7 @@ public final class QueueStore {
                      + " q.spot_check, q.prediction FROM queue_entries q JOIN served_queues s"
                      + " ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
                      + " WHERE q.pool_id = ? AND (q.leased_to IS NULL OR q.lease_until <= ? OR q.leased_to = ?)"
-                     + " AND NOT EXISTS (SELECT 1 FROM labels l WHERE l.pool_id = q.pool_id AND l.row_no = q.row_no)"
+                     + " AND NOT EXISTS (" + CURRENT_LABEL + ")"
                      + " ORDER BY CASE WHEN q.leased_to = ? THEN 0 ELSE 1 END, q.position FETCH FIRST 16 ROWS ONLY");
              PreparedStatement take = c.prepareStatement("UPDATE queue_entries SET leased_to = ?, lease_until = ?"
                      + " WHERE pool_id = ? AND round_no = ? AND position = ?"
@@ -123,6 +133,68 @@ public final class QueueStore {
         } catch (SQLException e) {
             throw new StoreException("cannot lease a record of pool " + poolId + ": " + e.getMessage(), e);
         }
+    }
+
+    /**
+     * Leases the record at {@code row} to {@code person} if the served queue holds it, whoever held
+     * it before: after taking back a label, its record comes back to the one who labelled it.
+     */
+    public void leaseRow(long poolId, long row, String person, Duration lease) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement u = c.prepareStatement("UPDATE queue_entries SET leased_to = ?, lease_until = ?"
+                     + " WHERE pool_id = ? AND row_no = ? AND round_no = (SELECT round_no FROM served_queues"
+                     + " WHERE pool_id = ?)")) {
+            u.setString(1, person);
+            u.setTimestamp(2, Timestamp.from(clock.instant().plus(lease)));
+            u.setLong(3, poolId);
+            u.setLong(4, row);
+            u.setLong(5, poolId);
+            u.executeUpdate();
+        } catch (SQLException e) {
+            throw new StoreException("cannot lease row " + row + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** The served queue in order, with its leases and whether each record has been labelled since. */
+    public List<Served> served(long poolId) {
+        List<Served> out = new ArrayList<>();
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check,"
+                     + " q.prediction, q.leased_to, q.lease_until, EXISTS (" + CURRENT_LABEL + ")"
+                     + " FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+                     + " WHERE q.pool_id = ? ORDER BY q.position")) {
+            q.setLong(1, poolId);
+            try (ResultSet rs = q.executeQuery()) {
+                while (rs.next()) {
+                    Timestamp until = rs.getTimestamp(8);
+                    out.add(new Served(new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getDouble(4),
+                            rs.getBoolean(5), rs.getString(6), rs.getString(7),
+                            until == null ? null : until.toInstant()), rs.getBoolean(9)));
+                }
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the served queue of pool " + poolId + ": " + e.getMessage(), e);
+        }
+        return out;
+    }
+
+    /** Every spot check ever queued for the pool, oldest round first: the model's belief at queue time. */
+    public List<QueueEntry> spotChecks(long poolId) {
+        List<QueueEntry> out = new ArrayList<>();
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT round_no, position, row_no, score, prediction"
+                     + " FROM queue_entries WHERE pool_id = ? AND spot_check ORDER BY round_no, position")) {
+            q.setLong(1, poolId);
+            try (ResultSet rs = q.executeQuery()) {
+                while (rs.next()) {
+                    out.add(new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getDouble(4), true,
+                            rs.getString(5), null, null));
+                }
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the spot checks of pool " + poolId + ": " + e.getMessage(), e);
+        }
+        return out;
     }
 
     /** Gives a lease back early (a skip): the record is free for the next person at once. */

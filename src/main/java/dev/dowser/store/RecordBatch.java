@@ -49,6 +49,11 @@ public final class RecordBatch {
         this.featureLength = new int[capacity];
     }
 
+    /** A batch that is only read back, never stored: the preview of a file's first records. */
+    public static RecordBatch forReading(int cols, int capacity) {
+        return new RecordBatch(cols, new int[0], capacity);
+    }
+
     void clear() {
         Arrays.fill(keys, 0, rows, null);
         Arrays.fill(labels, 0, rows, null);

@@ -33,6 +33,12 @@ public final class RecordStore {
     /** Pools never change after import, so an id index, once built, stays right. */
     private final Map<Long, Map<String, Long>> keyIndex = new ConcurrentHashMap<>();
 
+    /**
+     * Records handed out one at a time (the served queues'), without their labels. Fetching one
+     * record otherwise reads its whole block, 1-2 MB; rounds warm this before publishing a queue.
+     */
+    private final RecordCache cache = new RecordCache(RecordCache.DEFAULT_RECORDS);
+
     RecordStore(DataSource ds, LabelStore labels) {
         this.ds = ds;
         this.labels = labels;
@@ -49,6 +55,14 @@ public final class RecordStore {
             throw new IllegalArgumentException("offset must be 0 or more and limit between 1 and " + MAX_PAGE);
         }
         long end = offset + limit;
+        if (limit == 1) {
+            RecordRow cached = cache.get(poolId, offset);
+            if (cached != null) {
+                LabelRow[] label = new LabelRow[1];
+                labels.forEachCurrent(poolId, offset, end, l -> label[0] = l);
+                return List.of(cached.withLabel(label[0]));
+            }
+        }
         Map<Long, LabelRow> current = new HashMap<>();
         labels.forEachCurrent(poolId, offset, end, l -> current.put(l.row(), l));
         List<RecordRow> out = new ArrayList<>(limit);
@@ -65,6 +79,33 @@ public final class RecordStore {
             }
         });
         return out;
+    }
+
+    /** Reads the given records into the cache, each block once, so that fetching them one by one is quick. */
+    public void warm(long poolId, long[] rows) {
+        long[] sorted = rows.clone();
+        Arrays.sort(sorted);
+        int i = 0;
+        while (i < sorted.length) {
+            int[] next = {i};
+            forEachBlock(poolId, sorted[i], sorted[i] + 1, (first, block) -> {
+                int from = next[0];
+                int to = from;
+                while (to < sorted.length && sorted[to] < first + block.size()) {
+                    to++;
+                }
+                String[] keys = block.keys();
+                long[] lines = block.lines();
+                String[][] display = block.display(0, (int) (sorted[to - 1] - first) + 1);
+                for (int j = from; j < to; j++) {
+                    int k = (int) (sorted[j] - first);
+                    cache.put(poolId, sorted[j], new RecordRow(sorted[j], keys[k], lines[k],
+                            Arrays.asList(display[k]), null, null, null, null));
+                }
+                next[0] = to;
+            });
+            i = Math.max(i + 1, next[0]);
+        }
     }
 
     public Optional<RecordRow> find(long poolId, String key) {

@@ -61,6 +61,11 @@ public final class RoundStore {
         end(poolId, round, "failed", null, message, null);
     }
 
+    /** The round was stopped at a safe point (the server shut down); its chains were saved, its queue not published. */
+    public void stop(long poolId, int round, String kernel, String message) {
+        end(poolId, round, "stopped", kernel, message, null);
+    }
+
     private void end(long poolId, int round, String status, String kernel, String message, String healthJson) {
         try (Connection c = ds.getConnection();
              PreparedStatement u = c.prepareStatement("UPDATE rounds SET status = ?, finished_at = ?, kernel = ?,"

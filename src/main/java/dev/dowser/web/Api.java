@@ -1,6 +1,11 @@
 package dev.dowser.web;
 
-import com.fasterxml.jackson.databind.JsonNode;
+import static dev.dowser.web.Requests.listQuery;
+import static dev.dowser.web.Requests.longQuery;
+import static dev.dowser.web.Requests.param;
+import static dev.dowser.web.Requests.query;
+import static dev.dowser.web.Requests.requiredQuery;
+
 import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import dev.dowser.data.ColumnRoles;
@@ -11,21 +16,17 @@ import dev.dowser.data.FileFormat;
 import dev.dowser.data.ImportResult;
 import dev.dowser.data.ImportSpec;
 import dev.dowser.data.LabelKeys;
+import dev.dowser.data.Preview;
 import dev.dowser.json.Json;
+import dev.dowser.rounds.Rounds;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.PoolSummary;
-import dev.dowser.store.QueueEntry;
 import dev.dowser.store.RecordRow;
-import dev.dowser.store.RoundStore;
-import dev.dowser.rounds.PoolSettings;
-import dev.dowser.rounds.Rounds;
 import io.undertow.server.HttpServerExchange;
 import io.undertow.server.RoutingHandler;
 import io.undertow.util.Headers;
 import java.io.IOException;
-import java.util.Arrays;
-import java.util.Deque;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.ExecutionException;
@@ -39,29 +40,32 @@ final class Api {
 
     static final String PREFIX = "/api/v1";
     static final int DEFAULT_PAGE = 50;
-    static final int MAX_LABEL_BODY_BYTES = 16_384;
+    /** The head of a file that the mapping step reads; the page sends no more than this. */
+    static final int MAX_PREVIEW_BYTES = 1 << 20;
 
     private final Database db;
     private final ImportJobs imports;
     private final Rounds rounds;
+    private final Events events;
 
-    Api(Database db, ImportJobs imports, Rounds rounds) {
+    Api(Database db, ImportJobs imports, Rounds rounds, Events events) {
         this.db = db;
         this.imports = imports;
         this.rounds = rounds;
+        this.events = events;
     }
 
     RoutingHandler routes() {
-        return new RoutingHandler()
+        RoutingHandler routes = new RoutingHandler();
+        new DeskApi(db, rounds, events).addTo(routes);
+        new RoundsApi(db, rounds).addTo(routes);
+        return routes
                 .get("/pools", this::listPools)
                 .get("/pools/{pool}", this::pool)
                 .get("/pools/{pool}/records", this::records)
-                .post("/pools/{pool}/labels", this::addLabel)
-                .get("/pools/{pool}/rounds", this::listRounds)
-                .post("/pools/{pool}/rounds", this::requestRound)
-                .post("/pools/{pool}/queue/next", this::nextRecord)
                 .get("/pools/{pool}/export", this::export)
                 .post("/imports", this::startImport)
+                .post("/previews", this::preview)
                 .get("/imports/{id}", this::importStatus)
                 .setFallbackHandler(ex -> {
                     throw new ApiException(404, "no such resource: " + ex.getRequestMethod() + " "
@@ -141,77 +145,6 @@ final class Api {
         return n;
     }
 
-    private void addLabel(HttpServerExchange ex) throws IOException {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
-        JsonNode body = jsonBody(ex, "a label request");
-        String record = requiredText(body, "record");
-        String label = requiredText(body, "label");
-        String by = requiredText(body, "labelled_by");
-        String note = body.hasNonNull("note") ? body.get("note").asText() : null;
-        if (!pool.classes().contains(label)) {
-            throw new ApiException(400, "label '" + label + "' is not one of the classes "
-                    + String.join(", ", pool.classes()));
-        }
-        long row = db.records().rowOf(pool.id(), record).orElseThrow(() ->
-                new ApiException(404, "no record '" + record + "' in pool '" + pool.name() + "'"));
-        db.labels().add(pool.id(), row, label, by, note);
-        rounds.worker(pool.name()).labelAdded();
-        RecordRow r = db.records().page(pool.id(), row, 1).get(0);
-        Responses.json(ex, 201, recordJson(r, Json.read(pool.columnRolesJson(), ColumnRoles.class).display()));
-    }
-
-    private void listRounds(HttpServerExchange ex) {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
-        ArrayNode out = Json.array();
-        for (RoundStore.RoundRow r : db.rounds().list(pool.id())) {
-            ObjectNode n = out.addObject().put("round", r.round()).put("status", r.status())
-                    .put("started_at", r.startedAt().toString())
-                    .put("finished_at", r.finishedAt() == null ? null : r.finishedAt().toString())
-                    .put("labels_at_start", r.labelsAtStart()).put("kernel", r.kernel()).put("message", r.message());
-            if (r.healthJson() != null) {
-                n.set("health", Json.tree(r.healthJson()));
-            }
-        }
-        ObjectNode body = Json.object();
-        body.set("rounds", out);
-        db.queues().servedRound(pool.id()).ifPresent(round -> body.put("served_round", round));
-        body.put("labels_to_next_round", rounds.worker(pool.name()).labelsToNextRound());
-        Responses.ok(ex, body);
-    }
-
-    private void requestRound(HttpServerExchange ex) {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
-        rounds.worker(pool.name()).request();
-        Responses.json(ex, 202, Json.object().put("requested", true));
-    }
-
-    /** Leases the next record of the served queue to the person named in the body. */
-    private void nextRecord(HttpServerExchange ex) throws IOException {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
-        String person = requiredText(jsonBody(ex, "a request"), "person");
-        if (person.length() > dev.dowser.store.LabelStore.MAX_LABELLER_CHARS) {
-            throw new ApiException(400, "person must be at most " + dev.dowser.store.LabelStore.MAX_LABELLER_CHARS
-                    + " characters");
-        }
-        int leaseMinutes = PoolSettings.parse(pool.settingsJson()).leaseMinutes();
-        java.util.Optional<QueueEntry> next = db.queues().lease(pool.id(), person, java.time.Duration.ofMinutes(leaseMinutes));
-        if (next.isEmpty()) {
-            Responses.json(ex, 200, Json.object().putNull("record").put("message",
-                    "nothing to label in the served queue; the next round will bring more"));
-            return;
-        }
-        QueueEntry e = next.get();
-        RecordRow r = db.records().page(pool.id(), e.row(), 1).get(0);
-        ObjectNode body = Json.object().put("round", e.round()).put("position", e.position())
-                .put("spot_check", e.spotCheck()).put("score", e.score()).put("lease_until", e.leaseUntil().toString());
-        body.set("record", recordJson(r, Json.read(pool.columnRolesJson(), ColumnRoles.class).display()));
-        if (e.predictionJson() != null && !e.spotCheck()) {
-            // Spot checks stay an honest test: the model's belief is not shown for them.
-            body.set("prediction", Json.tree(e.predictionJson()));
-        }
-        Responses.ok(ex, body);
-    }
-
     private void export(HttpServerExchange ex) {
         String name = param(ex, "pool");
         db.pools().require(name);
@@ -242,6 +175,24 @@ final class Api {
         } else {
             Responses.json(ex, 202, statusJson(imports.status(job.id())));
         }
+    }
+
+    /** The first records of a file and suggested column roles, for the mapping step before an import. */
+    private void preview(HttpServerExchange ex) throws IOException {
+        String fileName = query(ex, "file_name", "upload");
+        String formatWord = query(ex, "format", null);
+        FileFormat format = formatWord == null ? FileFormat.fromFileName(fileName) : FileFormat.parse(formatWord);
+        ex.startBlocking();
+        byte[] head = ex.getInputStream().readNBytes(MAX_PREVIEW_BYTES);
+        Preview p = Preview.of(new java.io.ByteArrayInputStream(head), format, Preview.DEFAULT_ROWS);
+        ObjectNode body = Json.object().put("format", format.word());
+        ArrayNode columns = body.putArray("columns");
+        for (int c = 0; c < p.columns().size(); c++) {
+            columns.addObject().put("name", p.columns().get(c)).put("numeric", p.numeric().get(c));
+        }
+        body.set("rows", Json.mapper().valueToTree(p.rows()));
+        body.set("suggested", Json.mapper().valueToTree(p.suggested()));
+        Responses.ok(ex, body);
     }
 
     static ObjectNode statusJson(ImportJobs.Status s) {
@@ -276,57 +227,5 @@ final class Api {
             throw new ApiException(400, "import id must be a number");
         }
         Responses.ok(ex, statusJson(imports.status(id)));
-    }
-
-    private static String param(HttpServerExchange ex, String name) {
-        return ex.getQueryParameters().get(name).getFirst();
-    }
-
-    static String query(HttpServerExchange ex, String name, String fallback) {
-        Deque<String> v = ex.getQueryParameters().get(name);
-        return v == null || v.isEmpty() || v.getFirst().isEmpty() ? fallback : v.getFirst();
-    }
-
-    private static String requiredQuery(HttpServerExchange ex, String name) {
-        String v = query(ex, name, null);
-        if (v == null) {
-            throw new ApiException(400, "query parameter '" + name + "' is required");
-        }
-        return v;
-    }
-
-    private static List<String> listQuery(HttpServerExchange ex, String name) {
-        String v = query(ex, name, null);
-        return v == null ? List.of() : Arrays.stream(v.split(",")).map(String::strip).toList();
-    }
-
-    private static long longQuery(HttpServerExchange ex, String name, long fallback) {
-        String v = query(ex, name, null);
-        if (v == null) {
-            return fallback;
-        }
-        try {
-            return Long.parseLong(v.strip());
-        } catch (NumberFormatException e) {
-            throw new ApiException(400, "query parameter '" + name + "' must be a whole number, got '" + v + "'");
-        }
-    }
-
-    /** The request's JSON body, refused past {@value #MAX_LABEL_BODY_BYTES} bytes; {@code what} names it in the error. */
-    private static JsonNode jsonBody(HttpServerExchange ex, String what) throws IOException {
-        ex.startBlocking();
-        byte[] bytes = ex.getInputStream().readNBytes(MAX_LABEL_BODY_BYTES + 1);
-        if (bytes.length > MAX_LABEL_BODY_BYTES) {
-            throw new ApiException(413, what + " may hold at most " + MAX_LABEL_BODY_BYTES + " bytes");
-        }
-        return Json.tree(new String(bytes, java.nio.charset.StandardCharsets.UTF_8));
-    }
-
-    private static String requiredText(JsonNode body, String field) {
-        JsonNode v = body.get(field);
-        if (v == null || !v.isTextual() || v.asText().isBlank()) {
-            throw new ApiException(400, "field '" + field + "' is required and must be a non-empty string");
-        }
-        return v.asText();
     }
 }

@@ -14,7 +14,8 @@ import org.slf4j.LoggerFactory;
 
 /**
  * The Undertow server: the JSON API under {@code /api/v1} and the pages from {@code web/}.
- * Closing it stops taking requests, lets those in flight finish, then stops.
+ * Closing it stops taking requests, ends the event streams, lets requests in flight finish, stops
+ * a running round at a safe point (its chains saved), then stops.
  */
 public final class WebServer implements AutoCloseable {
 
@@ -27,12 +28,15 @@ public final class WebServer implements AutoCloseable {
     private final GracefulShutdownHandler graceful;
     private final ImportJobs imports;
     private final Rounds rounds;
+    private final Events events;
 
-    private WebServer(Undertow undertow, GracefulShutdownHandler graceful, ImportJobs imports, Rounds rounds) {
+    private WebServer(Undertow undertow, GracefulShutdownHandler graceful, ImportJobs imports, Rounds rounds,
+                      Events events) {
         this.undertow = undertow;
         this.graceful = graceful;
         this.imports = imports;
         this.rounds = rounds;
+        this.events = events;
     }
 
     public static WebServer start(Database db, WebConfig config) {
@@ -42,16 +46,18 @@ public final class WebServer implements AutoCloseable {
     /** Starts the server; rounds sample with {@code sampler}. */
     public static WebServer start(Database db, WebConfig config, SamplerConfig sampler) {
         ImportJobs imports = new ImportJobs(db, config.spoolDir(), config.maxUploadBytes());
-        Rounds rounds = new Rounds(db, sampler);
-        HttpHandler api = new BlockingHandler(guarded(new Api(db, imports, rounds).routes()));
-        HttpHandler root = Handlers.path(StaticFiles.handler()).addPrefixPath(Api.PREFIX, api);
+        Events events = new Events();
+        Rounds rounds = new Rounds(db, sampler, events);
+        HttpHandler api = new BlockingHandler(guarded(new Api(db, imports, rounds, events).routes()));
+        HttpHandler root = Handlers.path(StaticFiles.handler()).addPrefixPath(Api.PREFIX, api)
+                .addExactPath(Api.PREFIX + "/events", events.handler());
         GracefulShutdownHandler graceful = Handlers.gracefulShutdown(root);
         Undertow undertow = Undertow.builder()
                 .addHttpListener(config.port(), config.bind())
                 .setHandler(graceful)
                 .build();
         undertow.start();
-        return new WebServer(undertow, graceful, imports, rounds);
+        return new WebServer(undertow, graceful, imports, rounds, events);
     }
 
     /** Every API exception, thrown anywhere below, becomes one JSON error response. */
@@ -83,6 +89,8 @@ public final class WebServer implements AutoCloseable {
     @Override
     public void close() {
         graceful.shutdown();
+        // Event streams never end by themselves; end them so that only real requests are waited for.
+        events.closeAll();
         try {
             if (!graceful.awaitShutdown(SHUTDOWN_WAIT_MILLIS)) {
                 LOG.warn("requests still running after {} ms; stopping anyway", SHUTDOWN_WAIT_MILLIS);
@@ -91,7 +99,7 @@ public final class WebServer implements AutoCloseable {
             Thread.currentThread().interrupt();
         }
         imports.close();
-        // A running round finishes (its chains are saved at its end); no new one starts.
+        // A running round stops at its chains' next safe point and saves them; no new one starts.
         rounds.close();
         undertow.stop();
     }

@@ -1,0 +1,92 @@
+package dev.dowser.web;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.dowser.json.Json;
+import io.undertow.server.HttpServerExchange;
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.util.Arrays;
+import java.util.Deque;
+import java.util.List;
+
+/** Reading requests: path and query parameters, and bounded JSON bodies, each failing with a message that names the field. */
+final class Requests {
+
+    static final int MAX_JSON_BODY_BYTES = 16_384;
+
+    private Requests() {
+    }
+
+    static String param(HttpServerExchange ex, String name) {
+        return ex.getQueryParameters().get(name).getFirst();
+    }
+
+    static String query(HttpServerExchange ex, String name, String fallback) {
+        Deque<String> v = ex.getQueryParameters().get(name);
+        return v == null || v.isEmpty() || v.getFirst().isEmpty() ? fallback : v.getFirst();
+    }
+
+    static String requiredQuery(HttpServerExchange ex, String name) {
+        String v = query(ex, name, null);
+        if (v == null) {
+            throw new ApiException(400, "query parameter '" + name + "' is required");
+        }
+        return v;
+    }
+
+    static List<String> listQuery(HttpServerExchange ex, String name) {
+        String v = query(ex, name, null);
+        return v == null ? List.of() : Arrays.stream(v.split(",")).map(String::strip).toList();
+    }
+
+    static long longQuery(HttpServerExchange ex, String name, long fallback) {
+        String v = query(ex, name, null);
+        if (v == null) {
+            return fallback;
+        }
+        try {
+            return Long.parseLong(v.strip());
+        } catch (NumberFormatException e) {
+            throw new ApiException(400, "query parameter '" + name + "' must be a whole number, got '" + v + "'");
+        }
+    }
+
+    /** The request's JSON body, refused past {@value #MAX_JSON_BODY_BYTES} bytes; {@code what} names it in the error. */
+    static JsonNode jsonBody(HttpServerExchange ex, String what) throws IOException {
+        ex.startBlocking();
+        byte[] bytes = ex.getInputStream().readNBytes(MAX_JSON_BODY_BYTES + 1);
+        if (bytes.length > MAX_JSON_BODY_BYTES) {
+            throw new ApiException(413, what + " may hold at most " + MAX_JSON_BODY_BYTES + " bytes");
+        }
+        return Json.tree(new String(bytes, StandardCharsets.UTF_8));
+    }
+
+    static String requiredText(JsonNode body, String field) {
+        JsonNode v = body.get(field);
+        if (v == null || !v.isTextual() || v.asText().isBlank()) {
+            throw new ApiException(400, "field '" + field + "' is required and must be a non-empty string");
+        }
+        return v.asText();
+    }
+
+    /** An optional text field: null when absent or null. */
+    static String optionalText(JsonNode body, String field) {
+        JsonNode v = body.get(field);
+        if (v == null || v.isNull()) {
+            return null;
+        }
+        if (!v.isTextual()) {
+            throw new ApiException(400, "field '" + field + "' must be a string");
+        }
+        return v.asText();
+    }
+
+    /** A required whole-number field. */
+    static int requiredInt(JsonNode body, String field) {
+        JsonNode v = body.get(field);
+        if (v == null || !v.canConvertToInt() || !v.isIntegralNumber()) {
+            throw new ApiException(400, "field '" + field + "' is required and must be a whole number");
+        }
+        return v.asInt();
+    }
+}
