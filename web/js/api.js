@@ -32,3 +32,16 @@ async function unwrap(response) {
   }
   return data;
 }
+
+export async function postJson(path, value) {
+  return postBody(path, JSON.stringify(value), 'application/json');
+}
+
+export async function putJson(path, value) {
+  const response = await fetch(`${BASE}/${path}`, {
+    method: 'PUT',
+    headers: { 'Content-Type': 'application/json', Accept: 'application/json' },
+    body: JSON.stringify(value),
+  });
+  return unwrap(response);
+}

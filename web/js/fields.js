@@ -56,3 +56,42 @@ export function fieldList(fields) {
   }
   return dl;
 }
+
+/**
+ * The display fields as a square grey-level image when they are all numbers and their count is a
+ * square of at least 16 (an 8 x 8 digit, a 28 x 28 scan); null otherwise.
+ */
+export function pixelGrid(fields) {
+  const values = Object.values(fields).map((v) => (typeof v === 'string' && v.trim() !== '' ? Number(v) : NaN));
+  const side = Math.round(Math.sqrt(values.length));
+  if (values.length < 16 || side * side !== values.length || !values.every(Number.isFinite)) return null;
+  const min = Math.min(...values);
+  const span = Math.max(...values) - min || 1;
+  const canvas = document.createElement('canvas');
+  canvas.width = side;
+  canvas.height = side;
+  canvas.className = 'pixels';
+  canvas.setAttribute('role', 'img');
+  canvas.setAttribute('aria-label', `${side} by ${side} image of the record's values`);
+  const context = canvas.getContext('2d');
+  const image = context.createImageData(side, side);
+  values.forEach((v, i) => {
+    const ink = 255 - Math.round((255 * (v - min)) / span);
+    image.data.set([ink, ink, ink, 255], i * 4);
+  });
+  context.putImageData(image, 0, 0);
+  return canvas;
+}
+
+/** A record's card body: an image for a pixel grid (fields folded below it), else the field list. */
+export function recordBody(fields) {
+  const grid = pixelGrid(fields);
+  if (!grid) return fieldList(fields);
+  const wrap = document.createElement('div');
+  const details = document.createElement('details');
+  const summary = document.createElement('summary');
+  summary.textContent = 'values';
+  details.append(summary, fieldList(fields));
+  wrap.append(grid, details);
+  return wrap;
+}

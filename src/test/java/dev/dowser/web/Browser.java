@@ -1,0 +1,69 @@
+package dev.dowser.web;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.function.Function;
+import org.openqa.selenium.OutputType;
+import org.openqa.selenium.TimeoutException;
+import org.openqa.selenium.WebDriver;
+import org.openqa.selenium.chrome.ChromeDriver;
+import org.openqa.selenium.chrome.ChromeDriverService;
+import org.openqa.selenium.chrome.ChromeOptions;
+import org.openqa.selenium.support.ui.WebDriverWait;
+
+/**
+ * Debian's Chromium, headless, driven through Debian's chromedriver: nothing is downloaded, and
+ * every background connection is switched off (the test machines have no outside network).
+ */
+final class Browser implements AutoCloseable {
+
+    static final Path CHROMIUM = Path.of("/usr/bin/chromium");
+    static final Path CHROMEDRIVER = Path.of("/usr/bin/chromedriver");
+    static final Path SCREENSHOTS = Path.of("target", "screenshots");
+    static final Duration WAIT = Duration.ofSeconds(60);
+
+    final ChromeDriver driver;
+
+    Browser(Path profile) {
+        if (!Files.isExecutable(CHROMIUM) || !Files.isExecutable(CHROMEDRIVER)) {
+            throw new IllegalStateException("the page tests need Debian's chromium and chromium-driver"
+                    + " (/usr/bin/chromium, /usr/bin/chromedriver); ./dowser test installs them");
+        }
+        ChromeOptions options = new ChromeOptions();
+        options.setBinary(CHROMIUM.toFile());
+        options.addArguments("--headless", "--no-sandbox", "--disable-gpu", "--disable-background-networking",
+                "--disable-component-update", "--disable-sync", "--no-first-run", "--disable-dev-shm-usage",
+                "--window-size=1280,1100", "--user-data-dir=" + profile.toAbsolutePath());
+        ChromeDriverService service = new ChromeDriverService.Builder()
+                .usingDriverExecutable(CHROMEDRIVER.toFile()).usingAnyFreePort().build();
+        this.driver = new ChromeDriver(service, options);
+    }
+
+    /** Waits for the condition; on a timeout, saves a screenshot named after what was awaited. */
+    <T> T await(Function<WebDriver, T> condition, String what) {
+        try {
+            return new WebDriverWait(driver, WAIT).withMessage(what).until(condition);
+        } catch (TimeoutException e) {
+            screenshot("timeout-" + what.replaceAll("[^A-Za-z0-9]+", "-"));
+            throw e;
+        }
+    }
+
+    /** Saves what the page shows as target/screenshots/NAME.png, for a reviewer to look at. */
+    void screenshot(String name) {
+        try {
+            Files.createDirectories(SCREENSHOTS);
+            Files.write(SCREENSHOTS.resolve(name + ".png"), driver.getScreenshotAs(OutputType.BYTES));
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    @Override
+    public void close() {
+        driver.quit();
+    }
+}

@@ -1,0 +1,255 @@
+package dev.dowser.web;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertNull;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.dowser.TestSupport;
+import dev.dowser.json.Json;
+import dev.dowser.sampler.SamplerConfig;
+import dev.dowser.store.Database;
+import java.io.BufferedReader;
+import java.io.StringReader;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import org.junit.jupiter.api.AfterEach;
+import org.junit.jupiter.api.BeforeEach;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.openqa.selenium.By;
+import org.openqa.selenium.Keys;
+import org.openqa.selenium.WebElement;
+import org.openqa.selenium.interactions.Actions;
+import org.openqa.selenium.support.ui.Select;
+
+/**
+ * The pages in a real headless Chromium against the real server and H2 file database. The pool is
+ * the UCI wine data (Forina et al., as shipped by Debian's python3-sklearn 1.2.1) with most labels
+ * removed; its known classes play the labeller, who answers by keyboard.
+ */
+class PagesBrowserTest {
+
+    static final String PERSON = "labeller-a";
+    static final int KNOWN_PER_CLASS = 2;
+
+    @TempDir
+    Path dir;
+    Database db;
+    WebServer server;
+    Browser browser;
+    final HttpClient http = HttpClient.newHttpClient();
+
+    @BeforeEach
+    void start() {
+        db = TestSupport.openDb(dir.resolve("db"));
+        // A small network and short chains: rounds take well under a second, as the desk expects.
+        SamplerConfig quick = SamplerConfig.defaults(3).withHidden(List.of(16)).withChains(2, 8).withSteps(100, 50, 5);
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 24, dir.resolve("uploads")), quick);
+        browser = new Browser(dir.resolve("profile"));
+    }
+
+    @AfterEach
+    void stop() {
+        if (browser != null) {
+            browser.close();
+        }
+        server.close();
+        db.close();
+    }
+
+    /** The wine data with only the first few records of each class labelled; returns each line's true class. */
+    private Map<Long, String> partlyLabelledWine(Path out) throws Exception {
+        TestSupport.OpenDataset wine = TestSupport.openDataset("wine", dir);
+        List<String> lines = Files.readAllLines(wine.csv());
+        Map<Long, String> truth = new HashMap<>();
+        Map<String, Integer> kept = new HashMap<>();
+        List<String> written = new ArrayList<>();
+        written.add(lines.get(0));
+        for (int i = 1; i < lines.size(); i++) {
+            String line = lines.get(i);
+            String label = line.substring(line.lastIndexOf(',') + 1);
+            truth.put((long) i + 1, label);
+            boolean keep = kept.merge(label, 1, Integer::sum) <= KNOWN_PER_CLASS;
+            written.add(keep ? line : line.substring(0, line.lastIndexOf(',') + 1));
+        }
+        Files.write(out, written);
+        return truth;
+    }
+
+    private String base() {
+        return "http://127.0.0.1:" + server.port() + "/";
+    }
+
+    private WebElement byId(String id) {
+        return browser.driver.findElement(By.id(id));
+    }
+
+    private String cardId() {
+        WebElement card = byId("card");
+        return card.isDisplayed() ? byId("card-id").getText() : "";
+    }
+
+    private void press(CharSequence key) {
+        new Actions(browser.driver).sendKeys(key).perform();
+    }
+
+    @Test
+    void aPoolFromUploadToExportByKeyboard() throws Exception {
+        Path file = dir.resolve("wine-part.csv");
+        Map<Long, String> truth = partlyLabelledWine(file);
+        List<String> classes = List.of("class_0", "class_1", "class_2");
+
+        // Pools page: upload, then the mapping step with its suggested roles.
+        browser.driver.get(base());
+        browser.await(d -> byId("pools-empty").isDisplayed(), "the empty pool list");
+        byId("import-form").findElement(By.name("pool")).sendKeys("wine-part");
+        byId("import-form").findElement(By.name("file")).sendKeys(file.toAbsolutePath().toString());
+        byId("preview-button").click();
+        browser.await(d -> byId("mapping").isDisplayed(), "the mapping step");
+        List<WebElement> roles = byId("mapping").findElements(By.tagName("select"));
+        assertEquals(14, roles.size(), "one role per column: 13 features and the label");
+        assertEquals("label", new Select(roles.get(13)).getFirstSelectedOption().getAttribute("value"));
+        assertEquals("feature-shown", new Select(roles.get(0)).getFirstSelectedOption().getAttribute("value"));
+        browser.screenshot("1-pools-mapping");
+        byId("import-button").click();
+        browser.await(d -> !d.findElements(By.id("new-pool-link")).isEmpty(), "the import to finish");
+        assertTrue(byId("import-message").getText().contains("178 records"), byId("import-message").getText());
+        browser.screenshot("2-pools-imported");
+
+        // Overview: ask for the first round and see its queue.
+        byId("new-pool-link").click();
+        browser.await(d -> byId("pool-facts").getText().contains("178 records"), "the overview");
+        byId("round-now").click();
+        browser.await(d -> !byId("queue").findElements(By.cssSelector("tbody tr")).isEmpty(), "the first queue");
+        browser.screenshot("3-overview-first-round");
+
+        // Desk: name, then 20 labels by keyboard only.
+        browser.driver.get(base() + "desk.html?pool=wine-part");
+        WebElement who = browser.await(d -> byId("who").isDisplayed() ? byId("who") : null, "the name form");
+        who.findElement(By.name("person")).sendKeys(PERSON, Keys.ENTER);
+        browser.await(d -> !cardId().isEmpty(), "the first record on the desk");
+        browser.driver.executeScript("window.__sameDocument = true;");
+        String firstProgress = byId("progress").getText();
+        assertTrue(firstProgress.contains("round 1"), firstProgress);
+        browser.screenshot("4-desk");
+
+        Map<String, String> given = new LinkedHashMap<>();
+        String previous = "";
+        for (int i = 0; i < 20; i++) {
+            String shown = previous;
+            String id = browser.await(d -> {
+                String now = cardId();
+                return now.isEmpty() || now.equals(shown) ? null : now;
+            }, "record " + (i + 1) + " on the desk");
+            assertFalse(given.containsKey(id), "record " + id + " was handed out twice");
+            String answer = truth.get(Long.parseLong(id));
+            press(String.valueOf(classes.indexOf(answer) + 1));
+            given.put(id, answer);
+            previous = id;
+        }
+        // The tenth and twentieth labels started rounds 2 and 3; the page heard without a reload.
+        browser.await(d -> byId("progress").getText().contains("round 3"), "round 3 announced on the desk");
+        assertEquals(Boolean.TRUE, browser.driver.executeScript("return window.__sameDocument === true;"));
+        assertTrue(byId("progress").getText().contains("20 labelled this session"), byId("progress").getText());
+
+        // Undo the last label: that record comes back; label it again, differently.
+        String last = previous;
+        browser.await(d -> !cardId().isEmpty() && !cardId().equals(last), "the record after the last");
+        press(Keys.BACK_SPACE);
+        browser.await(d -> cardId().equals(last), "the taken-back record shown again");
+        assertTrue(byId("desk-message").getText().contains("Took back"), byId("desk-message").getText());
+        browser.screenshot("5-desk-after-undo");
+        String changed = classes.get((classes.indexOf(given.get(last)) + 1) % classes.size());
+        press(String.valueOf(classes.indexOf(changed) + 1));
+        given.put(last, changed);
+        browser.await(d -> !cardId().isEmpty() && !cardId().equals(last), "the desk moving on");
+        if (byId("belief-toggle").isEnabled()) {
+            press(".");
+            browser.await(d -> byId("belief").isDisplayed(), "the model's belief");
+        }
+        browser.screenshot("6-desk-belief");
+
+        // Overview again: rounds with their health, accuracy panel, queue.
+        browser.driver.get(base() + "overview.html?pool=wine-part");
+        browser.await(d -> byId("rounds").findElements(By.cssSelector("tbody tr")).size() >= 3, "three rounds listed");
+        browser.await(d -> !byId("health").getText().isEmpty(), "chain health");
+        browser.screenshot("7-overview");
+
+        // Export from the overview's link: exactly the labels given, the undone one as relabelled.
+        String href = byId("export-jsonl").getAttribute("href");
+        HttpResponse<String> export = http.send(HttpRequest.newBuilder(URI.create(href)).build(),
+                HttpResponse.BodyHandlers.ofString());
+        assertEquals(200, export.statusCode());
+        Map<String, String> exported = new LinkedHashMap<>();
+        try (BufferedReader r = new BufferedReader(new StringReader(export.body()))) {
+            for (String line = r.readLine(); line != null; line = r.readLine()) {
+                JsonNode n = Json.tree(line);
+                if (PERSON.equals(n.path("labelled_by").asText())) {
+                    exported.put(n.get("id").asText(), n.get("label").asText());
+                }
+            }
+        }
+        assertEquals(given, exported);
+    }
+
+    @Test
+    void displayFieldsAreTextNeverMarkup() throws Exception {
+        String csv = "id,reading,remark,state\n"
+                + "h1,1.0,<script>window.__pwned = 1</script>,\n"
+                + "h2,2.0,\"<img src=x onerror=\"\"window.__pwned = 2\"\">\",\n"
+                + "k1,0.5,plain,ok\n"
+                + "k2,3.5,plain,fault\n";
+        HttpResponse<String> up = http.send(HttpRequest.newBuilder(URI.create(base()
+                        + "api/v1/imports?pool=hostile&file_name=h.csv&id=id&label=state&wait=true"))
+                .POST(HttpRequest.BodyPublishers.ofString(csv)).build(), HttpResponse.BodyHandlers.ofString());
+        assertEquals(201, up.statusCode(), up.body());
+        server.requestRound("hostile");
+        long until = System.nanoTime() + 30_000_000_000L;
+        while (db.queues().servedRound(db.pools().require("hostile").id()).isEmpty() && System.nanoTime() < until) {
+            Thread.sleep(50);
+        }
+
+        browser.driver.get(base() + "desk.html?pool=hostile");
+        browser.await(d -> byId("who").isDisplayed(), "the name form");
+        byId("who").findElement(By.name("person")).sendKeys("labeller-b", Keys.ENTER);
+        List<String> seen = new ArrayList<>();
+        for (int i = 0; i < 2; i++) {
+            int shownBefore = seen.size();
+            String id = browser.await(d -> {
+                String now = cardId();
+                return now.isEmpty() || seen.contains(now) ? null : now;
+            }, "a hostile record on the desk");
+            seen.add(id);
+            String text = byId("card").getText();
+            if (id.equals("h1")) {
+                assertTrue(text.contains("<script>window.__pwned = 1</script>"), text);
+            } else {
+                assertTrue(text.contains("<img src=x onerror=\"window.__pwned = 2\">"), text);
+            }
+            assertTrue(byId("card").findElements(By.tagName("img")).isEmpty(), "markup became an element");
+            assertTrue(byId("card").findElements(By.tagName("script")).isEmpty(), "markup became an element");
+            browser.screenshot("8-desk-hostile-" + id);
+            assertEquals(shownBefore + 1, seen.size());
+            press("1");
+        }
+        assertNull(browser.driver.executeScript("return window.__pwned === undefined ? null : window.__pwned;"));
+
+        browser.driver.get(base() + "?pool=hostile");
+        browser.await(d -> byId("records").findElements(By.className("record")).size() == 4, "the record cards");
+        String cards = byId("records").getText();
+        assertTrue(cards.contains("<script>window.__pwned = 1</script>"), cards);
+        assertTrue(byId("records").findElements(By.tagName("img")).isEmpty());
+        assertNull(browser.driver.executeScript("return window.__pwned === undefined ? null : window.__pwned;"));
+    }
+}

@@ -1,0 +1,307 @@
+// The labelling desk: one record at a time, labelled by keyboard, never waiting for the model.
+import { getJson, postJson } from './api.js';
+import { recordBody } from './fields.js';
+
+const $ = (id) => document.getElementById(id);
+const PERSON_KEY = 'dowser.person';
+const BELIEF_KEY = 'dowser.showBelief';
+
+const state = {
+  pool: null,
+  person: null,
+  classes: [],
+  current: null, // the assignment being shown: {round, position, spot_check, record, belief}
+  last: null, // the last label given: {assignment, label}
+  labelledThisSession: 0,
+  showBelief: localStorage.getItem(BELIEF_KEY) === 'true',
+  beliefOpen: false,
+  busy: false,
+  wantNext: false, // a round arrived while busy with nothing shown: fetch once free
+  progress: null,
+};
+
+function say(text, isError = false) {
+  $('desk-message').textContent = text;
+  $('desk-message').className = isError ? 'message error' : 'message';
+}
+
+function showProgress(progress) {
+  if (progress) {
+    // Replies and events can cross: a reply computed before a round was published must not
+    // take the newer round number back.
+    const served = Math.max(progress.served_round || 0, (state.progress && state.progress.served_round) || 0);
+    state.progress = { ...state.progress, ...progress, served_round: served || null };
+  }
+  const p = state.progress || {};
+  const parts = [`${state.labelledThisSession} labelled this session`];
+  parts.push(p.served_round ? `round ${p.served_round}` : 'no round yet');
+  if (p.labels_to_next_round !== undefined) {
+    parts.push(p.labels_to_next_round === 0 ? 'next round under way'
+      : `next round in ${p.labels_to_next_round} label${p.labels_to_next_round === 1 ? '' : 's'}`);
+  }
+  $('progress').textContent = parts.join(' · ');
+}
+
+function renderChoices() {
+  const box = $('choices');
+  box.replaceChildren();
+  for (const c of state.classes) {
+    const b = document.createElement('button');
+    b.type = 'button';
+    b.className = 'choice';
+    b.dataset.label = c.name;
+    if (c.key) {
+      const k = document.createElement('kbd');
+      k.textContent = c.key;
+      b.append(k);
+    }
+    b.append(document.createTextNode(c.name));
+    b.addEventListener('click', () => label(c.name));
+    box.append(b);
+  }
+}
+
+function renderBelief() {
+  const a = state.current;
+  const panel = $('belief');
+  const toggle = $('belief-toggle');
+  if (!a || !a.belief || !a.belief.mean) {
+    panel.hidden = true;
+    toggle.disabled = true;
+    return;
+  }
+  toggle.disabled = false;
+  panel.hidden = !state.beliefOpen;
+  toggle.firstChild.textContent = state.beliefOpen ? 'Hide model belief ' : 'Show model belief ';
+  $('belief-hint').textContent = a.spot_check
+    ? 'This record is a spot check: the model is tested on it, so its belief starts hidden.'
+    : 'Mean probability over the posterior draws; the whisker spans one standard deviation across them.';
+  const bars = $('belief-bars');
+  bars.replaceChildren();
+  a.belief.mean.forEach((mean, i) => {
+    const sd = a.belief.sd ? a.belief.sd[i] : 0;
+    const row = document.createElement('div');
+    row.className = 'belief-row';
+    const name = document.createElement('span');
+    name.className = 'belief-name';
+    name.textContent = state.classes[i] ? state.classes[i].name : `class ${i + 1}`;
+    const track = document.createElement('span');
+    track.className = 'belief-track';
+    const fill = document.createElement('span');
+    fill.className = 'belief-fill';
+    fill.style.width = `${(100 * mean).toFixed(1)}%`;
+    const whisker = document.createElement('span');
+    whisker.className = 'belief-spread';
+    whisker.style.left = `${(100 * Math.max(0, mean - sd)).toFixed(1)}%`;
+    whisker.style.width = `${(100 * (Math.min(1, mean + sd) - Math.max(0, mean - sd))).toFixed(1)}%`;
+    track.append(fill, whisker);
+    const value = document.createElement('span');
+    value.className = 'belief-value';
+    value.textContent = `${(100 * mean).toFixed(0)}% ± ${(100 * sd).toFixed(0)}`;
+    row.append(name, track, value);
+    bars.append(row);
+  });
+}
+
+function show(assignment) {
+  state.current = assignment;
+  const card = $('card');
+  if (!assignment || !assignment.record) {
+    card.hidden = true;
+    $('choices').hidden = true;
+    $('belief').hidden = true;
+    return;
+  }
+  const r = assignment.record;
+  card.hidden = false;
+  $('choices').hidden = false;
+  $('card-id').textContent = r.id;
+  $('card-spot').hidden = !assignment.spot_check;
+  $('card-score').textContent = assignment.score !== undefined && !assignment.spot_check
+    ? `information ${Number(assignment.score).toFixed(3)} nats` : '';
+  $('card-body').replaceChildren(recordBody(r.fields));
+  $('note').value = '';
+  state.beliefOpen = assignment.spot_check ? false : state.showBelief;
+  renderBelief();
+}
+
+async function next() {
+  const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/queue/next`, { person: state.person });
+  showProgress(reply.progress);
+  if (!reply.record) {
+    show(null);
+    say(reply.message || 'Nothing to label right now.');
+    return;
+  }
+  show(reply);
+}
+
+async function guarded(work) {
+  if (state.busy) return;
+  state.busy = true;
+  try {
+    await work();
+  } catch (error) {
+    say(error.message, true);
+  } finally {
+    state.busy = false;
+    if (state.wantNext) {
+      state.wantNext = false;
+      if (!state.current || !state.current.record) guarded(next);
+    }
+  }
+}
+
+function label(name) {
+  guarded(async () => {
+    const a = state.current;
+    if (!a || !a.record) return;
+    const body = { record: a.record.id, label: name, labelled_by: state.person };
+    const note = $('note').value.trim();
+    if (note) body.note = note;
+    const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/labels`, body);
+    state.labelledThisSession += 1;
+    state.last = { assignment: a, label: name };
+    $('undo').disabled = false;
+    say(`${a.record.id} labelled ${name}.`);
+    showProgress(reply.progress);
+    await next();
+  });
+}
+
+function skip() {
+  guarded(async () => {
+    const a = state.current;
+    if (!a || !a.record) return;
+    await postJson(`pools/${encodeURIComponent(state.pool)}/queue/skip`,
+      { person: state.person, round: a.round, position: a.position });
+    say(`${a.record.id} skipped; it goes back to the queue.`);
+    await next();
+  });
+}
+
+function undo() {
+  guarded(async () => {
+    const last = state.last;
+    if (!last) return;
+    const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/labels/undo`,
+      { record: last.assignment.record.id, person: state.person });
+    state.labelledThisSession = Math.max(0, state.labelledThisSession - 1);
+    state.last = null;
+    $('undo').disabled = true;
+    const current = state.current;
+    if (current && current.record && current.record.id !== last.assignment.record.id) {
+      // The record we moved on to goes back to the queue; the one taken back is shown again.
+      await postJson(`pools/${encodeURIComponent(state.pool)}/queue/skip`,
+        { person: state.person, round: current.round, position: current.position });
+    }
+    show(last.assignment);
+    showProgress(reply.progress);
+    say(`Took back ${reply.withdrawn} for ${last.assignment.record.id}; label it again.`);
+  });
+}
+
+function toggleBelief() {
+  if (!state.current || !state.current.belief) return;
+  state.beliefOpen = !state.beliefOpen;
+  if (!state.current.spot_check) {
+    state.showBelief = state.beliefOpen;
+    localStorage.setItem(BELIEF_KEY, String(state.showBelief));
+  }
+  renderBelief();
+}
+
+function onKey(event) {
+  if (event.target === $('note')) {
+    if (event.key === 'Enter' || event.key === 'Escape') {
+      event.preventDefault();
+      $('note').blur();
+    }
+    return;
+  }
+  if (event.ctrlKey || event.metaKey || event.altKey || $('desk').hidden) return;
+  if (['INPUT', 'SELECT', 'TEXTAREA'].includes(event.target.tagName)) return;
+  if (event.key === ' ') {
+    event.preventDefault();
+    skip();
+  } else if (event.key === 'Backspace') {
+    event.preventDefault();
+    undo();
+  } else if (event.key === '.') {
+    toggleBelief();
+  } else if (event.key === '/') {
+    event.preventDefault();
+    $('note').focus();
+  } else {
+    const c = state.classes.find((x) => x.key && x.key === event.key.toLowerCase());
+    if (c) {
+      event.preventDefault();
+      label(c.name);
+    }
+  }
+}
+
+function listen() {
+  const events = new EventSource(`api/v1/events?pool=${encodeURIComponent(state.pool)}`);
+  events.addEventListener('round', (e) => {
+    const data = JSON.parse(e.data);
+    if (data.status === 'published') {
+      showProgress({ ...state.progress, served_round: data.round });
+      say(`Round ${data.round} is ready: ${data.queued} records picked.`);
+      if (state.busy) {
+        state.wantNext = true;
+      } else if (!state.current || !state.current.record) {
+        guarded(next);
+      }
+    } else if (data.status === 'failed') {
+      say(`Round ${data.round} failed; the current queue stays in service.`, true);
+    }
+  });
+  events.addEventListener('label', (e) => {
+    const data = JSON.parse(e.data);
+    showProgress({ ...state.progress, labels_to_next_round: data.labels_to_next_round });
+  });
+}
+
+async function begin() {
+  if (document.activeElement) document.activeElement.blur();
+  $('who').hidden = true;
+  $('desk').hidden = false;
+  const pool = await getJson(`pools/${encodeURIComponent(state.pool)}`);
+  state.classes = pool.classes;
+  renderChoices();
+  showProgress();
+  listen();
+  await next();
+}
+
+function start() {
+  state.pool = new URLSearchParams(location.search).get('pool');
+  if (!state.pool) {
+    location.href = './';
+    return;
+  }
+  document.title = `Dowser · desk · ${state.pool}`;
+  $('desk-pool').textContent = `labelling ${state.pool}`;
+  $('to-overview').href = `overview.html?pool=${encodeURIComponent(state.pool)}`;
+  $('skip').addEventListener('click', skip);
+  $('undo').addEventListener('click', undo);
+  $('belief-toggle').addEventListener('click', toggleBelief);
+  document.addEventListener('keydown', onKey);
+  state.person = localStorage.getItem(PERSON_KEY);
+  if (state.person) {
+    begin().catch((e) => say(e.message, true));
+    return;
+  }
+  $('who').hidden = false;
+  $('who').person.focus();
+  $('who').addEventListener('submit', (event) => {
+    event.preventDefault();
+    state.person = $('who').person.value.trim();
+    if (!state.person) return;
+    localStorage.setItem(PERSON_KEY, state.person);
+    begin().catch((e) => say(e.message, true));
+  });
+}
+
+start();

@@ -1,0 +1,169 @@
+// The pool overview: labels, spot-check accuracy, chain health, rounds and the served queue, live.
+import { getJson, postJson, apiUrl } from './api.js';
+import { bandChart, barList } from './charts.js';
+
+const $ = (id) => document.getElementById(id);
+let pool = null;
+
+function cell(row, text, className) {
+  const td = document.createElement('td');
+  td.textContent = text;
+  if (className) td.className = className;
+  row.append(td);
+  return td;
+}
+
+function fixed(v, digits) {
+  return v === null || v === undefined || !Number.isFinite(Number(v)) ? '—' : Number(v).toFixed(digits);
+}
+
+async function showPool() {
+  const p = await getJson(`pools/${encodeURIComponent(pool)}`);
+  const labelled = p.classes.reduce((sum, c) => sum + c.labelled, 0);
+  $('pool-facts').textContent = `${p.records.toLocaleString()} records · ${labelled.toLocaleString()} labelled · `
+    + `${p.classes.length} classes`;
+  $('counts').replaceChildren(barList(p.classes.map((c) => ({ name: c.name, value: c.labelled }))));
+}
+
+async function showAccuracy() {
+  const a = await getJson(`pools/${encodeURIComponent(pool)}/accuracy`);
+  if (!a.checked) {
+    $('accuracy-facts').textContent = 'No spot check labelled yet. A share of every queue is drawn at random;'
+      + ' once people label those, the model\'s accuracy shows here with its 95% Wilson interval.';
+  } else {
+    $('accuracy-facts').textContent = `${(100 * a.accuracy).toFixed(1)}% right on ${a.checked} spot checks `
+      + `(95% interval ${(100 * a.lower).toFixed(1)}–${(100 * a.upper).toFixed(1)}%); `
+      + `calibration error ${fixed(a.ece, 3)}.`;
+  }
+  const points = a.points.map((p) => ({ x: p.labels, y: p.accuracy, low: p.lower, high: p.upper }));
+  $('accuracy-chart').replaceChildren(bandChart(points, { xTitle: 'labels', yTitle: 'accuracy' }));
+}
+
+function showHealth(round) {
+  const dl = $('health');
+  dl.replaceChildren();
+  const advice = $('advice');
+  advice.replaceChildren();
+  if (!round || !round.health) {
+    const li = document.createElement('li');
+    li.textContent = 'No sampled round yet: the first batch is spread over the pool; the chains start after it is labelled.';
+    advice.append(li);
+    return;
+  }
+  const h = round.health;
+  const facts = [
+    ['Round', String(round.round)],
+    ['Kernel', round.kernel || '—'],
+    ['R-hat (worst)', fixed(h.rhatMax, 3)],
+    ['ESS bulk / tail (smallest)', `${fixed(h.essBulkMin, 0)} / ${fixed(h.essTailMin, 0)}`],
+    ['Acceptance', h.acceptance === null || Number.isNaN(h.acceptance) ? 'not an accept-reject kernel' : fixed(h.acceptance, 2)],
+    ['Mean step size', Number(h.meanStepSize).toExponential(2)],
+    ['Divergences', String(h.divergences)],
+  ];
+  for (const [k, v] of facts) {
+    const dt = document.createElement('dt');
+    dt.textContent = k;
+    const dd = document.createElement('dd');
+    dd.textContent = v;
+    dl.append(dt, dd);
+  }
+  for (const line of h.advice.length ? h.advice : ['The chains agree and mix well enough for picking.']) {
+    const li = document.createElement('li');
+    li.textContent = line;
+    advice.append(li);
+  }
+}
+
+async function showRounds() {
+  const r = await getJson(`pools/${encodeURIComponent(pool)}/rounds`);
+  const body = $('rounds').querySelector('tbody');
+  body.replaceChildren();
+  for (const round of r.rounds) {
+    const row = document.createElement('tr');
+    row.className = `status-${round.status}`;
+    const h = round.health || {};
+    cell(row, String(round.round));
+    cell(row, round.status + (round.round === r.served_round ? ' · served' : ''));
+    cell(row, new Date(round.started_at).toLocaleString());
+    cell(row, round.seconds === undefined ? '…' : `${round.seconds.toFixed(1)} s`);
+    cell(row, String(round.labels_at_start));
+    cell(row, round.kernel || '—');
+    cell(row, fixed(h.rhatMax, 3));
+    cell(row, round.health ? `${fixed(h.essBulkMin, 0)} / ${fixed(h.essTailMin, 0)}` : '—');
+    cell(row, round.health ? (Number.isNaN(h.acceptance) || h.acceptance === null
+      ? Number(h.meanStepSize).toExponential(2) : fixed(h.acceptance, 2)) : '—');
+    cell(row, round.health ? String(h.divergences) : '—');
+    cell(row, round.message || '', 'note-cell');
+    body.append(row);
+  }
+  const failed = r.rounds.find((x) => x.status === 'failed');
+  if (failed && failed.round === r.rounds[0].round) {
+    $('overview-message').textContent = `Round ${failed.round} failed: ${failed.message}. `
+      + 'The previous queue stays in service.';
+    $('overview-message').className = 'message error';
+  } else {
+    $('overview-message').textContent = '';
+  }
+  showHealth(r.rounds.find((x) => x.health));
+}
+
+async function showQueue() {
+  const q = await getJson(`pools/${encodeURIComponent(pool)}/queue`);
+  const body = $('queue').querySelector('tbody');
+  body.replaceChildren();
+  $('queue-title').textContent = q.round ? `Queue being served (round ${q.round})` : 'Queue being served';
+  for (const e of q.entries) {
+    const row = document.createElement('tr');
+    if (e.labelled) row.className = 'done';
+    cell(row, String(e.position + 1));
+    cell(row, e.record, 'mono');
+    cell(row, e.spot_check ? '—' : fixed(e.score, 4));
+    cell(row, e.spot_check ? 'spot check' : 'picked');
+    cell(row, e.leased_to && !e.labelled && new Date(e.lease_until) > new Date() ? e.leased_to : '');
+    cell(row, e.label || '');
+    body.append(row);
+  }
+}
+
+async function refresh() {
+  try {
+    await Promise.all([showPool(), showAccuracy(), showRounds(), showQueue()]);
+  } catch (error) {
+    $('overview-message').textContent = error.message;
+    $('overview-message').className = 'message error';
+  }
+}
+
+let pending = null;
+function refreshSoon() {
+  if (pending) return;
+  pending = setTimeout(() => {
+    pending = null;
+    refresh();
+  }, 300);
+}
+
+function start() {
+  pool = new URLSearchParams(location.search).get('pool');
+  if (!pool) {
+    location.href = './';
+    return;
+  }
+  document.title = `Dowser · ${pool}`;
+  $('pool-title').textContent = pool;
+  const enc = encodeURIComponent(pool);
+  $('to-desk').href = `desk.html?pool=${enc}`;
+  $('to-records').href = `./?pool=${enc}`;
+  $('export-csv').href = apiUrl(`pools/${enc}/export?format=csv`);
+  $('export-jsonl').href = apiUrl(`pools/${enc}/export?format=jsonl`);
+  $('round-now').addEventListener('click', async () => {
+    await postJson(`pools/${enc}/rounds`, {});
+    refreshSoon();
+  });
+  const events = new EventSource(apiUrl(`events?pool=${enc}`));
+  events.addEventListener('round', refreshSoon);
+  events.addEventListener('label', refreshSoon);
+  refresh();
+}
+
+start();
