@@ -7,9 +7,12 @@ import dev.dowser.TestSupport;
 import dev.dowser.acquire.PoolScorer;
 import dev.dowser.data.ImportProgress;
 import dev.dowser.data.Importer;
+import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
+import dev.dowser.store.RoundStore;
+import dev.dowser.store.SavedChain;
 import java.io.IOException;
 import java.io.InputStream;
 import java.nio.file.Files;
@@ -64,6 +67,37 @@ class RoundWorkerTest {
                 await(() -> worker.roundsRun() == 2, "the round after five labels");
                 assertTrue(worker.lastOutcome().published(), worker.lastOutcome().message());
                 assertEquals(2, db.queues().servedRound(pool.id()).orElseThrow());
+            }
+        }
+    }
+
+    @Test
+    void closingStopsARunningRoundAtASafePointAndSavesItsChains() throws IOException, InterruptedException {
+        // Iris (Fisher 1936, as shipped by Debian's python3-sklearn), with its labels.
+        TestSupport.OpenDataset iris = TestSupport.openDataset("iris", dir);
+        try (Database db = TestSupport.openDb(dir.resolve("db")); PoolScorer scorer = new PoolScorer(2, 64)) {
+            try (InputStream in = Files.newInputStream(iris.csv())) {
+                new Importer(db).run(in, "iris.csv", TestSupport.csv("iris").withLabel("label"), ImportProgress.NONE);
+            }
+            PoolRow pool = db.pools().require("iris");
+            // Far more steps than the test waits for: only the stop can end this round in time.
+            SamplerConfig endless = RoundServiceTest.small().withSteps(50_000_000, 50, 5);
+            RoundWorker worker = new RoundWorker(new RoundService(db, endless, scorer), "iris", 5);
+            worker.request();
+            await(() -> !db.rounds().list(pool.id()).isEmpty(), "the round to start");
+            Thread.sleep(300);
+            long begun = System.nanoTime();
+            worker.close();
+            double seconds = (System.nanoTime() - begun) / 1e9;
+            assertTrue(seconds < 10, "closing took " + seconds + " s");
+            RoundStore.RoundRow round = db.rounds().list(pool.id()).get(0);
+            assertEquals("stopped", round.status(), round.message());
+            assertTrue(round.message().contains("safe point"), round.message());
+            assertTrue(db.queues().servedRound(pool.id()).isEmpty(), "a stopped round must not publish");
+            List<SavedChain> saved = db.chains().load(pool.id());
+            assertEquals(endless.chains(), saved.size(), "every chain's state is saved");
+            for (SavedChain c : saved) {
+                assertTrue(c.step() > 0, "chain " + c.chain() + " saved before any step");
             }
         }
     }

@@ -1,0 +1,195 @@
+package dev.dowser.web;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertNotEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.dowser.TestSupport;
+import dev.dowser.json.Json;
+import dev.dowser.sampler.SamplerConfig;
+import dev.dowser.store.Database;
+import java.io.BufferedReader;
+import java.io.InputStream;
+import java.io.InputStreamReader;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.concurrent.CompletableFuture;
+import java.util.concurrent.TimeUnit;
+import org.junit.jupiter.api.AfterEach;
+import org.junit.jupiter.api.BeforeEach;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/**
+ * The desk's calls over real HTTP on the real server: leases, skip, label, undo, settings, the
+ * file preview and the event stream. The pool is UCI iris (Fisher 1936, as shipped by Debian's
+ * python3-sklearn 1.2.1) with one known label per class.
+ */
+class DeskApiTest {
+
+    @TempDir
+    Path dir;
+    Database db;
+    WebServer server;
+    final HttpClient http = HttpClient.newHttpClient();
+
+    @BeforeEach
+    void start() throws Exception {
+        db = TestSupport.openDb(dir.resolve("db"));
+        SamplerConfig quick = SamplerConfig.defaults(3).withHidden(List.of(16)).withChains(2, 8).withSteps(100, 50, 5);
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 22, dir.resolve("uploads")), quick);
+        List<String> lines = Files.readAllLines(TestSupport.openDataset("iris", dir).csv());
+        StringBuilder csv = new StringBuilder(lines.get(0)).append('\n');
+        for (int i = 1; i < lines.size(); i++) {
+            String line = lines.get(i);
+            // Rows 1, 51 and 101 open the three classes: keep their labels, drop the rest.
+            csv.append(i % 50 == 1 ? line : line.substring(0, line.lastIndexOf(',') + 1)).append('\n');
+        }
+        HttpResponse<String> up = send("POST", "/api/v1/imports?pool=iris&file_name=iris.csv&label=label&wait=true",
+                csv.toString());
+        assertEquals(201, up.statusCode(), up.body());
+        assertEquals(202, send("POST", "/api/v1/pools/iris/rounds", "").statusCode());
+        long until = System.nanoTime() + 60_000_000_000L;
+        while (db.queues().servedRound(db.pools().require("iris").id()).isEmpty()) {
+            assertTrue(System.nanoTime() < until, "the first round never arrived");
+            Thread.sleep(20);
+        }
+    }
+
+    @AfterEach
+    void stop() {
+        server.close();
+        db.close();
+    }
+
+    private HttpResponse<String> send(String method, String path, String body) throws Exception {
+        return http.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + server.port() + path))
+                .method(method, HttpRequest.BodyPublishers.ofString(body)).build(), HttpResponse.BodyHandlers.ofString());
+    }
+
+    private JsonNode ok(HttpResponse<String> r, int status) {
+        assertEquals(status, r.statusCode(), r.body());
+        return Json.tree(r.body());
+    }
+
+    @Test
+    void leasesSkipLabelAndUndo() throws Exception {
+        JsonNode a = ok(send("POST", "/api/v1/pools/iris/queue/next", "{\"person\":\"p1\"}"), 200);
+        JsonNode b = ok(send("POST", "/api/v1/pools/iris/queue/next", "{\"person\":\"p2\"}"), 200);
+        String recordA = a.at("/record/id").asText();
+        assertNotEquals(recordA, b.at("/record/id").asText(), "one record handed to two people");
+        assertTrue(a.at("/belief/mean").size() == 3 && a.at("/belief/sd").size() == 3, a.toString());
+        assertEquals(1, a.at("/progress/served_round").asInt());
+
+        // Asking again gives the same person the record they hold.
+        assertEquals(recordA, ok(send("POST", "/api/v1/pools/iris/queue/next", "{\"person\":\"p1\"}"), 200)
+                .at("/record/id").asText());
+        // A skip frees it for the next person at once.
+        ok(send("POST", "/api/v1/pools/iris/queue/skip", "{\"person\":\"p1\",\"round\":" + a.get("round").asInt()
+                + ",\"position\":" + a.get("position").asInt() + "}"), 200);
+        assertEquals(recordA, ok(send("POST", "/api/v1/pools/iris/queue/next", "{\"person\":\"p3\"}"), 200)
+                .at("/record/id").asText());
+
+        JsonNode labelled = ok(send("POST", "/api/v1/pools/iris/labels",
+                "{\"record\":\"" + recordA + "\",\"label\":\"setosa\",\"labelled_by\":\"p3\",\"note\":\"petals small\"}"), 201);
+        assertEquals("setosa", labelled.get("label").asText());
+        assertEquals(9, labelled.at("/progress/labels_to_next_round").asInt());
+
+        HttpResponse<String> notTheirs = send("POST", "/api/v1/pools/iris/labels/undo",
+                "{\"record\":\"" + recordA + "\",\"person\":\"p1\"}");
+        assertEquals(409, notTheirs.statusCode());
+        assertTrue(notTheirs.body().contains("was given by p3; only they can take it back"), notTheirs.body());
+
+        JsonNode undone = ok(send("POST", "/api/v1/pools/iris/labels/undo",
+                "{\"record\":\"" + recordA + "\",\"person\":\"p3\"}"), 200);
+        assertEquals("setosa", undone.get("withdrawn").asText());
+        assertTrue(undone.at("/record/label").isNull(), undone.toString());
+        assertEquals(10, undone.at("/progress/labels_to_next_round").asInt());
+        // The record is unlabelled again and back with the one who took the label back.
+        assertEquals(recordA, ok(send("POST", "/api/v1/pools/iris/queue/next", "{\"person\":\"p3\"}"), 200)
+                .at("/record/id").asText());
+        HttpResponse<String> twice = send("POST", "/api/v1/pools/iris/labels/undo",
+                "{\"record\":\"" + recordA + "\",\"person\":\"p3\"}");
+        assertEquals(409, twice.statusCode());
+        assertTrue(twice.body().contains("no label to take back"), twice.body());
+        String export = send("GET", "/api/v1/pools/iris/export?format=csv", "").body();
+        assertFalse(export.contains("p3"), "a withdrawn label was exported");
+        assertEquals(3, ok(send("GET", "/api/v1/pools/iris", ""), 200).get("classes").findValues("labelled").stream()
+                .mapToLong(JsonNode::asLong).sum(), "only the three labels of the file remain");
+    }
+
+    @Test
+    void settingsAreValidatedAndNamed() throws Exception {
+        HttpResponse<String> zero = send("PUT", "/api/v1/pools/iris/settings", "{\"batch_size\":0}");
+        assertEquals(400, zero.statusCode());
+        assertTrue(zero.body().contains("batchSize must be 1 to 1000, got 0"), zero.body());
+        HttpResponse<String> unknown = send("PUT", "/api/v1/pools/iris/settings", "{\"colour\":\"red\"}");
+        assertEquals(400, unknown.statusCode());
+        assertTrue(unknown.body().contains("unknown setting 'colour'"), unknown.body());
+        HttpResponse<String> word = send("PUT", "/api/v1/pools/iris/settings", "{\"lease_minutes\":\"ten\"}");
+        assertTrue(word.body().contains("'lease_minutes' must be a whole number"), word.body());
+        JsonNode changed = ok(send("PUT", "/api/v1/pools/iris/settings", "{\"batch_size\":4,\"strategy\":\"power\"}"), 200);
+        assertEquals(4, changed.get("batch_size").asInt());
+        assertEquals("power", changed.get("strategy").asText());
+        assertEquals(10, changed.get("lease_minutes").asInt());
+        assertEquals(4, ok(send("GET", "/api/v1/pools/iris/rounds", ""), 200).get("labels_to_next_round").asInt());
+    }
+
+    @Test
+    void previewSuggestsRolesFromTheHeadOfAFile() throws Exception {
+        // The head is cut in the middle of its fourth record, as a browser's slice of a file would be.
+        String head = "record_id,width,colour,label\nr1,1.5,red,ok\nr2,2.5,blue,\nr3,0.5,red,fault\nr4,3.";
+        JsonNode p = ok(send("POST", "/api/v1/previews?file_name=head.csv", head), 200);
+        assertEquals(3, p.get("rows").size());
+        assertEquals("record_id", p.at("/suggested/id").asText());
+        assertEquals("label", p.at("/suggested/label").asText());
+        assertEquals("[\"width\"]", p.at("/suggested/features").toString());
+        assertEquals("[\"width\",\"colour\"]", p.at("/suggested/display").toString());
+        assertTrue(p.at("/columns/1/numeric").asBoolean());
+        assertFalse(p.at("/columns/2/numeric").asBoolean());
+        HttpResponse<String> broken = send("POST", "/api/v1/previews?file_name=x.csv", "a,a\n1,2\n");
+        assertEquals(400, broken.statusCode());
+        assertTrue(broken.body().contains("'a'"), broken.body());
+    }
+
+    @Test
+    void labelsAndRoundsArriveAsServerSentEvents() throws Exception {
+        HttpResponse<InputStream> stream = http.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:"
+                + server.port() + "/api/v1/events?pool=iris")).build(), HttpResponse.BodyHandlers.ofInputStream());
+        assertEquals(200, stream.statusCode());
+        assertTrue(stream.headers().firstValue("content-type").orElse("").startsWith("text/event-stream"));
+        BufferedReader events = new BufferedReader(new InputStreamReader(stream.body(), StandardCharsets.UTF_8));
+        CompletableFuture<String> seen = CompletableFuture.supplyAsync(() -> {
+            StringBuilder all = new StringBuilder();
+            try {
+                for (String line = events.readLine(); line != null; line = events.readLine()) {
+                    all.append(line).append('\n');
+                    if (all.toString().contains("\"status\":\"published\"")) {
+                        return all.toString();
+                    }
+                }
+            } catch (java.io.IOException e) {
+                throw new java.io.UncheckedIOException(e);
+            }
+            return all.toString();
+        });
+        JsonNode a = ok(send("POST", "/api/v1/pools/iris/queue/next", "{\"person\":\"p1\"}"), 200);
+        ok(send("POST", "/api/v1/pools/iris/labels", "{\"record\":\"" + a.at("/record/id").asText()
+                + "\",\"label\":\"virginica\",\"labelled_by\":\"p1\"}"), 201);
+        ok(send("POST", "/api/v1/pools/iris/rounds", ""), 202);
+        String text = seen.get(60, TimeUnit.SECONDS);
+        assertTrue(text.contains("event:label"), text);
+        assertTrue(text.contains("\"change\":\"added\""), text);
+        assertTrue(text.contains("event:round"), text);
+        assertTrue(text.contains("\"status\":\"running\""), text);
+        assertEquals(400, send("GET", "/api/v1/events", "").statusCode());
+    }
+}
