@@ -40,7 +40,10 @@ import picocli.CommandLine.Option;
             "sampler: preconditioned SGLD on a 64-128-10 network, 1000 labelled rows, mini-batch 128, 4"
                 + " chains: chain-steps per second, the share of sgemm reached, and a warm round timed.",
             "round: a whole round on a 100,000-row pool with 1000 labels: continue the chains, score the"
-                + " pool with 64 draws, pick 10."})
+                + " pool with 64 draws, pick 10.",
+            "desk: 20 simulated labellers on loopback submit a label and ask for the next record (200 ms"
+                + " apart) while rounds run on a 100,000-row pool (batch 100): p50 and p99 of submit-and-next,"
+                + " and the time from a batch's last label to its new queue being served. 60 s, 15 with --quick."})
 final class BenchCommand implements Callable<Integer> {
 
     @Spec
@@ -62,7 +65,7 @@ final class BenchCommand implements Callable<Integer> {
     Path work;
 
     @Option(names = "--only", split = ",", paramLabel = "SUITE",
-            description = "Suites to run: sgemm, score, sampler, round, import (default: all).")
+            description = "Suites to run: sgemm, score, sampler, round, desk, import (default: all).")
     java.util.List<String> only;
 
     private boolean wants(String suite) {
@@ -70,7 +73,7 @@ final class BenchCommand implements Callable<Integer> {
     }
 
     @Override
-    public Integer call() throws IOException {
+    public Integer call() throws Exception {
         int n = rows != null ? rows : quick ? QUICK_ROWS : FULL_ROWS;
         if (n < 10) {
             throw new IllegalArgumentException("--rows must be at least 10, got " + n);
@@ -105,6 +108,14 @@ final class BenchCommand implements Callable<Integer> {
         }
         if (wants("round")) {
             RoundBench.run(out, quick);
+        }
+        if (wants("desk")) {
+            Path dir = work != null ? Files.createDirectories(work.resolve("desk")) : Files.createTempDirectory("dowser-desk-");
+            try {
+                DeskBench.run(out, dir, quick);
+            } finally {
+                Folders.deleteTree(dir);
+            }
         }
         return 0;
     }
@@ -157,7 +168,7 @@ final class BenchCommand implements Callable<Integer> {
         }
     }
 
-    private static void appendFixed4(StringBuilder s, double x) {
+    static void appendFixed4(StringBuilder s, double x) {
         long scaled = Math.round(x * 10_000);
         if (scaled < 0) {
             s.append('-');

@@ -48,8 +48,9 @@ final class DemoCommand implements Callable<Integer> {
                 folder.resolve("uploads"));
         // The first round (a batch spread over the pool by k-means++) is ready before anyone looks.
         ServerRunner.runUntilStopped(db, config, "Dowser demo: " + r.records() + " pump readings in pool '"
-                + r.poolName() + "'\nOpen {address} in your browser  (data: " + folder.toAbsolutePath()
-                + "; Ctrl-C stops)", server -> server.requestRound(r.poolName()));
+                + r.poolName() + "'\nLabel at  {address}desk.html?pool=" + r.poolName()
+                + "\nOverview  {address}overview.html?pool=" + r.poolName()
+                + "\n(data: " + folder.toAbsolutePath() + "; Ctrl-C stops)", server -> server.requestRound(r.poolName()));
         return 0;
     }
 
