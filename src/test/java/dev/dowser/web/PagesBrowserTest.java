@@ -252,4 +252,51 @@ class PagesBrowserTest {
         assertTrue(byId("records").findElements(By.tagName("img")).isEmpty());
         assertNull(browser.driver.executeScript("return window.__pwned === undefined ? null : window.__pwned;"));
     }
+
+    @Test
+    void aFailedRoundShowsOnTheOverviewWhileTheLastQueueStaysServed() throws Exception {
+        String csv = "id,reading\nk1,0.5\nk2,3.5\nu1,1.0\nu2,2.0\nu3,2.5\nu4,3.0\n";
+        HttpResponse<String> up = http.send(HttpRequest.newBuilder(URI.create(base()
+                        + "api/v1/imports?pool=gauges&file_name=g.csv&id=id&classes=ok,fault&wait=true"))
+                .POST(HttpRequest.BodyPublishers.ofString(csv)).build(), HttpResponse.BodyHandlers.ofString());
+        assertEquals(201, up.statusCode(), up.body());
+        long poolId = db.pools().require("gauges").id();
+        // Round 1 has no labels to learn from: its queue is spread over the pool, no chains yet.
+        server.requestRound("gauges");
+        awaitRound(poolId, 1, "published");
+        for (String[] l : new String[][] {{"k1", "ok"}, {"k2", "fault"}}) {
+            HttpResponse<String> r = http.send(HttpRequest.newBuilder(URI.create(base() + "api/v1/pools/gauges/labels"))
+                    .POST(HttpRequest.BodyPublishers.ofString("{\"record\":\"" + l[0] + "\",\"label\":\"" + l[1]
+                            + "\",\"labelled_by\":\"labeller-c\"}")).build(), HttpResponse.BodyHandlers.ofString());
+            assertEquals(201, r.statusCode(), r.body());
+        }
+
+        // The same database behind a server whose sampler diverges at every step (plain SGLD with an
+        // absurd learning rate): its first sampled round, a cold start, fails.
+        server.close();
+        SamplerConfig broken = SamplerConfig.defaults(3).withHidden(List.of(16)).withChains(2, 8)
+                .withSteps(100, 50, 5).withKernel(dev.dowser.sampler.KernelChoice.SGLD).withLearningRate(1e30);
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")), broken);
+        server.requestRound("gauges");
+        awaitRound(poolId, 2, "failed");
+
+        browser.driver.get(base() + "overview.html?pool=gauges");
+        browser.await(d -> byId("overview-message").getText().contains("Round 2 failed"), "the failure on the overview");
+        assertTrue(byId("overview-message").getText().contains("previous queue stays in service"));
+        browser.await(d -> byId("queue-title").getText().contains("round 1"), "round 1 still served");
+        assertFalse(byId("queue").findElements(By.cssSelector("tbody tr")).isEmpty());
+        browser.screenshot("9-overview-failed-round");
+    }
+
+    private void awaitRound(long poolId, int round, String status) throws InterruptedException {
+        long until = System.nanoTime() + 60_000_000_000L;
+        while (true) {
+            var rounds = db.rounds().list(poolId);
+            if (!rounds.isEmpty() && rounds.get(0).round() == round && rounds.get(0).status().equals(status)) {
+                return;
+            }
+            assertTrue(System.nanoTime() < until, "round " + round + " never became " + status + ": " + rounds);
+            Thread.sleep(20);
+        }
+    }
 }
