@@ -23,10 +23,14 @@ public final class Rounds implements AutoCloseable {
         this.service = new RoundService(db, config, scorer, events);
     }
 
-    /** The pool's worker; the pool must exist. */
+    /**
+     * The pool's worker; the pool must exist. Its settings are read only when the worker is made:
+     * the desk asks for the worker on every label, and later batch sizes reach it by
+     * {@link RoundWorker#batchChanged}.
+     */
     public RoundWorker worker(String pool) {
-        int batch = PoolSettings.parse(db.pools().require(pool).settingsJson()).batchSize();
-        return workers.computeIfAbsent(pool, p -> new RoundWorker(service, p, batch));
+        return workers.computeIfAbsent(pool, p ->
+                new RoundWorker(service, p, PoolSettings.parse(db.pools().require(p).settingsJson()).batchSize()));
     }
 
     @Override
