@@ -60,8 +60,8 @@ final class FitCommand implements Callable<Integer> {
     int draws;
 
     @Option(names = "--kernel", defaultValue = "auto", paramLabel = "auto|sgld|psgld|mala",
-            description = "Sampler kernel (default: ${DEFAULT-VALUE}: MALA up to 2048 training rows,"
-                    + " preconditioned SGLD beyond).")
+            description = "Sampler kernel (default: ${DEFAULT-VALUE}: MALA up to "
+                    + SamplerConfig.DEFAULT_MALA_MAX_ROWS + " training rows, preconditioned SGLD beyond).")
     String kernel;
 
     @Option(names = "--burn-in", defaultValue = "" + SamplerConfig.DEFAULT_BURN_IN_STEPS, paramLabel = "N",

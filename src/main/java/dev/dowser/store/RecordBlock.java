@@ -1,5 +1,9 @@
 package dev.dowser.store;
 
+import java.io.IOException;
+import java.io.InputStream;
+import java.util.Arrays;
+
 /**
  * The storage layout of a block of consecutive records, one row of {@code record_blocks}.
  * Sections are laid out one after another so a reader can go straight to the one it needs
@@ -32,6 +36,25 @@ final class RecordBlock {
     private final int displayAt;
     private final int featuresAt;
     private final int displayCols;
+
+    /**
+     * Reads a block's sections up to, not including, its features: what a person's page needs,
+     * without the float bytes that make up most of a block (its LOB is streamed, so the rest is
+     * never read).
+     */
+    static RecordBlock readHead(InputStream stream) throws IOException {
+        byte[] header = stream.readNBytes(HEADER_BYTES);
+        if (header.length < HEADER_BYTES) {
+            throw new StoreException("a record block is damaged (" + header.length + " header bytes)");
+        }
+        int featuresAt = new ByteSource(header, 20).getInt();
+        byte[] head = Arrays.copyOf(header, featuresAt);
+        int read = stream.readNBytes(head, HEADER_BYTES, featuresAt - HEADER_BYTES);
+        if (read != featuresAt - HEADER_BYTES) {
+            throw new StoreException("a record block is damaged (ends at byte " + (HEADER_BYTES + read) + ")");
+        }
+        return new RecordBlock(head);
+    }
 
     RecordBlock(byte[] payload) {
         ByteSource in = new ByteSource(payload, 0);
@@ -83,24 +106,37 @@ final class RecordBlock {
 
     /** Display values of records {@code from} (inclusive) to {@code to} (exclusive) of this block. */
     String[][] display(int from, int to) {
+        int[] wanted = new int[to - from];
+        Arrays.setAll(wanted, i -> from + i);
+        return display(wanted);
+    }
+
+    /**
+     * Display values of the records at {@code wanted} (ascending indices in this block), in that
+     * order; the values of records in between are skipped, not decoded.
+     */
+    String[][] display(int[] wanted) {
         ByteSource in = new ByteSource(payload, displayAt);
-        String[][] out = new String[to - from][];
-        for (int i = 0; i < to; i++) {
-            String[] row = i >= from ? new String[displayCols] : null;
+        String[][] out = new String[wanted.length][];
+        int last = wanted.length == 0 ? -1 : wanted[wanted.length - 1];
+        int next = 0;
+        for (int i = 0; i <= last; i++) {
+            boolean keep = i == wanted[next];
+            String[] row = keep ? new String[displayCols] : null;
             for (int c = 0; c < displayCols; c++) {
                 byte tag = in.get();
                 String v = switch (tag) {
                     case MISSING -> null;
-                    case TEXT -> row == null ? skipString(in) : in.getString();
-                    case NUMBER -> NumberPack.read(in, row != null);
+                    case TEXT -> keep ? in.getString() : skipString(in);
+                    case NUMBER -> NumberPack.read(in, keep);
                     default -> throw new StoreException("a record block is damaged (display tag " + tag + ")");
                 };
-                if (row != null) {
+                if (keep) {
                     row[c] = v;
                 }
             }
-            if (row != null) {
-                out[i - from] = row;
+            if (keep) {
+                out[next++] = row;
             }
         }
         return out;
@@ -113,6 +149,9 @@ final class RecordBlock {
 
     /** Calls {@code sink} with each record's index in the block and its raw feature bytes. */
     void features(FeatureVisitor sink) {
+        if (featuresAt >= payload.length && n > 0) {
+            throw new IllegalStateException("this block was read without its features");
+        }
         ByteSource in = new ByteSource(payload, featuresAt);
         for (int i = 0; i < n; i++) {
             int len = in.getVarint();

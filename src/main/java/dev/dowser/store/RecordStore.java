@@ -1,5 +1,7 @@
 package dev.dowser.store;
 
+import java.io.IOException;
+import java.io.InputStream;
 import java.sql.Connection;
 import java.sql.PreparedStatement;
 import java.sql.ResultSet;
@@ -45,7 +47,7 @@ public final class RecordStore {
     }
 
     public void forEachFeatures(long poolId, FeatureSink sink) {
-        forEachBlock(poolId, 0, Long.MAX_VALUE, (first, block) ->
+        forEachBlock(poolId, 0, Long.MAX_VALUE, true, (first, block) ->
                 block.features((i, bytes, off, len) -> sink.accept(first + i, bytes, off, len)));
     }
 
@@ -66,7 +68,7 @@ public final class RecordStore {
         Map<Long, LabelRow> current = new HashMap<>();
         labels.forEachCurrent(poolId, offset, end, l -> current.put(l.row(), l));
         List<RecordRow> out = new ArrayList<>(limit);
-        forEachBlock(poolId, offset, end, (first, block) -> {
+        forEachBlock(poolId, offset, end, false, (first, block) -> {
             int from = (int) Math.max(0, offset - first);
             int to = (int) Math.min(block.size(), end - first);
             String[] keys = block.keys();
@@ -83,24 +85,27 @@ public final class RecordStore {
 
     /** Reads the given records into the cache, each block once, so that fetching them one by one is quick. */
     public void warm(long poolId, long[] rows) {
-        long[] sorted = rows.clone();
-        Arrays.sort(sorted);
+        long[] sorted = Arrays.stream(rows).sorted().distinct().toArray();
         int i = 0;
         while (i < sorted.length) {
             int[] next = {i};
-            forEachBlock(poolId, sorted[i], sorted[i] + 1, (first, block) -> {
+            forEachBlock(poolId, sorted[i], sorted[i] + 1, false, (first, block) -> {
                 int from = next[0];
                 int to = from;
                 while (to < sorted.length && sorted[to] < first + block.size()) {
                     to++;
                 }
+                int[] wanted = new int[to - from];
+                for (int j = from; j < to; j++) {
+                    wanted[j - from] = (int) (sorted[j] - first);
+                }
                 String[] keys = block.keys();
                 long[] lines = block.lines();
-                String[][] display = block.display(0, (int) (sorted[to - 1] - first) + 1);
+                String[][] display = block.display(wanted);
                 for (int j = from; j < to; j++) {
-                    int k = (int) (sorted[j] - first);
+                    int k = wanted[j - from];
                     cache.put(poolId, sorted[j], new RecordRow(sorted[j], keys[k], lines[k],
-                            Arrays.asList(display[k]), null, null, null, null));
+                            Arrays.asList(display[j - from]), null, null, null, null));
                 }
                 next[0] = to;
             });
@@ -125,7 +130,7 @@ public final class RecordStore {
     private Map<String, Long> index(long poolId) {
         return keyIndex.computeIfAbsent(poolId, id -> {
             Map<String, Long> map = new HashMap<>();
-            forEachBlock(id, 0, Long.MAX_VALUE, (first, block) -> {
+            forEachBlock(id, 0, Long.MAX_VALUE, false, (first, block) -> {
                 String[] keys = block.keys();
                 for (int i = 0; i < keys.length; i++) {
                     map.put(keys[i], first + i);
@@ -137,7 +142,7 @@ public final class RecordStore {
 
     /** Every record with a current label, in pool order, streamed with bounded memory. */
     public void forEachLabelled(long poolId, Consumer<RecordRow> sink) {
-        labels.withCurrentCursor(poolId, cursor -> forEachBlock(poolId, 0, Long.MAX_VALUE, (first, block) -> {
+        labels.withCurrentCursor(poolId, cursor -> forEachBlock(poolId, 0, Long.MAX_VALUE, false, (first, block) -> {
             long end = first + block.size();
             String[] keys = null;
             long[] lines = null;
@@ -162,8 +167,11 @@ public final class RecordStore {
         void visit(long firstRow, RecordBlock block);
     }
 
-    /** Visits the blocks holding any row in [fromRow, toRow), in pool order. */
-    private void forEachBlock(long poolId, long fromRow, long toRow, BlockVisitor visitor) {
+    /**
+     * Visits the blocks holding any row in [fromRow, toRow), in pool order; without
+     * {@code withFeatures} only the sections before the features are read.
+     */
+    private void forEachBlock(long poolId, long fromRow, long toRow, boolean withFeatures, BlockVisitor visitor) {
         try (Connection c = ds.getConnection();
              PreparedStatement q = c.prepareStatement("SELECT first_row, payload FROM record_blocks"
                      + " WHERE pool_id = ? AND first_row < ? AND first_row + row_count > ? ORDER BY block_no")) {
@@ -173,10 +181,18 @@ public final class RecordStore {
             q.setLong(3, fromRow);
             try (ResultSet rs = q.executeQuery()) {
                 while (rs.next()) {
-                    visitor.visit(rs.getLong(1), new RecordBlock(rs.getBytes(2)));
+                    RecordBlock block;
+                    if (withFeatures) {
+                        block = new RecordBlock(rs.getBytes(2));
+                    } else {
+                        try (InputStream head = rs.getBinaryStream(2)) {
+                            block = RecordBlock.readHead(head);
+                        }
+                    }
+                    visitor.visit(rs.getLong(1), block);
                 }
             }
-        } catch (SQLException e) {
+        } catch (SQLException | IOException e) {
             throw new StoreException("cannot read the records of pool " + poolId + ": " + e.getMessage(), e);
         }
     }

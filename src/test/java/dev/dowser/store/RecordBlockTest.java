@@ -4,8 +4,11 @@ import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertNull;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import java.io.ByteArrayInputStream;
+import java.io.IOException;
 import java.util.HexFormat;
 import java.util.SplittableRandom;
 import org.junit.jupiter.api.Test;
@@ -46,7 +49,7 @@ class RecordBlockTest {
     }
 
     @Test
-    void blockSectionsReadBack() {
+    void blockSectionsReadBack() throws IOException {
         RecordBatch b = new RecordBatch(3, new int[] {2, 0}, 8);
         String[][] rows = {{"r1", "x", "1.25"}, {"r2", null, "héllo, wörld"}, {"r3", "z", null}};
         for (int r = 0; r < rows.length; r++) {
@@ -76,6 +79,17 @@ class RecordBlockTest {
             seen[0]++;
         });
         assertEquals(3, seen[0]);
+
+        String[][] chosen = block.display(new int[] {0, 2});
+        assertArrayEquals(new String[] {"1.25", "r1"}, chosen[0]);
+        assertArrayEquals(new String[] {null, "r3"}, chosen[1]);
+
+        RecordBlock head = RecordBlock.readHead(new ByteArrayInputStream(builder.seal()));
+        assertArrayEquals(block.keys(), head.keys());
+        assertArrayEquals(display[0], head.display(new int[] {1})[0]);
+        IllegalStateException noFeatures = assertThrows(IllegalStateException.class,
+                () -> head.features((i, bytes, off, len) -> { }));
+        assertEquals("this block was read without its features", noFeatures.getMessage());
     }
 
     @Test
