@@ -84,7 +84,7 @@ async function showRounds() {
     const h = round.health || {};
     cell(row, String(round.round));
     cell(row, round.status + (round.round === r.served_round ? ' · served' : ''));
-    cell(row, new Date(round.started_at).toLocaleString());
+    cell(row, clock(round.started_at));
     cell(row, round.seconds === undefined ? '…' : `${round.seconds.toFixed(1)} s`);
     cell(row, String(round.labels_at_start));
     cell(row, round.kernel || '—');
@@ -167,3 +167,10 @@ function start() {
 }
 
 start();
+
+/** A round's start as the local date and time to the minute, in one short unbroken piece. */
+function clock(iso) {
+  const d = new Date(iso);
+  const two = (n) => String(n).padStart(2, '0');
+  return `${d.getFullYear()}-${two(d.getMonth() + 1)}-${two(d.getDate())}\u00a0${two(d.getHours())}:${two(d.getMinutes())}`;
+}
