@@ -5,6 +5,7 @@ import dev.dowser.data.ImportResult;
 import dev.dowser.data.ImportSpec;
 import dev.dowser.data.ImportProgress;
 import dev.dowser.data.Importer;
+import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import java.io.BufferedReader;
 import java.io.ByteArrayInputStream;
@@ -40,6 +41,11 @@ public final class TestSupport {
     public static final String DATASETS_PROPERTY = "dowser.datasets";
 
     private TestSupport() {
+    }
+
+    /** A sampler small enough for a round in well under a second: 16 hidden units, 2 chains, 8 draws. */
+    public static SamplerConfig quickSampler() {
+        return SamplerConfig.defaults(3).withHidden(List.of(16)).withChains(2, 8).withSteps(100, 50, 5);
     }
 
     public static Database openDb(Path dir) {

@@ -126,9 +126,9 @@ final class RoundsApi {
                         + "'; the settings are batch_size, spot_check_share, lease_minutes and strategy");
             }
         }
-        PoolSettings next = new PoolSettings(intField(body, "batch_size", now.batchSize()),
-                numberField(body, "spot_check_share", now.spotCheckShare()),
-                intField(body, "lease_minutes", now.leaseMinutes()),
+        PoolSettings next = new PoolSettings(Requests.optionalInt(body, "batch_size", now.batchSize()),
+                Requests.optionalNumber(body, "spot_check_share", now.spotCheckShare()),
+                Requests.optionalInt(body, "lease_minutes", now.leaseMinutes()),
                 body.has("strategy") ? Strategy.parse(body.get("strategy").asText()) : now.strategy());
         db.pools().updateSettings(pool.id(), next.toJson());
         rounds.worker(pool.name()).batchChanged(next.batchSize());
@@ -138,27 +138,5 @@ final class RoundsApi {
     private static ObjectNode settingsJson(PoolSettings s) {
         return Json.object().put("batch_size", s.batchSize()).put("spot_check_share", s.spotCheckShare())
                 .put("lease_minutes", s.leaseMinutes()).put("strategy", s.strategy().word());
-    }
-
-    private static int intField(JsonNode body, String field, int fallback) {
-        JsonNode v = body.get(field);
-        if (v == null) {
-            return fallback;
-        }
-        if (!v.isIntegralNumber() || !v.canConvertToInt()) {
-            throw new ApiException(400, "setting '" + field + "' must be a whole number, got " + v);
-        }
-        return v.asInt();
-    }
-
-    private static double numberField(JsonNode body, String field, double fallback) {
-        JsonNode v = body.get(field);
-        if (v == null) {
-            return fallback;
-        }
-        if (!v.isNumber()) {
-            throw new ApiException(400, "setting '" + field + "' must be a number, got " + v);
-        }
-        return v.asDouble();
     }
 }

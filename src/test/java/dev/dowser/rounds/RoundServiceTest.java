@@ -32,7 +32,7 @@ class RoundServiceTest {
     Path dir;
 
     static SamplerConfig small() {
-        return SamplerConfig.defaults(3).withHidden(List.of(16)).withChains(2, 8).withSteps(100, 50, 5);
+        return TestSupport.quickSampler();
     }
 
     /** Iris (Fisher 1936, as shipped by Debian's python3-sklearn), imported without its labels. */

@@ -44,7 +44,7 @@ class DeskApiTest {
     @BeforeEach
     void start() throws Exception {
         db = TestSupport.openDb(dir.resolve("db"));
-        SamplerConfig quick = SamplerConfig.defaults(3).withHidden(List.of(16)).withChains(2, 8).withSteps(100, 50, 5);
+        SamplerConfig quick = TestSupport.quickSampler();
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 22, dir.resolve("uploads")), quick);
         List<String> lines = Files.readAllLines(TestSupport.openDataset("iris", dir).csv());
         StringBuilder csv = new StringBuilder(lines.get(0)).append('\n');

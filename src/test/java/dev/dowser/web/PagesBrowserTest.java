@@ -8,6 +8,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.TestSupport;
 import dev.dowser.json.Json;
+import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import java.io.BufferedReader;
@@ -54,7 +55,7 @@ class PagesBrowserTest {
     void start() {
         db = TestSupport.openDb(dir.resolve("db"));
         // A small network and short chains: rounds take well under a second, as the desk expects.
-        SamplerConfig quick = SamplerConfig.defaults(3).withHidden(List.of(16)).withChains(2, 8).withSteps(100, 50, 5);
+        SamplerConfig quick = TestSupport.quickSampler();
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 24, dir.resolve("uploads")), quick);
         browser = new Browser(dir.resolve("profile"));
     }
@@ -274,8 +275,7 @@ class PagesBrowserTest {
         // The same database behind a server whose sampler diverges at every step (plain SGLD with an
         // absurd learning rate): its first sampled round, a cold start, fails.
         server.close();
-        SamplerConfig broken = SamplerConfig.defaults(3).withHidden(List.of(16)).withChains(2, 8)
-                .withSteps(100, 50, 5).withKernel(dev.dowser.sampler.KernelChoice.SGLD).withLearningRate(1e30);
+        SamplerConfig broken = TestSupport.quickSampler().withKernel(KernelChoice.SGLD).withLearningRate(1e30);
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")), broken);
         server.requestRound("gauges");
         awaitRound(poolId, 2, "failed");
