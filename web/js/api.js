@@ -1,18 +1,48 @@
-// The one place pages talk to the server: JSON in, JSON out, errors as thrown messages.
+// The one place pages talk to the server: JSON in, JSON out, errors as thrown messages. Requests
+// that change something carry the session's forgery token; a lapsed session leads to the sign-in page.
 const BASE = 'api/v1';
+const CSRF_HEADER = 'X-Dowser-Csrf';
+
+let sessionPromise = null;
+
+/** The signed-in account: {name, role, csrf}; asked once per page. */
+export function session() {
+  if (!sessionPromise) sessionPromise = getJson('session');
+  return sessionPromise;
+}
+
+export function toSignIn() {
+  const here = location.pathname + location.search;
+  location.assign(`login.html?next=${encodeURIComponent(here)}`);
+}
 
 export async function getJson(path) {
   const response = await fetch(`${BASE}/${path}`, { headers: { Accept: 'application/json' } });
   return unwrap(response);
 }
 
-export async function postBody(path, body, contentType) {
-  const response = await fetch(`${BASE}/${path}`, {
-    method: 'POST',
-    headers: { 'Content-Type': contentType, Accept: 'application/json' },
-    body,
-  });
+async function send(method, path, body, contentType) {
+  const { csrf } = await session();
+  const headers = { Accept: 'application/json', [CSRF_HEADER]: csrf };
+  if (contentType) headers['Content-Type'] = contentType;
+  const response = await fetch(`${BASE}/${path}`, { method, headers, body });
   return unwrap(response);
+}
+
+export function postBody(path, body, contentType) {
+  return send('POST', path, body, contentType);
+}
+
+export function postJson(path, value) {
+  return send('POST', path, JSON.stringify(value), 'application/json');
+}
+
+export function putJson(path, value) {
+  return send('PUT', path, JSON.stringify(value), 'application/json');
+}
+
+export function deleteJson(path) {
+  return send('DELETE', path, undefined, undefined);
 }
 
 export function apiUrl(path) {
@@ -27,21 +57,11 @@ async function unwrap(response) {
   } catch (e) {
     throw new Error(`the server sent something that is not JSON (status ${response.status})`);
   }
+  if (response.status === 401 && !location.pathname.endsWith('login.html')) {
+    toSignIn();
+  }
   if (!response.ok) {
     throw new Error(data && data.error ? data.error : `request failed with status ${response.status}`);
   }
   return data;
-}
-
-export async function postJson(path, value) {
-  return postBody(path, JSON.stringify(value), 'application/json');
-}
-
-export async function putJson(path, value) {
-  const response = await fetch(`${BASE}/${path}`, {
-    method: 'PUT',
-    headers: { 'Content-Type': 'application/json', Accept: 'application/json' },
-    body: JSON.stringify(value),
-  });
-  return unwrap(response);
 }

@@ -1,9 +1,9 @@
 // The labelling desk: one record at a time, labelled by keyboard, never waiting for the model.
 import { getJson, postJson } from './api.js';
+import { showAccount } from './account.js';
 import { recordBody } from './fields.js';
 
 const $ = (id) => document.getElementById(id);
-const PERSON_KEY = 'dowser.person';
 const BELIEF_KEY = 'dowser.showBelief';
 
 const state = {
@@ -126,7 +126,7 @@ function show(assignment) {
 }
 
 async function next() {
-  const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/queue/next`, { person: state.person });
+  const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/queue/next`, {});
   showProgress(reply.progress);
   if (!reply.record) {
     show(null);
@@ -156,7 +156,7 @@ function label(name) {
   guarded(async () => {
     const a = state.current;
     if (!a || !a.record) return;
-    const body = { record: a.record.id, label: name, labelled_by: state.person };
+    const body = { record: a.record.id, label: name };
     const note = $('note').value.trim();
     if (note) body.note = note;
     const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/labels`, body);
@@ -174,7 +174,7 @@ function skip() {
     const a = state.current;
     if (!a || !a.record) return;
     await postJson(`pools/${encodeURIComponent(state.pool)}/queue/skip`,
-      { person: state.person, round: a.round, position: a.position });
+      { round: a.round, position: a.position });
     say(`${a.record.id} skipped; it goes back to the queue.`);
     await next();
   });
@@ -185,7 +185,7 @@ function undo() {
     const last = state.last;
     if (!last) return;
     const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/labels/undo`,
-      { record: last.assignment.record.id, person: state.person });
+      { record: last.assignment.record.id });
     state.labelledThisSession = Math.max(0, state.labelledThisSession - 1);
     state.last = null;
     $('undo').disabled = true;
@@ -193,7 +193,7 @@ function undo() {
     if (current && current.record && current.record.id !== last.assignment.record.id) {
       // The record we moved on to goes back to the queue; the one taken back is shown again.
       await postJson(`pools/${encodeURIComponent(state.pool)}/queue/skip`,
-        { person: state.person, round: current.round, position: current.position });
+        { round: current.round, position: current.position });
     }
     show(last.assignment);
     showProgress(reply.progress);
@@ -265,7 +265,6 @@ function listen() {
 
 async function begin() {
   if (document.activeElement) document.activeElement.blur();
-  $('who').hidden = true;
   $('desk').hidden = false;
   const pool = await getJson(`pools/${encodeURIComponent(state.pool)}`);
   state.classes = pool.classes;
@@ -288,20 +287,12 @@ function start() {
   $('undo').addEventListener('click', undo);
   $('belief-toggle').addEventListener('click', toggleBelief);
   document.addEventListener('keydown', onKey);
-  state.person = localStorage.getItem(PERSON_KEY);
-  if (state.person) {
-    begin().catch((e) => say(e.message, true));
-    return;
-  }
-  $('who').hidden = false;
-  $('who').person.focus();
-  $('who').addEventListener('submit', (event) => {
-    event.preventDefault();
-    state.person = $('who').person.value.trim();
-    if (!state.person) return;
-    localStorage.setItem(PERSON_KEY, state.person);
-    begin().catch((e) => say(e.message, true));
-  });
+  showAccount()
+    .then((me) => {
+      state.person = me.name;
+      return begin();
+    })
+    .catch((e) => say(e.message, true));
 }
 
 start();

@@ -1,4 +1,5 @@
 // The pool overview: labels, spot-check accuracy, chain health, rounds and the served queue, live.
+import { showAccount } from './account.js';
 import { getJson, postJson, apiUrl } from './api.js';
 import { bandChart, barList } from './charts.js';
 
@@ -143,7 +144,8 @@ function refreshSoon() {
   }, 300);
 }
 
-function start() {
+async function start() {
+  await showAccount();
   pool = new URLSearchParams(location.search).get('pool');
   if (!pool) {
     location.href = './';
@@ -153,13 +155,15 @@ function start() {
   $('pool-title').textContent = pool;
   const enc = encodeURIComponent(pool);
   $('to-desk').href = `desk.html?pool=${enc}`;
-  $('to-records').href = `./?pool=${enc}`;
-  $('export-csv').href = apiUrl(`pools/${enc}/export?format=csv`);
-  $('export-jsonl').href = apiUrl(`pools/${enc}/export?format=jsonl`);
-  $('round-now').addEventListener('click', async () => {
+  // Buttons the role may not use are gone after showAccount(); the server refuses them regardless.
+  const set = (id, apply) => { if ($(id)) apply($(id)); };
+  set('to-records', (a) => { a.href = `./?pool=${enc}`; });
+  set('export-csv', (a) => { a.href = apiUrl(`pools/${enc}/export?format=csv`); });
+  set('export-jsonl', (a) => { a.href = apiUrl(`pools/${enc}/export?format=jsonl`); });
+  set('round-now', (b) => b.addEventListener('click', async () => {
     await postJson(`pools/${enc}/rounds`, {});
     refreshSoon();
-  });
+  }));
   const events = new EventSource(apiUrl(`events?pool=${enc}`));
   events.addEventListener('round', refreshSoon);
   events.addEventListener('label', refreshSoon);

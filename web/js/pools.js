@@ -1,4 +1,5 @@
 // The pools page: the list of pools, one pool's records, and adding a pool from a file.
+import { showAccount } from './account.js';
 import { getJson, postBody, apiUrl } from './api.js';
 import { recordBody } from './fields.js';
 
@@ -36,7 +37,7 @@ async function showPools() {
 
 async function showPool(name, offset) {
   $('pool-list').hidden = true;
-  $('add-pool').hidden = true;
+  if ($('add-pool')) $('add-pool').hidden = true;
   $('pool-view').hidden = false;
   const pool = await getJson(`pools/${encodeURIComponent(name)}`);
   document.title = `Dowser · ${pool.name}`;
@@ -54,8 +55,10 @@ async function showPool(name, offset) {
     chip.append(document.createTextNode(`${c.name} · ${c.labelled}`));
     chips.append(chip);
   }
-  $('export-csv').href = apiUrl(`pools/${encodeURIComponent(name)}/export?format=csv`);
-  $('export-jsonl').href = apiUrl(`pools/${encodeURIComponent(name)}/export?format=jsonl`);
+  if ($('export-csv')) {
+    $('export-csv').href = apiUrl(`pools/${encodeURIComponent(name)}/export?format=csv`);
+    $('export-jsonl').href = apiUrl(`pools/${encodeURIComponent(name)}/export?format=jsonl`);
+  }
 
   const page = await getJson(`pools/${encodeURIComponent(name)}/records?offset=${offset}&limit=${PAGE}`);
   const records = $('records');
@@ -83,10 +86,10 @@ function go(name, offset) {
 }
 
 function fail(error) {
-  const message = $('import-message');
+  const message = $('import-message') || $('page-message');
   message.textContent = error.message;
   message.className = 'message error';
-  $('add-pool').hidden = false;
+  if ($('add-pool')) $('add-pool').hidden = false;
 }
 
 /** Roles a column can take in the mapping step; features may also be shown. */
@@ -225,21 +228,24 @@ async function importFile(event) {
   }
 }
 
-function start() {
+async function start() {
+  await showAccount();
   const params = new URLSearchParams(location.search);
   const pool = params.get('pool');
-  $('import-form').addEventListener('submit', previewFile);
-  $('mapping').addEventListener('submit', importFile);
-  $('mapping-cancel').addEventListener('click', () => {
-    $('mapping').hidden = true;
-    $('import-form').hidden = false;
-  });
+  if ($('import-form')) {
+    $('import-form').addEventListener('submit', previewFile);
+    $('mapping').addEventListener('submit', importFile);
+    $('mapping-cancel').addEventListener('click', () => {
+      $('mapping').hidden = true;
+      $('import-form').hidden = false;
+    });
+  }
   if (pool) {
-    showPool(pool, Number(params.get('offset')) || 0).catch(fail);
+    await showPool(pool, Number(params.get('offset')) || 0);
   } else {
-    showPools().catch(fail);
+    await showPools();
   }
 }
 
 window.addEventListener('popstate', () => location.reload());
-start();
+start().catch(fail);

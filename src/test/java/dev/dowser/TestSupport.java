@@ -1,12 +1,16 @@
 package dev.dowser;
 
 import dev.dowser.data.FileFormat;
+import dev.dowser.data.ImportProgress;
 import dev.dowser.data.ImportResult;
 import dev.dowser.data.ImportSpec;
-import dev.dowser.data.ImportProgress;
 import dev.dowser.data.Importer;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
+import dev.dowser.team.Accounts;
+import dev.dowser.team.Caller;
+import dev.dowser.team.Role;
+import dev.dowser.team.TeamConfig;
 import java.io.BufferedReader;
 import java.io.ByteArrayInputStream;
 import java.io.IOException;
@@ -17,6 +21,7 @@ import java.io.Writer;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.security.SecureRandom;
 import java.sql.Connection;
 import java.sql.ResultSet;
 import java.sql.SQLException;
@@ -46,6 +51,17 @@ public final class TestSupport {
     /** A sampler small enough for a round in well under a second: 16 hidden units, 2 chains, 8 draws. */
     public static SamplerConfig quickSampler() {
         return SamplerConfig.defaults(3).withHidden(List.of(16)).withChains(2, 8).withSteps(100, 50, 5);
+    }
+
+    /** Accounts as the server keeps them, with few PBKDF2 iterations so tests that sign in stay quick. */
+    public static final TeamConfig FAST_TEAM = TeamConfig.defaults().withIterations(1_000);
+    public static final String TEST_PASSWORD = "test-password-1";
+
+    /** Adds an account (password {@link #TEST_PASSWORD}) and returns a fresh API token for it. */
+    public static String tokenFor(Database db, String name, Role role) {
+        Accounts accounts = new Accounts(db, new SecureRandom(), FAST_TEAM);
+        accounts.add(name, role, TEST_PASSWORD, "test");
+        return accounts.newToken(new Caller(name, role, null, null), "test");
     }
 
     public static Database openDb(Path dir) {

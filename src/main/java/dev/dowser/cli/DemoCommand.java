@@ -3,11 +3,15 @@ package dev.dowser.cli;
 import dev.dowser.data.ImportResult;
 import dev.dowser.demo.DemoPool;
 import dev.dowser.store.Database;
+import dev.dowser.team.Accounts;
+import dev.dowser.team.Role;
+import dev.dowser.team.TeamConfig;
 import dev.dowser.web.WebConfig;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.security.SecureRandom;
 import java.time.Clock;
 import java.util.concurrent.Callable;
 import java.util.stream.Stream;
@@ -19,6 +23,9 @@ import picocli.CommandLine.Option;
             "The pool holds vibration traces from the pumps of Kettlewater Works, an invented water works,"
                 + " each to be labelled with one of five conditions."})
 final class DemoCommand implements Callable<Integer> {
+
+    static final String DEMO_ADMIN = "demo-admin";
+    static final String DEMO_LABELLER = "demo-labeller";
 
     @Option(names = "--port", defaultValue = "" + WebConfig.DEFAULT_PORT, paramLabel = "P",
             description = "TCP port (default: ${DEFAULT-VALUE}).")
@@ -44,12 +51,20 @@ final class DemoCommand implements Callable<Integer> {
         Path folder = fresh(dir);
         Database db = Database.open(folder, Clock.systemUTC());
         ImportResult r = DemoPool.load(db, folder, records, seed);
+        // The demo signs in like any server: an admin and a labeller with fresh passwords, printed below.
+        Accounts accounts = new Accounts(db, new SecureRandom(), TeamConfig.defaults());
+        String adminPassword = UsersCommand.generatePassword(new SecureRandom());
+        String labellerPassword = UsersCommand.generatePassword(new SecureRandom());
+        accounts.add(DEMO_ADMIN, Role.ADMIN, adminPassword, "demo");
+        accounts.add(DEMO_LABELLER, Role.LABELLER, labellerPassword, "demo");
         WebConfig config = new WebConfig(WebConfig.DEFAULT_BIND, port, WebConfig.DEFAULT_MAX_UPLOAD_BYTES,
                 folder.resolve("uploads"));
         // The first round (a batch spread over the pool by k-means++) is ready before anyone looks.
         ServerRunner.runUntilStopped(db, config, "Dowser demo: " + r.records() + " pump readings in pool '"
                 + r.poolName() + "'\nLabel at  {address}desk.html?pool=" + r.poolName()
                 + "\nOverview  {address}overview.html?pool=" + r.poolName()
+                + "\nSign in as " + DEMO_ADMIN + " / " + adminPassword + "  or  " + DEMO_LABELLER + " / "
+                + labellerPassword
                 + "\n(data: " + folder.toAbsolutePath() + "; Ctrl-C stops)", server -> server.requestRound(r.poolName()));
         return 0;
     }

@@ -9,6 +9,10 @@ import dev.dowser.json.Json;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.store.Database;
+import dev.dowser.team.Accounts;
+import dev.dowser.team.Caller;
+import dev.dowser.team.Role;
+import dev.dowser.team.TeamConfig;
 import dev.dowser.web.WebConfig;
 import dev.dowser.web.WebServer;
 import java.io.IOException;
@@ -22,6 +26,7 @@ import java.net.http.HttpResponse;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.security.SecureRandom;
 import java.time.Clock;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -63,18 +68,33 @@ final class DeskBench {
             }
             long poolId = db.pools().require("desk").id();
             db.pools().updateSettings(poolId, new PoolSettings(BATCH, PoolSettings.DEFAULT_SPOT_CHECK_SHARE,
-                    PoolSettings.DEFAULT_LEASE_MINUTES, Strategy.BALD).toJson());
+                    PoolSettings.DEFAULT_LEASE_MINUTES, Strategy.BALD).toJson(), "bench");
             try (WebServer server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("up")))) {
                 server.requestRound("desk");
                 while (db.queues().servedRound(poolId).isEmpty()) {
                     Thread.sleep(20);
                 }
-                measure(out, server.port(), quick ? 15 : 60);
+                measure(out, server.port(), labellerTokens(db), quick ? 15 : 60);
             }
         }
     }
 
-    private static void measure(PrintWriter out, int port, int seconds) throws Exception {
+    /**
+     * One labeller account and API token per simulated person. Their passwords are never used, so
+     * they are hashed with few iterations to keep the set-up short.
+     */
+    private static List<String> labellerTokens(Database db) {
+        Accounts accounts = new Accounts(db, new SecureRandom(), TeamConfig.defaults().withIterations(1_000));
+        List<String> tokens = new ArrayList<>();
+        for (int p = 0; p < LABELLERS; p++) {
+            String name = "bench-" + p;
+            accounts.add(name, Role.LABELLER, UsersCommand.generatePassword(new SecureRandom()), "bench");
+            tokens.add(accounts.newToken(new Caller(name, Role.LABELLER, null, null), "bench"));
+        }
+        return tokens;
+    }
+
+    private static void measure(PrintWriter out, int port, List<String> tokens, int seconds) throws Exception {
         HttpClient http = HttpClient.newBuilder().executor(Executors.newFixedThreadPool(4)).build();
         long end = System.nanoTime() + seconds * 1_000_000_000L;
         List<long[]> perThread = new ArrayList<>();
@@ -84,8 +104,8 @@ final class DeskBench {
         for (int p = 0; p < LABELLERS; p++) {
             long[] times = new long[200_000];
             perThread.add(times);
-            int person = p;
-            done.add(people.submit(() -> labeller(http, port, person, end, times, turnarounds)));
+            String token = tokens.get(p);
+            done.add(people.submit(() -> labeller(http, port, token, end, times, turnarounds)));
         }
         for (Future<?> f : done) {
             f.get();
@@ -113,29 +133,28 @@ final class DeskBench {
      * think, repeat. A reply that says the batch is complete starts a clock, stopped by the first
      * reply that shows a newer round served.
      */
-    private static void labeller(HttpClient http, int port, int person, long end, long[] times,
+    private static void labeller(HttpClient http, int port, String token, long end, long[] times,
                                  List<double[]> turnarounds) {
-        SplittableRandom rng = new SplittableRandom(person);
-        String name = "bench-" + person;
+        SplittableRandom rng = new SplittableRandom(token.hashCode());
         String base = "http://127.0.0.1:" + port + "/api/v1/pools/desk/";
         int n = 0;
         long batchDoneAt = 0;
         int roundWhenDone = 0;
         try {
-            JsonNode held = post(http, base + "queue/next", "{\"person\":\"" + name + "\"}");
+            JsonNode held = post(http, token, base + "queue/next", "{}");
             while (System.nanoTime() < end && n < times.length) {
                 long t0 = System.nanoTime();
                 JsonNode progress;
                 if (held.hasNonNull("record")) {
-                    JsonNode labelled = post(http, base + "labels", "{\"record\":\"" + held.at("/record/id").asText()
-                            + "\",\"label\":\"c" + rng.nextInt(CLASSES) + "\",\"labelled_by\":\"" + name + "\"}");
+                    JsonNode labelled = post(http, token, base + "labels", "{\"record\":\""
+                            + held.at("/record/id").asText() + "\",\"label\":\"c" + rng.nextInt(CLASSES) + "\"}");
                     progress = labelled.get("progress");
                     if (progress.get("labels_to_next_round").asInt() == BATCH && batchDoneAt == 0) {
                         batchDoneAt = System.nanoTime();
                         roundWhenDone = progress.path("served_round").asInt();
                     }
                 }
-                held = post(http, base + "queue/next", "{\"person\":\"" + name + "\"}");
+                held = post(http, token, base + "queue/next", "{}");
                 times[n++] = System.nanoTime() - t0;
                 int served = held.at("/progress/served_round").asInt();
                 if (batchDoneAt != 0 && served > roundWhenDone) {
@@ -153,8 +172,9 @@ final class DeskBench {
         }
     }
 
-    private static JsonNode post(HttpClient http, String url, String body) throws IOException, InterruptedException {
-        HttpResponse<String> r = http.send(HttpRequest.newBuilder(URI.create(url))
+    private static JsonNode post(HttpClient http, String token, String url, String body)
+            throws IOException, InterruptedException {
+        HttpResponse<String> r = http.send(HttpRequest.newBuilder(URI.create(url)).header("Authorization", "Bearer " + token)
                 .POST(HttpRequest.BodyPublishers.ofString(body)).build(), HttpResponse.BodyHandlers.ofString());
         if (r.statusCode() >= 300) {
             throw new IOException("HTTP " + r.statusCode() + " from " + url + ": " + r.body());

@@ -19,6 +19,7 @@ import picocli.CommandLine.Command;
             DemoCommand.class,
             ImportCommand.class,
             ExportCommand.class,
+            UsersCommand.class,
             FitCommand.class,
             SimulateCommand.class,
             BenchCommand.class,

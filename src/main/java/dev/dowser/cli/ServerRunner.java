@@ -4,6 +4,7 @@ import dev.dowser.store.Database;
 import dev.dowser.web.WebConfig;
 import dev.dowser.web.WebServer;
 import java.util.concurrent.CountDownLatch;
+import java.util.function.Consumer;
 
 /** Runs the web server until the process is told to stop, then shuts down in order. */
 final class ServerRunner {
@@ -17,7 +18,7 @@ final class ServerRunner {
 
     /** As above, calling {@code onStart} once the server listens. */
     static void runUntilStopped(Database db, WebConfig config, String banner,
-                                java.util.function.Consumer<WebServer> onStart) {
+                                Consumer<WebServer> onStart) {
         WebServer server = WebServer.start(db, config);
         onStart.accept(server);
         CountDownLatch stopped = new CountDownLatch(1);
@@ -28,6 +29,8 @@ final class ServerRunner {
             stopped.countDown();
         }, "dowser-shutdown"));
         System.out.println(banner.replace("{address}", server.address()));
+        server.setupCode().ifPresent(code -> System.out.println("No account yet: open " + server.address()
+                + "login.html and create the first admin with the one-time setup code " + code));
         System.out.flush();
         try {
             stopped.await();

@@ -30,16 +30,20 @@ public final class Database implements AutoCloseable {
     private final ChainStateStore chains;
     private final QueueStore queues;
     private final RoundStore rounds;
+    private final UserStore users;
+    private final HistoryStore history;
 
     private Database(HikariDataSource dataSource, Clock clock) {
         this.dataSource = dataSource;
         this.clock = clock;
         this.labels = new LabelStore(dataSource, clock);
-        this.pools = new PoolStore(dataSource, labels);
+        this.pools = new PoolStore(dataSource, labels, clock);
         this.records = new RecordStore(dataSource, labels);
         this.chains = new ChainStateStore(dataSource, clock);
         this.queues = new QueueStore(dataSource, clock);
         this.rounds = new RoundStore(dataSource, clock);
+        this.users = new UserStore(dataSource, clock);
+        this.history = new HistoryStore(dataSource, clock);
     }
 
     /** Opens (creating if needed) the database in {@code dataDir} and applies pending migrations. */
@@ -120,6 +124,14 @@ public final class Database implements AutoCloseable {
 
     public RoundStore rounds() {
         return rounds;
+    }
+
+    public UserStore users() {
+        return users;
+    }
+
+    public HistoryStore history() {
+        return history;
     }
 
     /**

@@ -5,6 +5,7 @@ import java.sql.Connection;
 import java.sql.PreparedStatement;
 import java.sql.ResultSet;
 import java.sql.SQLException;
+import java.time.Clock;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.LinkedHashMap;
@@ -21,10 +22,12 @@ public final class PoolStore {
 
     private final DataSource ds;
     private final LabelStore labels;
+    private final Clock clock;
 
-    PoolStore(DataSource ds, LabelStore labels) {
+    PoolStore(DataSource ds, LabelStore labels, Clock clock) {
         this.ds = ds;
         this.labels = labels;
+        this.clock = clock;
     }
 
     public Optional<PoolRow> find(String name) {
@@ -44,14 +47,28 @@ public final class PoolStore {
     }
 
     /** Replaces the pool's settings document (validated by the caller). */
-    public void updateSettings(long poolId, String settingsJson) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement u = c.prepareStatement("UPDATE pools SET settings = ? WHERE id = ?")) {
-            u.setString(1, settingsJson);
-            u.setLong(2, poolId);
-            if (u.executeUpdate() != 1) {
-                throw new NotFoundException("no pool with id " + poolId);
-            }
+    /** Replaces a pool's settings and appends the change, before and after, to the history; both or neither. */
+    public void updateSettings(long poolId, String settingsJson, String actor) {
+        try {
+            Transactions.run(ds, c -> {
+                String before;
+                try (PreparedStatement q = c.prepareStatement("SELECT settings FROM pools WHERE id = ? FOR UPDATE")) {
+                    q.setLong(1, poolId);
+                    try (ResultSet rs = q.executeQuery()) {
+                        if (!rs.next()) {
+                            throw new NotFoundException("no pool with id " + poolId);
+                        }
+                        before = rs.getString(1);
+                    }
+                }
+                try (PreparedStatement u = c.prepareStatement("UPDATE pools SET settings = ? WHERE id = ?")) {
+                    u.setString(1, settingsJson);
+                    u.setLong(2, poolId);
+                    u.executeUpdate();
+                }
+                HistoryStore.append(c, clock, poolId, "settings", "settings-changed", actor, before, settingsJson);
+                return null;
+            });
         } catch (SQLException e) {
             throw new StoreException("cannot save the settings of pool " + poolId + ": " + e.getMessage(), e);
         }

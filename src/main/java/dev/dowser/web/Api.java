@@ -23,6 +23,7 @@ import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.PoolSummary;
 import dev.dowser.store.RecordRow;
+import dev.dowser.team.Accounts;
 import io.undertow.server.HttpServerExchange;
 import io.undertow.server.RoutingHandler;
 import io.undertow.util.Headers;
@@ -47,18 +48,21 @@ final class Api {
     private final ImportJobs imports;
     private final Rounds rounds;
     private final Events events;
+    private final Accounts accounts;
 
-    Api(Database db, ImportJobs imports, Rounds rounds, Events events) {
+    Api(Database db, ImportJobs imports, Rounds rounds, Events events, Accounts accounts) {
         this.db = db;
         this.imports = imports;
         this.rounds = rounds;
         this.events = events;
+        this.accounts = accounts;
     }
 
     RoutingHandler routes() {
         RoutingHandler routes = new RoutingHandler();
         new DeskApi(db, rounds, events).addTo(routes);
         new RoundsApi(db, rounds).addTo(routes);
+        new TeamApi(accounts).addTo(routes);
         return routes
                 .get("/pools", this::listPools)
                 .get("/pools/{pool}", this::pool)

@@ -49,10 +49,10 @@ final class DeskApi {
                 .post("/pools/{pool}/labels/undo", this::undo);
     }
 
-    /** Leases the next record of the served queue to the person named in the body. */
+    /** Leases the next record of the served queue to the signed-in person. */
     private void next(HttpServerExchange ex) throws IOException {
         PoolRow pool = db.pools().require(param(ex, "pool"));
-        String person = person(jsonBody(ex, "a request"), "person");
+        String person = Gate.caller(ex, true).name();
         Optional<QueueEntry> next = db.queues().lease(pool.id(), person, lease(pool));
         if (next.isEmpty()) {
             ObjectNode body = Json.object().putNull("record").put("message",
@@ -79,7 +79,8 @@ final class DeskApi {
     private void skip(HttpServerExchange ex) throws IOException {
         PoolRow pool = db.pools().require(param(ex, "pool"));
         JsonNode body = jsonBody(ex, "a skip");
-        db.queues().release(pool.id(), requiredInt(body, "round"), requiredInt(body, "position"), person(body, "person"));
+        db.queues().release(pool.id(), requiredInt(body, "round"), requiredInt(body, "position"),
+                Gate.caller(ex, true).name());
         Responses.ok(ex, Json.object().put("released", true));
     }
 
@@ -88,7 +89,7 @@ final class DeskApi {
         JsonNode body = jsonBody(ex, "a label request");
         String record = requiredText(body, "record");
         String label = requiredText(body, "label");
-        String by = person(body, "labelled_by");
+        String by = Gate.caller(ex, true).name();
         String note = optionalText(body, "note");
         if (note != null && note.length() > LabelStore.MAX_NOTE_CHARS) {
             throw new ApiException(400, "field 'note' may hold at most " + LabelStore.MAX_NOTE_CHARS + " characters");
@@ -116,7 +117,7 @@ final class DeskApi {
         PoolRow pool = db.pools().require(param(ex, "pool"));
         JsonNode body = jsonBody(ex, "an undo");
         String record = requiredText(body, "record");
-        String person = person(body, "person");
+        String person = Gate.caller(ex, true).name();
         long row = rowOf(pool, record);
         LabelRow withdrawn = db.labels().withdraw(pool.id(), row, person);
         db.queues().leaseRow(pool.id(), row, person, lease(pool));
@@ -149,14 +150,5 @@ final class DeskApi {
 
     private static List<String> display(PoolRow pool) {
         return Json.read(pool.columnRolesJson(), ColumnRoles.class).display();
-    }
-
-    private static String person(JsonNode body, String field) {
-        String person = requiredText(body, field);
-        if (person.length() > LabelStore.MAX_LABELLER_CHARS) {
-            throw new ApiException(400, "field '" + field + "' may hold at most " + LabelStore.MAX_LABELLER_CHARS
-                    + " characters");
-        }
-        return person;
     }
 }

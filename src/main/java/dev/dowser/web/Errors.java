@@ -1,9 +1,12 @@
 package dev.dowser.web;
 
 import dev.dowser.data.ImportException;
+import dev.dowser.json.Json;
 import dev.dowser.store.ConflictException;
 import dev.dowser.store.NotFoundException;
+import dev.dowser.team.AuthException;
 import io.undertow.server.HttpServerExchange;
+import io.undertow.util.Headers;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
@@ -18,7 +21,17 @@ final class Errors {
     static void send(HttpServerExchange exchange, Throwable e) {
         int status;
         String message;
-        if (e instanceof ApiException api) {
+        if (e instanceof AuthException auth) {
+            status = switch (auth.kind()) {
+                case NOT_SIGNED_IN -> 401;
+                case FORBIDDEN -> 403;
+                case HELD_BACK -> 429;
+            };
+            message = auth.getMessage();
+            if (auth.retryAfterSeconds() > 0) {
+                exchange.getResponseHeaders().put(Headers.RETRY_AFTER, auth.retryAfterSeconds());
+            }
+        } else if (e instanceof ApiException api) {
             status = api.status();
             message = api.getMessage();
         } else if (e instanceof NotFoundException) {
@@ -39,7 +52,7 @@ final class Errors {
             exchange.endExchange();
             return;
         }
-        var body = dev.dowser.json.Json.object().put("error", message);
+        var body = Json.object().put("error", message);
         Responses.json(exchange, status, body);
     }
 }

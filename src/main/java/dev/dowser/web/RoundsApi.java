@@ -130,7 +130,7 @@ final class RoundsApi {
                 Requests.optionalNumber(body, "spot_check_share", now.spotCheckShare()),
                 Requests.optionalInt(body, "lease_minutes", now.leaseMinutes()),
                 body.has("strategy") ? Strategy.parse(body.get("strategy").asText()) : now.strategy());
-        db.pools().updateSettings(pool.id(), next.toJson());
+        db.pools().updateSettings(pool.id(), next.toJson(), Gate.caller(ex, true).name());
         rounds.worker(pool.name()).batchChanged(next.batchSize());
         Responses.ok(ex, settingsJson(next));
     }

@@ -3,12 +3,16 @@ package dev.dowser.web;
 import dev.dowser.rounds.Rounds;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
+import dev.dowser.team.Accounts;
+import dev.dowser.team.TeamConfig;
 import io.undertow.Handlers;
 import io.undertow.Undertow;
 import io.undertow.server.HttpHandler;
 import io.undertow.server.handlers.BlockingHandler;
 import io.undertow.server.handlers.GracefulShutdownHandler;
 import java.net.InetSocketAddress;
+import java.security.SecureRandom;
+import java.util.Optional;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
@@ -29,35 +33,42 @@ public final class WebServer implements AutoCloseable {
     private final ImportJobs imports;
     private final Rounds rounds;
     private final Events events;
+    private final Accounts accounts;
 
     private WebServer(Undertow undertow, GracefulShutdownHandler graceful, ImportJobs imports, Rounds rounds,
-                      Events events) {
+                      Events events, Accounts accounts) {
         this.undertow = undertow;
         this.graceful = graceful;
         this.imports = imports;
         this.rounds = rounds;
         this.events = events;
+        this.accounts = accounts;
     }
 
     public static WebServer start(Database db, WebConfig config) {
         return start(db, config, SamplerConfig.defaults(DEFAULT_SEED));
     }
 
-    /** Starts the server; rounds sample with {@code sampler}. */
     public static WebServer start(Database db, WebConfig config, SamplerConfig sampler) {
+        return start(db, config, sampler, TeamConfig.defaults());
+    }
+
+    /** Starts the server; rounds sample with {@code sampler}, accounts and sessions follow {@code team}. */
+    public static WebServer start(Database db, WebConfig config, SamplerConfig sampler, TeamConfig team) {
         ImportJobs imports = new ImportJobs(db, config.spoolDir(), config.maxUploadBytes());
         Events events = new Events();
         Rounds rounds = new Rounds(db, sampler, events);
-        HttpHandler api = new BlockingHandler(guarded(new Api(db, imports, rounds, events).routes()));
-        HttpHandler root = Handlers.path(StaticFiles.handler()).addPrefixPath(Api.PREFIX, api)
+        Accounts accounts = new Accounts(db, new SecureRandom(), team);
+        HttpHandler api = new BlockingHandler(guarded(new Api(db, imports, rounds, events, accounts).routes()));
+        HttpHandler routes = Handlers.path(StaticFiles.handler()).addPrefixPath(Api.PREFIX, api)
                 .addExactPath(Api.PREFIX + "/events", events.handler());
-        GracefulShutdownHandler graceful = Handlers.gracefulShutdown(root);
+        GracefulShutdownHandler graceful = Handlers.gracefulShutdown(new Gate(accounts, guarded(routes)));
         Undertow undertow = Undertow.builder()
                 .addHttpListener(config.port(), config.bind())
                 .setHandler(graceful)
                 .build();
         undertow.start();
-        return new WebServer(undertow, graceful, imports, rounds, events);
+        return new WebServer(undertow, graceful, imports, rounds, events, accounts);
     }
 
     /** Every API exception, thrown anywhere below, becomes one JSON error response. */
@@ -74,6 +85,11 @@ public final class WebServer implements AutoCloseable {
     /** Asks for a round of the pool now, as {@code POST /api/v1/pools/{pool}/rounds} does. */
     public void requestRound(String pool) {
         rounds.worker(pool).request();
+    }
+
+    /** The one-time code that creates the first admin, while the server has no account. */
+    public Optional<String> setupCode() {
+        return accounts.setupCode();
     }
 
     public int port() {

@@ -7,6 +7,7 @@ import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.TestSupport;
 import dev.dowser.json.Json;
 import dev.dowser.store.Database;
+import dev.dowser.team.Role;
 import java.io.IOException;
 import java.net.URI;
 import java.net.http.HttpClient;
@@ -26,12 +27,15 @@ class ApiTest {
     Path dir;
     Database db;
     WebServer server;
+    String admin;
     final HttpClient http = HttpClient.newHttpClient();
 
     @BeforeEach
     void start() {
         db = TestSupport.openDb(dir.resolve("db"));
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 4_096, dir.resolve("uploads")));
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 4_096, dir.resolve("uploads")),
+                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        admin = TestSupport.tokenFor(db, "ana", Role.ADMIN);
     }
 
     @AfterEach
@@ -40,8 +44,9 @@ class ApiTest {
         db.close();
     }
 
+    /** Sends as the admin ana, through her API token. */
     private HttpResponse<String> send(HttpRequest.Builder b) throws IOException, InterruptedException {
-        return http.send(b.build(), HttpResponse.BodyHandlers.ofString());
+        return http.send(b.header("Authorization", "Bearer " + admin).build(), HttpResponse.BodyHandlers.ofString());
     }
 
     private HttpRequest.Builder at(String path) {
@@ -73,7 +78,7 @@ class ApiTest {
         assertEquals("2.5", page.get("records").get(0).get("fields").get("flow").asText());
 
         HttpResponse<String> labelled = send(at("/api/v1/pools/pumps/labels").POST(HttpRequest.BodyPublishers
-                .ofString("{\"record\":\"u2\",\"label\":\"ok\",\"labelled_by\":\"ana\",\"note\":\"by ear\"}")));
+                .ofString("{\"record\":\"u2\",\"label\":\"ok\",\"note\":\"by ear\"}")));
         assertEquals(201, labelled.statusCode(), labelled.body());
         assertEquals("ana", Json.tree(labelled.body()).get("labelled_by").asText());
 
@@ -104,7 +109,7 @@ class ApiTest {
         assertEquals("no pool named 'nope'", Json.tree(missing.body()).get("error").asText());
 
         HttpResponse<String> wrongLabel = send(at("/api/v1/pools/kept/labels").POST(HttpRequest.BodyPublishers
-                .ofString("{\"record\":\"2\",\"label\":\"zzz\",\"labelled_by\":\"ana\"}")));
+                .ofString("{\"record\":\"2\",\"label\":\"zzz\"}")));
         assertEquals(400, wrongLabel.statusCode());
 
         HttpResponse<String> hostile = send(at("/api/v1/pools/kept/labels").POST(HttpRequest.BodyPublishers
@@ -147,17 +152,17 @@ class ApiTest {
         assertEquals(1, rounds.get("served_round").asInt(), rounds.toString());
         assertEquals("published", rounds.get("rounds").get(0).get("status").asText());
 
-        HttpResponse<String> next = send(at("/api/v1/pools/iris/queue/next").POST(
-                HttpRequest.BodyPublishers.ofString("{\"person\":\"ana\"}")));
+        HttpResponse<String> next = send(at("/api/v1/pools/iris/queue/next").POST(HttpRequest.BodyPublishers.noBody()));
         assertEquals(200, next.statusCode(), next.body());
         JsonNode lease = Json.tree(next.body());
         String id = lease.get("record").get("id").asText();
         // Another person asking at the same time gets another record.
-        JsonNode other = Json.tree(send(at("/api/v1/pools/iris/queue/next").POST(
-                HttpRequest.BodyPublishers.ofString("{\"person\":\"ben\"}"))).body());
+        String ben = TestSupport.tokenFor(db, "ben", Role.LABELLER);
+        JsonNode other = Json.tree(http.send(at("/api/v1/pools/iris/queue/next").header("Authorization", "Bearer " + ben)
+                .POST(HttpRequest.BodyPublishers.noBody()).build(), HttpResponse.BodyHandlers.ofString()).body());
         assertTrue(!id.equals(other.get("record").get("id").asText()), "two people got record " + id);
         HttpResponse<String> labelled = send(at("/api/v1/pools/iris/labels").POST(HttpRequest.BodyPublishers
-                .ofString("{\"record\":\"" + id + "\",\"label\":\"setosa\",\"labelled_by\":\"ana\"}")));
+                .ofString("{\"record\":\"" + id + "\",\"label\":\"setosa\"}")));
         assertEquals(201, labelled.statusCode(), labelled.body());
         assertEquals(9, Json.tree(send(at("/api/v1/pools/iris/rounds")).body()).get("labels_to_next_round").asInt());
     }

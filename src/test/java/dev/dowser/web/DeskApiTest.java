@@ -10,6 +10,7 @@ import dev.dowser.TestSupport;
 import dev.dowser.json.Json;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
+import dev.dowser.team.Role;
 import java.io.BufferedReader;
 import java.io.InputStream;
 import java.io.InputStreamReader;
@@ -20,7 +21,9 @@ import java.net.http.HttpResponse;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.HashMap;
 import java.util.List;
+import java.util.Map;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.TimeUnit;
 import org.junit.jupiter.api.AfterEach;
@@ -40,12 +43,19 @@ class DeskApiTest {
     Database db;
     WebServer server;
     final HttpClient http = HttpClient.newHttpClient();
+    /** API tokens: the admin "lead" and the labellers p1, p2, p3. */
+    final Map<String, String> tokens = new HashMap<>();
 
     @BeforeEach
     void start() throws Exception {
         db = TestSupport.openDb(dir.resolve("db"));
         SamplerConfig quick = TestSupport.quickSampler();
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 22, dir.resolve("uploads")), quick);
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 22, dir.resolve("uploads")), quick,
+                TestSupport.FAST_TEAM);
+        tokens.put("lead", TestSupport.tokenFor(db, "lead", Role.ADMIN));
+        for (String p : List.of("p1", "p2", "p3")) {
+            tokens.put(p, TestSupport.tokenFor(db, p, Role.LABELLER));
+        }
         List<String> lines = Files.readAllLines(TestSupport.openDataset("iris", dir).csv());
         StringBuilder csv = new StringBuilder(lines.get(0)).append('\n');
         for (int i = 1; i < lines.size(); i++) {
@@ -70,8 +80,14 @@ class DeskApiTest {
         db.close();
     }
 
+    /** Sends as the admin. */
     private HttpResponse<String> send(String method, String path, String body) throws Exception {
+        return as("lead", method, path, body);
+    }
+
+    private HttpResponse<String> as(String person, String method, String path, String body) throws Exception {
         return http.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + server.port() + path))
+                .header("Authorization", "Bearer " + tokens.get(person))
                 .method(method, HttpRequest.BodyPublishers.ofString(body)).build(), HttpResponse.BodyHandlers.ofString());
     }
 
@@ -82,42 +98,43 @@ class DeskApiTest {
 
     @Test
     void leasesSkipLabelAndUndo() throws Exception {
-        JsonNode a = ok(send("POST", "/api/v1/pools/iris/queue/next", "{\"person\":\"p1\"}"), 200);
-        JsonNode b = ok(send("POST", "/api/v1/pools/iris/queue/next", "{\"person\":\"p2\"}"), 200);
+        JsonNode a = ok(as("p1", "POST", "/api/v1/pools/iris/queue/next", "{}"), 200);
+        JsonNode b = ok(as("p2", "POST", "/api/v1/pools/iris/queue/next", "{}"), 200);
         String recordA = a.at("/record/id").asText();
         assertNotEquals(recordA, b.at("/record/id").asText(), "one record handed to two people");
         assertTrue(a.at("/belief/mean").size() == 3 && a.at("/belief/sd").size() == 3, a.toString());
         assertEquals(1, a.at("/progress/served_round").asInt());
 
         // Asking again gives the same person the record they hold.
-        assertEquals(recordA, ok(send("POST", "/api/v1/pools/iris/queue/next", "{\"person\":\"p1\"}"), 200)
+        assertEquals(recordA, ok(as("p1", "POST", "/api/v1/pools/iris/queue/next", "{}"), 200)
                 .at("/record/id").asText());
         // A skip frees it for the next person at once.
-        ok(send("POST", "/api/v1/pools/iris/queue/skip", "{\"person\":\"p1\",\"round\":" + a.get("round").asInt()
+        ok(as("p1", "POST", "/api/v1/pools/iris/queue/skip", "{\"round\":" + a.get("round").asInt()
                 + ",\"position\":" + a.get("position").asInt() + "}"), 200);
-        assertEquals(recordA, ok(send("POST", "/api/v1/pools/iris/queue/next", "{\"person\":\"p3\"}"), 200)
+        assertEquals(recordA, ok(as("p3", "POST", "/api/v1/pools/iris/queue/next", "{}"), 200)
                 .at("/record/id").asText());
 
-        JsonNode labelled = ok(send("POST", "/api/v1/pools/iris/labels",
-                "{\"record\":\"" + recordA + "\",\"label\":\"setosa\",\"labelled_by\":\"p3\",\"note\":\"petals small\"}"), 201);
+        JsonNode labelled = ok(as("p3", "POST", "/api/v1/pools/iris/labels",
+                "{\"record\":\"" + recordA + "\",\"label\":\"setosa\",\"note\":\"petals small\"}"), 201);
+        assertEquals("p3", labelled.get("labelled_by").asText(), "a label is given in the signed-in name");
         assertEquals("setosa", labelled.get("label").asText());
         assertEquals(9, labelled.at("/progress/labels_to_next_round").asInt());
 
-        HttpResponse<String> notTheirs = send("POST", "/api/v1/pools/iris/labels/undo",
-                "{\"record\":\"" + recordA + "\",\"person\":\"p1\"}");
+        HttpResponse<String> notTheirs = as("p1", "POST", "/api/v1/pools/iris/labels/undo",
+                "{\"record\":\"" + recordA + "\"}");
         assertEquals(409, notTheirs.statusCode());
         assertTrue(notTheirs.body().contains("was given by p3; only they can take it back"), notTheirs.body());
 
-        JsonNode undone = ok(send("POST", "/api/v1/pools/iris/labels/undo",
-                "{\"record\":\"" + recordA + "\",\"person\":\"p3\"}"), 200);
+        JsonNode undone = ok(as("p3", "POST", "/api/v1/pools/iris/labels/undo",
+                "{\"record\":\"" + recordA + "\"}"), 200);
         assertEquals("setosa", undone.get("withdrawn").asText());
         assertTrue(undone.at("/record/label").isNull(), undone.toString());
         assertEquals(10, undone.at("/progress/labels_to_next_round").asInt());
         // The record is unlabelled again and back with the one who took the label back.
-        assertEquals(recordA, ok(send("POST", "/api/v1/pools/iris/queue/next", "{\"person\":\"p3\"}"), 200)
+        assertEquals(recordA, ok(as("p3", "POST", "/api/v1/pools/iris/queue/next", "{}"), 200)
                 .at("/record/id").asText());
-        HttpResponse<String> twice = send("POST", "/api/v1/pools/iris/labels/undo",
-                "{\"record\":\"" + recordA + "\",\"person\":\"p3\"}");
+        HttpResponse<String> twice = as("p3", "POST", "/api/v1/pools/iris/labels/undo",
+                "{\"record\":\"" + recordA + "\"}");
         assertEquals(409, twice.statusCode());
         assertTrue(twice.body().contains("no label to take back"), twice.body());
         String export = send("GET", "/api/v1/pools/iris/export?format=csv", "").body();
@@ -163,7 +180,8 @@ class DeskApiTest {
     @Test
     void labelsAndRoundsArriveAsServerSentEvents() throws Exception {
         HttpResponse<InputStream> stream = http.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:"
-                + server.port() + "/api/v1/events?pool=iris")).build(), HttpResponse.BodyHandlers.ofInputStream());
+                + server.port() + "/api/v1/events?pool=iris")).header("Authorization", "Bearer " + tokens.get("p2")).build(),
+                HttpResponse.BodyHandlers.ofInputStream());
         assertEquals(200, stream.statusCode());
         assertTrue(stream.headers().firstValue("content-type").orElse("").startsWith("text/event-stream"));
         BufferedReader events = new BufferedReader(new InputStreamReader(stream.body(), StandardCharsets.UTF_8));
@@ -181,9 +199,9 @@ class DeskApiTest {
             }
             return all.toString();
         });
-        JsonNode a = ok(send("POST", "/api/v1/pools/iris/queue/next", "{\"person\":\"p1\"}"), 200);
-        ok(send("POST", "/api/v1/pools/iris/labels", "{\"record\":\"" + a.at("/record/id").asText()
-                + "\",\"label\":\"virginica\",\"labelled_by\":\"p1\"}"), 201);
+        JsonNode a = ok(as("p1", "POST", "/api/v1/pools/iris/queue/next", "{}"), 200);
+        ok(as("p1", "POST", "/api/v1/pools/iris/labels", "{\"record\":\"" + a.at("/record/id").asText()
+                + "\",\"label\":\"virginica\"}"), 201);
         ok(send("POST", "/api/v1/pools/iris/rounds", ""), 202);
         String text = seen.get(60, TimeUnit.SECONDS);
         assertTrue(text.contains("event:label"), text);

@@ -11,6 +11,7 @@ import dev.dowser.json.Json;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
+import dev.dowser.team.Role;
 import java.io.BufferedReader;
 import java.io.StringReader;
 import java.net.URI;
@@ -42,6 +43,7 @@ import org.openqa.selenium.support.ui.Select;
 class PagesBrowserTest {
 
     static final String PERSON = "labeller-a";
+    static final String LEAD = "lead";
     static final int KNOWN_PER_CLASS = 2;
 
     @TempDir
@@ -49,6 +51,8 @@ class PagesBrowserTest {
     Database db;
     WebServer server;
     Browser browser;
+    /** The admin's API token, for calls the test makes around the browser. */
+    String lead;
     final HttpClient http = HttpClient.newHttpClient();
 
     @BeforeEach
@@ -56,7 +60,11 @@ class PagesBrowserTest {
         db = TestSupport.openDb(dir.resolve("db"));
         // A small network and short chains: rounds take well under a second, as the desk expects.
         SamplerConfig quick = TestSupport.quickSampler();
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 24, dir.resolve("uploads")), quick);
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 24, dir.resolve("uploads")), quick,
+                TestSupport.FAST_TEAM);
+        lead = TestSupport.tokenFor(db, LEAD, Role.ADMIN);
+        TestSupport.tokenFor(db, PERSON, Role.LABELLER);
+        TestSupport.tokenFor(db, "labeller-b", Role.LABELLER);
         browser = new Browser(dir.resolve("profile"));
     }
 
@@ -101,6 +109,24 @@ class PagesBrowserTest {
         return card.isDisplayed() ? byId("card-id").getText() : "";
     }
 
+    /** Signs in through the sign-in page (after signing out whoever is signed in) and waits to leave it. */
+    private void signIn(String name) {
+        if (!browser.driver.findElements(By.id("sign-out")).isEmpty()) {
+            byId("sign-out").click();
+            browser.await(d -> d.getCurrentUrl().contains("login.html"), "signing out");
+        } else {
+            browser.driver.get(base() + "login.html");
+        }
+        WebElement form = browser.await(d -> byId("sign-in").isDisplayed() ? byId("sign-in") : null, "the sign-in form");
+        form.findElement(By.name("account")).sendKeys(name);
+        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
+        browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signing in as " + name);
+    }
+
+    private HttpRequest.Builder asLead(String path) {
+        return HttpRequest.newBuilder(URI.create(base() + path)).header("Authorization", "Bearer " + lead);
+    }
+
     private void press(CharSequence key) {
         new Actions(browser.driver).sendKeys(key).perform();
     }
@@ -111,7 +137,10 @@ class PagesBrowserTest {
         Map<Long, String> truth = partlyLabelledWine(file);
         List<String> classes = List.of("class_0", "class_1", "class_2");
 
-        // Pools page: upload, then the mapping step with its suggested roles.
+        // Pools page, as the admin: upload, then the mapping step with its suggested roles.
+        browser.driver.get(base());
+        browser.await(d -> d.getCurrentUrl().contains("login.html"), "the sign-in page first");
+        signIn(LEAD);
         browser.driver.get(base());
         browser.await(d -> byId("pools-empty").isDisplayed(), "the empty pool list");
         byId("import-form").findElement(By.name("pool")).sendKeys("wine-part");
@@ -135,10 +164,9 @@ class PagesBrowserTest {
         browser.await(d -> !byId("queue").findElements(By.cssSelector("tbody tr")).isEmpty(), "the first queue");
         browser.screenshot("3-overview-first-round");
 
-        // Desk: name, then 20 labels by keyboard only.
+        // Desk, as a labeller: 20 labels by keyboard only.
+        signIn(PERSON);
         browser.driver.get(base() + "desk.html?pool=wine-part");
-        WebElement who = browser.await(d -> byId("who").isDisplayed() ? byId("who") : null, "the name form");
-        who.findElement(By.name("person")).sendKeys(PERSON, Keys.ENTER);
         browser.await(d -> !cardId().isEmpty(), "the first record on the desk");
         browser.driver.executeScript("window.__sameDocument = true;");
         String firstProgress = byId("progress").getText();
@@ -181,7 +209,8 @@ class PagesBrowserTest {
         }
         browser.screenshot("6-desk-belief");
 
-        // Overview again: rounds with their health, accuracy panel, queue.
+        // Overview again, as the admin: rounds with their health, accuracy panel, queue.
+        signIn(LEAD);
         browser.driver.get(base() + "overview.html?pool=wine-part");
         browser.await(d -> byId("rounds").findElements(By.cssSelector("tbody tr")).size() >= 3, "three rounds listed");
         browser.await(d -> !byId("health").getText().isEmpty(), "chain health");
@@ -189,8 +218,8 @@ class PagesBrowserTest {
 
         // Export from the overview's link: exactly the labels given, the undone one as relabelled.
         String href = byId("export-jsonl").getAttribute("href");
-        HttpResponse<String> export = http.send(HttpRequest.newBuilder(URI.create(href)).build(),
-                HttpResponse.BodyHandlers.ofString());
+        HttpResponse<String> export = http.send(HttpRequest.newBuilder(URI.create(href))
+                        .header("Authorization", "Bearer " + lead).build(), HttpResponse.BodyHandlers.ofString());
         assertEquals(200, export.statusCode());
         Map<String, String> exported = new LinkedHashMap<>();
         try (BufferedReader r = new BufferedReader(new StringReader(export.body()))) {
@@ -211,8 +240,7 @@ class PagesBrowserTest {
                 + "h2,2.0,\"<img src=x onerror=\"\"window.__pwned = 2\"\">\",\n"
                 + "k1,0.5,plain,ok\n"
                 + "k2,3.5,plain,fault\n";
-        HttpResponse<String> up = http.send(HttpRequest.newBuilder(URI.create(base()
-                        + "api/v1/imports?pool=hostile&file_name=h.csv&id=id&label=state&wait=true"))
+        HttpResponse<String> up = http.send(asLead("api/v1/imports?pool=hostile&file_name=h.csv&id=id&label=state&wait=true")
                 .POST(HttpRequest.BodyPublishers.ofString(csv)).build(), HttpResponse.BodyHandlers.ofString());
         assertEquals(201, up.statusCode(), up.body());
         server.requestRound("hostile");
@@ -221,9 +249,8 @@ class PagesBrowserTest {
             Thread.sleep(50);
         }
 
+        signIn("labeller-b");
         browser.driver.get(base() + "desk.html?pool=hostile");
-        browser.await(d -> byId("who").isDisplayed(), "the name form");
-        byId("who").findElement(By.name("person")).sendKeys("labeller-b", Keys.ENTER);
         List<String> seen = new ArrayList<>();
         for (int i = 0; i < 2; i++) {
             int shownBefore = seen.size();
@@ -246,6 +273,7 @@ class PagesBrowserTest {
         }
         assertNull(browser.driver.executeScript("return window.__pwned === undefined ? null : window.__pwned;"));
 
+        signIn(LEAD);
         browser.driver.get(base() + "?pool=hostile");
         browser.await(d -> byId("records").findElements(By.className("record")).size() == 4, "the record cards");
         String cards = byId("records").getText();
@@ -257,8 +285,7 @@ class PagesBrowserTest {
     @Test
     void aFailedRoundShowsOnTheOverviewWhileTheLastQueueStaysServed() throws Exception {
         String csv = "id,reading\nk1,0.5\nk2,3.5\nu1,1.0\nu2,2.0\nu3,2.5\nu4,3.0\n";
-        HttpResponse<String> up = http.send(HttpRequest.newBuilder(URI.create(base()
-                        + "api/v1/imports?pool=gauges&file_name=g.csv&id=id&classes=ok,fault&wait=true"))
+        HttpResponse<String> up = http.send(asLead("api/v1/imports?pool=gauges&file_name=g.csv&id=id&classes=ok,fault&wait=true")
                 .POST(HttpRequest.BodyPublishers.ofString(csv)).build(), HttpResponse.BodyHandlers.ofString());
         assertEquals(201, up.statusCode(), up.body());
         long poolId = db.pools().require("gauges").id();
@@ -266,9 +293,9 @@ class PagesBrowserTest {
         server.requestRound("gauges");
         awaitRound(poolId, 1, "published");
         for (String[] l : new String[][] {{"k1", "ok"}, {"k2", "fault"}}) {
-            HttpResponse<String> r = http.send(HttpRequest.newBuilder(URI.create(base() + "api/v1/pools/gauges/labels"))
+            HttpResponse<String> r = http.send(asLead("api/v1/pools/gauges/labels")
                     .POST(HttpRequest.BodyPublishers.ofString("{\"record\":\"" + l[0] + "\",\"label\":\"" + l[1]
-                            + "\",\"labelled_by\":\"labeller-c\"}")).build(), HttpResponse.BodyHandlers.ofString());
+                            + "\"}")).build(), HttpResponse.BodyHandlers.ofString());
             assertEquals(201, r.statusCode(), r.body());
         }
 
@@ -276,10 +303,12 @@ class PagesBrowserTest {
         // absurd learning rate): its first sampled round, a cold start, fails.
         server.close();
         SamplerConfig broken = TestSupport.quickSampler().withKernel(KernelChoice.SGLD).withLearningRate(1e30);
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")), broken);
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")), broken,
+                TestSupport.FAST_TEAM);
         server.requestRound("gauges");
         awaitRound(poolId, 2, "failed");
 
+        signIn(LEAD);
         browser.driver.get(base() + "overview.html?pool=gauges");
         browser.await(d -> byId("overview-message").getText().contains("Round 2 failed"), "the failure on the overview");
         assertTrue(byId("overview-message").getText().contains("previous queue stays in service"));

@@ -1,0 +1,211 @@
+package dev.dowser.team;
+
+import dev.dowser.store.Database;
+import dev.dowser.store.SessionRow;
+import dev.dowser.store.TokenRow;
+import dev.dowser.store.UserRow;
+import java.security.SecureRandom;
+import java.time.Clock;
+import java.time.Duration;
+import java.time.Instant;
+import java.util.List;
+import java.util.Optional;
+import java.util.regex.Pattern;
+
+/**
+ * Accounts, sign-in and the checks behind every request: passwords, browser sessions (idle and
+ * absolute expiry, ended server-side on logout), API tokens, the one-time setup code of a fresh
+ * server, and the hold on password guessing. A disabled account's sessions and tokens stop
+ * working at once, because every request reads the account.
+ */
+public final class Accounts {
+
+    /** API tokens start with this, so a leaked one is easy to recognise in logs and scans. */
+    public static final String TOKEN_PREFIX = "dwt_";
+    static final Duration TOUCH_EVERY = Duration.ofMinutes(1);
+    private static final Pattern NAME = Pattern.compile("[\\p{L}\\p{N}._@-][\\p{L}\\p{N}._@ -]{0,99}");
+
+    private final Database db;
+    private final Clock clock;
+    private final SecureRandom random;
+    private final TeamConfig config;
+    private final Passwords passwords;
+    private final LoginLimiter limiter;
+    private volatile String setupCode;
+    private volatile String decoyHash;
+
+    public Accounts(Database db, SecureRandom random, TeamConfig config) {
+        this.db = db;
+        this.clock = db.clock();
+        this.random = random;
+        this.config = config;
+        this.passwords = new Passwords(random, config.iterations());
+        this.limiter = new LoginLimiter(clock, config);
+    }
+
+    /** A browser session just started: the cookie's token (shown once) and who it signs in. */
+    public record SignIn(String token, Caller caller) {
+    }
+
+    /**
+     * The one-time code that creates the first admin, made when the server has no account yet;
+     * empty once there is one. The server prints it on its console.
+     */
+    public synchronized Optional<String> setupCode() {
+        if (db.users().count() > 0) {
+            setupCode = null;
+            return Optional.empty();
+        }
+        if (setupCode == null) {
+            setupCode = Secrets.token(random).substring(0, 12);
+        }
+        return Optional.of(setupCode);
+    }
+
+    public boolean setupNeeded() {
+        return db.users().count() == 0;
+    }
+
+    /** Creates the first admin with the code from the console; the code then stops working. */
+    public synchronized UserRow setup(String code, String name, String password) {
+        if (!setupNeeded()) {
+            throw new AuthException(AuthException.Kind.FORBIDDEN, "this server is already set up; sign in instead");
+        }
+        if (setupCode == null || !Secrets.same(setupCode, code)) {
+            throw new AuthException(AuthException.Kind.FORBIDDEN,
+                    "the setup code is wrong; use the one printed on the server's console");
+        }
+        UserRow admin = add(name, Role.ADMIN, password, name);
+        setupCode = null;
+        return admin;
+    }
+
+    public UserRow add(String name, Role role, String password, String actor) {
+        checkName(name);
+        UserRow row = db.users().add(name, role.word(), passwords.hash(password));
+        db.history().append(null, "account:" + name, "account-added", actor, null, role.word());
+        return row;
+    }
+
+    public List<UserRow> list() {
+        return db.users().list();
+    }
+
+    public void changeRole(String name, Role role, String actor) {
+        UserRow before = db.users().require(name);
+        db.users().update(name, role.word(), null, null);
+        db.history().append(null, "account:" + name, "role-changed", actor, before.role(), role.word());
+    }
+
+    /** Disables or enables an account; a disabled one's sessions and tokens stop at the next request. */
+    public void setDisabled(String name, boolean disabled, String actor) {
+        UserRow before = db.users().require(name);
+        db.users().update(name, null, null, disabled);
+        db.history().append(null, "account:" + name, disabled ? "account-disabled" : "account-enabled", actor,
+                Boolean.toString(before.disabled()), Boolean.toString(disabled));
+    }
+
+    public void resetPassword(String name, String password, String actor) {
+        db.users().require(name);
+        db.users().update(name, null, passwords.hash(password), null);
+        db.history().append(null, "account:" + name, "password-reset", actor, null, null);
+    }
+
+    /** Checks a password and starts a session; failures are counted per account and per address. */
+    public SignIn login(String name, String password, String address) {
+        long wait = limiter.waitSeconds(name, address);
+        if (wait > 0) {
+            throw new AuthException(AuthException.Kind.HELD_BACK,
+                    "too many failed sign-ins; try again in " + wait + " s", wait);
+        }
+        Optional<UserRow> user = db.users().find(name);
+        // Hash even for an unknown name, so the reply's timing does not tell which names exist.
+        boolean ok = user.isPresent() ? Passwords.matches(password, user.get().passwordHash())
+                : Passwords.matches(password, decoy());
+        if (!ok || user.get().disabled()) {
+            limiter.failed(name, address);
+            throw new AuthException(AuthException.Kind.NOT_SIGNED_IN, "the name or password is wrong,"
+                    + " or the account is disabled");
+        }
+        limiter.succeeded(name);
+        UserRow u = user.get();
+        if (passwords.needsRehash(u.passwordHash())) {
+            db.users().update(u.name(), null, passwords.hash(password), null);
+        }
+        String token = Secrets.token(random);
+        String csrf = Secrets.token(random);
+        db.users().addSession(Secrets.hash(token), u.id(), csrf);
+        return new SignIn(token, new Caller(u.name(), Role.parse(u.role()), csrf, Secrets.hash(token)));
+    }
+
+    /** Who a session cookie signs in, if it is live: not ended, not idle too long, not too old, account enabled. */
+    public Optional<Caller> session(String token) {
+        String hash = Secrets.hash(token);
+        Optional<SessionRow> found = db.users().session(hash);
+        if (found.isEmpty()) {
+            return Optional.empty();
+        }
+        SessionRow s = found.get();
+        Instant now = clock.instant();
+        if (s.endedAt() != null || s.user().disabled()
+                || now.isAfter(s.lastSeenAt().plus(Duration.ofMinutes(config.idleMinutes())))
+                || now.isAfter(s.createdAt().plus(Duration.ofHours(config.absoluteHours())))) {
+            return Optional.empty();
+        }
+        if (now.isAfter(s.lastSeenAt().plus(TOUCH_EVERY))) {
+            db.users().touchSession(hash);
+        }
+        return Optional.of(new Caller(s.user().name(), Role.parse(s.user().role()), s.csrfToken(), hash));
+    }
+
+    public void logout(Caller caller) {
+        if (caller.viaSession()) {
+            db.users().endSession(caller.sessionHash());
+        }
+    }
+
+    /** Who an API token signs in, if it is live and its account enabled. */
+    public Optional<Caller> token(String token) {
+        if (!token.startsWith(TOKEN_PREFIX)) {
+            return Optional.empty();
+        }
+        return db.users().token(Secrets.hash(token))
+                .filter(t -> t.revokedAt() == null && !t.user().disabled())
+                .map(t -> new Caller(t.user().name(), Role.parse(t.user().role()), null, null));
+    }
+
+    /** Makes an API token for the caller; the returned text is the only copy. */
+    public String newToken(Caller caller, String name) {
+        if (name == null || name.isBlank() || name.length() > 100) {
+            throw new IllegalArgumentException("a token needs a name of 1 to 100 characters, to tell it apart later");
+        }
+        String token = TOKEN_PREFIX + Secrets.token(random);
+        db.users().addToken(Secrets.hash(token), db.users().require(caller.name()).id(), name.strip());
+        return token;
+    }
+
+    public List<TokenRow> tokens(Caller caller) {
+        return db.users().tokensOf(caller.name());
+    }
+
+    public boolean revokeToken(Caller caller, long id) {
+        return db.users().revokeToken(id, caller.name());
+    }
+
+    static void checkName(String name) {
+        if (name == null || !NAME.matcher(name).matches()) {
+            throw new IllegalArgumentException("an account name has 1 to 100 letters, digits, spaces or . _ @ -,"
+                    + " and starts with no space");
+        }
+    }
+
+    /** A hash to check wrong names against, made once, so unknown names cost as much as known ones. */
+    private String decoy() {
+        String d = decoyHash;
+        if (d == null) {
+            d = passwords.hash(Secrets.token(random));
+            decoyHash = d;
+        }
+        return d;
+    }
+}

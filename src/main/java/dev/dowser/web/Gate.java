@@ -1,0 +1,172 @@
+package dev.dowser.web;
+
+import dev.dowser.team.Accounts;
+import dev.dowser.team.AuthException;
+import dev.dowser.team.Caller;
+import io.undertow.server.HttpHandler;
+import io.undertow.server.HttpServerExchange;
+import io.undertow.server.handlers.Cookie;
+import io.undertow.util.AttachmentKey;
+import io.undertow.util.HeaderMap;
+import io.undertow.util.Headers;
+import io.undertow.util.HttpString;
+import java.net.URLEncoder;
+import java.nio.charset.StandardCharsets;
+import java.util.Optional;
+import java.util.Set;
+
+/**
+ * In front of every request: security headers, then who is asking (session cookie or bearer
+ * token), then the forgery check for state-changing requests, then the role rule of
+ * {@link Access}. Handlers behind it read the signed-in {@link Caller} from the exchange and never
+ * decide access themselves.
+ */
+final class Gate implements HttpHandler {
+
+    static final String SESSION_COOKIE = "dowser_session";
+    static final String CSRF_HEADER = "X-Dowser-Csrf";
+    static final AttachmentKey<Caller> CALLER = AttachmentKey.create(Caller.class);
+    static final String CONTENT_SECURITY_POLICY = "default-src 'self'; script-src 'self'; style-src 'self';"
+            + " img-src 'self' data:; connect-src 'self'; object-src 'none'; base-uri 'none'; form-action 'self';"
+            + " frame-ancestors 'none'";
+    private static final Set<String> SAFE_METHODS = Set.of("GET", "HEAD", "OPTIONS");
+
+    private final Accounts accounts;
+    private final HttpHandler next;
+
+    Gate(Accounts accounts, HttpHandler next) {
+        this.accounts = accounts;
+        this.next = next;
+    }
+
+    @Override
+    public void handleRequest(HttpServerExchange ex) throws Exception {
+        if (ex.isInIoThread()) {
+            // Reading a session touches the database: not on an I/O thread.
+            ex.dispatch(this);
+            return;
+        }
+        secureHeaders(ex.getResponseHeaders());
+        String path = ex.getRelativePath();
+        boolean api = path.equals(Api.PREFIX) || path.startsWith(Api.PREFIX + "/");
+        try {
+            if (api) {
+                api(ex, path.substring(Api.PREFIX.length()));
+            } else {
+                page(ex, path);
+            }
+        } catch (AuthException e) {
+            if (api) {
+                Errors.send(ex, e);
+            } else if (e.kind() == AuthException.Kind.NOT_SIGNED_IN) {
+                String back = path + (ex.getQueryString().isEmpty() ? "" : "?" + ex.getQueryString());
+                ex.setStatusCode(303);
+                ex.getResponseHeaders().put(Headers.LOCATION,
+                        "/login.html?next=" + URLEncoder.encode(back, StandardCharsets.UTF_8));
+                ex.endExchange();
+            } else {
+                ex.setStatusCode(403);
+                ex.getResponseHeaders().put(Headers.CONTENT_TYPE, "text/plain; charset=utf-8");
+                ex.getResponseSender().send(e.getMessage(), StandardCharsets.UTF_8);
+            }
+        }
+    }
+
+    private void api(HttpServerExchange ex, String path) throws Exception {
+        String method = ex.getRequestMethod().toString();
+        Optional<Access.Route> route = Access.api(method, path);
+        if (route.isEmpty()) {
+            Errors.send(ex, Access.apiPathExists(path)
+                    ? new ApiException(405, method + " is not allowed on " + Api.PREFIX + path)
+                    : new ApiException(404, "no API call " + method + " " + Api.PREFIX + path));
+            return;
+        }
+        admit(ex, route.get(), method);
+        next.handleRequest(ex);
+    }
+
+    private void page(HttpServerExchange ex, String path) throws Exception {
+        if (Access.isAsset(path)) {
+            next.handleRequest(ex);
+            return;
+        }
+        String method = ex.getRequestMethod().toString();
+        Optional<Access.Route> route = Access.page(method, path);
+        if (route.isEmpty()) {
+            ex.setStatusCode(404);
+            ex.getResponseHeaders().put(Headers.CONTENT_TYPE, "text/plain; charset=utf-8");
+            ex.getResponseSender().send("no page at " + path, StandardCharsets.UTF_8);
+            return;
+        }
+        admit(ex, route.get(), method);
+        next.handleRequest(ex);
+    }
+
+    /** Signs the caller in, checks forgery for state changes and the route's roles; throws when refused. */
+    private void admit(HttpServerExchange ex, Access.Route route, String method) {
+        Optional<Caller> caller = caller(ex);
+        caller.ifPresent(c -> ex.putAttachment(CALLER, c));
+        boolean unsafe = !SAFE_METHODS.contains(method);
+        if (unsafe) {
+            checkOrigin(ex);
+        }
+        if (route.isPublic()) {
+            return;
+        }
+        Caller c = caller.orElseThrow(() -> new AuthException(AuthException.Kind.NOT_SIGNED_IN,
+                "sign in first: this needs an account (a session cookie or an API token)"));
+        if (unsafe && c.viaSession()) {
+            String sent = ex.getRequestHeaders().getFirst(CSRF_HEADER);
+            if (sent == null || !sent.equals(c.csrfToken())) {
+                throw new AuthException(AuthException.Kind.FORBIDDEN, "request refused: the " + CSRF_HEADER
+                        + " header is missing or wrong, so it may come from another site; reload the page");
+            }
+        }
+        if (!route.roles().contains(c.role())) {
+            throw new AuthException(AuthException.Kind.FORBIDDEN, "an account with the role " + c.role().word()
+                    + " may not do this; ask an admin");
+        }
+    }
+
+    private Optional<Caller> caller(HttpServerExchange ex) {
+        String authorization = ex.getRequestHeaders().getFirst(Headers.AUTHORIZATION);
+        if (authorization != null) {
+            if (!authorization.regionMatches(true, 0, "Bearer ", 0, 7)) {
+                throw new AuthException(AuthException.Kind.NOT_SIGNED_IN,
+                        "the Authorization header must be 'Bearer' and an API token");
+            }
+            return Optional.of(accounts.token(authorization.substring(7).strip()).orElseThrow(() ->
+                    new AuthException(AuthException.Kind.NOT_SIGNED_IN,
+                            "the API token is unknown, revoked, or its account is disabled")));
+        }
+        Cookie cookie = ex.getRequestCookie(SESSION_COOKIE);
+        return cookie == null || cookie.getValue().isEmpty() ? Optional.empty() : accounts.session(cookie.getValue());
+    }
+
+    /** A browser names the page a request came from; one from another site is refused outright. */
+    private static void checkOrigin(HttpServerExchange ex) {
+        String origin = ex.getRequestHeaders().getFirst(Headers.ORIGIN);
+        String site = ex.getRequestHeaders().getFirst(new HttpString("Sec-Fetch-Site"));
+        boolean crossOrigin = origin != null && !origin.equals(ex.getRequestScheme() + "://" + ex.getHostAndPort());
+        if (crossOrigin || "cross-site".equals(site)) {
+            throw new AuthException(AuthException.Kind.FORBIDDEN,
+                    "request refused: it comes from another site (Origin " + origin + ")");
+        }
+    }
+
+    static void secureHeaders(HeaderMap h) {
+        h.put(new HttpString("Content-Security-Policy"), CONTENT_SECURITY_POLICY);
+        h.put(Headers.X_CONTENT_TYPE_OPTIONS, "nosniff");
+        h.put(new HttpString("Referrer-Policy"), "same-origin");
+        h.put(Headers.X_FRAME_OPTIONS, "DENY");
+    }
+
+    /** The signed-in caller; the gate has already refused requests that needed one and had none. */
+    static Caller caller(HttpServerExchange ex, boolean required) {
+        Caller c = ex.getAttachment(CALLER);
+        if (c == null && required) {
+            throw new AuthException(AuthException.Kind.NOT_SIGNED_IN, "sign in first");
+        }
+        return c;
+    }
+}

@@ -1,0 +1,161 @@
+package dev.dowser.web;
+
+import static dev.dowser.web.Requests.jsonBody;
+import static dev.dowser.web.Requests.param;
+import static dev.dowser.web.Requests.requiredText;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.node.ArrayNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import dev.dowser.json.Json;
+import dev.dowser.store.TokenRow;
+import dev.dowser.store.UserRow;
+import dev.dowser.team.Accounts;
+import dev.dowser.team.Caller;
+import dev.dowser.team.Passwords;
+import dev.dowser.team.Role;
+import io.undertow.server.HttpServerExchange;
+import io.undertow.server.RoutingHandler;
+import io.undertow.server.handlers.CookieImpl;
+import java.io.IOException;
+import java.net.InetSocketAddress;
+
+/** Signing in and out, the first admin, API tokens, and accounts (admins only, as {@link Access} says). */
+final class TeamApi {
+
+    private final Accounts accounts;
+
+    TeamApi(Accounts accounts) {
+        this.accounts = accounts;
+    }
+
+    void addTo(RoutingHandler routes) {
+        routes.get("/setup", this::setupNeeded)
+                .post("/setup", this::setup)
+                .post("/session", this::login)
+                .get("/session", this::session)
+                .delete("/session", this::logout)
+                .get("/tokens", this::tokens)
+                .post("/tokens", this::newToken)
+                .delete("/tokens/{id}", this::revokeToken)
+                .get("/users", this::users)
+                .post("/users", this::addUser)
+                .put("/users/{name}", this::changeUser);
+    }
+
+    private void setupNeeded(HttpServerExchange ex) {
+        Responses.ok(ex, Json.object().put("setup_needed", accounts.setupNeeded()));
+    }
+
+    private void setup(HttpServerExchange ex) throws IOException {
+        JsonNode body = jsonBody(ex, "a setup request");
+        UserRow admin = accounts.setup(requiredText(body, "code"), requiredText(body, "name"),
+                requiredText(body, "password"));
+        Responses.json(ex, 201, userJson(admin));
+    }
+
+    private void login(HttpServerExchange ex) throws IOException {
+        JsonNode body = jsonBody(ex, "a sign-in");
+        String address = ((InetSocketAddress) ex.getSourceAddress()).getAddress().getHostAddress();
+        Accounts.SignIn in = accounts.login(requiredText(body, "name"), requiredText(body, "password"), address);
+        ex.setResponseCookie(new CookieImpl(Gate.SESSION_COOKIE, in.token()).setPath("/").setHttpOnly(true)
+                .setSameSiteMode("Strict").setSecure("https".equals(ex.getRequestScheme())));
+        Responses.ok(ex, callerJson(in.caller()));
+    }
+
+    private void session(HttpServerExchange ex) {
+        Responses.ok(ex, callerJson(Gate.caller(ex, true)));
+    }
+
+    private void logout(HttpServerExchange ex) {
+        accounts.logout(Gate.caller(ex, true));
+        ex.setResponseCookie(new CookieImpl(Gate.SESSION_COOKIE, "").setPath("/").setHttpOnly(true)
+                .setSameSiteMode("Strict").setMaxAge(0));
+        Responses.ok(ex, Json.object().put("signed_out", true));
+    }
+
+    private void tokens(HttpServerExchange ex) {
+        ArrayNode list = Json.array();
+        for (TokenRow t : accounts.tokens(Gate.caller(ex, true))) {
+            list.addObject().put("id", t.id()).put("name", t.name()).put("created_at", t.createdAt().toString())
+                    .put("revoked_at", t.revokedAt() == null ? null : t.revokedAt().toString());
+        }
+        Responses.ok(ex, Json.object().set("tokens", list));
+    }
+
+    private void newToken(HttpServerExchange ex) throws IOException {
+        JsonNode body = jsonBody(ex, "a token request");
+        String token = accounts.newToken(Gate.caller(ex, true), requiredText(body, "name"));
+        Responses.json(ex, 201, Json.object().put("token", token)
+                .put("message", "this token is shown only now; keep it as you would a password"));
+    }
+
+    private void revokeToken(HttpServerExchange ex) {
+        long id;
+        try {
+            id = Long.parseLong(param(ex, "id"));
+        } catch (NumberFormatException e) {
+            throw new ApiException(400, "a token id is a whole number, got '" + param(ex, "id") + "'");
+        }
+        if (!accounts.revokeToken(Gate.caller(ex, true), id)) {
+            throw new ApiException(404, "you have no live token with id " + id);
+        }
+        Responses.ok(ex, Json.object().put("revoked", id));
+    }
+
+    private void users(HttpServerExchange ex) {
+        ArrayNode list = Json.array();
+        accounts.list().forEach(u -> list.add(userJson(u)));
+        Responses.ok(ex, Json.object().set("users", list));
+    }
+
+    private void addUser(HttpServerExchange ex) throws IOException {
+        JsonNode body = jsonBody(ex, "a new account");
+        UserRow u = accounts.add(requiredText(body, "name"), Role.parse(requiredText(body, "role")),
+                requiredText(body, "password"), Gate.caller(ex, true).name());
+        Responses.json(ex, 201, userJson(u));
+    }
+
+    /** Changes any of role, disabled and password of an account. */
+    private void changeUser(HttpServerExchange ex) throws IOException {
+        String name = param(ex, "name");
+        JsonNode body = jsonBody(ex, "an account change");
+        String actor = Gate.caller(ex, true).name();
+        body.fieldNames().forEachRemaining(f -> {
+            if (!f.equals("role") && !f.equals("disabled") && !f.equals("password")) {
+                throw new ApiException(400, "unknown field '" + f + "': an account change may set role, disabled"
+                        + " or password");
+            }
+        });
+        if (body.has("disabled") && !body.get("disabled").isBoolean()) {
+            throw new ApiException(400, "field 'disabled' must be true or false");
+        }
+        Role role = body.has("role") ? Role.parse(requiredText(body, "role")) : null;
+        if (body.has("password")) {
+            Passwords.check(requiredText(body, "password"));
+        }
+        if (name.equals(actor) && (role != null || body.path("disabled").asBoolean(false))) {
+            throw new ApiException(409, "you cannot change your own role or disable yourself; ask another admin");
+        }
+        if (role != null) {
+            accounts.changeRole(name, role, actor);
+        }
+        if (body.has("disabled")) {
+            accounts.setDisabled(name, body.get("disabled").asBoolean(), actor);
+        }
+        if (body.has("password")) {
+            accounts.resetPassword(name, requiredText(body, "password"), actor);
+        }
+        Responses.ok(ex, accounts.list().stream().filter(u -> u.name().equals(name)).findFirst()
+                .map(TeamApi::userJson).orElseThrow());
+    }
+
+    private static ObjectNode callerJson(Caller c) {
+        return Json.object().put("name", c.name()).put("role", c.role().word()).put("csrf", c.csrfToken());
+    }
+
+    private static ObjectNode userJson(UserRow u) {
+        return Json.object().put("name", u.name()).put("role", u.role()).put("disabled", u.disabled())
+                .put("created_at", u.createdAt().toString());
+    }
+}
