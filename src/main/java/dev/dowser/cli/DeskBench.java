@@ -68,7 +68,7 @@ final class DeskBench {
             }
             long poolId = db.pools().require("desk").id();
             db.pools().updateSettings(poolId, new PoolSettings(BATCH, PoolSettings.DEFAULT_SPOT_CHECK_SHARE,
-                    PoolSettings.DEFAULT_LEASE_MINUTES, Strategy.BALD).toJson(), "bench");
+                    PoolSettings.DEFAULT_LEASE_MINUTES, Strategy.BALD, PoolSettings.DEFAULT_DOUBLE_LABEL_SHARE).toJson(), "bench");
             try (WebServer server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("up")))) {
                 server.requestRound("desk");
                 while (db.queues().servedRound(poolId).isEmpty()) {

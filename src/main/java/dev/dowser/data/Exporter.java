@@ -1,8 +1,10 @@
 package dev.dowser.data;
 
+import com.fasterxml.jackson.databind.node.ObjectNode;
 import dev.dowser.json.Json;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
+import dev.dowser.store.Resolution;
 import java.io.BufferedWriter;
 import java.io.IOException;
 import java.io.OutputStream;
@@ -15,9 +17,11 @@ import java.util.List;
 import java.util.Set;
 
 /**
- * Writes a pool's labelled records with their provenance: id, display fields, label, who gave it,
- * when, and the note. CSV (RFC 4180) or JSON Lines with the same flat field names, so an export
- * imports back with {@code --id id --label label}.
+ * Writes a pool's labelled records with their provenance: id, display fields, the final label, how
+ * it was resolved (single, agreed, reviewed, unresolved) and by whom, when, the note, and every
+ * person's own label (a JSON object, person to label). Unresolved records are written with no
+ * final label. CSV (RFC 4180) or JSON Lines with the same flat field names, so an export imports
+ * back with {@code --id id --label label}.
  */
 public final class Exporter {
 
@@ -26,9 +30,12 @@ public final class Exporter {
     public static final String LABELLED_BY = "labelled_by";
     public static final String LABELLED_AT = "labelled_at";
     public static final String NOTE = "note";
+    public static final String RESOLUTION = "resolution";
+    public static final String LABELS = "labels_by_person";
     /** Prefix given to a display column whose name is one of the export's own. */
     public static final String RENAMED_PREFIX = "field.";
-    private static final Set<String> OWN = Set.of(ID, LABEL, LABELLED_BY, LABELLED_AT, NOTE);
+    private static final Set<String> OWN = Set.of(ID, LABEL, RESOLUTION, LABELLED_BY, LABELLED_AT, NOTE,
+            LABELS);
 
     private final Database db;
 
@@ -48,14 +55,16 @@ public final class Exporter {
                 writeCsvRow(w, header);
             }
             List<String> cells = new ArrayList<>(header.size());
-            db.records().forEachLabelled(pool.id(), r -> {
+            db.records().forEachLabelled(pool.id(), (r, resolution) -> {
                 cells.clear();
                 cells.add(r.key());
                 cells.addAll(r.display());
                 cells.add(r.label());
+                cells.add(resolution.status());
                 cells.add(r.labelledBy());
-                cells.add(r.labelledAt().toString());
-                cells.add(r.note());
+                cells.add((r.labelled() ? r.labelledAt() : resolution.lastAt()).toString());
+                cells.add(r.labelled() ? r.note() : resolution.notes());
+                cells.add(byPerson(resolution));
                 try {
                     if (format == FileFormat.CSV) {
                         writeCsvRow(w, cells);
@@ -81,10 +90,21 @@ public final class Exporter {
             h.add(OWN.contains(d) || d.startsWith(RENAMED_PREFIX) ? RENAMED_PREFIX + d : d);
         }
         h.add(LABEL);
+        h.add(RESOLUTION);
         h.add(LABELLED_BY);
         h.add(LABELLED_AT);
         h.add(NOTE);
+        h.add(LABELS);
         return h;
+    }
+
+    /** Each person's own label as a JSON object, in the order they were given. */
+    static String byPerson(Resolution resolution) {
+        ObjectNode o = Json.object();
+        for (Resolution.Opinion op : resolution.opinions()) {
+            o.put(op.person(), op.label());
+        }
+        return Json.write(o);
     }
 
     // RFC 4180: a field with a comma, quote or line break is quoted and its quotes doubled. We also

@@ -10,12 +10,15 @@ import dev.dowser.json.Json;
  * @param spotCheckShare  share of each queue drawn at random for honest accuracy estimates
  * @param leaseMinutes    how long a person holds a record before it returns to the queue
  * @param strategy        how a round picks
+ * @param doubleLabelShare share of each queue sent to two different people, to measure their agreement
  */
-public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinutes, Strategy strategy) {
+public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinutes, Strategy strategy,
+                           double doubleLabelShare) {
 
     public static final int DEFAULT_BATCH_SIZE = 10;
     public static final double DEFAULT_SPOT_CHECK_SHARE = 0.10;
     public static final int DEFAULT_LEASE_MINUTES = 10;
+    public static final double DEFAULT_DOUBLE_LABEL_SHARE = 0.10;
 
     public PoolSettings {
         if (batchSize < 1 || batchSize > 1_000) {
@@ -30,10 +33,19 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
         if (strategy == null) {
             throw new IllegalArgumentException("a strategy is required");
         }
+        if (!(doubleLabelShare >= 0 && doubleLabelShare <= 1)) {
+            throw new IllegalArgumentException("doubleLabelShare must lie between 0 and 1, got " + doubleLabelShare);
+        }
+    }
+
+    /** The same settings with {@code share} of each queue labelled by two people. */
+    public PoolSettings withDoubleLabelShare(double share) {
+        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, share);
     }
 
     public static PoolSettings defaults() {
-        return new PoolSettings(DEFAULT_BATCH_SIZE, DEFAULT_SPOT_CHECK_SHARE, DEFAULT_LEASE_MINUTES, Strategy.BALD);
+        return new PoolSettings(DEFAULT_BATCH_SIZE, DEFAULT_SPOT_CHECK_SHARE, DEFAULT_LEASE_MINUTES, Strategy.BALD,
+                DEFAULT_DOUBLE_LABEL_SHARE);
     }
 
     public static PoolSettings parse(String json) {
@@ -41,12 +53,14 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
         PoolSettings d = defaults();
         return new PoolSettings(n.path("batchSize").asInt(d.batchSize()),
                 n.path("spotCheckShare").asDouble(d.spotCheckShare()), n.path("leaseMinutes").asInt(d.leaseMinutes()),
-                n.has("strategy") ? Strategy.parse(n.get("strategy").asText()) : d.strategy());
+                n.has("strategy") ? Strategy.parse(n.get("strategy").asText()) : d.strategy(),
+                n.path("doubleLabelShare").asDouble(d.doubleLabelShare()));
     }
 
     /** The document kept with the pool, read back by {@link #parse}. */
     public String toJson() {
         return Json.write(Json.object().put("batchSize", batchSize).put("spotCheckShare", spotCheckShare)
-                .put("leaseMinutes", leaseMinutes).put("strategy", strategy.word()));
+                .put("leaseMinutes", leaseMinutes).put("strategy", strategy.word())
+                .put("doubleLabelShare", doubleLabelShare));
     }
 }

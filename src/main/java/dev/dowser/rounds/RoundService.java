@@ -72,17 +72,24 @@ public final class RoundService {
         long begun = System.nanoTime();
         PoolRow pool = db.pools().require(poolName);
         PoolSettings settings = PoolSettings.parse(pool.settingsJson());
+        // Records anyone has labelled are not picked again, resolved or not; the model learns from final labels.
         Set<Long> labelled = new HashSet<>();
-        db.labels().forEachCurrent(pool.id(), l -> labelled.add(l.row()));
-        int round = db.rounds().start(pool.id(), labelled.size());
+        int[] finals = {0};
+        db.labels().forEachResolution(pool.id(), r -> {
+            labelled.add(r.row());
+            if (r.finalLabel() != null) {
+                finals[0]++;
+            }
+        });
+        int round = db.rounds().start(pool.id(), finals[0]);
         events.roundStarted(poolName, round);
-        Outcome outcome = runStarted(pool, settings, labelled, round, stop, begun);
+        Outcome outcome = runStarted(pool, settings, labelled, finals[0] == 0, round, stop, begun);
         events.roundEnded(poolName, outcome);
         return outcome;
     }
 
-    private Outcome runStarted(PoolRow pool, PoolSettings settings, Set<Long> labelled, int round, StopSignal stop,
-                               long begun) {
+    private Outcome runStarted(PoolRow pool, PoolSettings settings, Set<Long> labelled, boolean cold, int round,
+                               StopSignal stop, long begun) {
         String poolName = pool.name();
         try {
             FeatureMatrix m = matrices.computeIfAbsent(poolName, name -> FeatureMatrix.load(db, name));
@@ -99,7 +106,7 @@ public final class RoundService {
             String kernel;
             String message;
             String health = null;
-            if (labelled.isEmpty()) {
+            if (cold) {
                 float[] cx = gather(m, candidates);
                 int[] picks = ColdStart.kmeansPlusPlus(cx, candidates.length, m.cols(), b, rng);
                 for (SpotChecks.Entry e : SpotChecks.mix(picks, candidates.length, b, settings.spotCheckShare(), rng)) {
@@ -125,7 +132,9 @@ public final class RoundService {
                 kernel = sample.choice().kernel().word();
                 message = sample.choice().why();
                 health = Json.write(sample.health());
+                keepPredictions(pool, round, m, labelled, sample);
             }
+            entries = sendToTwo(entries, settings.doubleLabelShare(), rng);
             db.records().warm(pool.id(), entries.stream().mapToLong(QueueEntry::row).toArray());
             db.queues().publish(pool.id(), round, entries);
             db.rounds().finish(pool.id(), round, kernel, message, health);
@@ -140,6 +149,46 @@ public final class RoundService {
             db.rounds().fail(pool.id(), round, why);
             return new Outcome(round, FAILED, 0, null, why, seconds(begun));
         }
+    }
+
+    /**
+     * Marks {@code share} of the queue, chosen uniformly, to be labelled by two different people:
+     * the pairs that agreement is measured on.
+     */
+    static List<QueueEntry> sendToTwo(List<QueueEntry> entries, double share, SplittableRandom rng) {
+        int n = entries.size();
+        int twice = (int) Math.round(share * n);
+        int[] order = new int[n];
+        for (int i = 0; i < n; i++) {
+            order[i] = i;
+        }
+        // The first `twice` places of a partial Fisher-Yates shuffle: a uniform subset of that size.
+        boolean[] chosen = new boolean[n];
+        for (int i = 0; i < twice; i++) {
+            int j = i + rng.nextInt(n - i);
+            int t = order[i];
+            order[i] = order[j];
+            order[j] = t;
+            chosen[order[i]] = true;
+        }
+        List<QueueEntry> out = new ArrayList<>(n);
+        for (int i = 0; i < n; i++) {
+            out.add(chosen[i] ? entries.get(i).withCopies(2) : entries.get(i));
+        }
+        return out;
+    }
+
+    /** The posterior predictive of every labelled record, for the review page's model-disagrees filter. */
+    private void keepPredictions(PoolRow pool, int round, FeatureMatrix m, Set<Long> labelled, Sample sample) {
+        long[] rows = labelled.stream().mapToLong(Long::longValue).sorted().toArray();
+        int[] at = Arrays.stream(rows).mapToInt(r -> (int) r).toArray();
+        Predictive.Belief belief = Predictive.belief(sample.layout(), sample.draws(), gather(m, at), at.length);
+        int c = belief.classes();
+        String[] json = new String[rows.length];
+        for (int i = 0; i < rows.length; i++) {
+            json[i] = Json.write(Arrays.copyOfRange(belief.mean(), i * c, (i + 1) * c));
+        }
+        db.predictions().replace(pool.id(), round, rows, json);
     }
 
     private static double seconds(long begun) {

@@ -32,6 +32,7 @@ public final class Database implements AutoCloseable {
     private final RoundStore rounds;
     private final UserStore users;
     private final HistoryStore history;
+    private final PredictionStore predictions;
 
     private Database(HikariDataSource dataSource, Clock clock) {
         this.dataSource = dataSource;
@@ -44,6 +45,7 @@ public final class Database implements AutoCloseable {
         this.rounds = new RoundStore(dataSource, clock);
         this.users = new UserStore(dataSource, clock);
         this.history = new HistoryStore(dataSource, clock);
+        this.predictions = new PredictionStore(dataSource);
     }
 
     /** Opens (creating if needed) the database in {@code dataDir} and applies pending migrations. */
@@ -132,6 +134,10 @@ public final class Database implements AutoCloseable {
 
     public HistoryStore history() {
         return history;
+    }
+
+    public PredictionStore predictions() {
+        return predictions;
     }
 
     /**

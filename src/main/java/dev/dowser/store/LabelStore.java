@@ -7,18 +7,25 @@ import java.sql.SQLException;
 import java.sql.Timestamp;
 import java.time.Clock;
 import java.time.Instant;
+import java.util.ArrayList;
 import java.util.LinkedHashMap;
+import java.util.List;
 import java.util.Map;
 import java.util.function.Consumer;
 import javax.sql.DataSource;
 
 /**
- * Labels: appended, never changed in place. The newest label row of a record is its label.
+ * Labels and reviews: appended, never changed in place or deleted, so the table is the history.
+ * Each person's newest label row of a record is their opinion; how opinions and reviews give the
+ * final label is {@link Resolution}'s rule.
  */
 public final class LabelStore {
 
     public static final int MAX_LABELLER_CHARS = 100;
     public static final int MAX_NOTE_CHARS = 2_000;
+    public static final String KIND_LABEL = "label";
+    public static final String KIND_ACCEPT = "accept";
+    public static final String KIND_OVERRIDE = "override";
 
     private final DataSource ds;
     private final Clock clock;
@@ -54,74 +61,172 @@ public final class LabelStore {
     }
 
     /**
-     * Takes back the current label of the record at {@code row}, which must be {@code person}'s:
-     * appends a withdrawal, after which the record is unlabelled. Returns the label taken back.
+     * Takes back {@code person}'s label of the record at {@code row}: appends a withdrawal, after
+     * which that person has no label on it. Returns the label taken back.
      */
     public LabelRow withdraw(long poolId, long row, String person) {
         try {
             return Transactions.run(ds, c -> {
-                LabelRow newest;
-                try (PreparedStatement q = c.prepareStatement("SELECT label, labelled_by, labelled_at, note, withdrawn"
-                        + " FROM labels WHERE pool_id = ? AND row_no = ? ORDER BY id DESC FETCH FIRST ROW ONLY FOR UPDATE")) {
-                    q.setLong(1, poolId);
-                    q.setLong(2, row);
-                    try (ResultSet rs = q.executeQuery()) {
-                        if (!rs.next() || rs.getBoolean(5)) {
-                            throw new ConflictException("the record has no label to take back");
-                        }
-                        newest = new LabelRow(row, rs.getString(1), rs.getString(2), rs.getTimestamp(3).toInstant(),
-                                rs.getString(4));
+                Resolution now = resolution(c, poolId, row);
+                Resolution.Opinion mine = now.opinions().stream().filter(o -> o.person().equals(person))
+                        .findFirst().orElse(null);
+                if (mine == null) {
+                    if (now.opinions().isEmpty()) {
+                        throw new ConflictException("the record has no label to take back");
                     }
+                    throw new ConflictException("the record's label '" + now.opinions().get(0).label() + "' was given by "
+                            + now.opinions().get(0).person() + "; only they can take it back");
                 }
-                if (!newest.labelledBy().equals(person)) {
-                    throw new ConflictException("the record's label '" + newest.label() + "' was given by "
-                            + newest.labelledBy() + "; only they can take it back");
-                }
-                try (PreparedStatement p = c.prepareStatement("INSERT INTO labels (pool_id, row_no, label, labelled_by,"
-                        + " labelled_at, note, withdrawn) VALUES (?, ?, ?, ?, ?, ?, TRUE)")) {
-                    p.setLong(1, poolId);
-                    p.setLong(2, row);
-                    p.setString(3, newest.label());
-                    p.setString(4, person);
-                    p.setTimestamp(5, Timestamp.from(clock.instant()));
-                    p.setString(6, null);
-                    p.executeUpdate();
-                }
-                return newest;
+                insert(c, poolId, row, mine.label(), person, null, KIND_LABEL, true);
+                return new LabelRow(row, mine.label(), person, mine.at(), mine.note());
             });
         } catch (SQLException e) {
             throw new StoreException("cannot take back the label of row " + row + ": " + e.getMessage(), e);
         }
     }
 
-    /** Records per current label; classes with no records are left to the caller. */
+    /**
+     * A reviewer's decision on the record at {@code row}: {@code accept} makes its current label
+     * final (refused while people disagree: choose one with an override), {@code override} sets
+     * {@code label} with a {@code reason}. Appended like every label; the newest review is in force.
+     */
+    public Resolution review(long poolId, long row, String reviewer, String verdict, String label, String reason) {
+        if (!verdict.equals(KIND_ACCEPT) && !verdict.equals(KIND_OVERRIDE)) {
+            throw new IllegalArgumentException("a review is accept or override, got '" + verdict + "'");
+        }
+        if (verdict.equals(KIND_OVERRIDE) && (reason == null || reason.isBlank())) {
+            throw new IllegalArgumentException("an override needs a reason, kept with the label");
+        }
+        if (reason != null && reason.length() > MAX_NOTE_CHARS) {
+            throw new IllegalArgumentException("the reason is longer than " + MAX_NOTE_CHARS + " characters");
+        }
+        try {
+            return Transactions.run(ds, c -> {
+                Resolution now = resolution(c, poolId, row);
+                String finalLabel = label;
+                if (verdict.equals(KIND_ACCEPT)) {
+                    if (now.opinions().isEmpty()) {
+                        throw new ConflictException("the record has no label to accept");
+                    }
+                    if (now.peopleDisagree()) {
+                        throw new ConflictException("people disagree on this record; override it with the label"
+                                + " you choose and a reason");
+                    }
+                    finalLabel = now.opinions().get(0).label();
+                }
+                insert(c, poolId, row, finalLabel, reviewer, reason, verdict, false);
+                return resolution(c, poolId, row);
+            });
+        } catch (SQLException e) {
+            throw new StoreException("cannot store the review of row " + row + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** One stored row of a record's label history, oldest first: labels, withdrawals and reviews. */
+    public record Entry(String kind, String label, String by, Instant at, String note, boolean withdrawn) {
+    }
+
+    /** Everything ever said about the record at {@code row}, oldest first. */
+    public List<Entry> history(long poolId, long row) {
+        List<Entry> out = new ArrayList<>();
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT kind, label, labelled_by, labelled_at, note, withdrawn"
+                     + " FROM labels WHERE pool_id = ? AND row_no = ? ORDER BY id")) {
+            q.setLong(1, poolId);
+            q.setLong(2, row);
+            try (ResultSet rs = q.executeQuery()) {
+                while (rs.next()) {
+                    out.add(new Entry(rs.getString(1), rs.getString(2), rs.getString(3),
+                            rs.getTimestamp(4).toInstant(), rs.getString(5), rs.getBoolean(6)));
+                }
+            }
+            return out;
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the history of row " + row + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** Where the labels of the record at {@code row} stand. */
+    public Resolution resolution(long poolId, long row) {
+        try (Connection c = ds.getConnection()) {
+            return resolution(c, poolId, row);
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the labels of row " + row + ": " + e.getMessage(), e);
+        }
+    }
+
+    private static Resolution resolution(Connection c, long poolId, long row) throws SQLException {
+        try (PreparedStatement q = c.prepareStatement("SELECT " + CURSOR_COLUMNS
+                + " FROM labels WHERE pool_id = ? AND row_no = ? ORDER BY id FOR UPDATE")) {
+            q.setLong(1, poolId);
+            q.setLong(2, row);
+            try (ResultSet rs = q.executeQuery()) {
+                Resolution r = new Cursor(rs).next();
+                return r != null ? r : new Resolution(row, List.of(), null);
+            }
+        }
+    }
+
+    private void insert(Connection c, long poolId, long row, String label, String by, String note, String kind,
+                        boolean withdrawn) throws SQLException {
+        try (PreparedStatement p = c.prepareStatement("INSERT INTO labels (pool_id, row_no, label, labelled_by,"
+                + " labelled_at, note, kind, withdrawn) VALUES (?, ?, ?, ?, ?, ?, ?, ?)")) {
+            p.setLong(1, poolId);
+            p.setLong(2, row);
+            p.setString(3, label);
+            p.setString(4, by);
+            p.setTimestamp(5, Timestamp.from(clock.instant()));
+            p.setString(6, note);
+            p.setString(7, kind);
+            p.setBoolean(8, withdrawn);
+            p.executeUpdate();
+        }
+    }
+
+    /** Records per final label; classes with no records are left to the caller. */
     public Map<String, Long> counts(long poolId) {
         Map<String, Long> counts = new LinkedHashMap<>();
         forEachCurrent(poolId, l -> counts.merge(l.label(), 1L, Long::sum));
         return counts;
     }
 
-    /** The current label of every labelled record of the pool, in row order, without reading the records. */
+    /** The final label of every record that has one, in row order, without reading the records. */
     public void forEachCurrent(long poolId, Consumer<LabelRow> sink) {
         forEachCurrent(poolId, 0, Long.MAX_VALUE, sink);
     }
 
-    /** The current label of each labelled record with row in [from, to), in row order. */
+    /** The final label of each record with row in [from, to) that has one, in row order. */
     void forEachCurrent(long poolId, long from, long to, Consumer<LabelRow> sink) {
-        withCursor(poolId, from, to, cursor -> {
-            for (LabelRow l = cursor.next(); l != null; l = cursor.next()) {
+        forEachResolution(poolId, from, to, r -> {
+            LabelRow l = r.finalLabel();
+            if (l != null) {
                 sink.accept(l);
             }
         });
     }
 
-    void withCurrentCursor(long poolId, Consumer<Cursor> use) {
+    /** Every record anyone has labelled (resolved or not), in row order. */
+    public void forEachResolution(long poolId, Consumer<Resolution> sink) {
+        forEachResolution(poolId, 0, Long.MAX_VALUE, sink);
+    }
+
+    void forEachResolution(long poolId, long from, long to, Consumer<Resolution> sink) {
+        withCursor(poolId, from, to, cursor -> {
+            for (Resolution r = cursor.next(); r != null; r = cursor.next()) {
+                sink.accept(r);
+            }
+        });
+    }
+
+    void withResolutionCursor(long poolId, Consumer<Cursor> use) {
         withCursor(poolId, 0, Long.MAX_VALUE, use);
     }
 
+    private static final String CURSOR_COLUMNS = "row_no, label, labelled_by, labelled_at, note, withdrawn, kind";
+
     private void withCursor(long poolId, long from, long to, Consumer<Cursor> use) {
         try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT row_no, label, labelled_by, labelled_at, note, withdrawn"
+             PreparedStatement q = c.prepareStatement("SELECT " + CURSOR_COLUMNS
                      + " FROM labels WHERE pool_id = ? AND row_no >= ? AND row_no < ? ORDER BY row_no, id")) {
             q.setFetchSize(4_096);
             q.setLong(1, poolId);
@@ -136,54 +241,65 @@ public final class LabelStore {
     }
 
     /**
-     * Walks the current labels in row order: of several rows for one record, only the newest, and
-     * nothing for a record whose newest row is a withdrawal.
+     * Walks the labelled records in row order, folding each one's rows (oldest first) into its
+     * {@link Resolution}: a person's newer label replaces their older one, a withdrawal removes
+     * it, the newest review is in force. Records left with neither opinion nor review are skipped.
      */
     static final class Cursor {
 
         private final ResultSet rs;
-        /** The next record's newest label, once worked out. */
-        private LabelRow current;
+        private Resolution current;
+        /** The first stored row of the next record, already read. */
+        private Stored lookahead;
 
         Cursor(ResultSet rs) {
             this.rs = rs;
         }
 
-        LabelRow peek() {
+        Resolution peek() {
             if (current == null) {
-                current = collapse();
+                current = fold();
             }
             return current;
         }
 
-        LabelRow next() {
-            LabelRow c = peek();
+        Resolution next() {
+            Resolution c = peek();
             current = null;
             return c;
         }
 
-        private LabelRow collapse() {
-            while (true) {
-                Stored newest = lookahead != null ? lookahead : read();
-                lookahead = null;
-                if (newest == null) {
-                    return null;
-                }
-                Stored r;
-                while ((r = read()) != null && r.label().row() == newest.label().row()) {
-                    newest = r;
-                }
-                lookahead = r;
-                if (!newest.withdrawn()) {
-                    return newest.label();
-                }
-            }
+        private record Stored(long row, String label, String by, Instant at, String note, boolean withdrawn,
+                              String kind) {
         }
 
-        /** The first stored row of the next record, already read. */
-        private Stored lookahead;
-
-        private record Stored(LabelRow label, boolean withdrawn) {
+        private Resolution fold() {
+            while (true) {
+                Stored first = lookahead != null ? lookahead : read();
+                lookahead = null;
+                if (first == null) {
+                    return null;
+                }
+                Map<String, Resolution.Opinion> opinions = new LinkedHashMap<>();
+                Resolution.Review review = null;
+                Stored s = first;
+                while (s != null && s.row() == first.row()) {
+                    if (!s.kind().equals(KIND_LABEL)) {
+                        review = new Resolution.Review(s.by(), s.kind(), s.label(), s.note(), s.at());
+                    } else if (s.withdrawn()) {
+                        opinions.remove(s.by());
+                    } else {
+                        // Re-inserted so that opinions stay in the order they were last given.
+                        opinions.remove(s.by());
+                        opinions.put(s.by(), new Resolution.Opinion(s.by(), s.label(), s.at(), s.note()));
+                    }
+                    s = read();
+                }
+                lookahead = s;
+                if (!opinions.isEmpty() || review != null) {
+                    return new Resolution(first.row(), new ArrayList<>(opinions.values()), review);
+                }
+            }
         }
 
         private Stored read() {
@@ -191,9 +307,8 @@ public final class LabelStore {
                 if (!rs.next()) {
                     return null;
                 }
-                Timestamp at = rs.getTimestamp(4);
-                return new Stored(new LabelRow(rs.getLong(1), rs.getString(2), rs.getString(3), at.toInstant(),
-                        rs.getString(5)), rs.getBoolean(6));
+                return new Stored(rs.getLong(1), rs.getString(2), rs.getString(3), rs.getTimestamp(4).toInstant(),
+                        rs.getString(5), rs.getBoolean(6), rs.getString(7));
             } catch (SQLException e) {
                 throw new StoreException("cannot read labels: " + e.getMessage(), e);
             }

@@ -17,14 +17,21 @@ import javax.sql.DataSource;
  * Publishes queues and hands their records out under leases. A record goes to one person at a
  * time: a lease is taken by a conditional update that succeeds only while the entry is free (never
  * leased, lease run out, or already this person's), so two people asking at once cannot both win
- * it. Records labelled since the queue was published are skipped.
+ * it. An entry is done once as many different people as its {@code copies} have labelled it, or a
+ * reviewer has decided it; done entries are skipped, and nobody gets a record they labelled.
  */
 public final class QueueStore {
 
-    /** A current label of the queue entry q's record: a label row, not a withdrawal, with none newer. */
-    static final String CURRENT_LABEL = "SELECT 1 FROM labels l WHERE l.pool_id = q.pool_id AND l.row_no = q.row_no"
-            + " AND NOT l.withdrawn AND NOT EXISTS (SELECT 1 FROM labels w WHERE w.pool_id = l.pool_id"
-            + " AND w.row_no = l.row_no AND w.id > l.id)";
+    /** The live labels of queue entry q's record: each person's newest label row, unless it is a withdrawal. */
+    static final String LIVE_LABELS = "FROM labels l WHERE l.pool_id = q.pool_id AND l.row_no = q.row_no"
+            + " AND l.kind = 'label' AND NOT l.withdrawn AND NOT EXISTS (SELECT 1 FROM labels w"
+            + " WHERE w.pool_id = l.pool_id AND w.row_no = l.row_no AND w.kind = 'label'"
+            + " AND w.labelled_by = l.labelled_by AND w.id > l.id)";
+    /** Queue entry q needs no more labels: enough people gave one, or a reviewer decided. */
+    static final String DONE = "((SELECT COUNT(*) " + LIVE_LABELS + ") >= q.copies OR EXISTS (SELECT 1 FROM labels r"
+            + " WHERE r.pool_id = q.pool_id AND r.row_no = q.row_no AND r.kind <> 'label'))";
+    /** The person bound to the next parameter has a live label on queue entry q's record. */
+    static final String LABELLED_BY_PERSON = "EXISTS (SELECT 1 " + LIVE_LABELS + " AND l.labelled_by = ?)";
 
     /** One entry of the served queue as the overview shows it. */
     public record Served(QueueEntry entry, boolean labelled) {
@@ -43,7 +50,7 @@ public final class QueueStore {
         try {
             Transactions.run(ds, c -> {
                 try (PreparedStatement ins = c.prepareStatement("INSERT INTO queue_entries (pool_id, round_no, position,"
-                        + " row_no, score, spot_check, prediction) VALUES (?, ?, ?, ?, ?, ?, ?)");
+                        + " row_no, score, spot_check, prediction, copies) VALUES (?, ?, ?, ?, ?, ?, ?, ?)");
                      PreparedStatement del = c.prepareStatement("DELETE FROM served_queues WHERE pool_id = ?");
                      PreparedStatement serve = c.prepareStatement(
                              "INSERT INTO served_queues (pool_id, round_no) VALUES (?, ?)")) {
@@ -55,6 +62,7 @@ public final class QueueStore {
                         ins.setDouble(5, e.score());
                         ins.setBoolean(6, e.spotCheck());
                         ins.setString(7, e.predictionJson());
+                        ins.setInt(8, e.copies());
                         ins.addBatch();
                     }
                     ins.executeBatch();
@@ -85,19 +93,19 @@ public final class QueueStore {
     }
 
     /**
-     * Leases the first free, still unlabelled record of the served queue to {@code person} for
-     * {@code lease}; a record this person already holds comes back to them first. Empty when the
-     * queue has nothing left to hand out.
+     * Leases the first free record of the served queue that still needs a label and that
+     * {@code person} has not labelled, for {@code lease}; a record this person already holds comes
+     * back to them first. Empty when the queue has nothing left for them.
      */
     public Optional<QueueEntry> lease(long poolId, String person, Duration lease) {
         Instant now = clock.instant();
         Instant until = now.plus(lease);
         try (Connection c = ds.getConnection();
              PreparedStatement find = c.prepareStatement("SELECT q.round_no, q.position, q.row_no, q.score,"
-                     + " q.spot_check, q.prediction FROM queue_entries q JOIN served_queues s"
+                     + " q.spot_check, q.prediction, q.copies FROM queue_entries q JOIN served_queues s"
                      + " ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
                      + " WHERE q.pool_id = ? AND (q.leased_to IS NULL OR q.lease_until <= ? OR q.leased_to = ?)"
-                     + " AND NOT EXISTS (" + CURRENT_LABEL + ")"
+                     + " AND NOT " + DONE + " AND NOT " + LABELLED_BY_PERSON
                      + " ORDER BY CASE WHEN q.leased_to = ? THEN 0 ELSE 1 END, q.position FETCH FIRST 16 ROWS ONLY");
              PreparedStatement take = c.prepareStatement("UPDATE queue_entries SET leased_to = ?, lease_until = ?"
                      + " WHERE pool_id = ? AND round_no = ? AND position = ?"
@@ -107,6 +115,7 @@ public final class QueueStore {
                 find.setTimestamp(2, Timestamp.from(now));
                 find.setString(3, person);
                 find.setString(4, person);
+                find.setString(5, person);
                 boolean any = false;
                 try (ResultSet rs = find.executeQuery()) {
                     while (rs.next()) {
@@ -122,7 +131,7 @@ public final class QueueStore {
                         take.setString(7, person);
                         if (take.executeUpdate() == 1) {
                             return Optional.of(new QueueEntry(round, position, rs.getLong(3), rs.getDouble(4),
-                                    rs.getBoolean(5), rs.getString(6), person, until));
+                                    rs.getBoolean(5), rs.getString(6), person, until, rs.getInt(7)));
                         }
                     }
                 }
@@ -155,12 +164,12 @@ public final class QueueStore {
         }
     }
 
-    /** The served queue in order, with its leases and whether each record has been labelled since. */
+    /** The served queue in order, with its leases and whether each record is done (labelled enough, or decided). */
     public List<Served> served(long poolId) {
         List<Served> out = new ArrayList<>();
         try (Connection c = ds.getConnection();
              PreparedStatement q = c.prepareStatement("SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check,"
-                     + " q.prediction, q.leased_to, q.lease_until, EXISTS (" + CURRENT_LABEL + ")"
+                     + " q.prediction, q.leased_to, q.lease_until, " + DONE + ", q.copies"
                      + " FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
                      + " WHERE q.pool_id = ? ORDER BY q.position")) {
             q.setLong(1, poolId);
@@ -169,7 +178,7 @@ public final class QueueStore {
                     Timestamp until = rs.getTimestamp(8);
                     out.add(new Served(new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getDouble(4),
                             rs.getBoolean(5), rs.getString(6), rs.getString(7),
-                            until == null ? null : until.toInstant()), rs.getBoolean(9)));
+                            until == null ? null : until.toInstant(), rs.getInt(10)), rs.getBoolean(9)));
                 }
             }
         } catch (SQLException e) {
@@ -195,6 +204,23 @@ public final class QueueStore {
             throw new StoreException("cannot read the spot checks of pool " + poolId + ": " + e.getMessage(), e);
         }
         return out;
+    }
+
+    /**
+     * Ends {@code person}'s lease on the record at {@code row} once they have labelled it, so that a
+     * record wanted by two people is free for the second at once.
+     */
+    public void releaseRow(long poolId, long row, String person) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement u = c.prepareStatement("UPDATE queue_entries SET leased_to = NULL, lease_until = NULL"
+                     + " WHERE pool_id = ? AND row_no = ? AND leased_to = ?")) {
+            u.setLong(1, poolId);
+            u.setLong(2, row);
+            u.setString(3, person);
+            u.executeUpdate();
+        } catch (SQLException e) {
+            throw new StoreException("cannot release the lease of row " + row + ": " + e.getMessage(), e);
+        }
     }
 
     /** Gives a lease back early (a skip): the record is free for the next person at once. */

@@ -13,7 +13,6 @@ import java.util.List;
 import java.util.Map;
 import java.util.Optional;
 import java.util.concurrent.ConcurrentHashMap;
-import java.util.function.Consumer;
 import javax.sql.DataSource;
 
 /**
@@ -140,14 +139,23 @@ public final class RecordStore {
         });
     }
 
-    /** Every record with a current label, in pool order, streamed with bounded memory. */
-    public void forEachLabelled(long poolId, Consumer<RecordRow> sink) {
-        labels.withCurrentCursor(poolId, cursor -> forEachBlock(poolId, 0, Long.MAX_VALUE, false, (first, block) -> {
+    /** A labelled record with where its labels stand. */
+    @FunctionalInterface
+    public interface LabelledSink {
+        void accept(RecordRow record, Resolution resolution);
+    }
+
+    /**
+     * Every record anyone has labelled, resolved or not, in pool order, streamed with bounded
+     * memory; the record carries its final label when it has one.
+     */
+    public void forEachLabelled(long poolId, LabelledSink sink) {
+        labels.withResolutionCursor(poolId, cursor -> forEachBlock(poolId, 0, Long.MAX_VALUE, false, (first, block) -> {
             long end = first + block.size();
             String[] keys = null;
             long[] lines = null;
             String[][] display = null;
-            for (LabelRow l = cursor.peek(); l != null && l.row() < end; l = cursor.peek()) {
+            for (Resolution l = cursor.peek(); l != null && l.row() < end; l = cursor.peek()) {
                 cursor.next();
                 if (keys == null) {
                     // The display section is read from its start; decode it once per block, not once per record.
@@ -157,7 +165,7 @@ public final class RecordStore {
                 }
                 int i = (int) (l.row() - first);
                 sink.accept(new RecordRow(l.row(), keys[i], lines[i], Arrays.asList(display[i]), null, null, null, null)
-                        .withLabel(l));
+                        .withLabel(l.finalLabel()), l);
             }
         }));
     }

@@ -63,6 +63,7 @@ final class Api {
         new DeskApi(db, rounds, events).addTo(routes);
         new RoundsApi(db, rounds).addTo(routes);
         new TeamApi(accounts).addTo(routes);
+        new ReviewApi(db).addTo(routes);
         return routes
                 .get("/pools", this::listPools)
                 .get("/pools/{pool}", this::pool)

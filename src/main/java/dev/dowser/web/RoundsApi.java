@@ -121,15 +121,16 @@ final class RoundsApi {
         for (Iterator<Map.Entry<String, JsonNode>> it = body.fields(); it.hasNext(); ) {
             String field = it.next().getKey();
             if (!field.equals("batch_size") && !field.equals("spot_check_share") && !field.equals("lease_minutes")
-                    && !field.equals("strategy")) {
-                throw new ApiException(400, "unknown setting '" + field
-                        + "'; the settings are batch_size, spot_check_share, lease_minutes and strategy");
+                    && !field.equals("strategy") && !field.equals("double_label_share")) {
+                throw new ApiException(400, "unknown setting '" + field + "'; the settings are batch_size,"
+                        + " spot_check_share, lease_minutes, strategy and double_label_share");
             }
         }
         PoolSettings next = new PoolSettings(Requests.optionalInt(body, "batch_size", now.batchSize()),
                 Requests.optionalNumber(body, "spot_check_share", now.spotCheckShare()),
                 Requests.optionalInt(body, "lease_minutes", now.leaseMinutes()),
-                body.has("strategy") ? Strategy.parse(body.get("strategy").asText()) : now.strategy());
+                body.has("strategy") ? Strategy.parse(body.get("strategy").asText()) : now.strategy(),
+                Requests.optionalNumber(body, "double_label_share", now.doubleLabelShare()));
         db.pools().updateSettings(pool.id(), next.toJson(), Gate.caller(ex, true).name());
         rounds.worker(pool.name()).batchChanged(next.batchSize());
         Responses.ok(ex, settingsJson(next));
@@ -137,6 +138,7 @@ final class RoundsApi {
 
     private static ObjectNode settingsJson(PoolSettings s) {
         return Json.object().put("batch_size", s.batchSize()).put("spot_check_share", s.spotCheckShare())
-                .put("lease_minutes", s.leaseMinutes()).put("strategy", s.strategy().word());
+                .put("lease_minutes", s.leaseMinutes()).put("strategy", s.strategy().word())
+                .put("double_label_share", s.doubleLabelShare());
     }
 }

@@ -60,8 +60,10 @@ class CommandLineTest {
         Path out = dir.resolve("out.csv");
         Run exported = run("export", "--data", data, "--pool", "p", "--out", out.toString());
         assertEquals(0, exported.exit(), exported.err());
-        assertEquals(List.of("id,x,label,labelled_by,labelled_at,note", "a,1,up,import,", "c,3,down,import,"),
-                Files.readAllLines(out).stream().map(l -> l.replaceAll(",20\\d\\d-.*$", ",")).toList());
+        assertEquals(List.of("id,x,label,resolution,labelled_by,labelled_at,note,labels_by_person",
+                        "a,1,up,single,import,carried in by the import,\"{\"\"import\"\":\"\"up\"\"}\"",
+                        "c,3,down,single,import,carried in by the import,\"{\"\"import\"\":\"\"down\"\"}\""),
+                Files.readAllLines(out).stream().map(l -> l.replaceAll(",20\\d\\d-[^,]*,", ",")).toList());
     }
 
     @Test

@@ -1,0 +1,23 @@
+-- A label row is now one of three kinds, still appended and never changed:
+--   label     a person's label of a record (withdrawn = TRUE takes that person's label back)
+--   accept    a reviewer accepting the record's label as final (label holds it)
+--   override  a reviewer setting a different final label (note holds the reason)
+-- Each person's newest label row is their opinion; the newest review row, when there is one,
+-- decides the record's final label.
+ALTER TABLE labels ADD COLUMN kind VARCHAR(10) DEFAULT 'label' NOT NULL;
+ALTER TABLE labels ADD CONSTRAINT labels_kind_ck CHECK (kind IN ('label', 'accept', 'override'));
+
+-- How many different people must label a queued record: 1, or 2 for the share sent to two
+-- labellers so that their agreement can be measured.
+ALTER TABLE queue_entries ADD COLUMN copies INTEGER DEFAULT 1 NOT NULL;
+
+-- The model's posterior predictive for each labelled record after the latest round, so the
+-- review page can find records where a confident model disagrees with the people. Derived data:
+-- replaced by every round.
+CREATE TABLE labelled_predictions (
+    pool_id        BIGINT            NOT NULL REFERENCES pools (id),
+    row_no         BIGINT            NOT NULL,
+    round_no       INTEGER           NOT NULL,
+    probabilities  CHARACTER VARYING NOT NULL,  -- JSON array, in class order
+    CONSTRAINT labelled_predictions_pk PRIMARY KEY (pool_id, row_no)
+);

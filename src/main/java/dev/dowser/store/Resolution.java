@@ -1,0 +1,78 @@
+package dev.dowser.store;
+
+import java.time.Instant;
+import java.util.List;
+
+/**
+ * Where a record's labels stand: each person's current label (their opinion), the review in force
+ * if any, and from these the final label. The final label is the reviewer's when there is one,
+ * else the label everyone gave (one person, or several who agree); people who disagree leave the
+ * record unresolved until a reviewer decides.
+ */
+public record Resolution(long row, List<Opinion> opinions, Review review) {
+
+    public static final String SINGLE = "single";
+    public static final String AGREED = "agreed";
+    public static final String REVIEWED = "reviewed";
+    public static final String UNRESOLVED = "unresolved";
+
+    /** One person's current label of the record. */
+    public record Opinion(String person, String label, Instant at, String note) {
+    }
+
+    /** A reviewer's decision: {@code verdict} is accept or override; {@code reason} is required for override. */
+    public record Review(String reviewer, String verdict, String label, String reason, Instant at) {
+    }
+
+    public Resolution {
+        opinions = List.copyOf(opinions);
+    }
+
+    public boolean peopleDisagree() {
+        return opinions.stream().map(Opinion::label).distinct().count() > 1;
+    }
+
+    /** single, agreed, reviewed or unresolved. */
+    public String status() {
+        if (review != null) {
+            return REVIEWED;
+        }
+        if (peopleDisagree()) {
+            return UNRESOLVED;
+        }
+        return opinions.size() == 1 ? SINGLE : AGREED;
+    }
+
+    /** The final label with who decided it, or null while unresolved. */
+    public LabelRow finalLabel() {
+        if (review != null) {
+            return new LabelRow(row, review.label(), review.reviewer(), review.at(), review.reason());
+        }
+        if (opinions.isEmpty() || peopleDisagree()) {
+            return null;
+        }
+        Opinion last = opinions.get(opinions.size() - 1);
+        if (opinions.size() == 1) {
+            return new LabelRow(row, last.label(), last.person(), last.at(), last.note());
+        }
+        String people = String.join(" & ", opinions.stream().map(Opinion::person).toList());
+        return new LabelRow(row, last.label(), people, last.at(), notes());
+    }
+
+    /** The people's notes joined, or null when nobody wrote one. */
+    public String notes() {
+        String notes = String.join(" / ", opinions.stream().map(Opinion::note).filter(n -> n != null).toList());
+        return notes.isEmpty() ? null : notes;
+    }
+
+    /** The newest time anything was said about the record. */
+    public Instant lastAt() {
+        Instant t = review == null ? null : review.at();
+        for (Opinion o : opinions) {
+            if (t == null || o.at().isAfter(t)) {
+                t = o.at();
+            }
+        }
+        return t;
+    }
+}

@@ -1,0 +1,158 @@
+package dev.dowser.team;
+
+import dev.dowser.json.Json;
+import dev.dowser.store.Database;
+import dev.dowser.store.LabelStore;
+import dev.dowser.store.PoolRow;
+import dev.dowser.store.QueueEntry;
+import dev.dowser.store.Resolution;
+import java.util.ArrayList;
+import java.util.HashSet;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Set;
+
+/**
+ * What the review page lists and decides: labelled records filtered by what needs a second look,
+ * and a reviewer's accept or override, appended to the labels like everything else.
+ */
+public final class Reviews {
+
+    /** A model this sure of a class other than the people's label is worth a look. */
+    public static final double CONFIDENT = 0.9;
+    public static final int MAX_PAGE = 200;
+
+    /** Which records to list. */
+    public enum Show {
+        /** every labelled record */
+        ALL,
+        /** people gave different labels (resolved by a reviewer or not) */
+        DISAGREE,
+        /** not yet resolved: people disagree and no reviewer decided */
+        UNRESOLVED,
+        /** the model gives at least {@link #CONFIDENT} to a class nobody chose */
+        MODEL,
+        /** records that were queued as spot checks */
+        SPOT;
+
+        public static Show parse(String word) {
+            try {
+                return valueOf(word.trim().toUpperCase(Locale.ROOT));
+            } catch (IllegalArgumentException e) {
+                throw new IllegalArgumentException("unknown filter '" + word
+                        + "': use all, disagree, unresolved, model or spot");
+            }
+        }
+    }
+
+    /** The filter: which records, and optionally only one person's or one class's. */
+    public record Filter(Show show, String labeller, String label) {
+    }
+
+    /** One listed record: where its labels stand, the model's view (may be null), whether it was a spot check. */
+    public record Item(Resolution resolution, double[] model, boolean spotCheck) {
+    }
+
+    public record Page(List<Item> items, int total) {
+    }
+
+    private final Database db;
+
+    public Reviews(Database db) {
+        this.db = db;
+    }
+
+    /** The labelled records of {@code pool} that pass {@code filter}, in pool order, {@code limit} from {@code offset}. */
+    public Page find(PoolRow pool, Filter filter, int offset, int limit) {
+        if (offset < 0 || limit < 1 || limit > MAX_PAGE) {
+            throw new IllegalArgumentException("offset must be 0 or more and limit between 1 and " + MAX_PAGE);
+        }
+        if (filter.label() != null && !pool.classes().contains(filter.label())) {
+            throw new IllegalArgumentException("'" + filter.label() + "' is not one of the classes "
+                    + String.join(", ", pool.classes()));
+        }
+        Map<Long, String> predictions = db.predictions().all(pool.id());
+        Set<Long> spot = new HashSet<>();
+        for (QueueEntry e : db.queues().spotChecks(pool.id())) {
+            spot.add(e.row());
+        }
+        List<Item> items = new ArrayList<>();
+        int[] total = {0};
+        db.labels().forEachResolution(pool.id(), r -> {
+            String json = predictions.get(r.row());
+            double[] model = json == null ? null : Json.read(json, double[].class);
+            if (!passes(r, model, spot.contains(r.row()), filter, pool.classes())) {
+                return;
+            }
+            if (total[0] >= offset && items.size() < limit) {
+                items.add(new Item(r, model, spot.contains(r.row())));
+            }
+            total[0]++;
+        });
+        return new Page(items, total[0]);
+    }
+
+    static boolean passes(Resolution r, double[] model, boolean spotCheck, Filter f, List<String> classes) {
+        if (f.labeller() != null && r.opinions().stream().noneMatch(o -> o.person().equals(f.labeller()))) {
+            return false;
+        }
+        if (f.label() != null) {
+            boolean isFinal = r.finalLabel() != null && r.finalLabel().label().equals(f.label());
+            if (!isFinal && r.opinions().stream().noneMatch(o -> o.label().equals(f.label()))) {
+                return false;
+            }
+        }
+        return switch (f.show()) {
+            case ALL -> true;
+            case DISAGREE -> r.peopleDisagree();
+            case UNRESOLVED -> r.finalLabel() == null;
+            case SPOT -> spotCheck;
+            case MODEL -> modelDisagrees(r, model, classes);
+        };
+    }
+
+    /** The model puts at least {@link #CONFIDENT} on one class, and that class is not the record's label. */
+    static boolean modelDisagrees(Resolution r, double[] model, List<String> classes) {
+        if (model == null) {
+            return false;
+        }
+        int top = 0;
+        for (int c = 1; c < model.length; c++) {
+            if (model[c] > model[top]) {
+                top = c;
+            }
+        }
+        if (model[top] < CONFIDENT || top >= classes.size()) {
+            return false;
+        }
+        String sure = classes.get(top);
+        if (r.finalLabel() != null) {
+            return !r.finalLabel().label().equals(sure);
+        }
+        return r.opinions().stream().noneMatch(o -> o.label().equals(sure));
+    }
+
+    /** A reviewer's accept (the people's label becomes final) or override (a label and a reason). */
+    public Resolution decide(PoolRow pool, long row, Caller reviewer, String verdict, String label, String reason) {
+        if (label != null && !pool.classes().contains(label)) {
+            throw new IllegalArgumentException("label '" + label + "' is not one of the classes "
+                    + String.join(", ", pool.classes()));
+        }
+        if (LabelStore.KIND_OVERRIDE.equals(verdict) && label == null) {
+            throw new IllegalArgumentException("an override needs the label you choose");
+        }
+        return db.labels().review(pool.id(), row, reviewer.name(), verdict, label, reason);
+    }
+
+    /** Agreement over every record of the pool that two or more people labelled. */
+    public Agreement agreement(PoolRow pool) {
+        List<Resolution> shared = new ArrayList<>();
+        db.labels().forEachResolution(pool.id(), r -> {
+            if (r.opinions().size() > 1) {
+                shared.add(r);
+            }
+        });
+        return Agreement.of(shared, pool.classes());
+    }
+}
