@@ -22,6 +22,8 @@ import java.time.Duration;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Optional;
+import java.util.SplittableRandom;
+import org.apache.commons.math3.distribution.ChiSquaredDistribution;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -110,5 +112,35 @@ class RoundServiceTest {
             assertEquals(failed.message(), last.message());
             assertFalse(drain(db, pool).isEmpty(), "the old queue still hands out records");
         }
+    }
+
+    /**
+     * The share sent to two people is exact in size and uniform over the queue's places: a
+     * chi-square test over the 10 places against 27.88, the 0.1% point for 9 df (Commons Math
+     * gives the same quantile below).
+     */
+    @Test
+    void theShareSentToTwoIsExactAndUniform() {
+        assertEquals(27.877, new ChiSquaredDistribution(9)
+                .inverseCumulativeProbability(0.999), 1e-3);
+        List<QueueEntry> queue = new ArrayList<>();
+        for (int i = 0; i < 10; i++) {
+            queue.add(new QueueEntry(1, i, i, 0, false, null, null, null));
+        }
+        SplittableRandom rng = new SplittableRandom(4);
+        long[] hits = new long[10];
+        int trials = 20_000;
+        for (int t = 0; t < trials; t++) {
+            List<QueueEntry> out = RoundService.sendToTwo(queue, 0.2, rng);
+            assertEquals(2, out.stream().filter(e -> e.copies() == 2).count());
+            out.stream().filter(e -> e.copies() == 2).forEach(e -> hits[e.position()]++);
+        }
+        double expected = trials * 2 / 10.0;
+        double chi2 = 0;
+        for (long h : hits) {
+            chi2 += (h - expected) * (h - expected) / expected;
+        }
+        assertTrue(chi2 < 27.88, "chi-square " + chi2);
+        assertEquals(0, RoundService.sendToTwo(queue, 0, rng).stream().filter(e -> e.copies() == 2).count());
     }
 }

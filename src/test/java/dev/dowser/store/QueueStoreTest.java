@@ -116,4 +116,25 @@ class QueueStoreTest {
         assertEquals(Optional.of(2), db.queues().servedRound(pool));
         assertEquals(17, db.queues().lease(pool, "cleo", LEASE).orElseThrow().row());
     }
+
+    @Test
+    void aRecordSentToTwoGoesToTwoDifferentPeopleOneAtATime() {
+        db.queues().publish(pool, 1, List.of(new QueueEntry(1, 0, 5, 0.9, false, null, null, null).withCopies(2),
+                new QueueEntry(1, 1, 6, 0.8, false, null, null, null)));
+        QueueEntry first = db.queues().lease(pool, "ana", LEASE).orElseThrow();
+        assertEquals(5, first.row());
+        assertEquals(2, first.copies());
+        assertEquals(6, db.queues().lease(pool, "ben", LEASE).orElseThrow().row(), "held by ana meanwhile");
+        db.labels().add(pool, 5, "a", "ana", null);
+        db.queues().releaseRow(pool, 5, "ana");
+        assertEquals(Optional.empty(), db.queues().lease(pool, "ana", LEASE).filter(e -> e.row() == 5),
+                "never twice to the same person");
+        assertEquals(5, db.queues().lease(pool, "cy", LEASE).orElseThrow().row(), "free for a second person");
+        db.labels().add(pool, 5, "b", "cy", null);
+        assertTrue(db.queues().served(pool).get(0).labelled(), "two people labelled it: done");
+        assertEquals(Optional.empty(), db.queues().lease(pool, "dee", LEASE).filter(e -> e.row() == 5));
+        Resolution r = db.labels().resolution(pool, 5);
+        assertEquals(Resolution.UNRESOLVED, r.status());
+        assertEquals(List.of("ana", "cy"), r.opinions().stream().map(Resolution.Opinion::person).toList());
+    }
 }
