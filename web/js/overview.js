@@ -14,6 +14,12 @@ function cell(row, text, className) {
   return td;
 }
 
+function headCell(row, text) {
+  const th = document.createElement('th');
+  th.textContent = text;
+  row.append(th);
+}
+
 function fixed(v, digits) {
   return v === null || v === undefined || !Number.isFinite(Number(v)) ? '—' : Number(v).toFixed(digits);
 }
@@ -128,7 +134,8 @@ async function showQueue() {
 
 async function refresh() {
   try {
-    await Promise.all([showPool(), showAccuracy(), showRounds(), showQueue()]);
+    await Promise.all([showPool(), showAccuracy(), showRounds(), showQueue(),
+      getJson(`pools/${encodeURIComponent(pool)}/agreement`).then(showAgreement)]);
   } catch (error) {
     $('overview-message').textContent = error.message;
     $('overview-message').className = 'message error';
@@ -158,6 +165,7 @@ async function start() {
   // Buttons the role may not use are gone after showAccount(); the server refuses them regardless.
   const set = (id, apply) => { if ($(id)) apply($(id)); };
   set('to-records', (a) => { a.href = `./?pool=${enc}`; });
+  set('to-review', (a) => { a.href = `review.html?pool=${enc}`; });
   set('export-csv', (a) => { a.href = apiUrl(`pools/${enc}/export?format=csv`); });
   set('export-jsonl', (a) => { a.href = apiUrl(`pools/${enc}/export?format=jsonl`); });
   set('round-now', (b) => b.addEventListener('click', async () => {
@@ -171,6 +179,48 @@ async function start() {
 }
 
 start();
+
+/** Kappa in words: the common-practice bands of Landis and Koch (1977). */
+function kappaWords(k) {
+  if (k === null || k === undefined) return '—';
+  const words = k < 0 ? 'worse than chance' : k <= 0.2 ? 'slight' : k <= 0.4 ? 'fair' : k <= 0.6 ? 'moderate'
+    : k <= 0.8 ? 'substantial' : 'almost perfect';
+  return `${k.toFixed(2)} (${words})`;
+}
+
+function showAgreement(a) {
+  $('agreement-facts').textContent = a.records === 0
+    ? 'No record has two labels yet. A share of every queue goes to two different people; their agreement shows here.'
+    : `Fleiss' kappa over ${a.records.toLocaleString()} records labelled by two or more people: ${kappaWords(a.fleiss_kappa)}.`;
+  const any = a.records > 0;
+  $('pairs-wrap').hidden = !any;
+  $('confusion-wrap').hidden = !any;
+  $('confusion-title').hidden = !any;
+  if (!any) return;
+  const body = $('pairs').tBodies[0];
+  body.replaceChildren();
+  for (const p of a.pairs) {
+    const row = document.createElement('tr');
+    cell(row, `${p.first} & ${p.second}`);
+    cell(row, String(p.records));
+    cell(row, kappaWords(p.cohen_kappa));
+    body.append(row);
+  }
+  const head = $('confusion').tHead;
+  head.replaceChildren();
+  const hr = document.createElement('tr');
+  headCell(hr, '');
+  for (const c of a.classes) headCell(hr, c);
+  head.append(hr);
+  const cbody = $('confusion').tBodies[0];
+  cbody.replaceChildren();
+  a.classes.forEach((c, i) => {
+    const row = document.createElement('tr');
+    headCell(row, c);
+    a.confusion[i].forEach((n) => cell(row, String(n)));
+    cbody.append(row);
+  });
+}
 
 /** A round's start as the local date and time to the minute, in one short unbroken piece. */
 function clock(iso) {

@@ -134,7 +134,8 @@ public final class RoundService {
                 health = Json.write(sample.health());
                 keepPredictions(pool, round, m, labelled, sample);
             }
-            entries = sendToTwo(entries, settings.doubleLabelShare(), rng);
+            entries = carryOver(db.queues().awaitingSecondLabel(pool.id()), round,
+                    sendToTwo(entries, settings.doubleLabelShare(), rng));
             db.records().warm(pool.id(), entries.stream().mapToLong(QueueEntry::row).toArray());
             db.queues().publish(pool.id(), round, entries);
             db.rounds().finish(pool.id(), round, kernel, message, health);
@@ -174,6 +175,23 @@ public final class RoundService {
         List<QueueEntry> out = new ArrayList<>(n);
         for (int i = 0; i < n; i++) {
             out.add(chosen[i] ? entries.get(i).withCopies(2) : entries.get(i));
+        }
+        return out;
+    }
+
+    /**
+     * The new queue: records still waiting for their second label first (they are work in
+     * progress, picked by an earlier round), then this round's picks, numbered in that order.
+     */
+    static List<QueueEntry> carryOver(List<QueueEntry> waiting, int round, List<QueueEntry> picked) {
+        List<QueueEntry> out = new ArrayList<>(waiting.size() + picked.size());
+        for (QueueEntry e : waiting) {
+            out.add(new QueueEntry(round, out.size(), e.row(), e.score(), e.spotCheck(), e.predictionJson(), null, null,
+                    e.copies()));
+        }
+        for (QueueEntry e : picked) {
+            out.add(new QueueEntry(round, out.size(), e.row(), e.score(), e.spotCheck(), e.predictionJson(), null, null,
+                    e.copies()));
         }
         return out;
     }

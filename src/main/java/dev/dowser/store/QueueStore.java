@@ -187,6 +187,30 @@ public final class QueueStore {
         return out;
     }
 
+    /**
+     * Entries of the served queue that one person has labelled and a second still should: a new
+     * queue carries them over, so that a round never cuts a pair of labels in half.
+     */
+    public List<QueueEntry> awaitingSecondLabel(long poolId) {
+        List<QueueEntry> out = new ArrayList<>();
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check,"
+                     + " q.prediction FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id"
+                     + " AND s.round_no = q.round_no WHERE q.pool_id = ? AND q.copies = 2 AND NOT " + DONE
+                     + " AND (SELECT COUNT(*) " + LIVE_LABELS + ") > 0 ORDER BY q.position")) {
+            q.setLong(1, poolId);
+            try (ResultSet rs = q.executeQuery()) {
+                while (rs.next()) {
+                    out.add(new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getDouble(4),
+                            rs.getBoolean(5), rs.getString(6), null, null, 2));
+                }
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the served queue of pool " + poolId + ": " + e.getMessage(), e);
+        }
+        return out;
+    }
+
     /** Every spot check ever queued for the pool, oldest round first: the model's belief at queue time. */
     public List<QueueEntry> spotChecks(long poolId) {
         List<QueueEntry> out = new ArrayList<>();

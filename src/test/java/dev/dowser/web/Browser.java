@@ -7,6 +7,7 @@ import java.nio.file.Path;
 import java.time.Duration;
 import java.util.function.Function;
 import org.openqa.selenium.OutputType;
+import org.openqa.selenium.StaleElementReferenceException;
 import org.openqa.selenium.TimeoutException;
 import org.openqa.selenium.WebDriver;
 import org.openqa.selenium.chrome.ChromeDriver;
@@ -42,10 +43,14 @@ final class Browser implements AutoCloseable {
         this.driver = new ChromeDriver(service, options);
     }
 
-    /** Waits for the condition; on a timeout, saves a screenshot named after what was awaited. */
+    /**
+     * Waits for the condition; on a timeout, saves a screenshot named after what was awaited. An
+     * element drawn again while being read (pages redraw lists after each change) just means: look again.
+     */
     <T> T await(Function<WebDriver, T> condition, String what) {
         try {
-            return new WebDriverWait(driver, WAIT).withMessage(what).until(condition);
+            return new WebDriverWait(driver, WAIT).withMessage(what).ignoring(StaleElementReferenceException.class)
+                    .until(condition);
         } catch (TimeoutException e) {
             screenshot("timeout-" + what.replaceAll("[^A-Za-z0-9]+", "-"));
             throw e;

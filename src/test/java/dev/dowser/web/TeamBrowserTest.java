@@ -1,0 +1,185 @@
+package dev.dowser.web;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.dowser.TestSupport;
+import dev.dowser.json.Json;
+import dev.dowser.store.Database;
+import dev.dowser.team.Role;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.file.Path;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import org.junit.jupiter.api.AfterEach;
+import org.junit.jupiter.api.BeforeEach;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.openqa.selenium.By;
+import org.openqa.selenium.Keys;
+import org.openqa.selenium.WebElement;
+import org.openqa.selenium.support.ui.Select;
+
+/**
+ * The team pages in the real browser: what a labeller may not reach or see, a reviewer settling a
+ * disagreement between two labellers, agreement on the overview, and an admin managing accounts.
+ */
+class TeamBrowserTest {
+
+    @TempDir
+    Path dir;
+    Database db;
+    WebServer server;
+    Browser browser;
+    final HttpClient http = HttpClient.newHttpClient();
+    final Map<String, String> tokens = new HashMap<>();
+
+    @BeforeEach
+    void start() throws Exception {
+        db = TestSupport.openDb(dir.resolve("db"));
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
+                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        tokens.put("lead", TestSupport.tokenFor(db, "lead", Role.ADMIN));
+        tokens.put("rey", TestSupport.tokenFor(db, "rey", Role.REVIEWER));
+        tokens.put("ana", TestSupport.tokenFor(db, "ana", Role.LABELLER));
+        tokens.put("ben", TestSupport.tokenFor(db, "ben", Role.LABELLER));
+        browser = new Browser(dir.resolve("profile"));
+
+        // A small pool whose every queued record goes to two people; ana and ben label all of them,
+        // agreeing on some and not on others.
+        assertEquals(201, call("lead", "POST", "api/v1/imports?pool=gauges&file_name=g.csv&id=id&classes=ok,fault&wait=true",
+                "id,reading\ng1,0.5\ng2,3.5\ng3,1.0\ng4,2.0\ng5,2.5\ng6,3.0\n").statusCode());
+        assertEquals(200, call("lead", "PUT", "api/v1/pools/gauges/settings",
+                "{\"double_label_share\":1.0,\"batch_size\":6,\"spot_check_share\":0}").statusCode());
+        server.requestRound("gauges");
+        long pool = db.pools().require("gauges").id();
+        while (db.queues().servedRound(pool).isEmpty()) {
+            Thread.sleep(20);
+        }
+        for (String person : List.of("ana", "ben")) {
+            for (int i = 0; i < 6; i++) {
+                JsonNode next = Json.tree(call(person, "POST", "api/v1/pools/gauges/queue/next", "{}").body());
+                String id = next.at("/record/id").asText();
+                assertTrue(next.hasNonNull("record"), person + " " + i + ": " + next);
+                String label = person.equals("ben") && (id.equals("g2") || id.equals("g5")) ? "ok"
+                        : Double.parseDouble(next.at("/record/fields/reading").asText()) > 2.2 ? "fault" : "ok";
+                assertEquals(201, call(person, "POST", "api/v1/pools/gauges/labels",
+                        "{\"record\":\"" + id + "\",\"label\":\"" + label + "\"}").statusCode());
+            }
+        }
+    }
+
+    @AfterEach
+    void stop() {
+        browser.close();
+        server.close();
+        db.close();
+    }
+
+    private HttpResponse<String> call(String who, String method, String path, String body) throws Exception {
+        return http.send(HttpRequest.newBuilder(URI.create(base() + path)).header("Authorization", "Bearer " + tokens.get(who))
+                .method(method, HttpRequest.BodyPublishers.ofString(body)).build(), HttpResponse.BodyHandlers.ofString());
+    }
+
+    private String base() {
+        return "http://127.0.0.1:" + server.port() + "/";
+    }
+
+    private WebElement byId(String id) {
+        return browser.driver.findElement(By.id(id));
+    }
+
+    private void signIn(String name) {
+        browser.driver.manage().deleteAllCookies();
+        browser.driver.get(base() + "login.html");
+        WebElement form = browser.await(d -> byId("sign-in").isDisplayed() ? byId("sign-in") : null, "the sign-in form");
+        form.findElement(By.name("account")).sendKeys(name);
+        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
+        browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signing in as " + name);
+    }
+
+    @Test
+    void aLabellerReachesNeitherReviewNorAccountsAndSeesNoExport() {
+        signIn("ana");
+        browser.driver.get(base() + "overview.html?pool=gauges");
+        browser.await(d -> byId("pool-facts").getText().contains("6 records"), "the overview");
+        browser.await(d -> !byId("account").getText().isEmpty(), "the account corner");
+        assertTrue(browser.driver.findElements(By.id("export-csv")).isEmpty(), "an export button for a labeller");
+        assertTrue(browser.driver.findElements(By.id("export-jsonl")).isEmpty());
+        assertTrue(browser.driver.findElements(By.id("to-review")).isEmpty());
+        assertTrue(browser.driver.findElements(By.id("round-now")).isEmpty());
+        assertTrue(byId("account").findElements(By.linkText("review")).isEmpty());
+        assertTrue(byId("account").findElements(By.linkText("accounts")).isEmpty());
+        browser.screenshot("10-overview-as-labeller");
+
+        for (String page : List.of("review.html?pool=gauges", "users.html")) {
+            browser.driver.get(base() + page);
+            String text = browser.driver.findElement(By.tagName("body")).getText();
+            assertTrue(text.contains("an account with the role labeller may not do this"), page + ": " + text);
+        }
+        browser.driver.get(base() + "?pool=gauges");
+        browser.await(d -> !byId("pool-title").getText().isEmpty(), "the pool page");
+        assertTrue(browser.driver.findElements(By.id("export-csv")).isEmpty());
+        assertTrue(browser.driver.findElements(By.id("add-pool")).isEmpty(), "the import form for a labeller");
+    }
+
+    @Test
+    void aReviewerSettlesADisagreementAndTheOverviewShowsAgreement() {
+        signIn("rey");
+        browser.driver.get(base() + "review.html?pool=gauges");
+        browser.await(d -> byId("review-facts").getText().contains("of 6"), "six labelled records");
+        new Select(byId("filters").findElement(By.name("show"))).selectByValue("disagree");
+        byId("filters").findElement(By.cssSelector("button[type=submit]")).click();
+        browser.await(d -> byId("review-facts").getText().contains("of 2"), "the two disagreements");
+        WebElement g2 = browser.await(d -> d.findElement(By.cssSelector("[data-record='g2']")), "record g2");
+        assertTrue(g2.getText().contains("ana: fault") && g2.getText().contains("ben: ok"), g2.getText());
+        assertTrue(g2.findElement(By.className("accept")).getAttribute("disabled") != null,
+                "accept is for agreed labels; a disagreement needs an override");
+        browser.screenshot("11-review-disagreements");
+        new Select(g2.findElement(By.tagName("select"))).selectByValue("fault");
+        g2.findElement(By.tagName("input")).sendKeys("reading 3.5 is past the fault line");
+        g2.findElement(By.className("override")).click();
+        browser.await(d -> byId("review-message").getText().contains("g2: final label fault"), "the override");
+        // The list is drawn again after the decision; wait for the new card, then use it.
+        WebElement settled = browser.await(d -> {
+            WebElement card = d.findElement(By.cssSelector("[data-record='g2']"));
+            return card.getText().contains("rey overrode: fault — reading 3.5 is past the fault line") ? card : null;
+        }, "g2 showing the override");
+        settled.findElement(By.xpath(".//button[text()='History']")).click();
+        browser.await(d -> d.findElement(By.cssSelector("[data-record='g2'] .history")).getText().contains("override"),
+                "the record's history");
+        String history = browser.driver.findElement(By.cssSelector("[data-record='g2'] .history")).getText();
+        assertTrue(history.contains("ana · label fault") && history.contains("ben · label ok"), history);
+        browser.screenshot("12-review-history");
+
+        browser.driver.get(base() + "overview.html?pool=gauges");
+        browser.await(d -> byId("agreement-facts").getText().contains("Fleiss' kappa over 6 records"), "agreement");
+        assertTrue(byId("pairs").getText().contains("ana & ben"), byId("pairs").getText());
+        browser.screenshot("13-overview-agreement");
+    }
+
+    @Test
+    void anAdminAddsAndDisablesAnAccount() throws Exception {
+        signIn("lead");
+        browser.driver.get(base() + "users.html");
+        browser.await(d -> d.findElements(By.cssSelector("#users tbody tr")).size() == 4, "four accounts");
+        WebElement add = byId("add-user");
+        add.findElement(By.name("account")).sendKeys("newcomer");
+        new Select(add.findElement(By.name("role"))).selectByValue("reviewer");
+        add.findElement(By.name("password")).sendKeys("a fine long password");
+        add.findElement(By.cssSelector("button[type=submit]")).click();
+        browser.await(d -> d.findElements(By.cssSelector("#users tbody tr")).size() == 5, "the new account listed");
+        WebElement row = browser.driver.findElement(By.cssSelector("#users tr[data-user='ben']"));
+        row.findElement(By.xpath(".//button[text()='Disable']")).click();
+        browser.await(d -> d.findElement(By.cssSelector("#users tr[data-user='ben']")).getText().contains("disabled"),
+                "ben disabled");
+        browser.screenshot("14-accounts");
+        assertEquals(401, call("ben", "GET", "api/v1/pools", "").statusCode(), "ben's token stops at once");
+        assertEquals("reviewer", db.users().require("newcomer").role());
+    }
+}
