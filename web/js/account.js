@@ -27,8 +27,10 @@ export async function showAccount() {
     a.textContent = label;
     corner.append(a);
   }
-  const who = document.createElement('span');
+  const who = document.createElement('a');
   who.className = 'who';
+  who.href = 'account.html';
+  who.title = 'your account and API tokens';
   who.textContent = `${me.name} · ${me.role}`;
   const out = document.createElement('button');
   out.type = 'button';

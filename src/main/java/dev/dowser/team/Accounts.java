@@ -87,6 +87,10 @@ public final class Accounts {
         return row;
     }
 
+    public UserRow require(String name) {
+        return db.users().require(name);
+    }
+
     public List<UserRow> list() {
         return db.users().list();
     }

@@ -84,6 +84,7 @@ final class Access {
             new Route("GET", "/index.html", ANYONE_SIGNED_IN),
             new Route("GET", "/desk.html", ANYONE_SIGNED_IN),
             new Route("GET", "/overview.html", ANYONE_SIGNED_IN),
+            new Route("GET", "/account.html", ANYONE_SIGNED_IN),
             new Route("GET", "/review.html", REVIEWERS),
             new Route("GET", "/users.html", ADMINS));
 

@@ -64,8 +64,11 @@ final class DeskApi {
         QueueEntry e = next.get();
         RecordRow r = db.records().page(pool.id(), e.row(), 1).get(0);
         ObjectNode body = Json.object().put("round", e.round()).put("position", e.position())
-                .put("spot_check", e.spotCheck()).put("score", e.score()).put("lease_until", e.leaseUntil().toString());
-        body.set("record", Api.recordJson(r, display(pool)));
+                .put("copies", e.copies()).put("spot_check", e.spotCheck()).put("score", e.score()).put("lease_until", e.leaseUntil().toString());
+        // Another person's label is not shown: a second labeller must judge on their own.
+        ObjectNode record = Api.recordJson(r, display(pool));
+        record.remove(List.of("label", "labelled_by", "labelled_at", "note"));
+        body.set("record", record);
         if (e.predictionJson() != null) {
             // Sent for spot checks too; the desk keeps it hidden there unless asked, so they stay an honest test.
             JsonNode belief = Json.tree(e.predictionJson());

@@ -118,7 +118,7 @@ final class TeamApi {
 
     /** Changes any of role, disabled and password of an account. */
     private void changeUser(HttpServerExchange ex) throws IOException {
-        String name = param(ex, "name");
+        String name = accounts.require(param(ex, "name")).name();
         JsonNode body = jsonBody(ex, "an account change");
         String actor = Gate.caller(ex, true).name();
         body.fieldNames().forEachRemaining(f -> {
@@ -146,8 +146,7 @@ final class TeamApi {
         if (body.has("password")) {
             accounts.resetPassword(name, requiredText(body, "password"), actor);
         }
-        Responses.ok(ex, accounts.list().stream().filter(u -> u.name().equals(name)).findFirst()
-                .map(TeamApi::userJson).orElseThrow());
+        Responses.ok(ex, userJson(accounts.require(name)));
     }
 
     private static ObjectNode callerJson(Caller c) {

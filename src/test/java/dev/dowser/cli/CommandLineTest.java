@@ -3,10 +3,13 @@ package dev.dowser.cli;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.dowser.store.Database;
+import dev.dowser.team.Passwords;
 import java.io.PrintWriter;
 import java.io.StringWriter;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.time.Clock;
 import java.util.List;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
@@ -33,14 +36,14 @@ class CommandLineTest {
 
     @Test
     void everyCommandExplainsItself() {
-        for (String command : List.of("serve", "demo", "import", "export", "fit", "simulate", "bench")) {
+        for (String command : List.of("serve", "demo", "import", "export", "users", "fit", "simulate", "bench")) {
             Run r = run(command, "--help");
             assertEquals(0, r.exit(), command);
             assertTrue(r.out().startsWith("Usage: dowser " + command), command + ": " + r.out());
         }
         Run top = run("--help");
         assertEquals(0, top.exit());
-        for (String command : List.of("serve", "demo", "import", "export", "fit", "simulate", "bench")) {
+        for (String command : List.of("serve", "demo", "import", "export", "users", "fit", "simulate", "bench")) {
             assertTrue(top.out().contains("  " + command + " "), command + " missing from:\n" + top.out());
         }
     }
@@ -77,5 +80,37 @@ class CommandLineTest {
         Run missing = run("export", "--data", dir.resolve("data").toString(), "--pool", "nope");
         assertEquals(2, missing.exit());
         assertEquals("dowser: no pool named 'nope'", missing.err().strip());
+    }
+
+    @Test
+    void usersAreAddedListedDisabledAndGivenNewPasswords() throws Exception {
+        String data = dir.resolve("data").toString();
+        Run added = run("users", "add", "Ada Park", "--role", "reviewer", "--data", data);
+        assertEquals(0, added.exit(), added.err());
+        assertTrue(added.out().startsWith("added Ada Park (reviewer)"), added.out());
+        String password = added.out().replaceAll("(?s).*password: (\\S+).*", "$1");
+        assertEquals(24, password.length(), "18 random bytes in base64url: " + added.out());
+
+        Run twice = run("users", "add", "Ada Park", "--role", "admin", "--data", data);
+        assertEquals(2, twice.exit());
+        assertTrue(twice.err().contains("there is already an account named 'Ada Park'"), twice.err());
+        Run badRole = run("users", "add", "cy", "--role", "boss", "--data", data);
+        assertTrue(badRole.err().contains("unknown role 'boss': use admin, reviewer or labeller"), badRole.err());
+
+        assertEquals(0, run("users", "disable", "Ada Park", "--data", data).exit());
+        Run list = run("users", "list", "--data", data);
+        assertTrue(list.out().lines().anyMatch(l -> l.startsWith("Ada Park") && l.contains("reviewer")
+                && l.contains("disabled")), list.out());
+
+        Run reset = run("users", "reset-password", "Ada Park", "--data", data);
+        String fresh = reset.out().replaceAll("(?s).*password: (\\S+).*", "$1");
+        try (Database db = Database.open(dir.resolve("data"), Clock.systemUTC())) {
+            String stored = db.users().require("Ada Park").passwordHash();
+            assertTrue(Passwords.matches(fresh, stored), "the printed password is the stored one");
+            assertTrue(!Passwords.matches(password, stored), "the old password no longer works");
+            assertTrue(stored.startsWith("pbkdf2-sha256$600000$"), stored);
+            assertEquals(List.of("account-added", "account-disabled", "password-reset"),
+                    db.history().of(null, "account:Ada Park").stream().map(c -> c.kind()).toList());
+        }
     }
 }

@@ -105,6 +105,7 @@ class DeskApiTest {
         assertTrue(a.at("/belief/mean").size() == 3 && a.at("/belief/sd").size() == 3, a.toString());
         assertEquals(1, a.at("/progress/served_round").asInt());
 
+        assertTrue(a.get("record").path("label").isMissingNode(), "the desk shows nobody's label: " + a);
         // Asking again gives the same person the record they hold.
         assertEquals(recordA, ok(as("p1", "POST", "/api/v1/pools/iris/queue/next", "{}"), 200)
                 .at("/record/id").asText());

@@ -182,4 +182,24 @@ class TeamBrowserTest {
         assertEquals(401, call("ben", "GET", "api/v1/pools", "").statusCode(), "ben's token stops at once");
         assertEquals("reviewer", db.users().require("newcomer").role());
     }
+
+    @Test
+    void anyoneMakesATokenShownOnceAndRevokesIt() throws Exception {
+        signIn("ana");
+        browser.driver.get(base() + "account.html");
+        browser.await(d -> byId("me").getText().equals("ana · labeller"), "the account page");
+        byId("new-token").findElement(By.name("purpose")).sendKeys("nightly script", Keys.ENTER);
+        String token = browser.await(d -> byId("token-shown").isDisplayed() ? byId("token-text").getText() : null,
+                "the new token");
+        assertTrue(token.startsWith("dwt_"), token);
+        tokens.put("script", token);
+        assertEquals(200, call("script", "GET", "api/v1/pools", "").statusCode());
+        browser.screenshot("15-account-token");
+        browser.await(d -> d.findElements(By.xpath("//table[@id='tokens']//button[text()='Revoke']")).size() == 2,
+                "two live tokens: the test's and the new one");
+        WebElement row = browser.driver.findElement(By.xpath("//table[@id='tokens']//tr[td[text()='nightly script']]"));
+        row.findElement(By.tagName("button")).click();
+        browser.await(d -> byId("tokens-message").getText().contains("revoked"), "the revocation");
+        assertEquals(401, call("script", "GET", "api/v1/pools", "").statusCode(), "a revoked token stops at once");
+    }
 }
