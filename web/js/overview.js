@@ -1,6 +1,6 @@
 // The pool overview: labels, spot-check accuracy, chain health, rounds and the served queue, live.
 import { showAccount } from './account.js';
-import { getJson, postJson, apiUrl } from './api.js';
+import { getJson, postJson, putJson, apiUrl } from './api.js';
 import { bandChart, barList } from './charts.js';
 
 const $ = (id) => document.getElementById(id);
@@ -135,7 +135,7 @@ async function showQueue() {
 async function refresh() {
   try {
     await Promise.all([showPool(), showAccuracy(), showRounds(), showQueue(),
-      getJson(`pools/${encodeURIComponent(pool)}/agreement`).then(showAgreement)]);
+      getJson(`pools/${encodeURIComponent(pool)}/agreement`).then(showAgreement), showSettings()]);
   } catch (error) {
     $('overview-message').textContent = error.message;
     $('overview-message').className = 'message error';
@@ -166,6 +166,11 @@ async function start() {
   const set = (id, apply) => { if ($(id)) apply($(id)); };
   set('to-records', (a) => { a.href = `./?pool=${enc}`; });
   set('to-review', (a) => { a.href = `review.html?pool=${enc}`; });
+  set('settings', (form) => {
+    form.addEventListener('submit', saveSettings);
+    // Only admins may change settings; others see them and their history.
+    if (!$('settings-save')) for (const el of form.elements) el.disabled = true;
+  });
   set('export-csv', (a) => { a.href = apiUrl(`pools/${enc}/export?format=csv`); });
   set('export-jsonl', (a) => { a.href = apiUrl(`pools/${enc}/export?format=jsonl`); });
   set('round-now', (b) => b.addEventListener('click', async () => {
@@ -179,6 +184,49 @@ async function start() {
 }
 
 start();
+
+const SETTINGS = ['batch_size', 'spot_check_share', 'double_label_share', 'lease_minutes', 'strategy'];
+
+async function showSettings() {
+  const form = $('settings');
+  if (!form) return;
+  const now = await getJson(`pools/${encodeURIComponent(pool)}/settings`);
+  if (!form.contains(document.activeElement)) {
+    for (const f of SETTINGS) form.elements[f].value = now[f];
+  }
+  const { changes } = await getJson(`pools/${encodeURIComponent(pool)}/settings/history`);
+  const list = $('settings-history');
+  list.replaceChildren();
+  for (const c of changes.slice().reverse()) {
+    const changed = SETTINGS.filter((f) => !c.before || String(c.before[f]) !== String(c.after[f]))
+      .map((f) => `${f.replaceAll('_', ' ')} ${c.before ? `${c.before[f]} → ` : ''}${c.after[f]}`);
+    const li = document.createElement('li');
+    li.textContent = `${new Date(c.at).toLocaleString()} · ${c.by} · ${changed.join(', ') || 'saved unchanged'}`;
+    list.append(li);
+  }
+  if (changes.length === 0) {
+    const li = document.createElement('li');
+    li.textContent = 'No change since the pool was made.';
+    list.append(li);
+  }
+}
+
+async function saveSettings(event) {
+  event.preventDefault();
+  const form = event.target;
+  const body = {};
+  for (const f of SETTINGS) body[f] = f === 'strategy' ? form.elements[f].value : Number(form.elements[f].value);
+  try {
+    await putJson(`pools/${encodeURIComponent(pool)}/settings`, body);
+    $('settings-message').textContent = 'Saved; the next round uses them.';
+    $('settings-message').className = 'message';
+    if (document.activeElement) document.activeElement.blur();
+    await showSettings();
+  } catch (e) {
+    $('settings-message').textContent = e.message;
+    $('settings-message').className = 'message error';
+  }
+}
 
 /** Kappa in words: the common-practice bands of Landis and Koch (1977). */
 function kappaWords(k) {

@@ -71,6 +71,7 @@ final class Access {
             new Route("GET", "/pools/{pool}/accuracy", ANYONE_SIGNED_IN),
             new Route("GET", "/pools/{pool}/settings", ANYONE_SIGNED_IN),
             new Route("PUT", "/pools/{pool}/settings", ADMINS),
+            new Route("GET", "/pools/{pool}/settings/history", REVIEWERS),
             new Route("GET", "/pools/{pool}/review", REVIEWERS),
             new Route("POST", "/pools/{pool}/reviews", REVIEWERS),
             new Route("GET", "/pools/{pool}/records/{record}/history", REVIEWERS),

@@ -12,11 +12,13 @@ import dev.dowser.rounds.Rounds;
 import dev.dowser.rounds.SpotCheckAccuracy;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.store.Database;
+import dev.dowser.store.HistoryStore;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
 import dev.dowser.store.QueueStore;
 import dev.dowser.store.RecordRow;
 import dev.dowser.store.RoundStore;
+import dev.dowser.team.Role;
 import io.undertow.server.HttpServerExchange;
 import io.undertow.server.RoutingHandler;
 import java.io.IOException;
@@ -40,7 +42,8 @@ final class RoundsApi {
                 .get("/pools/{pool}/queue", this::queue)
                 .get("/pools/{pool}/accuracy", this::accuracy)
                 .get("/pools/{pool}/settings", this::settings)
-                .put("/pools/{pool}/settings", this::changeSettings);
+                .put("/pools/{pool}/settings", this::changeSettings)
+                .get("/pools/{pool}/settings/history", this::settingsHistory);
     }
 
     private void list(HttpServerExchange ex) {
@@ -71,14 +74,17 @@ final class RoundsApi {
         Responses.json(ex, 202, Json.object().put("requested", true));
     }
 
+    /** The served queue; labels are left out for labellers, so that a second labeller judges alone. */
     private void queue(HttpServerExchange ex) {
         PoolRow pool = db.pools().require(param(ex, "pool"));
+        boolean showLabels = Gate.caller(ex, true).role().atLeast(Role.REVIEWER);
         ArrayNode entries = Json.array();
         for (QueueStore.Served s : db.queues().served(pool.id())) {
             QueueEntry e = s.entry();
             RecordRow r = db.records().page(pool.id(), e.row(), 1).get(0);
             entries.addObject().put("position", e.position()).put("record", r.key()).put("score", e.score())
-                    .put("spot_check", e.spotCheck()).put("labelled", s.labelled()).put("label", r.label())
+                    .put("spot_check", e.spotCheck()).put("copies", e.copies()).put("labelled", s.labelled())
+                    .put("label", showLabels ? r.label() : null)
                     .put("leased_to", e.leasedTo())
                     .put("lease_until", e.leaseUntil() == null ? null : e.leaseUntil().toString());
         }
@@ -134,6 +140,18 @@ final class RoundsApi {
         db.pools().updateSettings(pool.id(), next.toJson(), Gate.caller(ex, true).name());
         rounds.worker(pool.name()).batchChanged(next.batchSize());
         Responses.ok(ex, settingsJson(next));
+    }
+
+    /** Every change of the pool's settings, oldest first: who, when, before and after. */
+    private void settingsHistory(HttpServerExchange ex) {
+        PoolRow pool = db.pools().require(param(ex, "pool"));
+        ArrayNode changes = Json.array();
+        for (HistoryStore.Change c : db.history().of(pool.id(), "settings")) {
+            ObjectNode n = changes.addObject().put("by", c.actor()).put("at", c.at().toString());
+            n.set("before", c.before() == null ? null : settingsJson(PoolSettings.parse(c.before())));
+            n.set("after", settingsJson(PoolSettings.parse(c.after())));
+        }
+        Responses.ok(ex, Json.object().set("changes", changes));
     }
 
     private static ObjectNode settingsJson(PoolSettings s) {

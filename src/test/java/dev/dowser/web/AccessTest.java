@@ -64,6 +64,7 @@ class AccessTest {
         {"GET", "/pools/{pool}/accuracy", "/pools/p/accuracy", "labeller reviewer admin"},
         {"GET", "/pools/{pool}/settings", "/pools/p/settings", "labeller reviewer admin"},
         {"PUT", "/pools/{pool}/settings", "/pools/p/settings", "admin"},
+        {"GET", "/pools/{pool}/settings/history", "/pools/p/settings/history", "reviewer admin"},
         {"GET", "/pools/{pool}/review", "/pools/p/review", "reviewer admin"},
         {"POST", "/pools/{pool}/reviews", "/pools/p/reviews", "reviewer admin"},
         {"GET", "/pools/{pool}/records/{record}/history", "/pools/p/records/a/history", "reviewer admin"},

@@ -202,4 +202,29 @@ class TeamBrowserTest {
         browser.await(d -> byId("tokens-message").getText().contains("revoked"), "the revocation");
         assertEquals(401, call("script", "GET", "api/v1/pools", "").statusCode(), "a revoked token stops at once");
     }
+
+    @Test
+    void settingsChangesAreKeptWithWhoAndWhen() {
+        signIn("lead");
+        browser.driver.get(base() + "overview.html?pool=gauges");
+        WebElement batch = browser.await(d -> {
+            WebElement in = byId("settings").findElement(By.name("batch_size"));
+            return "6".equals(in.getAttribute("value")) ? in : null;
+        }, "the settings form");
+        batch.clear();
+        batch.sendKeys("7");
+        byId("settings-save").click();
+        browser.await(d -> byId("settings-history").getText().contains("lead · batch size 6 → 7"), "the change listed");
+        // The setting made through the API before is listed too, with its before and after.
+        assertTrue(byId("settings-history").getText().contains("double label share 0.1 → 1"),
+                byId("settings-history").getText());
+        assertEquals(2, db.history().of(db.pools().require("gauges").id(), "settings").size());
+        browser.screenshot("16-overview-settings");
+
+        signIn("rey");
+        browser.driver.get(base() + "overview.html?pool=gauges");
+        browser.await(d -> byId("settings-history").getText().contains("batch size 6 → 7"), "the history for a reviewer");
+        assertTrue(browser.driver.findElements(By.id("settings-save")).isEmpty(), "a reviewer cannot save settings");
+        assertTrue(byId("settings").findElement(By.name("batch_size")).getAttribute("disabled") != null);
+    }
 }
