@@ -11,6 +11,14 @@ ALTER TABLE labels ADD CONSTRAINT labels_kind_ck CHECK (kind IN ('label', 'accep
 -- labellers so that their agreement can be measured.
 ALTER TABLE queue_entries ADD COLUMN copies INTEGER DEFAULT 1 NOT NULL;
 
+-- Whether a queued record needs no more labels (enough people labelled it, or a reviewer decided):
+-- derived from the labels, kept up to date whenever a label row is appended, so that handing out
+-- the next record does not recount labels for every entry of the queue.
+ALTER TABLE queue_entries ADD COLUMN done BOOLEAN DEFAULT FALSE NOT NULL;
+CREATE INDEX queue_entries_by_row ON queue_entries (pool_id, row_no);
+-- Handing out the next record reads the open entries of the served round in queue order.
+CREATE INDEX queue_entries_open ON queue_entries (pool_id, round_no, done, position);
+
 -- The model's posterior predictive for each labelled record after the latest round, so the
 -- review page can find records where a confident model disagrees with the people. Derived data:
 -- replaced by every round.

@@ -43,18 +43,12 @@ public final class LabelStore {
         if (note != null && note.length() > MAX_NOTE_CHARS) {
             throw new IllegalArgumentException("the note is longer than " + MAX_NOTE_CHARS + " characters");
         }
-        Instant now = clock.instant();
-        try (Connection c = ds.getConnection();
-             PreparedStatement p = c.prepareStatement("INSERT INTO labels"
-                     + " (pool_id, row_no, label, labelled_by, labelled_at, note) VALUES (?, ?, ?, ?, ?, ?)")) {
-            p.setLong(1, poolId);
-            p.setLong(2, row);
-            p.setString(3, label);
-            p.setString(4, labelledBy);
-            p.setTimestamp(5, Timestamp.from(now));
-            p.setString(6, note);
-            p.executeUpdate();
-            return new LabelRow(row, label, labelledBy, now, note);
+        try {
+            return Transactions.run(ds, c -> {
+                Instant at = insert(c, poolId, row, label, labelledBy, note, KIND_LABEL, false);
+                refreshQueue(c, poolId, row);
+                return new LabelRow(row, label, labelledBy, at, note);
+            });
         } catch (SQLException e) {
             throw new StoreException("cannot store the label of row " + row + ": " + e.getMessage(), e);
         }
@@ -78,6 +72,7 @@ public final class LabelStore {
                             + now.opinions().get(0).person() + "; only they can take it back");
                 }
                 insert(c, poolId, row, mine.label(), person, null, KIND_LABEL, true);
+                refreshQueue(c, poolId, row);
                 return new LabelRow(row, mine.label(), person, mine.at(), mine.note());
             });
         } catch (SQLException e) {
@@ -115,6 +110,7 @@ public final class LabelStore {
                     finalLabel = now.opinions().get(0).label();
                 }
                 insert(c, poolId, row, finalLabel, reviewer, reason, verdict, false);
+                refreshQueue(c, poolId, row);
                 return resolution(c, poolId, row);
             });
         } catch (SQLException e) {
@@ -167,19 +163,31 @@ public final class LabelStore {
         }
     }
 
-    private void insert(Connection c, long poolId, long row, String label, String by, String note, String kind,
-                        boolean withdrawn) throws SQLException {
+    /** Appends one label row; returns its time. */
+    private Instant insert(Connection c, long poolId, long row, String label, String by, String note, String kind,
+                           boolean withdrawn) throws SQLException {
+        Instant now = clock.instant();
         try (PreparedStatement p = c.prepareStatement("INSERT INTO labels (pool_id, row_no, label, labelled_by,"
                 + " labelled_at, note, kind, withdrawn) VALUES (?, ?, ?, ?, ?, ?, ?, ?)")) {
             p.setLong(1, poolId);
             p.setLong(2, row);
             p.setString(3, label);
             p.setString(4, by);
-            p.setTimestamp(5, Timestamp.from(clock.instant()));
+            p.setTimestamp(5, Timestamp.from(now));
             p.setString(6, note);
             p.setString(7, kind);
             p.setBoolean(8, withdrawn);
             p.executeUpdate();
+        }
+        return now;
+    }
+
+    /** Every label row appended changes whether the record's queue entries need more labels. */
+    private static void refreshQueue(Connection c, long poolId, long row) throws SQLException {
+        try (PreparedStatement u = c.prepareStatement(QueueStore.REFRESH_DONE)) {
+            u.setLong(1, poolId);
+            u.setLong(2, row);
+            u.executeUpdate();
         }
     }
 

@@ -30,6 +30,9 @@ public final class QueueStore {
     /** Queue entry q needs no more labels: enough people gave one, or a reviewer decided. */
     static final String DONE = "((SELECT COUNT(*) " + LIVE_LABELS + ") >= q.copies OR EXISTS (SELECT 1 FROM labels r"
             + " WHERE r.pool_id = q.pool_id AND r.row_no = q.row_no AND r.kind <> 'label'))";
+    /** Brings the done flag of every queue entry of one record (pool and row bound) up to date with its labels. */
+    static final String REFRESH_DONE = "UPDATE queue_entries q SET done = " + DONE + " WHERE q.pool_id = ? AND q.row_no = ?";
+
     /** The person bound to the next parameter has a live label on queue entry q's record. */
     static final String LABELLED_BY_PERSON = "EXISTS (SELECT 1 " + LIVE_LABELS + " AND l.labelled_by = ?)";
 
@@ -66,6 +69,13 @@ public final class QueueStore {
                         ins.addBatch();
                     }
                     ins.executeBatch();
+                    // Records labelled while the round ran are done already.
+                    try (PreparedStatement done = c.prepareStatement("UPDATE queue_entries q SET done = " + DONE
+                            + " WHERE q.pool_id = ? AND q.round_no = ?")) {
+                        done.setLong(1, poolId);
+                        done.setInt(2, round);
+                        done.executeUpdate();
+                    }
                     del.setLong(1, poolId);
                     del.executeUpdate();
                     serve.setLong(1, poolId);
@@ -100,38 +110,55 @@ public final class QueueStore {
     public Optional<QueueEntry> lease(long poolId, String person, Duration lease) {
         Instant now = clock.instant();
         Instant until = now.plus(lease);
+        // Two cheap reads instead of one sorted one: the entry this person holds, else the first free
+        // ones in queue order. Whether the person
+        // labelled an entry is asked only of entries wanted by two, the only ones it can be true for.
+        // The served round is read first and bound as a value: as a subquery it was evaluated for every
+        // entry of every round of the pool.
+        Optional<Integer> served = servedRound(poolId);
+        if (served.isEmpty()) {
+            return Optional.empty();
+        }
+        String columns = "SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check, q.prediction, q.copies"
+                + " FROM queue_entries q WHERE q.pool_id = ? AND q.round_no = ?"
+                + " AND q.done = FALSE AND (q.copies = 1 OR NOT " + LABELLED_BY_PERSON + ")";
+        // Ordered by every column of queue_entries_open, so that the database reads that index in order
+        // from the first open entry and stops after a few, rather than sorting all of them.
+        String inOrder = " ORDER BY q.pool_id, q.round_no, q.done, q.position";
         try (Connection c = ds.getConnection();
-             PreparedStatement find = c.prepareStatement("SELECT q.round_no, q.position, q.row_no, q.score,"
-                     + " q.spot_check, q.prediction, q.copies FROM queue_entries q JOIN served_queues s"
-                     + " ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
-                     + " WHERE q.pool_id = ? AND (q.leased_to IS NULL OR q.lease_until <= ? OR q.leased_to = ?)"
-                     + " AND NOT " + DONE + " AND NOT " + LABELLED_BY_PERSON
-                     + " ORDER BY CASE WHEN q.leased_to = ? THEN 0 ELSE 1 END, q.position FETCH FIRST 16 ROWS ONLY");
+             PreparedStatement held = c.prepareStatement(columns + " AND q.leased_to = ?" + inOrder
+                     + " FETCH FIRST 1 ROW ONLY");
+             PreparedStatement free = c.prepareStatement(columns + " AND (q.leased_to IS NULL OR q.lease_until <= ?)"
+                     + inOrder + " FETCH FIRST 16 ROWS ONLY");
              PreparedStatement take = c.prepareStatement("UPDATE queue_entries SET leased_to = ?, lease_until = ?"
                      + " WHERE pool_id = ? AND round_no = ? AND position = ?"
                      + " AND (leased_to IS NULL OR lease_until <= ? OR leased_to = ?)")) {
-            while (true) {
+            for (PreparedStatement find : List.of(held, free)) {
                 find.setLong(1, poolId);
-                find.setTimestamp(2, Timestamp.from(now));
+                find.setInt(2, served.get());
                 find.setString(3, person);
-                find.setString(4, person);
-                find.setString(5, person);
+            }
+            held.setString(4, person);
+            free.setTimestamp(4, Timestamp.from(now));
+            while (true) {
                 boolean any = false;
-                try (ResultSet rs = find.executeQuery()) {
-                    while (rs.next()) {
-                        any = true;
-                        int round = rs.getInt(1);
-                        int position = rs.getInt(2);
-                        take.setString(1, person);
-                        take.setTimestamp(2, Timestamp.from(until));
-                        take.setLong(3, poolId);
-                        take.setInt(4, round);
-                        take.setInt(5, position);
-                        take.setTimestamp(6, Timestamp.from(now));
-                        take.setString(7, person);
-                        if (take.executeUpdate() == 1) {
-                            return Optional.of(new QueueEntry(round, position, rs.getLong(3), rs.getDouble(4),
-                                    rs.getBoolean(5), rs.getString(6), person, until, rs.getInt(7)));
+                for (PreparedStatement find : List.of(held, free)) {
+                    try (ResultSet rs = find.executeQuery()) {
+                        while (rs.next()) {
+                            any = true;
+                            int round = rs.getInt(1);
+                            int position = rs.getInt(2);
+                            take.setString(1, person);
+                            take.setTimestamp(2, Timestamp.from(until));
+                            take.setLong(3, poolId);
+                            take.setInt(4, round);
+                            take.setInt(5, position);
+                            take.setTimestamp(6, Timestamp.from(now));
+                            take.setString(7, person);
+                            if (take.executeUpdate() == 1) {
+                                return Optional.of(new QueueEntry(round, position, rs.getLong(3), rs.getDouble(4),
+                                        rs.getBoolean(5), rs.getString(6), person, until, rs.getInt(7)));
+                            }
                         }
                     }
                 }
@@ -169,7 +196,7 @@ public final class QueueStore {
         List<Served> out = new ArrayList<>();
         try (Connection c = ds.getConnection();
              PreparedStatement q = c.prepareStatement("SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check,"
-                     + " q.prediction, q.leased_to, q.lease_until, " + DONE + ", q.copies"
+                     + " q.prediction, q.leased_to, q.lease_until, q.done, q.copies"
                      + " FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
                      + " WHERE q.pool_id = ? ORDER BY q.position")) {
             q.setLong(1, poolId);
@@ -196,7 +223,7 @@ public final class QueueStore {
         try (Connection c = ds.getConnection();
              PreparedStatement q = c.prepareStatement("SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check,"
                      + " q.prediction FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id"
-                     + " AND s.round_no = q.round_no WHERE q.pool_id = ? AND q.copies = 2 AND NOT " + DONE
+                     + " AND s.round_no = q.round_no WHERE q.pool_id = ? AND q.copies = 2 AND NOT q.done"
                      + " AND (SELECT COUNT(*) " + LIVE_LABELS + ") > 0 ORDER BY q.position")) {
             q.setLong(1, poolId);
             try (ResultSet rs = q.executeQuery()) {
