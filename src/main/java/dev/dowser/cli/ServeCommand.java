@@ -27,9 +27,13 @@ final class ServeCommand implements Callable<Integer> {
             description = "Largest import upload accepted, in MiB (default: ${DEFAULT-VALUE}).")
     long maxUploadMib;
 
+    @Option(names = "--trust-proxy", description = "Behind a TLS proxy on this host: believe its X-Forwarded-*"
+            + " headers, so that session cookies are marked Secure. Never with the port open to clients.")
+    boolean trustProxy;
+
     @Override
     public Integer call() {
-        WebConfig config = new WebConfig(bind, port, maxUploadMib << 20, data.dir.resolve("uploads"));
+        WebConfig config = new WebConfig(bind, port, maxUploadMib << 20, data.dir.resolve("uploads"), trustProxy);
         ServerRunner.runUntilStopped(data.open(), config, "Dowser is serving {address}  (data: "
                 + data.dir.toAbsolutePath() + ")");
         return 0;

@@ -9,8 +9,11 @@ import java.nio.file.Path;
  * @param port            TCP port; 0 picks a free one
  * @param maxUploadBytes  largest import upload accepted
  * @param spoolDir        where uploads wait while they are imported
+ * @param trustProxy      true behind a TLS proxy on the same host: its X-Forwarded-Proto, -For and
+ *                        -Host headers are believed, so cookies are marked Secure and sign-in limits
+ *                        count the real address. Never set it when clients can reach the port directly.
  */
-public record WebConfig(String bind, int port, long maxUploadBytes, Path spoolDir) {
+public record WebConfig(String bind, int port, long maxUploadBytes, Path spoolDir, boolean trustProxy) {
 
     public static final String DEFAULT_BIND = "127.0.0.1";
     public static final int DEFAULT_PORT = 8080;
@@ -29,5 +32,10 @@ public record WebConfig(String bind, int port, long maxUploadBytes, Path spoolDi
         if (spoolDir == null) {
             throw new IllegalArgumentException("spoolDir is required");
         }
+    }
+
+    /** Listening directly, trusting no forwarding headers. */
+    public WebConfig(String bind, int port, long maxUploadBytes, Path spoolDir) {
+        this(bind, port, maxUploadBytes, spoolDir, false);
     }
 }

@@ -62,7 +62,9 @@ public final class WebServer implements AutoCloseable {
         HttpHandler api = new BlockingHandler(guarded(new Api(db, imports, rounds, events, accounts).routes()));
         HttpHandler routes = Handlers.path(StaticFiles.handler()).addPrefixPath(Api.PREFIX, api)
                 .addExactPath(Api.PREFIX + "/events", events.handler());
-        GracefulShutdownHandler graceful = Handlers.gracefulShutdown(new Gate(accounts, guarded(routes)));
+        HttpHandler gate = new Gate(accounts, guarded(routes));
+        GracefulShutdownHandler graceful = Handlers.gracefulShutdown(config.trustProxy()
+                ? Handlers.proxyPeerAddress(gate) : gate);
         Undertow undertow = Undertow.builder()
                 .addHttpListener(config.port(), config.bind())
                 .setHandler(graceful)

@@ -229,6 +229,20 @@ class AccessTest {
         assertTrue(held.body().contains("too many failed sign-ins"), held.body());
     }
 
+    @Test
+    void behindATlsProxyTheCookieIsSecure() throws Exception {
+        server.close();
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads"), true),
+                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        HttpResponse<String> in = http.send(request("POST", "/api/v1/session", null, false, false)
+                .header("X-Forwarded-Proto", "https")
+                .POST(HttpRequest.BodyPublishers.ofString("{\"name\":\"reviewer-1\",\"password\":\""
+                        + TestSupport.TEST_PASSWORD + "\"}")).build(), HttpResponse.BodyHandlers.ofString());
+        assertEquals(200, in.statusCode(), in.body());
+        String cookie = in.headers().firstValue("set-cookie").orElseThrow();
+        assertTrue(cookie.contains("Secure") && cookie.contains("HttpOnly"), cookie);
+    }
+
     /** The status of one call; the response body is closed unread (the event stream never ends). */
     private int status(String method, String path, Role role, boolean withCsrf, boolean forged) throws Exception {
         HttpResponse<InputStream> r = http.send(request(method, path, role, withCsrf, forged).build(),
