@@ -43,26 +43,27 @@ final class LoginLimiter {
     }
 
     private long wait(String key, int limit) {
-        Deque<Instant> times = failures.get(key);
-        if (times == null) {
-            return 0;
-        }
-        synchronized (times) {
+        long[] wait = {0};
+        // Pruned under the map's lock for this key; a key left with no failure is dropped, so that
+        // guesses from many addresses do not pile up in memory.
+        failures.computeIfPresent(key, (k, times) -> {
             prune(times);
-            if (times.size() < limit) {
-                return 0;
+            if (times.size() >= limit) {
+                Instant free = times.peekFirst().plus(window);
+                wait[0] = Math.max(1, Duration.between(clock.instant(), free).toSeconds());
             }
-            Instant free = times.peekFirst().plus(window);
-            return Math.max(1, Duration.between(clock.instant(), free).toSeconds());
-        }
+            return times.isEmpty() ? null : times;
+        });
+        return wait[0];
     }
 
     private void record(String key) {
-        Deque<Instant> times = failures.computeIfAbsent(key, k -> new ArrayDeque<>());
-        synchronized (times) {
-            prune(times);
-            times.addLast(clock.instant());
-        }
+        failures.compute(key, (k, times) -> {
+            Deque<Instant> t = times == null ? new ArrayDeque<>() : times;
+            prune(t);
+            t.addLast(clock.instant());
+            return t;
+        });
     }
 
     private void prune(Deque<Instant> times) {
