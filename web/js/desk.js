@@ -117,8 +117,10 @@ function show(assignment) {
   $('choices').hidden = false;
   $('card-id').textContent = r.id;
   $('card-spot').hidden = !assignment.spot_check;
-  $('card-score').textContent = assignment.score !== undefined && !assignment.spot_check
-    ? `information ${Number(assignment.score).toFixed(3)} nats` : '';
+  // Before any label there is no model: the first batch is spread over the pool, not scored.
+  const scored = assignment.belief && assignment.score !== undefined;
+  $('card-score').textContent = assignment.spot_check ? ''
+    : scored ? `information ${Number(assignment.score).toFixed(3)} nats` : 'first batch: spread over the pool';
   $('card-body').replaceChildren(recordBody(r.fields));
   $('note').value = '';
   state.beliefOpen = assignment.spot_check ? false : state.showBelief;

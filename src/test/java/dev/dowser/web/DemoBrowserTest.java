@@ -1,0 +1,76 @@
+package dev.dowser.web;
+
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.dowser.TestSupport;
+import dev.dowser.demo.DemoPool;
+import dev.dowser.store.Database;
+import dev.dowser.team.Accounts;
+import dev.dowser.team.Role;
+import java.nio.file.Path;
+import java.security.SecureRandom;
+import org.junit.jupiter.api.AfterEach;
+import org.junit.jupiter.api.BeforeEach;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.openqa.selenium.By;
+import org.openqa.selenium.Keys;
+import org.openqa.selenium.WebElement;
+import org.openqa.selenium.interactions.Actions;
+
+/** The demo's first minute as a newcomer lives it: sign in, land on the desk, see a pump trace, label it. */
+class DemoBrowserTest {
+
+    @TempDir
+    Path dir;
+    Database db;
+    WebServer server;
+    Browser browser;
+
+    @BeforeEach
+    void start() {
+        db = TestSupport.openDb(dir.resolve("db"));
+        DemoPool.load(db, dir.resolve("db"), 300, DemoPool.DEFAULT_SEED);
+        new Accounts(db, new SecureRandom(), TestSupport.FAST_TEAM).add("demo-labeller", Role.LABELLER,
+                TestSupport.TEST_PASSWORD, "demo");
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
+                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        server.requestRound(DemoPool.POOL);
+        browser = new Browser(dir.resolve("profile"));
+    }
+
+    @AfterEach
+    void stop() {
+        browser.close();
+        server.close();
+        db.close();
+    }
+
+    private WebElement byId(String id) {
+        return browser.driver.findElement(By.id(id));
+    }
+
+    @Test
+    void theDeskAddressLeadsThroughSignInToAPumpTrace() {
+        String base = "http://127.0.0.1:" + server.port() + "/";
+        // The address the demo prints; signing in brings the person back to it.
+        browser.driver.get(base + "desk.html?pool=" + DemoPool.POOL);
+        WebElement form = browser.await(d -> d.getCurrentUrl().contains("login.html") && byId("sign-in").isDisplayed()
+                ? byId("sign-in") : null, "the sign-in page");
+        form.findElement(By.name("account")).sendKeys("demo-labeller");
+        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
+        browser.await(d -> d.getCurrentUrl().contains("desk.html?pool=" + DemoPool.POOL), "back at the desk");
+        String first = browser.await(d -> byId("card").isDisplayed() ? byId("card-id").getText() : null,
+                "the first record");
+        WebElement card = byId("card");
+        assertFalse(card.findElements(By.tagName("polyline")).isEmpty(), "the vibration trace is drawn as a line");
+        assertTrue(byId("choices").getText().contains("cavitation"), byId("choices").getText());
+        assertTrue(byId("card-score").getText().isEmpty() || byId("card-score").getText().equals(
+                "first batch: spread over the pool"), "round 1 has no scores to show: " + byId("card-score").getText());
+        browser.screenshot("17-demo-desk");
+        new Actions(browser.driver).sendKeys("1").perform();
+        browser.await(d -> !byId("card-id").getText().equals(first), "the next record");
+        assertTrue(byId("progress").getText().contains("1 labelled this session"), byId("progress").getText());
+    }
+}
