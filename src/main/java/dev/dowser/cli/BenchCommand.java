@@ -151,10 +151,7 @@ final class BenchCommand implements Callable<Integer> {
     static void writeCsv(Path file, int n) throws IOException {
         SplittableRandom rng = new SplittableRandom(SEED);
         try (Writer w = Files.newBufferedWriter(file, StandardCharsets.UTF_8)) {
-            StringBuilder line = new StringBuilder(1024).append("id");
-            for (int f = 0; f < FEATURES; f++) {
-                line.append(",f").append(f);
-            }
+            StringBuilder line = header(new StringBuilder(1024));
             w.write(line.append('\n').toString());
             for (int i = 0; i < n; i++) {
                 line.setLength(0);
@@ -166,6 +163,15 @@ final class BenchCommand implements Callable<Integer> {
                 w.write(line.append('\n').toString());
             }
         }
+    }
+
+    /** The header of the benchmarks' generated files: id, then f0 to f63. */
+    static StringBuilder header(StringBuilder line) {
+        line.append("id");
+        for (int f = 0; f < FEATURES; f++) {
+            line.append(",f").append(f);
+        }
+        return line;
     }
 
     static void appendFixed4(StringBuilder s, double x) {

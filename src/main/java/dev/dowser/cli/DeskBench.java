@@ -46,7 +46,7 @@ import java.util.concurrent.TimeUnit;
 final class DeskBench {
 
     static final int POOL = 100_000;
-    static final int FEATURES = 64;
+    static final int FEATURES = BenchCommand.FEATURES;
     static final int CLASSES = 10;
     static final int LABELLED = 1_000;
     static final int LABELLERS = 20;
@@ -190,10 +190,7 @@ final class DeskBench {
     private static void writePool(Path file) throws IOException {
         SplittableRandom rng = new SplittableRandom(BenchCommand.SEED);
         try (Writer w = Files.newBufferedWriter(file, StandardCharsets.UTF_8)) {
-            StringBuilder line = new StringBuilder(1024).append("id");
-            for (int f = 0; f < FEATURES; f++) {
-                line.append(",f").append(f);
-            }
+            StringBuilder line = BenchCommand.header(new StringBuilder(1024));
             w.write(line.append(",label\n").toString());
             double[] x = new double[FEATURES];
             for (int i = 0; i < POOL; i++) {
