@@ -82,9 +82,12 @@ public final class RecordStore {
         return out;
     }
 
-    /** Reads the given records into the cache, each block once, so that fetching them one by one is quick. */
+    /**
+     * Reads the given records into the cache, each block once, so that fetching them one by one is
+     * quick; records already cached are not read again.
+     */
     public void warm(long poolId, long[] rows) {
-        long[] sorted = Arrays.stream(rows).sorted().distinct().toArray();
+        long[] sorted = Arrays.stream(rows).filter(r -> cache.get(poolId, r) == null).sorted().distinct().toArray();
         int i = 0;
         while (i < sorted.length) {
             int[] next = {i};

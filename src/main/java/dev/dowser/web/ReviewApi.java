@@ -49,6 +49,7 @@ final class ReviewApi {
         Reviews.Page page = reviews.find(pool, filter, offset, limit);
         List<String> display = display(pool);
         ArrayNode items = Json.array();
+        db.records().warm(pool.id(), page.items().stream().mapToLong(i -> i.resolution().row()).toArray());
         for (Reviews.Item item : page.items()) {
             RecordRow r = db.records().page(pool.id(), item.resolution().row(), 1).get(0);
             ObjectNode n = Api.recordJson(r, display);

@@ -23,6 +23,7 @@ import io.undertow.server.HttpServerExchange;
 import io.undertow.server.RoutingHandler;
 import java.io.IOException;
 import java.util.Iterator;
+import java.util.List;
 import java.util.Map;
 
 /** What the overview shows of a pool's rounds: their list and health, the served queue, spot-check accuracy, settings. */
@@ -79,7 +80,9 @@ final class RoundsApi {
         PoolRow pool = db.pools().require(param(ex, "pool"));
         boolean showLabels = Gate.caller(ex, true).role().atLeast(Role.REVIEWER);
         ArrayNode entries = Json.array();
-        for (QueueStore.Served s : db.queues().served(pool.id())) {
+        List<QueueStore.Served> served = db.queues().served(pool.id());
+        db.records().warm(pool.id(), served.stream().mapToLong(s -> s.entry().row()).toArray());
+        for (QueueStore.Served s : served) {
             QueueEntry e = s.entry();
             RecordRow r = db.records().page(pool.id(), e.row(), 1).get(0);
             entries.addObject().put("position", e.position()).put("record", r.key()).put("score", e.score())
