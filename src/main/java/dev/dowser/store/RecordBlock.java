@@ -43,17 +43,27 @@ final class RecordBlock {
      * never read).
      */
     static RecordBlock readHead(InputStream stream) throws IOException {
+        return readUpTo(stream, 20);
+    }
+
+    /** Reads the block up to the section whose offset the header holds at byte {@code offsetAt}. */
+    private static RecordBlock readUpTo(InputStream stream, int offsetAt) throws IOException {
         byte[] header = stream.readNBytes(HEADER_BYTES);
         if (header.length < HEADER_BYTES) {
             throw new StoreException("a record block is damaged (" + header.length + " header bytes)");
         }
-        int featuresAt = new ByteSource(header, 20).getInt();
-        byte[] head = Arrays.copyOf(header, featuresAt);
-        int read = stream.readNBytes(head, HEADER_BYTES, featuresAt - HEADER_BYTES);
-        if (read != featuresAt - HEADER_BYTES) {
+        int end = new ByteSource(header, offsetAt).getInt();
+        byte[] head = Arrays.copyOf(header, end);
+        int read = stream.readNBytes(head, HEADER_BYTES, end - HEADER_BYTES);
+        if (read != end - HEADER_BYTES) {
             throw new StoreException("a record block is damaged (ends at byte " + (HEADER_BYTES + read) + ")");
         }
         return new RecordBlock(head);
+    }
+
+    /** Reads only a block's header, lines and keys: enough to confirm which id a row has. */
+    static RecordBlock readKeys(InputStream stream) throws IOException {
+        return readUpTo(stream, 12);
     }
 
     RecordBlock(byte[] payload) {
@@ -90,6 +100,15 @@ final class RecordBlock {
             out[i] = in.getString();
         }
         return out;
+    }
+
+    /** The id of record {@code index} alone, skipping the ones before it undecoded. */
+    String key(int index) {
+        ByteSource in = new ByteSource(payload, keysAt);
+        for (int i = 0; i < index; i++) {
+            in.skip(in.getVarint());
+        }
+        return in.getString();
     }
 
     String[] knownLabels() {

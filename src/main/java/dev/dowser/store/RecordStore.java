@@ -32,7 +32,7 @@ public final class RecordStore {
     private final DataSource ds;
     private final LabelStore labels;
     /** Pools never change after import, so an id index, once built, stays right. */
-    private final Map<Long, Map<String, Long>> keyIndex = new ConcurrentHashMap<>();
+    private final Map<Long, KeyIndex> keyIndex = new ConcurrentHashMap<>();
 
     /**
      * Records handed out one at a time (the served queues'), without their labels. Fetching one
@@ -46,7 +46,7 @@ public final class RecordStore {
     }
 
     public void forEachFeatures(long poolId, FeatureSink sink) {
-        forEachBlock(poolId, 0, Long.MAX_VALUE, true, (first, block) ->
+        forEachBlock(poolId, 0, Long.MAX_VALUE, Section.ALL, (first, block) ->
                 block.features((i, bytes, off, len) -> sink.accept(first + i, bytes, off, len)));
     }
 
@@ -67,7 +67,7 @@ public final class RecordStore {
         Map<Long, LabelRow> current = new HashMap<>();
         labels.forEachCurrent(poolId, offset, end, l -> current.put(l.row(), l));
         List<RecordRow> out = new ArrayList<>(limit);
-        forEachBlock(poolId, offset, end, false, (first, block) -> {
+        forEachBlock(poolId, offset, end, Section.HEAD, (first, block) -> {
             int from = (int) Math.max(0, offset - first);
             int to = (int) Math.min(block.size(), end - first);
             String[] keys = block.keys();
@@ -91,7 +91,7 @@ public final class RecordStore {
         int i = 0;
         while (i < sorted.length) {
             int[] next = {i};
-            forEachBlock(poolId, sorted[i], sorted[i] + 1, false, (first, block) -> {
+            forEachBlock(poolId, sorted[i], sorted[i] + 1, Section.HEAD, (first, block) -> {
                 int from = next[0];
                 int to = from;
                 while (to < sorted.length && sorted[to] < first + block.size()) {
@@ -116,29 +116,36 @@ public final class RecordStore {
     }
 
     public Optional<RecordRow> find(long poolId, String key) {
-        Long row = index(poolId).get(key);
-        if (row == null) {
-            return Optional.empty();
-        }
-        List<RecordRow> one = page(poolId, row, 1);
-        return one.isEmpty() ? Optional.empty() : Optional.of(one.get(0));
+        return rowOf(poolId, key).map(row -> page(poolId, row, 1).get(0));
     }
 
     /** The place in the pool of the record with id {@code key}, if there is one. */
     public Optional<Long> rowOf(long poolId, String key) {
-        return Optional.ofNullable(index(poolId).get(key));
+        long row = index(poolId).find(key, r -> keyOf(poolId, r));
+        return row < 0 ? Optional.empty() : Optional.of(row);
     }
 
-    private Map<String, Long> index(long poolId) {
+    /** The id of the record at {@code row}: from the cache, else from its block's keys alone. */
+    private String keyOf(long poolId, long row) {
+        RecordRow cached = cache.get(poolId, row);
+        if (cached != null) {
+            return cached.key();
+        }
+        String[] key = {null};
+        forEachBlock(poolId, row, row + 1, Section.KEYS, (first, block) -> key[0] = block.key((int) (row - first)));
+        return key[0];
+    }
+
+    private KeyIndex index(long poolId) {
         return keyIndex.computeIfAbsent(poolId, id -> {
-            Map<String, Long> map = new HashMap<>();
-            forEachBlock(id, 0, Long.MAX_VALUE, false, (first, block) -> {
+            KeyIndex.Builder b = new KeyIndex.Builder();
+            forEachBlock(id, 0, Long.MAX_VALUE, Section.KEYS, (first, block) -> {
                 String[] keys = block.keys();
                 for (int i = 0; i < keys.length; i++) {
-                    map.put(keys[i], first + i);
+                    b.add(keys[i], first + i);
                 }
             });
-            return map;
+            return b.build();
         });
     }
 
@@ -153,7 +160,7 @@ public final class RecordStore {
      * memory; the record carries its final label when it has one.
      */
     public void forEachLabelled(long poolId, LabelledSink sink) {
-        labels.withResolutionCursor(poolId, cursor -> forEachBlock(poolId, 0, Long.MAX_VALUE, false, (first, block) -> {
+        labels.withResolutionCursor(poolId, cursor -> forEachBlock(poolId, 0, Long.MAX_VALUE, Section.HEAD, (first, block) -> {
             long end = first + block.size();
             String[] keys = null;
             long[] lines = null;
@@ -178,11 +185,11 @@ public final class RecordStore {
         void visit(long firstRow, RecordBlock block);
     }
 
-    /**
-     * Visits the blocks holding any row in [fromRow, toRow), in pool order; without
-     * {@code withFeatures} only the sections before the features are read.
-     */
-    private void forEachBlock(long poolId, long fromRow, long toRow, boolean withFeatures, BlockVisitor visitor) {
+    /** How much of a block to read: its ids only, everything a page shows, or all of it with the features. */
+    private enum Section { KEYS, HEAD, ALL }
+
+    /** Visits the blocks holding any row in [fromRow, toRow), in pool order, read as far as {@code section}. */
+    private void forEachBlock(long poolId, long fromRow, long toRow, Section section, BlockVisitor visitor) {
         try (Connection c = ds.getConnection();
              PreparedStatement q = c.prepareStatement("SELECT first_row, payload FROM record_blocks"
                      + " WHERE pool_id = ? AND first_row < ? AND first_row + row_count > ? ORDER BY block_no")) {
@@ -193,11 +200,11 @@ public final class RecordStore {
             try (ResultSet rs = q.executeQuery()) {
                 while (rs.next()) {
                     RecordBlock block;
-                    if (withFeatures) {
+                    if (section == Section.ALL) {
                         block = new RecordBlock(rs.getBytes(2));
                     } else {
                         try (InputStream head = rs.getBinaryStream(2)) {
-                            block = RecordBlock.readHead(head);
+                            block = section == Section.KEYS ? RecordBlock.readKeys(head) : RecordBlock.readHead(head);
                         }
                     }
                     visitor.visit(rs.getLong(1), block);
