@@ -70,12 +70,7 @@ public final class QueueStore {
                     }
                     ins.executeBatch();
                     // Records labelled while the round ran are done already.
-                    try (PreparedStatement done = c.prepareStatement("UPDATE queue_entries q SET done = " + DONE
-                            + " WHERE q.pool_id = ? AND q.round_no = ?")) {
-                        done.setLong(1, poolId);
-                        done.setInt(2, round);
-                        done.executeUpdate();
-                    }
+                    markDone(c, poolId, round);
                     del.setLong(1, poolId);
                     del.executeUpdate();
                     serve.setLong(1, poolId);
@@ -84,8 +79,22 @@ public final class QueueStore {
                 }
                 return null;
             });
+            // Once more after the commit: a label given while the queue was being written could not
+            // see its entries and so could not mark them done itself.
+            try (Connection c = ds.getConnection()) {
+                markDone(c, poolId, round);
+            }
         } catch (SQLException e) {
             throw new StoreException("cannot publish the queue of round " + round + ": " + e.getMessage(), e);
+        }
+    }
+
+    private static void markDone(Connection c, long poolId, int round) throws SQLException {
+        try (PreparedStatement done = c.prepareStatement("UPDATE queue_entries q SET done = TRUE"
+                + " WHERE q.pool_id = ? AND q.round_no = ? AND NOT q.done AND " + DONE)) {
+            done.setLong(1, poolId);
+            done.setInt(2, round);
+            done.executeUpdate();
         }
     }
 
