@@ -86,8 +86,10 @@ final class BenchCommand implements Callable<Integer> {
         if (wants("import")) {
             Path dir = work != null ? Files.createDirectories(work) : Files.createTempDirectory("dowser-bench-");
             try {
-                importSuite(out, dir, n / 10, "small");
-                importSuite(out, dir, n, "full");
+                double csv = importSuite(out, dir, n / 10, "small", FileFormat.CSV);
+                double jsonl = importSuite(out, dir, n / 10, "small_jsonl", FileFormat.JSONL);
+                out.printf("import_jsonl_to_csv_speed=%.2f%n", jsonl / csv);
+                importSuite(out, dir, n, "full", FileFormat.CSV);
             } finally {
                 Folders.deleteTree(dir);
             }
@@ -120,14 +122,16 @@ final class BenchCommand implements Callable<Integer> {
         return 0;
     }
 
-    private static void importSuite(java.io.PrintWriter out, Path dir, int n, String tag) throws IOException {
-        Path csv = dir.resolve("bench-" + n + ".csv");
-        writeCsv(csv, n);
+    /** Imports n generated rows in {@code format}; prints the figures under {@code tag}, returns rows per second. */
+    private static double importSuite(java.io.PrintWriter out, Path dir, int n, String tag, FileFormat format)
+            throws IOException {
+        Path csv = dir.resolve("bench-" + n + "." + format.word());
+        writeRows(csv, n, format);
         // Flush the generated file to disk first, so its write-back does not run during the import.
         try (FileChannel ch = FileChannel.open(csv, StandardOpenOption.WRITE)) {
             ch.force(true);
         }
-        Path dataDir = dir.resolve("db-" + n);
+        Path dataDir = dir.resolve("db-" + tag);
         try (Database db = Database.open(dataDir, Clock.systemUTC())) {
             System.gc();
             resetPeaks();
@@ -135,7 +139,7 @@ final class BenchCommand implements Callable<Integer> {
             long live;
             try (HeapAfterGc watch = HeapAfterGc.start(); InputStream in = Files.newInputStream(csv)) {
                 r = new Importer(db).run(in, csv.getFileName().toString(),
-                        ImportSpec.defaults("bench", FileFormat.CSV).withId("id"), ImportProgress.NONE);
+                        ImportSpec.defaults("bench", format).withId("id"), ImportProgress.NONE);
                 live = watch.maxBytes();
             }
             long peak = peakHeapBytes();
@@ -143,24 +147,33 @@ final class BenchCommand implements Callable<Integer> {
                             + "import_%s_rows_per_s=%.0f%nimport_%s_peak_heap_mib=%.0f%nimport_%s_live_heap_mib=%.0f%n",
                     tag, r.records(), tag, Files.size(csv) / 1048576.0, tag, r.seconds(), tag, r.recordsPerSecond(),
                     tag, peak / 1048576.0, tag, live / 1048576.0);
+            Files.delete(csv);
+            return r.recordsPerSecond();
         }
-        Files.delete(csv);
     }
 
     /** n rows: an id, then 64 Gaussian features written with four decimals. */
     static void writeCsv(Path file, int n) throws IOException {
+        writeRows(file, n, FileFormat.CSV);
+    }
+
+    /** The same rows as CSV or as JSON Lines ({"id": "r0", "f0": 0.1234, ...}), from the same seed. */
+    static void writeRows(Path file, int n, FileFormat format) throws IOException {
+        boolean csv = format == FileFormat.CSV;
         SplittableRandom rng = new SplittableRandom(SEED);
         try (Writer w = Files.newBufferedWriter(file, StandardCharsets.UTF_8)) {
-            StringBuilder line = header(new StringBuilder(1024));
-            w.write(line.append('\n').toString());
+            StringBuilder line = new StringBuilder(1024);
+            if (csv) {
+                w.write(header(line).append('\n').toString());
+            }
             for (int i = 0; i < n; i++) {
                 line.setLength(0);
-                line.append("r").append(i);
+                line.append(csv ? "r" : "{\"id\":\"r").append(i).append(csv ? "" : "\"");
                 for (int f = 0; f < FEATURES; f++) {
-                    line.append(',');
+                    line.append(csv ? "," : ",\"f" + f + "\":");
                     appendFixed4(line, rng.nextGaussian() * (1 + f % 5) + f);
                 }
-                w.write(line.append('\n').toString());
+                w.write(line.append(csv ? "\n" : "}\n").toString());
             }
         }
     }
