@@ -26,7 +26,12 @@ final class JsonLinesRowReader implements RowReader {
     private final Reader reader;
     private final int maxFieldChars;
     private final int maxLineChars;
-    private final StringBuilder lineText = new StringBuilder();
+    /** Decoded text, read in chunks: one read() call per character went through the decoder each time. */
+    private final char[] chunk = new char[1 << 16];
+    private int chunkPos;
+    private int chunkEnd;
+    private char[] line = new char[1 << 12];
+    private int lineLength;
     private final List<String> header;
     private final Map<String, Integer> index = new HashMap<>();
     private String[] values;
@@ -88,30 +93,42 @@ final class JsonLinesRowReader implements RowReader {
         return true;
     }
 
-    /** Reads the next non-blank line into {@code lineText}; false at the end of the file. */
+    /** Reads the next non-blank line into {@code line}; false at the end of the file. */
     private boolean nextLine() {
         try {
             while (true) {
-                lineText.setLength(0);
-                int c;
+                lineLength = 0;
                 boolean any = false;
-                while ((c = reader.read()) >= 0 && c != '\n') {
-                    any = true;
-                    if (lineText.length() >= maxLineChars) {
-                        throw new ImportException(lineNo + 1, null, "the line is longer than the limit of "
-                                + maxLineChars + " characters");
+                boolean ended = false;
+                while (!ended) {
+                    if (chunkPos == chunkEnd) {
+                        chunkEnd = reader.read(chunk, 0, chunk.length);
+                        chunkPos = 0;
+                        if (chunkEnd < 0) {
+                            chunkEnd = 0;
+                            break;
+                        }
                     }
-                    lineText.append((char) c);
+                    int from = chunkPos;
+                    while (chunkPos < chunkEnd && chunk[chunkPos] != '\n') {
+                        chunkPos++;
+                    }
+                    append(from, chunkPos - from);
+                    any |= chunkPos > from;
+                    if (chunkPos < chunkEnd) {
+                        chunkPos++;
+                        ended = true;
+                    }
                 }
-                if (c < 0 && !any) {
+                if (!ended && !any) {
                     return false;
                 }
                 lineNo++;
-                if (!lineText.toString().isBlank()) {
+                if (!blank()) {
                     recordLine = lineNo;
                     return true;
                 }
-                if (c < 0) {
+                if (!ended) {
                     return false;
                 }
             }
@@ -120,8 +137,29 @@ final class JsonLinesRowReader implements RowReader {
         }
     }
 
+    private void append(int from, int n) {
+        if (lineLength + n > maxLineChars) {
+            throw new ImportException(lineNo + 1, null, "the line is longer than the limit of " + maxLineChars
+                    + " characters");
+        }
+        if (lineLength + n > line.length) {
+            line = Arrays.copyOf(line, Math.max(lineLength + n, line.length * 2));
+        }
+        System.arraycopy(chunk, from, line, lineLength, n);
+        lineLength += n;
+    }
+
+    private boolean blank() {
+        for (int i = 0; i < lineLength; i++) {
+            if (!Character.isWhitespace(line[i])) {
+                return false;
+            }
+        }
+        return true;
+    }
+
     private void parseObject(List<String> names, List<String> firstValues, boolean first) {
-        try (JsonParser p = Json.mapper().getFactory().createParser(lineText.toString())) {
+        try (JsonParser p = Json.mapper().getFactory().createParser(line, 0, lineLength)) {
             if (p.nextToken() != JsonToken.START_OBJECT) {
                 throw new ImportException(recordLine, null, "expected a JSON object such as {\"a\": 1}");
             }
