@@ -12,6 +12,7 @@ import io.undertow.util.Headers;
 import io.undertow.util.HttpString;
 import java.net.URLEncoder;
 import java.nio.charset.StandardCharsets;
+import java.security.MessageDigest;
 import java.util.Optional;
 import java.util.Set;
 
@@ -117,7 +118,8 @@ final class Gate implements HttpHandler {
                 "sign in first: this needs an account (a session cookie or an API token)"));
         if (unsafe && c.viaSession()) {
             String sent = ex.getRequestHeaders().getFirst(CSRF_HEADER);
-            if (sent == null || !sent.equals(c.csrfToken())) {
+            if (sent == null || !MessageDigest.isEqual(sent.getBytes(StandardCharsets.UTF_8),
+                    c.csrfToken().getBytes(StandardCharsets.UTF_8))) {
                 throw new AuthException(AuthException.Kind.FORBIDDEN, "request refused: the " + CSRF_HEADER
                         + " header is missing or wrong, so it may come from another site; reload the page");
             }
