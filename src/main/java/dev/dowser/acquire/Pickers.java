@@ -17,7 +17,7 @@ public final class Pickers {
         if (b <= SMALL_BATCH) {
             return topSmall(scores, Math.min(b, scores.length));
         }
-        return topBySorting(scores, b);
+        return topByHeap(scores, b);
     }
 
     /** One pass keeping the best b so far in order; a record enters only if it beats the b-th. */
@@ -40,21 +40,69 @@ public final class Pickers {
         return best;
     }
 
-    private static int[] topBySorting(double[] scores, int b) {
-        Integer[] order = new Integer[scores.length];
-        for (int i = 0; i < order.length; i++) {
-            order[i] = i;
-        }
-        Arrays.sort(order, (a, c) -> {
-            int byScore = Double.compare(scores[c], scores[a]);
-            return byScore != 0 ? byScore : Integer.compare(a, c);
-        });
+    /**
+     * The best b through a heap of the b best so far, worst on top: n log b steps and no boxing,
+     * where sorting every index cost n log n on boxed integers.
+     */
+    private static int[] topByHeap(double[] scores, int b) {
         int n = Math.min(b, scores.length);
+        int[] heap = new int[n];
+        int size = 0;
+        for (int i = 0; i < scores.length; i++) {
+            if (size < n) {
+                heap[size] = i;
+                siftUp(heap, size++, scores);
+            } else if (better(i, heap[0], scores)) {
+                heap[0] = i;
+                siftDown(heap, 0, n, scores);
+            }
+        }
         int[] out = new int[n];
-        for (int i = 0; i < n; i++) {
-            out[i] = order[i];
+        for (int last = n - 1; last >= 0; last--) {
+            out[last] = heap[0];
+            heap[0] = heap[last];
+            siftDown(heap, 0, last, scores);
         }
         return out;
+    }
+
+    /** a ranks ahead of c: a higher score, or an equal one at an earlier index. */
+    private static boolean better(int a, int c, double[] scores) {
+        int cmp = Double.compare(scores[a], scores[c]);
+        return cmp > 0 || (cmp == 0 && a < c);
+    }
+
+    private static void siftUp(int[] heap, int at, double[] scores) {
+        while (at > 0) {
+            int parent = (at - 1) / 2;
+            if (!better(heap[parent], heap[at], scores)) {
+                return;
+            }
+            swap(heap, parent, at);
+            at = parent;
+        }
+    }
+
+    private static void siftDown(int[] heap, int at, int size, double[] scores) {
+        while (true) {
+            int worst = at;
+            for (int child = 2 * at + 1; child <= 2 * at + 2 && child < size; child++) {
+                if (better(heap[worst], heap[child], scores)) {
+                    worst = child;
+                }
+            }
+            if (worst == at) {
+                return;
+            }
+            swap(heap, at, worst);
+            at = worst;
+        }
+    }
+
+    private static void swap(int[] heap, int i, int j) {
+        int t = heap[i];
+        heap[i] = heap[j];
+        heap[j] = t;
     }
 
     /**

@@ -34,7 +34,7 @@ class PickersTest {
             for (int i = 0; i < scores.length; i++) {
                 scores[i] = rng.nextInt(20);
             }
-            int b = 1 + rng.nextInt(80);
+            int b = 1 + rng.nextInt(320);
             Integer[] order = new Integer[scores.length];
             for (int i = 0; i < order.length; i++) {
                 order[i] = i;
