@@ -1,5 +1,5 @@
-// Your account: who you are signed in as, and your API tokens (made, shown once, revoked).
-import { getJson, postJson, deleteJson } from './api.js';
+// Your account: who you are signed in as, your password, and your API tokens (made, shown once, revoked).
+import { getJson, postJson, putJson, deleteJson } from './api.js';
 import { showAccount } from './account.js';
 
 const $ = (id) => document.getElementById(id);
@@ -53,6 +53,26 @@ $('new-token').addEventListener('submit', async (event) => {
     await showTokens();
   } catch (e) {
     say(e.message, true);
+  }
+});
+
+$('change-password').addEventListener('submit', async (event) => {
+  event.preventDefault();
+  const form = event.target;
+  const message = $('password-message');
+  if (form.password.value !== form.again.value) {
+    message.textContent = 'the two new passwords differ';
+    message.className = 'message error';
+    return;
+  }
+  try {
+    const done = await putJson('session/password', { current: form.current.value, password: form.password.value });
+    message.textContent = done.message;
+    message.className = 'message';
+    form.reset();
+  } catch (e) {
+    message.textContent = e.message;
+    message.className = 'message error';
   }
 });
 

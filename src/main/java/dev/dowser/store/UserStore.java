@@ -148,6 +148,20 @@ public final class UserStore {
                 "cannot end a session");
     }
 
+    /** Ends every open session of the account but {@code keepHash} (which may be null: all of them). */
+    public void endSessionsExcept(long userId, String keepHash) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement u = c.prepareStatement("UPDATE sessions SET ended_at = ? WHERE user_id = ?"
+                     + " AND ended_at IS NULL AND token_hash <> COALESCE(?, '')")) {
+            u.setTimestamp(1, Timestamp.from(clock.instant()));
+            u.setLong(2, userId);
+            u.setString(3, keepHash);
+            u.executeUpdate();
+        } catch (SQLException e) {
+            throw new StoreException("cannot end the sessions of account " + userId + ": " + e.getMessage(), e);
+        }
+    }
+
     public void addToken(String tokenHash, long userId, String name) {
         try (Connection c = ds.getConnection();
              PreparedStatement p = c.prepareStatement("INSERT INTO api_tokens (token_hash, user_id, name, created_at)"

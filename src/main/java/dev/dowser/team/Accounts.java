@@ -109,10 +109,33 @@ public final class Accounts {
                 Boolean.toString(before.disabled()), Boolean.toString(disabled));
     }
 
+    /** An admin's new password for someone: their sessions end, as after a suspected leak. */
     public void resetPassword(String name, String password, String actor) {
-        db.users().require(name);
+        UserRow u = db.users().require(name);
         db.users().update(name, null, passwords.hash(password), null);
+        db.users().endSessionsExcept(u.id(), null);
         db.history().append(null, "account:" + name, "password-reset", actor, null, null);
+    }
+
+    /**
+     * A person changing their own password: the current one must be right (a wrong one counts as a
+     * failed sign-in), and their other sessions end, in case the old password had leaked.
+     */
+    public void changeOwnPassword(Caller caller, String current, String next, String address) {
+        Passwords.check(next);
+        long wait = limiter.waitSeconds(caller.name(), address);
+        if (wait > 0) {
+            throw new AuthException(AuthException.Kind.HELD_BACK,
+                    "too many failed sign-ins; try again in " + wait + " s", wait);
+        }
+        UserRow u = db.users().require(caller.name());
+        if (!Passwords.matches(current, u.passwordHash())) {
+            limiter.failed(caller.name(), address);
+            throw new AuthException(AuthException.Kind.FORBIDDEN, "the current password is wrong");
+        }
+        db.users().update(u.name(), null, passwords.hash(next), null);
+        db.users().endSessionsExcept(u.id(), caller.sessionHash());
+        db.history().append(null, "account:" + u.name(), "password-changed", u.name(), null, null);
     }
 
     /** Checks a password and starts a session; failures are counted per account and per address. */

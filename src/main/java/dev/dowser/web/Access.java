@@ -48,6 +48,7 @@ final class Access {
             new Route("POST", "/session", PUBLIC),
             new Route("GET", "/session", ANYONE_SIGNED_IN),
             new Route("DELETE", "/session", ANYONE_SIGNED_IN),
+            new Route("PUT", "/session/password", ANYONE_SIGNED_IN),
             new Route("GET", "/tokens", ANYONE_SIGNED_IN),
             new Route("POST", "/tokens", ANYONE_SIGNED_IN),
             new Route("DELETE", "/tokens/{id}", ANYONE_SIGNED_IN),

@@ -35,6 +35,7 @@ final class TeamApi {
                 .post("/session", this::login)
                 .get("/session", this::session)
                 .delete("/session", this::logout)
+                .put("/session/password", this::changeOwnPassword)
                 .get("/tokens", this::tokens)
                 .post("/tokens", this::newToken)
                 .delete("/tokens/{id}", this::revokeToken)
@@ -56,8 +57,7 @@ final class TeamApi {
 
     private void login(HttpServerExchange ex) throws IOException {
         JsonNode body = jsonBody(ex, "a sign-in");
-        String address = ((InetSocketAddress) ex.getSourceAddress()).getAddress().getHostAddress();
-        Accounts.SignIn in = accounts.login(requiredText(body, "name"), requiredText(body, "password"), address);
+        Accounts.SignIn in = accounts.login(requiredText(body, "name"), requiredText(body, "password"), address(ex));
         ex.setResponseCookie(new CookieImpl(Gate.SESSION_COOKIE, in.token()).setPath("/").setHttpOnly(true)
                 .setSameSiteMode("Strict").setSecure("https".equals(ex.getRequestScheme())));
         Responses.ok(ex, callerJson(in.caller()));
@@ -72,6 +72,19 @@ final class TeamApi {
         ex.setResponseCookie(new CookieImpl(Gate.SESSION_COOKIE, "").setPath("/").setHttpOnly(true)
                 .setSameSiteMode("Strict").setMaxAge(0));
         Responses.ok(ex, Json.object().put("signed_out", true));
+    }
+
+    /** Body {"current": ..., "password": ...}: the signed-in person's new password. */
+    private void changeOwnPassword(HttpServerExchange ex) throws IOException {
+        JsonNode body = jsonBody(ex, "a password change");
+        accounts.changeOwnPassword(Gate.caller(ex, true), requiredText(body, "current"), requiredText(body, "password"),
+                address(ex));
+        Responses.ok(ex, Json.object().put("changed", true)
+                .put("message", "password changed; your other sessions have ended"));
+    }
+
+    private static String address(HttpServerExchange ex) {
+        return ((InetSocketAddress) ex.getSourceAddress()).getAddress().getHostAddress();
     }
 
     private void tokens(HttpServerExchange ex) {

@@ -132,4 +132,23 @@ class AccountsTest {
         assertEquals("there is already an account named 'Zoë Ng'", assertThrows(RuntimeException.class,
                 () -> accounts.add("Zoë Ng", Role.LABELLER, "long enough pw", "t")).getMessage());
     }
+
+    @Test
+    void changingOnesOwnPasswordNeedsTheCurrentOneAndEndsOtherSessions() {
+        accounts.add("dee", Role.LABELLER, "long enough pw", "test");
+        Accounts.SignIn here = accounts.login("dee", "long enough pw", "10.0.0.4");
+        Accounts.SignIn elsewhere = accounts.login("dee", "long enough pw", "10.0.0.5");
+        AuthException wrong = assertThrows(AuthException.class,
+                () -> accounts.changeOwnPassword(here.caller(), "not my password", "a newer password", "10.0.0.4"));
+        assertEquals("the current password is wrong", wrong.getMessage());
+        assertTrue(accounts.session(elsewhere.token()).isPresent(), "a refused change ends nothing");
+        accounts.changeOwnPassword(here.caller(), "long enough pw", "a newer password", "10.0.0.4");
+        assertTrue(accounts.session(here.token()).isPresent(), "the session that changed it stays");
+        assertTrue(accounts.session(elsewhere.token()).isEmpty(), "other sessions end");
+        assertThrows(AuthException.class, () -> accounts.login("dee", "long enough pw", "10.0.0.4"));
+        assertEquals("dee", accounts.login("dee", "a newer password", "10.0.0.4").caller().name());
+        assertEquals("password-changed", db.history().of(null, "account:dee").get(1).kind());
+        accounts.resetPassword("dee", "an admin's new one", "ada");
+        assertTrue(accounts.session(here.token()).isEmpty(), "an admin's reset ends every session");
+    }
 }

@@ -41,6 +41,7 @@ class AccessTest {
         {"POST", "/session", "/session", "-"},
         {"GET", "/session", "/session", "labeller reviewer admin"},
         {"DELETE", "/session", "/session", "labeller reviewer admin"},
+        {"PUT", "/session/password", "/session/password", "labeller reviewer admin"},
         {"GET", "/tokens", "/tokens", "labeller reviewer admin"},
         {"POST", "/tokens", "/tokens", "labeller reviewer admin"},
         {"DELETE", "/tokens/{id}", "/tokens/99", "labeller reviewer admin"},
