@@ -12,8 +12,10 @@ import java.nio.file.Path;
  * @param trustProxy      true behind a TLS proxy on the same host: its X-Forwarded-Proto, -For and
  *                        -Host headers are believed, so cookies are marked Secure and sign-in limits
  *                        count the real address. Never set it when clients can reach the port directly.
+ * @param tls             serve HTTPS with this keystore; null for plain HTTP
  */
-public record WebConfig(String bind, int port, long maxUploadBytes, Path spoolDir, boolean trustProxy) {
+public record WebConfig(String bind, int port, long maxUploadBytes, Path spoolDir, boolean trustProxy,
+                        TlsConfig tls) {
 
     public static final String DEFAULT_BIND = "127.0.0.1";
     public static final int DEFAULT_PORT = 8080;
@@ -34,8 +36,13 @@ public record WebConfig(String bind, int port, long maxUploadBytes, Path spoolDi
         }
     }
 
-    /** Listening directly, trusting no forwarding headers. */
+    /** Plain HTTP, listening directly, trusting no forwarding headers. */
     public WebConfig(String bind, int port, long maxUploadBytes, Path spoolDir) {
-        this(bind, port, maxUploadBytes, spoolDir, false);
+        this(bind, port, maxUploadBytes, spoolDir, false, null);
+    }
+
+    /** The same, served over HTTPS with {@code t}. */
+    public WebConfig withTls(TlsConfig t) {
+        return new WebConfig(bind, port, maxUploadBytes, spoolDir, trustProxy, t);
     }
 }

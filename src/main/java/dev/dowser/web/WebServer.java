@@ -34,15 +34,17 @@ public final class WebServer implements AutoCloseable {
     private final Rounds rounds;
     private final Events events;
     private final Accounts accounts;
+    private final boolean tls;
 
     private WebServer(Undertow undertow, GracefulShutdownHandler graceful, ImportJobs imports, Rounds rounds,
-                      Events events, Accounts accounts) {
+                      Events events, Accounts accounts, boolean tls) {
         this.undertow = undertow;
         this.graceful = graceful;
         this.imports = imports;
         this.rounds = rounds;
         this.events = events;
         this.accounts = accounts;
+        this.tls = tls;
     }
 
     public static WebServer start(Database db, WebConfig config) {
@@ -65,12 +67,15 @@ public final class WebServer implements AutoCloseable {
         HttpHandler gate = new Gate(accounts, guarded(routes));
         GracefulShutdownHandler graceful = Handlers.gracefulShutdown(config.trustProxy()
                 ? Handlers.proxyPeerAddress(gate) : gate);
-        Undertow undertow = Undertow.builder()
-                .addHttpListener(config.port(), config.bind())
-                .setHandler(graceful)
-                .build();
+        Undertow.Builder builder = Undertow.builder().setHandler(graceful);
+        if (config.tls() != null) {
+            builder.addHttpsListener(config.port(), config.bind(), config.tls().context());
+        } else {
+            builder.addHttpListener(config.port(), config.bind());
+        }
+        Undertow undertow = builder.build();
         undertow.start();
-        return new WebServer(undertow, graceful, imports, rounds, events, accounts);
+        return new WebServer(undertow, graceful, imports, rounds, events, accounts, config.tls() != null);
     }
 
     /** Every API exception, thrown anywhere below, becomes one JSON error response. */
@@ -101,7 +106,7 @@ public final class WebServer implements AutoCloseable {
     public String address() {
         InetSocketAddress a = (InetSocketAddress) undertow.getListenerInfo().get(0).getAddress();
         String host = a.getAddress().isAnyLocalAddress() ? "localhost" : a.getHostString();
-        return "http://" + host + ":" + a.getPort() + "/";
+        return (tls ? "https://" : "http://") + host + ":" + a.getPort() + "/";
     }
 
     @Override

@@ -2,6 +2,7 @@ package dev.dowser.web;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.dowser.TestSupport;
@@ -15,12 +16,17 @@ import java.net.URI;
 import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
 import java.nio.file.Path;
+import java.security.KeyStore;
 import java.security.SecureRandom;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Set;
 import java.util.TreeSet;
+import javax.net.ssl.SSLContext;
+import javax.net.ssl.TrustManagerFactory;
 import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
@@ -233,7 +239,7 @@ class AccessTest {
     @Test
     void behindATlsProxyTheCookieIsSecure() throws Exception {
         server.close();
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads"), true),
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads"), true, null),
                 TestSupport.quickSampler(), TestSupport.FAST_TEAM);
         HttpResponse<String> in = http.send(request("POST", "/api/v1/session", null, false, false)
                 .header("X-Forwarded-Proto", "https")
@@ -242,6 +248,43 @@ class AccessTest {
         assertEquals(200, in.statusCode(), in.body());
         String cookie = in.headers().firstValue("set-cookie").orElseThrow();
         assertTrue(cookie.contains("Secure") && cookie.contains("HttpOnly"), cookie);
+    }
+
+    @Test
+    void overHttpsTheCookieIsSecure() throws Exception {
+        // A self-signed certificate for 127.0.0.1, made by the JDK's own keytool.
+        Path keystore = dir.resolve("server.p12");
+        Process keytool = new ProcessBuilder(Path.of(System.getProperty("java.home"), "bin", "keytool").toString(),
+                "-genkeypair", "-alias", "dowser", "-keyalg", "EC", "-groupname", "secp256r1", "-validity", "2",
+                "-dname", "CN=127.0.0.1", "-ext", "san=ip:127.0.0.1", "-storetype", "PKCS12",
+                "-keystore", keystore.toString(), "-storepass", "test-store-pass", "-keypass", "test-store-pass")
+                .redirectErrorStream(true).start();
+        String said = new String(keytool.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
+        assertEquals(0, keytool.waitFor(), said);
+        server.close();
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads"))
+                .withTls(new TlsConfig(keystore, "test-store-pass")), TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        assertTrue(server.address().startsWith("https://127.0.0.1:"), server.address());
+
+        KeyStore trusted = KeyStore.getInstance("PKCS12");
+        try (InputStream in = Files.newInputStream(keystore)) {
+            trusted.load(in, "test-store-pass".toCharArray());
+        }
+        TrustManagerFactory trust = TrustManagerFactory.getInstance(TrustManagerFactory.getDefaultAlgorithm());
+        trust.init(trusted);
+        SSLContext context = SSLContext.getInstance("TLS");
+        context.init(null, trust.getTrustManagers(), null);
+        HttpClient https = HttpClient.newBuilder().sslContext(context).build();
+        HttpResponse<String> in = https.send(HttpRequest.newBuilder(URI.create(server.address() + "api/v1/session"))
+                .POST(HttpRequest.BodyPublishers.ofString("{\"name\":\"admin-1\",\"password\":\""
+                        + TestSupport.TEST_PASSWORD + "\"}")).build(), HttpResponse.BodyHandlers.ofString());
+        assertEquals(200, in.statusCode(), in.body());
+        String cookie = in.headers().firstValue("set-cookie").orElseThrow();
+        assertTrue(cookie.contains("Secure") && cookie.contains("SameSite=Strict"), cookie);
+
+        IllegalArgumentException wrong = assertThrows(IllegalArgumentException.class,
+                () -> new TlsConfig(keystore, "not the password").context());
+        assertTrue(wrong.getMessage().contains("is the password right?"), wrong.getMessage());
     }
 
     /** The status of one call; the response body is closed unread (the event stream never ends). */
