@@ -48,6 +48,10 @@ final class Gate implements HttpHandler {
             return;
         }
         secureHeaders(ex.getResponseHeaders());
+        if ("https".equals(ex.getRequestScheme())) {
+            // Browsers that have seen the server over HTTPS keep to it for a year (common practice).
+            ex.getResponseHeaders().put(new HttpString("Strict-Transport-Security"), "max-age=31536000");
+        }
         String path = ex.getRelativePath();
         boolean api = path.equals(Api.PREFIX) || path.startsWith(Api.PREFIX + "/");
         try {

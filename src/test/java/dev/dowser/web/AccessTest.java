@@ -281,6 +281,7 @@ class AccessTest {
         assertEquals(200, in.statusCode(), in.body());
         String cookie = in.headers().firstValue("set-cookie").orElseThrow();
         assertTrue(cookie.contains("Secure") && cookie.contains("SameSite=Strict"), cookie);
+        assertEquals("max-age=31536000", in.headers().firstValue("strict-transport-security").orElse(""));
 
         IllegalArgumentException wrong = assertThrows(IllegalArgumentException.class,
                 () -> new TlsConfig(keystore, "not the password").context());
