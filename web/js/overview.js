@@ -142,14 +142,24 @@ async function refresh() {
   }
 }
 
+// Labels arrive many times a second when a team is at work; the page redraws at most every two
+// seconds for them, and within a third of a second for a round.
+const LABEL_DELAY_MS = 2000;
+const ROUND_DELAY_MS = 300;
 let pending = null;
-function refreshSoon() {
-  if (pending) return;
+let pendingAt = Infinity;
+function refreshAfter(delay) {
+  const at = Date.now() + delay;
+  if (pending && pendingAt <= at) return;
+  clearTimeout(pending);
+  pendingAt = at;
   pending = setTimeout(() => {
     pending = null;
+    pendingAt = Infinity;
     refresh();
-  }, 300);
+  }, delay);
 }
+const refreshSoon = () => refreshAfter(ROUND_DELAY_MS);
 
 async function start() {
   await showAccount();
@@ -179,7 +189,7 @@ async function start() {
   }));
   const events = new EventSource(apiUrl(`events?pool=${enc}`));
   events.addEventListener('round', refreshSoon);
-  events.addEventListener('label', refreshSoon);
+  events.addEventListener('label', () => refreshAfter(LABEL_DELAY_MS));
   refresh();
 }
 
