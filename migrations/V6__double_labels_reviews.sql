@@ -20,12 +20,14 @@ CREATE INDEX queue_entries_by_row ON queue_entries (pool_id, row_no);
 CREATE INDEX queue_entries_open ON queue_entries (pool_id, round_no, done, position);
 
 -- The model's posterior predictive for each labelled record after the latest round, so the
--- review page can find records where a confident model disagrees with the people. Derived data:
--- replaced by every round.
+-- review page can find records where a confident model disagrees with the people. Derived data,
+-- one row a pool, replaced by every round: the labelled rows (int64 each) and their class
+-- probabilities (float32, rows x classes), both little-endian.
 CREATE TABLE labelled_predictions (
-    pool_id        BIGINT            NOT NULL REFERENCES pools (id),
-    row_no         BIGINT            NOT NULL,
-    round_no       INTEGER           NOT NULL,
-    probabilities  CHARACTER VARYING NOT NULL,  -- JSON array, in class order
-    CONSTRAINT labelled_predictions_pk PRIMARY KEY (pool_id, row_no)
+    pool_id        BIGINT                NOT NULL REFERENCES pools (id),
+    round_no       INTEGER               NOT NULL,
+    class_count    INTEGER               NOT NULL,
+    row_nos        BINARY LARGE OBJECT   NOT NULL,
+    probabilities  BINARY LARGE OBJECT   NOT NULL,
+    CONSTRAINT labelled_predictions_pk PRIMARY KEY (pool_id)
 );

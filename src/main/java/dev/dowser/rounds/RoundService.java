@@ -12,6 +12,7 @@ import dev.dowser.sampler.SamplingStopped;
 import dev.dowser.sampler.StopSignal;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
+import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -201,12 +202,8 @@ public final class RoundService {
         long[] rows = labelled.stream().mapToLong(Long::longValue).sorted().toArray();
         int[] at = Arrays.stream(rows).mapToInt(r -> (int) r).toArray();
         Predictive.Belief belief = Predictive.belief(sample.layout(), sample.draws(), gather(m, at), at.length);
-        int c = belief.classes();
-        String[] json = new String[rows.length];
-        for (int i = 0; i < rows.length; i++) {
-            json[i] = Json.write(Arrays.copyOfRange(belief.mean(), i * c, (i + 1) * c));
-        }
-        db.predictions().replace(pool.id(), round, rows, json);
+        db.predictions().replace(pool.id(), new PredictionStore.Predictions(round, rows, belief.mean(),
+                belief.classes()));
     }
 
     private static double seconds(long begun) {

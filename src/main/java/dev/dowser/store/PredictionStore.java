@@ -1,19 +1,46 @@
 package dev.dowser.store;
 
+import java.nio.ByteBuffer;
+import java.nio.ByteOrder;
 import java.sql.Connection;
 import java.sql.PreparedStatement;
 import java.sql.ResultSet;
 import java.sql.SQLException;
-import java.util.HashMap;
-import java.util.Map;
+import java.util.Arrays;
+import java.util.Optional;
 import javax.sql.DataSource;
 
 /**
  * The model's posterior predictive for each labelled record after the latest round: derived data,
  * replaced whole by each round, read by the review page to find records where a confident model
- * disagrees with the people.
+ * disagrees with the people. Kept as one row a pool (rows and probabilities packed), so a round
+ * with tens of thousands of labelled records writes one row, not one each.
  */
 public final class PredictionStore {
+
+    /** A round's predictions: {@code rows} ascending, {@code probabilities} rows x classes. */
+    public record Predictions(int round, long[] rows, float[] probabilities, int classes) {
+
+        public Predictions {
+            if (probabilities.length != (long) rows.length * classes) {
+                throw new IllegalArgumentException(rows.length + " rows of " + classes + " classes need "
+                        + (long) rows.length * classes + " probabilities, not " + probabilities.length);
+            }
+        }
+
+        /** The class probabilities of the record at {@code row}, or null when it has none. */
+        public double[] of(long row) {
+            int i = Arrays.binarySearch(rows, row);
+            if (i < 0) {
+                return null;
+            }
+            double[] p = new double[classes];
+            for (int c = 0; c < classes; c++) {
+                p[c] = probabilities[i * classes + c];
+            }
+            return p;
+        }
+    }
 
     private final DataSource ds;
 
@@ -21,44 +48,44 @@ public final class PredictionStore {
         this.ds = ds;
     }
 
-    /** Replaces the pool's predictions with those of {@code round}: {@code json[i]} is row {@code rows[i]}'s. */
-    public void replace(long poolId, int round, long[] rows, String[] json) {
-        try {
-            Transactions.run(ds, c -> {
-                try (PreparedStatement del = c.prepareStatement("DELETE FROM labelled_predictions WHERE pool_id = ?");
-                     PreparedStatement ins = c.prepareStatement("INSERT INTO labelled_predictions"
-                             + " (pool_id, row_no, round_no, probabilities) VALUES (?, ?, ?, ?)")) {
-                    del.setLong(1, poolId);
-                    del.executeUpdate();
-                    for (int i = 0; i < rows.length; i++) {
-                        ins.setLong(1, poolId);
-                        ins.setLong(2, rows[i]);
-                        ins.setInt(3, round);
-                        ins.setString(4, json[i]);
-                        ins.addBatch();
-                    }
-                    ins.executeBatch();
-                }
-                return null;
-            });
+    /** Replaces the pool's predictions with {@code p}. */
+    public void replace(long poolId, Predictions p) {
+        ByteBuffer rows = ByteBuffer.allocate(p.rows().length * Long.BYTES).order(ByteOrder.LITTLE_ENDIAN);
+        rows.asLongBuffer().put(p.rows());
+        ByteBuffer probs = ByteBuffer.allocate(p.probabilities().length * Float.BYTES).order(ByteOrder.LITTLE_ENDIAN);
+        probs.asFloatBuffer().put(p.probabilities());
+        try (Connection c = ds.getConnection();
+             PreparedStatement m = c.prepareStatement("MERGE INTO labelled_predictions (pool_id, round_no,"
+                     + " class_count, row_nos, probabilities) KEY (pool_id) VALUES (?, ?, ?, ?, ?)")) {
+            m.setLong(1, poolId);
+            m.setInt(2, p.round());
+            m.setInt(3, p.classes());
+            m.setBytes(4, rows.array());
+            m.setBytes(5, probs.array());
+            m.executeUpdate();
         } catch (SQLException e) {
-            throw new StoreException("cannot store the predictions of round " + round + ": " + e.getMessage(), e);
+            throw new StoreException("cannot store the predictions of round " + p.round() + ": " + e.getMessage(), e);
         }
     }
 
-    /** Row to its predictive probabilities (a JSON array in class order). */
-    public Map<Long, String> all(long poolId) {
-        Map<Long, String> out = new HashMap<>();
+    /** The pool's latest predictions, if a round has made any. */
+    public Optional<Predictions> latest(long poolId) {
         try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT row_no, probabilities FROM labelled_predictions"
-                     + " WHERE pool_id = ?")) {
+             PreparedStatement q = c.prepareStatement("SELECT round_no, class_count, row_nos, probabilities"
+                     + " FROM labelled_predictions WHERE pool_id = ?")) {
             q.setLong(1, poolId);
             try (ResultSet rs = q.executeQuery()) {
-                while (rs.next()) {
-                    out.put(rs.getLong(1), rs.getString(2));
+                if (!rs.next()) {
+                    return Optional.empty();
                 }
+                ByteBuffer rowBytes = ByteBuffer.wrap(rs.getBytes(3)).order(ByteOrder.LITTLE_ENDIAN);
+                long[] rows = new long[rowBytes.remaining() / Long.BYTES];
+                rowBytes.asLongBuffer().get(rows);
+                ByteBuffer probBytes = ByteBuffer.wrap(rs.getBytes(4)).order(ByteOrder.LITTLE_ENDIAN);
+                float[] probs = new float[probBytes.remaining() / Float.BYTES];
+                probBytes.asFloatBuffer().get(probs);
+                return Optional.of(new Predictions(rs.getInt(1), rows, probs, rs.getInt(2)));
             }
-            return out;
         } catch (SQLException e) {
             throw new StoreException("cannot read the predictions of pool " + poolId + ": " + e.getMessage(), e);
         }

@@ -1,16 +1,16 @@
 package dev.dowser.team;
 
-import dev.dowser.json.Json;
 import dev.dowser.store.Database;
 import dev.dowser.store.LabelStore;
 import dev.dowser.store.PoolRow;
+import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
 import dev.dowser.store.Resolution;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
 import java.util.Locale;
-import java.util.Map;
+import java.util.Optional;
 import java.util.Set;
 
 /**
@@ -72,7 +72,7 @@ public final class Reviews {
             throw new IllegalArgumentException("'" + filter.label() + "' is not one of the classes "
                     + String.join(", ", pool.classes()));
         }
-        Map<Long, String> predictions = db.predictions().all(pool.id());
+        Optional<PredictionStore.Predictions> predictions = db.predictions().latest(pool.id());
         Set<Long> spot = new HashSet<>();
         for (QueueEntry e : db.queues().spotChecks(pool.id())) {
             spot.add(e.row());
@@ -80,8 +80,7 @@ public final class Reviews {
         List<Item> items = new ArrayList<>();
         int[] total = {0};
         db.labels().forEachResolution(pool.id(), r -> {
-            String json = predictions.get(r.row());
-            double[] model = json == null ? null : Json.read(json, double[].class);
+            double[] model = predictions.map(p -> p.of(r.row())).orElse(null);
             if (!passes(r, model, spot.contains(r.row()), filter, pool.classes())) {
                 return;
             }

@@ -12,6 +12,7 @@ import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
+import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
 import dev.dowser.store.RoundStore;
 import java.io.IOException;
@@ -20,6 +21,7 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
 import java.util.Optional;
 import java.util.SplittableRandom;
@@ -92,6 +94,14 @@ class RoundServiceTest {
             for (QueueEntry e : next.subList(1, next.size())) {
                 assertFalse(queue.stream().anyMatch(q -> q.row() == e.row()), "a labelled record was queued again");
                 assertTrue(e.predictionJson() != null && e.predictionJson().contains("\"mean\"") && e.predictionJson().contains("\"sd\""));
+            }
+            // The model's view of each labelled record is kept for the review page: one row per labelled
+            // record, probabilities summing to one.
+            PredictionStore.Predictions kept = db.predictions().latest(pool.id()).orElseThrow();
+            assertEquals(2, kept.round());
+            assertEquals(queue.size(), kept.rows().length);
+            for (QueueEntry e : queue) {
+                assertEquals(1.0, Arrays.stream(kept.of(e.row())).sum(), 1e-5);
             }
             List<RoundStore.RoundRow> rows = db.rounds().list(pool.id());
             assertEquals("published", rows.get(0).status());

@@ -7,6 +7,7 @@ import dev.dowser.TestSupport;
 import dev.dowser.store.Database;
 import dev.dowser.store.LabelStore;
 import dev.dowser.store.PoolRow;
+import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
 import java.nio.file.Path;
 import java.util.List;
@@ -36,8 +37,8 @@ class ReviewsTest {
         db.labels().add(id, 1, "b", "ben", null);
         db.labels().add(id, 2, "b", "ben", null);                 // a confident model says a
         db.labels().add(id, 3, "a", "ana", null);                 // a spot check
-        db.predictions().replace(id, 2, new long[] {0, 1, 2, 3}, new String[] {"[0.95,0.05]", "[0.5,0.5]",
-                "[0.93,0.07]", "[0.89,0.11]"});
+        db.predictions().replace(id, new PredictionStore.Predictions(2, new long[] {0, 1, 2, 3},
+                new float[] {0.95f, 0.05f, 0.5f, 0.5f, 0.93f, 0.07f, 0.89f, 0.11f}, 2));
         db.queues().publish(id, 1, List.of(new QueueEntry(1, 0, 3, 0, true, null, null, null)));
     }
 
