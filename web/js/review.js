@@ -120,6 +120,8 @@ async function show() {
   const list = $('review-list');
   list.replaceChildren();
   for (const r of page.records) list.append(card(r));
+  const people = $('people');
+  people.replaceChildren(...page.people.map((p) => new Option(p, p)));
   $('review-facts').textContent = page.total === 0 ? 'No record matches.'
     : `${state.offset + 1}–${Math.min(state.offset + PAGE, page.total)} of ${page.total.toLocaleString()}`;
   $('review-prev').disabled = state.offset === 0;

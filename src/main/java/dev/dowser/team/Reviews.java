@@ -12,6 +12,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Optional;
 import java.util.Set;
+import java.util.TreeSet;
 
 /**
  * What the review page lists and decides: labelled records filtered by what needs a second look,
@@ -54,7 +55,8 @@ public final class Reviews {
     public record Item(Resolution resolution, double[] model, boolean spotCheck) {
     }
 
-    public record Page(List<Item> items, int total) {
+    /** One page of the filtered records, how many pass the filter, and everyone who labelled in the pool. */
+    public record Page(List<Item> items, int total, List<String> people) {
     }
 
     private final Database db;
@@ -79,7 +81,9 @@ public final class Reviews {
         }
         List<Item> items = new ArrayList<>();
         int[] total = {0};
+        Set<String> people = new TreeSet<>();
         db.labels().forEachResolution(pool.id(), r -> {
+            r.opinions().forEach(o -> people.add(o.person()));
             double[] model = predictions.map(p -> p.of(r.row())).orElse(null);
             if (!passes(r, model, spot.contains(r.row()), filter, pool.classes())) {
                 return;
@@ -89,7 +93,7 @@ public final class Reviews {
             }
             total[0]++;
         });
-        return new Page(items, total[0]);
+        return new Page(items, total[0], List.copyOf(people));
     }
 
     static boolean passes(Resolution r, double[] model, boolean spotCheck, Filter f, List<String> classes) {

@@ -66,6 +66,7 @@ final class ReviewApi {
         ObjectNode body = Json.object().put("total", page.total()).put("offset", offset).put("limit", limit)
                 .put("confident", Reviews.CONFIDENT);
         body.set("records", items);
+        body.set("people", Json.tree(Json.write(page.people())));
         Responses.ok(ex, body);
     }
 

@@ -63,6 +63,8 @@ class ReviewsTest {
         assertEquals(List.of(1L, 2L), rows(Reviews.Show.ALL, null, "b"));
         assertEquals(2, reviews.find(pool, new Reviews.Filter(Reviews.Show.ALL, null, null), 1, 2).items().size());
         assertEquals(4, reviews.find(pool, new Reviews.Filter(Reviews.Show.ALL, null, null), 1, 2).total());
+        assertEquals(List.of("ana", "ben"), reviews.find(pool, new Reviews.Filter(Reviews.Show.SPOT, null, null), 0, 5)
+                .people(), "everyone who labelled, whatever the filter");
 
         // Overriding the disagreement resolves it but it stays findable as one.
         reviews.decide(pool, 1, new Caller("rey", Role.REVIEWER, null, null), LabelStore.KIND_OVERRIDE, "b", "clear b");
