@@ -46,7 +46,6 @@ public final class LabelStore {
         try {
             return Transactions.run(ds, c -> {
                 Instant at = insert(c, poolId, row, label, labelledBy, note, KIND_LABEL, false);
-                refreshQueue(c, poolId, row);
                 return new LabelRow(row, label, labelledBy, at, note);
             });
         } catch (SQLException e) {
@@ -72,7 +71,6 @@ public final class LabelStore {
                             + now.opinions().get(0).person() + "; only they can take it back");
                 }
                 insert(c, poolId, row, mine.label(), person, null, KIND_LABEL, true);
-                refreshQueue(c, poolId, row);
                 return new LabelRow(row, mine.label(), person, mine.at(), mine.note());
             });
         } catch (SQLException e) {
@@ -110,7 +108,6 @@ public final class LabelStore {
                     finalLabel = now.opinions().get(0).label();
                 }
                 insert(c, poolId, row, finalLabel, reviewer, reason, verdict, false);
-                refreshQueue(c, poolId, row);
                 return resolution(c, poolId, row);
             });
         } catch (SQLException e) {
@@ -163,7 +160,7 @@ public final class LabelStore {
         }
     }
 
-    /** Appends one label row; returns its time. */
+    /** Appends one label row and brings the record's queue entries up to date with it; returns its time. */
     private Instant insert(Connection c, long poolId, long row, String label, String by, String note, String kind,
                            boolean withdrawn) throws SQLException {
         Instant now = clock.instant();
@@ -179,16 +176,13 @@ public final class LabelStore {
             p.setBoolean(8, withdrawn);
             p.executeUpdate();
         }
-        return now;
-    }
-
-    /** Every label row appended changes whether the record's queue entries need more labels. */
-    private static void refreshQueue(Connection c, long poolId, long row) throws SQLException {
-        try (PreparedStatement u = c.prepareStatement(QueueStore.REFRESH_DONE)) {
-            u.setLong(1, poolId);
-            u.setLong(2, row);
+        try (PreparedStatement u = c.prepareStatement(QueueStore.AFTER_LABEL_ROW)) {
+            u.setString(1, by);
+            u.setLong(2, poolId);
+            u.setLong(3, row);
             u.executeUpdate();
         }
+        return now;
     }
 
     /** Records per final label; classes with no records are left to the caller. */

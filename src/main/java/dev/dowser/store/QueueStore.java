@@ -30,8 +30,15 @@ public final class QueueStore {
     /** Queue entry q needs no more labels: enough people gave one, or a reviewer decided. */
     static final String DONE = "((SELECT COUNT(*) " + LIVE_LABELS + ") >= q.copies OR EXISTS (SELECT 1 FROM labels r"
             + " WHERE r.pool_id = q.pool_id AND r.row_no = q.row_no AND r.kind <> 'label'))";
-    /** Brings the done flag of every queue entry of one record (pool and row bound) up to date with its labels. */
-    static final String REFRESH_DONE = "UPDATE queue_entries q SET done = " + DONE + " WHERE q.pool_id = ? AND q.row_no = ?";
+    /**
+     * After a label row on one record (author, pool and row bound): its queue entries' done flag
+     * follows the labels, and the author's lease on it ends, since they have acted on it; a record
+     * wanted by two people is then free for the second at once.
+     */
+    static final String AFTER_LABEL_ROW = "UPDATE queue_entries q SET done = " + DONE
+            + ", leased_to = CASE WHEN q.leased_to = ?1 THEN NULL ELSE q.leased_to END"
+            + ", lease_until = CASE WHEN q.leased_to = ?1 THEN NULL ELSE q.lease_until END"
+            + " WHERE q.pool_id = ?2 AND q.row_no = ?3";
 
     /** The person bound to the next parameter has a live label on queue entry q's record. */
     static final String LABELLED_BY_PERSON = "EXISTS (SELECT 1 " + LIVE_LABELS + " AND l.labelled_by = ?)";
@@ -264,23 +271,6 @@ public final class QueueStore {
             throw new StoreException("cannot read the spot checks of pool " + poolId + ": " + e.getMessage(), e);
         }
         return out;
-    }
-
-    /**
-     * Ends {@code person}'s lease on the record at {@code row} once they have labelled it, so that a
-     * record wanted by two people is free for the second at once.
-     */
-    public void releaseRow(long poolId, long row, String person) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement u = c.prepareStatement("UPDATE queue_entries SET leased_to = NULL, lease_until = NULL"
-                     + " WHERE pool_id = ? AND row_no = ? AND leased_to = ?")) {
-            u.setLong(1, poolId);
-            u.setLong(2, row);
-            u.setString(3, person);
-            u.executeUpdate();
-        } catch (SQLException e) {
-            throw new StoreException("cannot release the lease of row " + row + ": " + e.getMessage(), e);
-        }
     }
 
     /** Gives a lease back early (a skip): the record is free for the next person at once. */

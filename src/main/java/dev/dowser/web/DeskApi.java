@@ -106,7 +106,6 @@ final class DeskApi {
         }
         long row = rowOf(pool, record);
         db.labels().add(pool.id(), row, label, by, note);
-        db.queues().releaseRow(pool.id(), row, by);
         RoundWorker worker = rounds.worker(pool.name());
         worker.labelAdded();
         events.labelChanged(pool.name(), record, "added", worker.labelsToNextRound());
