@@ -111,10 +111,7 @@ public final class Accounts {
 
     /** An admin's new password for someone: their sessions end, as after a suspected leak. */
     public void resetPassword(String name, String password, String actor) {
-        UserRow u = db.users().require(name);
-        db.users().update(name, null, passwords.hash(password), null);
-        db.users().endSessionsExcept(u.id(), null);
-        db.history().append(null, "account:" + name, "password-reset", actor, null, null);
+        setPassword(db.users().require(name), password, null, "password-reset", actor);
     }
 
     /**
@@ -123,28 +120,25 @@ public final class Accounts {
      */
     public void changeOwnPassword(Caller caller, String current, String next, String address) {
         Passwords.check(next);
-        long wait = limiter.waitSeconds(caller.name(), address);
-        if (wait > 0) {
-            throw new AuthException(AuthException.Kind.HELD_BACK,
-                    "too many failed sign-ins; try again in " + wait + " s", wait);
-        }
+        limiter.check(caller.name(), address);
         UserRow u = db.users().require(caller.name());
         if (!Passwords.matches(current, u.passwordHash())) {
             limiter.failed(caller.name(), address);
             throw new AuthException(AuthException.Kind.FORBIDDEN, "the current password is wrong");
         }
-        db.users().update(u.name(), null, passwords.hash(next), null);
-        db.users().endSessionsExcept(u.id(), caller.sessionHash());
-        db.history().append(null, "account:" + u.name(), "password-changed", u.name(), null, null);
+        setPassword(u, next, caller.sessionHash(), "password-changed", u.name());
+    }
+
+    /** Stores a new password, ends the account's sessions but {@code keepSession} (may be null), records it. */
+    private void setPassword(UserRow u, String password, String keepSession, String kind, String actor) {
+        db.users().update(u.name(), null, passwords.hash(password), null);
+        db.users().endSessionsExcept(u.id(), keepSession);
+        db.history().append(null, "account:" + u.name(), kind, actor, null, null);
     }
 
     /** Checks a password and starts a session; failures are counted per account and per address. */
     public SignIn login(String name, String password, String address) {
-        long wait = limiter.waitSeconds(name, address);
-        if (wait > 0) {
-            throw new AuthException(AuthException.Kind.HELD_BACK,
-                    "too many failed sign-ins; try again in " + wait + " s", wait);
-        }
+        limiter.check(name, address);
         Optional<UserRow> user = db.users().find(name);
         // Hash even for an unknown name, so the reply's timing does not tell which names exist.
         boolean ok = user.isPresent() ? Passwords.matches(password, user.get().passwordHash())
@@ -160,9 +154,10 @@ public final class Accounts {
             db.users().update(u.name(), null, passwords.hash(password), null);
         }
         String token = Secrets.token(random);
+        String hash = Secrets.hash(token);
         String csrf = Secrets.token(random);
-        db.users().addSession(Secrets.hash(token), u.id(), csrf);
-        return new SignIn(token, new Caller(u.name(), Role.parse(u.role()), csrf, Secrets.hash(token)));
+        db.users().addSession(hash, u.id(), csrf);
+        return new SignIn(token, new Caller(u.name(), Role.parse(u.role()), csrf, hash));
     }
 
     /** Who a session cookie signs in, if it is live: not ended, not idle too long, not too old, account enabled. */

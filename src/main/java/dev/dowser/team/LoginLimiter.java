@@ -28,9 +28,13 @@ final class LoginLimiter {
         this.perAddress = config.failuresPerAddress();
     }
 
-    /** Seconds to wait before another attempt, or 0 when one may be made now. */
-    long waitSeconds(String account, String address) {
-        return Math.max(wait("account:" + account, perAccount), wait("address:" + address, perAddress));
+    /** Refuses an attempt while the account or the address has too many recent failures. */
+    void check(String account, String address) {
+        long wait = Math.max(wait("account:" + account, perAccount), wait("address:" + address, perAddress));
+        if (wait > 0) {
+            throw new AuthException(AuthException.Kind.HELD_BACK,
+                    "too many failed sign-ins; try again in " + wait + " s", wait);
+        }
     }
 
     void failed(String account, String address) {
