@@ -128,7 +128,7 @@ final class Api {
         PoolRow pool = db.pools().require(param(ex, "pool"));
         long offset = longQuery(ex, "offset", 0);
         int limit = (int) longQuery(ex, "limit", DEFAULT_PAGE);
-        List<String> display = Json.read(pool.columnRolesJson(), ColumnRoles.class).display();
+        List<String> display = display(pool);
         ArrayNode rows = Json.array();
         for (RecordRow r : db.records().page(pool.id(), offset, limit)) {
             rows.add(recordJson(r, display));
@@ -136,6 +136,17 @@ final class Api {
         ObjectNode body = Json.object().put("offset", offset).put("limit", limit).put("total", pool.recordCount());
         body.set("records", rows);
         Responses.ok(ex, body);
+    }
+
+    /** The display columns of the pool's records, in their stored order. */
+    static List<String> display(PoolRow pool) {
+        return Json.read(pool.columnRolesJson(), ColumnRoles.class).display();
+    }
+
+    /** The place of record {@code record} in the pool; 404 when the pool has no such record. */
+    static long rowOf(Database db, PoolRow pool, String record) {
+        return db.records().rowOf(pool.id(), record).orElseThrow(() ->
+                new ApiException(404, "no record '" + record + "' in pool '" + pool.name() + "'"));
     }
 
     static ObjectNode recordJson(RecordRow r, List<String> display) {

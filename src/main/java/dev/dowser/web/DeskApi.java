@@ -8,7 +8,6 @@ import static dev.dowser.web.Requests.requiredText;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
-import dev.dowser.data.ColumnRoles;
 import dev.dowser.json.Json;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.RoundWorker;
@@ -66,7 +65,7 @@ final class DeskApi {
         ObjectNode body = Json.object().put("round", e.round()).put("position", e.position())
                 .put("copies", e.copies()).put("spot_check", e.spotCheck()).put("score", e.score()).put("lease_until", e.leaseUntil().toString());
         // Another person's label is not shown: a second labeller must judge on their own.
-        ObjectNode record = Api.recordJson(r, display(pool));
+        ObjectNode record = Api.recordJson(r, Api.display(pool));
         record.remove(List.of("label", "labelled_by", "labelled_at", "note"));
         body.set("record", record);
         if (e.predictionJson() != null) {
@@ -104,13 +103,13 @@ final class DeskApi {
             throw new ApiException(400, "label '" + label + "' is not one of the classes "
                     + String.join(", ", pool.classes()));
         }
-        long row = rowOf(pool, record);
+        long row = Api.rowOf(db, pool, record);
         db.labels().add(pool.id(), row, label, by, note);
         RoundWorker worker = rounds.worker(pool.name());
         worker.labelAdded();
         events.labelChanged(pool.name(), record, "added", worker.labelsToNextRound());
         RecordRow r = db.records().page(pool.id(), row, 1).get(0);
-        ObjectNode out = Api.recordJson(r, display(pool));
+        ObjectNode out = Api.recordJson(r, Api.display(pool));
         progress(out, pool);
         Responses.json(ex, 201, out);
     }
@@ -121,7 +120,7 @@ final class DeskApi {
         JsonNode body = jsonBody(ex, "an undo");
         String record = requiredText(body, "record");
         String person = Gate.caller(ex, true).name();
-        long row = rowOf(pool, record);
+        long row = Api.rowOf(db, pool, record);
         LabelRow withdrawn = db.labels().withdraw(pool.id(), row, person);
         db.queues().leaseRow(pool.id(), row, person, lease(pool));
         RoundWorker worker = rounds.worker(pool.name());
@@ -129,7 +128,7 @@ final class DeskApi {
         events.labelChanged(pool.name(), record, "withdrawn", worker.labelsToNextRound());
         RecordRow r = db.records().page(pool.id(), row, 1).get(0);
         ObjectNode out = Json.object().put("withdrawn", withdrawn.label());
-        out.set("record", Api.recordJson(r, display(pool)));
+        out.set("record", Api.recordJson(r, Api.display(pool)));
         progress(out, pool);
         Responses.ok(ex, out);
     }
@@ -142,16 +141,7 @@ final class DeskApi {
         p.put("labels_to_next_round", rounds.worker(pool.name()).labelsToNextRound());
     }
 
-    private long rowOf(PoolRow pool, String record) {
-        return db.records().rowOf(pool.id(), record).orElseThrow(() ->
-                new ApiException(404, "no record '" + record + "' in pool '" + pool.name() + "'"));
-    }
-
     private static Duration lease(PoolRow pool) {
         return Duration.ofMinutes(PoolSettings.parse(pool.settingsJson()).leaseMinutes());
-    }
-
-    private static List<String> display(PoolRow pool) {
-        return Json.read(pool.columnRolesJson(), ColumnRoles.class).display();
     }
 }

@@ -8,7 +8,6 @@ import static dev.dowser.web.Requests.requiredText;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
-import dev.dowser.data.ColumnRoles;
 import dev.dowser.json.Json;
 import dev.dowser.store.Database;
 import dev.dowser.store.LabelStore;
@@ -47,7 +46,7 @@ final class ReviewApi {
         int offset = (int) Requests.longQuery(ex, "offset", 0);
         int limit = (int) Requests.longQuery(ex, "limit", Api.DEFAULT_PAGE);
         Reviews.Page page = reviews.find(pool, filter, offset, limit);
-        List<String> display = display(pool);
+        List<String> display = Api.display(pool);
         ArrayNode items = Json.array();
         db.records().warm(pool.id(), page.items().stream().mapToLong(i -> i.resolution().row()).toArray());
         for (Reviews.Item item : page.items()) {
@@ -79,7 +78,7 @@ final class ReviewApi {
         if (!verdict.equals(LabelStore.KIND_ACCEPT) && !verdict.equals(LabelStore.KIND_OVERRIDE)) {
             throw new ApiException(400, "field 'verdict' must be accept or override, got '" + verdict + "'");
         }
-        long row = rowOf(pool, record);
+        long row = Api.rowOf(db, pool, record);
         Resolution r = reviews.decide(pool, row, Gate.caller(ex, true), verdict, optionalText(body, "label"),
                 optionalText(body, "reason"));
         ObjectNode out = Json.object().put("record", record);
@@ -91,7 +90,7 @@ final class ReviewApi {
         PoolRow pool = db.pools().require(param(ex, "pool"));
         String record = param(ex, "record");
         ArrayNode entries = Json.array();
-        for (LabelStore.Entry e : db.labels().history(pool.id(), rowOf(pool, record))) {
+        for (LabelStore.Entry e : db.labels().history(pool.id(), Api.rowOf(db, pool, record))) {
             entries.addObject().put("kind", e.withdrawn() ? "withdrawal" : e.kind()).put("label", e.label())
                     .put("by", e.by()).put("at", e.at().toString()).put("note", e.note());
         }
@@ -135,14 +134,5 @@ final class ReviewApi {
                     .put("label", r.review().label()).put("reason", r.review().reason())
                     .put("at", r.review().at().toString());
         }
-    }
-
-    private long rowOf(PoolRow pool, String record) {
-        return db.records().rowOf(pool.id(), record).orElseThrow(() ->
-                new ApiException(404, "no record '" + record + "' in pool '" + pool.name() + "'"));
-    }
-
-    private static List<String> display(PoolRow pool) {
-        return Json.read(pool.columnRolesJson(), ColumnRoles.class).display();
     }
 }
