@@ -20,4 +20,12 @@ public record PoolRow(
     public PoolRow {
         classes = List.copyOf(classes);
     }
+
+    /** Refuses a label outside the pool's label set, naming the classes there are. */
+    public void checkClass(String label) {
+        if (!classes.contains(label)) {
+            throw new IllegalArgumentException("label '" + label + "' is not one of the classes "
+                    + String.join(", ", classes));
+        }
+    }
 }

@@ -138,9 +138,8 @@ public final class Reviews {
 
     /** A reviewer's accept (the people's label becomes final) or override (a label and a reason). */
     public Resolution decide(PoolRow pool, long row, Caller reviewer, String verdict, String label, String reason) {
-        if (label != null && !pool.classes().contains(label)) {
-            throw new IllegalArgumentException("label '" + label + "' is not one of the classes "
-                    + String.join(", ", pool.classes()));
+        if (label != null) {
+            pool.checkClass(label);
         }
         if (LabelStore.KIND_OVERRIDE.equals(verdict) && label == null) {
             throw new IllegalArgumentException("an override needs the label you choose");

@@ -99,10 +99,7 @@ final class DeskApi {
         if (note != null && note.isBlank()) {
             note = null;
         }
-        if (!pool.classes().contains(label)) {
-            throw new ApiException(400, "label '" + label + "' is not one of the classes "
-                    + String.join(", ", pool.classes()));
-        }
+        pool.checkClass(label);
         long row = Api.rowOf(db, pool, record);
         db.labels().add(pool.id(), row, label, by, note);
         RoundWorker worker = rounds.worker(pool.name());
