@@ -185,12 +185,10 @@ public final class RoundService {
      * progress, picked by an earlier round), then this round's picks, numbered in that order.
      */
     static List<QueueEntry> carryOver(List<QueueEntry> waiting, int round, List<QueueEntry> picked) {
-        List<QueueEntry> out = new ArrayList<>(waiting.size() + picked.size());
-        for (QueueEntry e : waiting) {
-            out.add(new QueueEntry(round, out.size(), e.row(), e.score(), e.spotCheck(), e.predictionJson(), null, null,
-                    e.copies()));
-        }
-        for (QueueEntry e : picked) {
+        List<QueueEntry> in = new ArrayList<>(waiting);
+        in.addAll(picked);
+        List<QueueEntry> out = new ArrayList<>(in.size());
+        for (QueueEntry e : in) {
             out.add(new QueueEntry(round, out.size(), e.row(), e.score(), e.spotCheck(), e.predictionJson(), null, null,
                     e.copies()));
         }

@@ -6,10 +6,12 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.function.Function;
+import org.openqa.selenium.By;
 import org.openqa.selenium.OutputType;
 import org.openqa.selenium.StaleElementReferenceException;
 import org.openqa.selenium.TimeoutException;
 import org.openqa.selenium.WebDriver;
+import org.openqa.selenium.WebElement;
 import org.openqa.selenium.chrome.ChromeDriver;
 import org.openqa.selenium.chrome.ChromeDriverService;
 import org.openqa.selenium.chrome.ChromeOptions;
@@ -55,6 +57,11 @@ final class Browser implements AutoCloseable {
             screenshot("timeout-" + what.replaceAll("[^A-Za-z0-9]+", "-"));
             throw e;
         }
+    }
+
+    /** The element of the page with this id; fails at once when there is none. */
+    WebElement byId(String id) {
+        return driver.findElement(By.id(id));
     }
 
     /** Saves what the page shows as target/screenshots/NAME.png, for a reviewer to look at. */

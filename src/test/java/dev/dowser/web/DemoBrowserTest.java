@@ -47,30 +47,26 @@ class DemoBrowserTest {
         db.close();
     }
 
-    private WebElement byId(String id) {
-        return browser.driver.findElement(By.id(id));
-    }
-
     @Test
     void theDeskAddressLeadsThroughSignInToAPumpTrace() {
         String base = "http://127.0.0.1:" + server.port() + "/";
         // The address the demo prints; signing in brings the person back to it.
         browser.driver.get(base + "desk.html?pool=" + DemoPool.POOL);
-        WebElement form = browser.await(d -> d.getCurrentUrl().contains("login.html") && byId("sign-in").isDisplayed()
-                ? byId("sign-in") : null, "the sign-in page");
+        WebElement form = browser.await(d -> d.getCurrentUrl().contains("login.html") && browser.byId("sign-in").isDisplayed()
+                ? browser.byId("sign-in") : null, "the sign-in page");
         form.findElement(By.name("account")).sendKeys("demo-labeller");
         form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
         browser.await(d -> d.getCurrentUrl().contains("desk.html?pool=" + DemoPool.POOL), "back at the desk");
-        String first = browser.await(d -> byId("card").isDisplayed() ? byId("card-id").getText() : null,
+        String first = browser.await(d -> browser.byId("card").isDisplayed() ? browser.byId("card-id").getText() : null,
                 "the first record");
-        WebElement card = byId("card");
+        WebElement card = browser.byId("card");
         assertFalse(card.findElements(By.tagName("polyline")).isEmpty(), "the vibration trace is drawn as a line");
-        assertTrue(byId("choices").getText().contains("cavitation"), byId("choices").getText());
-        assertTrue(byId("card-score").getText().isEmpty() || byId("card-score").getText().equals(
-                "first batch: spread over the pool"), "round 1 has no scores to show: " + byId("card-score").getText());
+        assertTrue(browser.byId("choices").getText().contains("cavitation"), browser.byId("choices").getText());
+        assertTrue(browser.byId("card-score").getText().isEmpty() || browser.byId("card-score").getText().equals(
+                "first batch: spread over the pool"), "round 1 has no scores to show: " + browser.byId("card-score").getText());
         browser.screenshot("17-demo-desk");
         new Actions(browser.driver).sendKeys("1").perform();
-        browser.await(d -> !byId("card-id").getText().equals(first), "the next record");
-        assertTrue(byId("progress").getText().contains("1 labelled this session"), byId("progress").getText());
+        browser.await(d -> !browser.byId("card-id").getText().equals(first), "the next record");
+        assertTrue(browser.byId("progress").getText().contains("1 labelled this session"), browser.byId("progress").getText());
     }
 }

@@ -100,24 +100,20 @@ class PagesBrowserTest {
         return "http://127.0.0.1:" + server.port() + "/";
     }
 
-    private WebElement byId(String id) {
-        return browser.driver.findElement(By.id(id));
-    }
-
     private String cardId() {
-        WebElement card = byId("card");
-        return card.isDisplayed() ? byId("card-id").getText() : "";
+        WebElement card = browser.byId("card");
+        return card.isDisplayed() ? browser.byId("card-id").getText() : "";
     }
 
     /** Signs in through the sign-in page (after signing out whoever is signed in) and waits to leave it. */
     private void signIn(String name) {
         if (!browser.driver.findElements(By.id("sign-out")).isEmpty()) {
-            byId("sign-out").click();
+            browser.byId("sign-out").click();
             browser.await(d -> d.getCurrentUrl().contains("login.html"), "signing out");
         } else {
             browser.driver.get(base() + "login.html");
         }
-        WebElement form = browser.await(d -> byId("sign-in").isDisplayed() ? byId("sign-in") : null, "the sign-in form");
+        WebElement form = browser.await(d -> browser.byId("sign-in").isDisplayed() ? browser.byId("sign-in") : null, "the sign-in form");
         form.findElement(By.name("account")).sendKeys(name);
         form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
         browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signing in as " + name);
@@ -142,26 +138,26 @@ class PagesBrowserTest {
         browser.await(d -> d.getCurrentUrl().contains("login.html"), "the sign-in page first");
         signIn(LEAD);
         browser.driver.get(base());
-        browser.await(d -> byId("pools-empty").isDisplayed(), "the empty pool list");
-        byId("import-form").findElement(By.name("pool")).sendKeys("wine-part");
-        byId("import-form").findElement(By.name("file")).sendKeys(file.toAbsolutePath().toString());
-        byId("preview-button").click();
-        browser.await(d -> byId("mapping").isDisplayed(), "the mapping step");
-        List<WebElement> roles = byId("mapping").findElements(By.tagName("select"));
+        browser.await(d -> browser.byId("pools-empty").isDisplayed(), "the empty pool list");
+        browser.byId("import-form").findElement(By.name("pool")).sendKeys("wine-part");
+        browser.byId("import-form").findElement(By.name("file")).sendKeys(file.toAbsolutePath().toString());
+        browser.byId("preview-button").click();
+        browser.await(d -> browser.byId("mapping").isDisplayed(), "the mapping step");
+        List<WebElement> roles = browser.byId("mapping").findElements(By.tagName("select"));
         assertEquals(14, roles.size(), "one role per column: 13 features and the label");
         assertEquals("label", new Select(roles.get(13)).getFirstSelectedOption().getAttribute("value"));
         assertEquals("feature-shown", new Select(roles.get(0)).getFirstSelectedOption().getAttribute("value"));
         browser.screenshot("1-pools-mapping");
-        byId("import-button").click();
+        browser.byId("import-button").click();
         browser.await(d -> !d.findElements(By.id("new-pool-link")).isEmpty(), "the import to finish");
-        assertTrue(byId("import-message").getText().contains("178 records"), byId("import-message").getText());
+        assertTrue(browser.byId("import-message").getText().contains("178 records"), browser.byId("import-message").getText());
         browser.screenshot("2-pools-imported");
 
         // Overview: ask for the first round and see its queue.
-        byId("new-pool-link").click();
-        browser.await(d -> byId("pool-facts").getText().contains("178 records"), "the overview");
-        byId("round-now").click();
-        browser.await(d -> !byId("queue").findElements(By.cssSelector("tbody tr")).isEmpty(), "the first queue");
+        browser.byId("new-pool-link").click();
+        browser.await(d -> browser.byId("pool-facts").getText().contains("178 records"), "the overview");
+        browser.byId("round-now").click();
+        browser.await(d -> !browser.byId("queue").findElements(By.cssSelector("tbody tr")).isEmpty(), "the first queue");
         browser.screenshot("3-overview-first-round");
 
         // Desk, as a labeller: 20 labels by keyboard only.
@@ -169,7 +165,7 @@ class PagesBrowserTest {
         browser.driver.get(base() + "desk.html?pool=wine-part");
         browser.await(d -> !cardId().isEmpty(), "the first record on the desk");
         browser.driver.executeScript("window.__sameDocument = true;");
-        String firstProgress = byId("progress").getText();
+        String firstProgress = browser.byId("progress").getText();
         assertTrue(firstProgress.contains("round 1"), firstProgress);
         browser.screenshot("4-desk");
 
@@ -188,36 +184,36 @@ class PagesBrowserTest {
             previous = id;
         }
         // The tenth and twentieth labels started rounds 2 and 3; the page heard without a reload.
-        browser.await(d -> byId("progress").getText().contains("round 3"), "round 3 announced on the desk");
+        browser.await(d -> browser.byId("progress").getText().contains("round 3"), "round 3 announced on the desk");
         assertEquals(Boolean.TRUE, browser.driver.executeScript("return window.__sameDocument === true;"));
-        assertTrue(byId("progress").getText().contains("20 labelled this session"), byId("progress").getText());
+        assertTrue(browser.byId("progress").getText().contains("20 labelled this session"), browser.byId("progress").getText());
 
         // Undo the last label: that record comes back; label it again, differently.
         String last = previous;
         browser.await(d -> !cardId().isEmpty() && !cardId().equals(last), "the record after the last");
         press(Keys.BACK_SPACE);
         browser.await(d -> cardId().equals(last), "the taken-back record shown again");
-        assertTrue(byId("desk-message").getText().contains("Took back"), byId("desk-message").getText());
+        assertTrue(browser.byId("desk-message").getText().contains("Took back"), browser.byId("desk-message").getText());
         browser.screenshot("5-desk-after-undo");
         String changed = classes.get((classes.indexOf(given.get(last)) + 1) % classes.size());
         press(String.valueOf(classes.indexOf(changed) + 1));
         given.put(last, changed);
         browser.await(d -> !cardId().isEmpty() && !cardId().equals(last), "the desk moving on");
-        if (byId("belief-toggle").isEnabled()) {
+        if (browser.byId("belief-toggle").isEnabled()) {
             press(".");
-            browser.await(d -> byId("belief").isDisplayed(), "the model's belief");
+            browser.await(d -> browser.byId("belief").isDisplayed(), "the model's belief");
         }
         browser.screenshot("6-desk-belief");
 
         // Overview again, as the admin: rounds with their health, accuracy panel, queue.
         signIn(LEAD);
         browser.driver.get(base() + "overview.html?pool=wine-part");
-        browser.await(d -> byId("rounds").findElements(By.cssSelector("tbody tr")).size() >= 3, "three rounds listed");
-        browser.await(d -> !byId("health").getText().isEmpty(), "chain health");
+        browser.await(d -> browser.byId("rounds").findElements(By.cssSelector("tbody tr")).size() >= 3, "three rounds listed");
+        browser.await(d -> !browser.byId("health").getText().isEmpty(), "chain health");
         browser.screenshot("7-overview");
 
         // Export from the overview's link: exactly the labels given, the undone one as relabelled.
-        String href = byId("export-jsonl").getAttribute("href");
+        String href = browser.byId("export-jsonl").getAttribute("href");
         HttpResponse<String> export = http.send(HttpRequest.newBuilder(URI.create(href))
                         .header("Authorization", "Bearer " + lead).build(), HttpResponse.BodyHandlers.ofString());
         assertEquals(200, export.statusCode());
@@ -259,14 +255,14 @@ class PagesBrowserTest {
                 return now.isEmpty() || seen.contains(now) ? null : now;
             }, "a hostile record on the desk");
             seen.add(id);
-            String text = byId("card").getText();
+            String text = browser.byId("card").getText();
             if (id.equals("h1")) {
                 assertTrue(text.contains("<script>window.__pwned = 1</script>"), text);
             } else {
                 assertTrue(text.contains("<img src=x onerror=\"window.__pwned = 2\">"), text);
             }
-            assertTrue(byId("card").findElements(By.tagName("img")).isEmpty(), "markup became an element");
-            assertTrue(byId("card").findElements(By.tagName("script")).isEmpty(), "markup became an element");
+            assertTrue(browser.byId("card").findElements(By.tagName("img")).isEmpty(), "markup became an element");
+            assertTrue(browser.byId("card").findElements(By.tagName("script")).isEmpty(), "markup became an element");
             browser.screenshot("8-desk-hostile-" + id);
             assertEquals(shownBefore + 1, seen.size());
             press("1");
@@ -275,10 +271,10 @@ class PagesBrowserTest {
 
         signIn(LEAD);
         browser.driver.get(base() + "?pool=hostile");
-        browser.await(d -> byId("records").findElements(By.className("record")).size() == 4, "the record cards");
-        String cards = byId("records").getText();
+        browser.await(d -> browser.byId("records").findElements(By.className("record")).size() == 4, "the record cards");
+        String cards = browser.byId("records").getText();
         assertTrue(cards.contains("<script>window.__pwned = 1</script>"), cards);
-        assertTrue(byId("records").findElements(By.tagName("img")).isEmpty());
+        assertTrue(browser.byId("records").findElements(By.tagName("img")).isEmpty());
         assertNull(browser.driver.executeScript("return window.__pwned === undefined ? null : window.__pwned;"));
     }
 
@@ -310,10 +306,10 @@ class PagesBrowserTest {
 
         signIn(LEAD);
         browser.driver.get(base() + "overview.html?pool=gauges");
-        browser.await(d -> byId("overview-message").getText().contains("Round 2 failed"), "the failure on the overview");
-        assertTrue(byId("overview-message").getText().contains("previous queue stays in service"));
-        browser.await(d -> byId("queue-title").getText().contains("round 1"), "round 1 still served");
-        assertFalse(byId("queue").findElements(By.cssSelector("tbody tr")).isEmpty());
+        browser.await(d -> browser.byId("overview-message").getText().contains("Round 2 failed"), "the failure on the overview");
+        assertTrue(browser.byId("overview-message").getText().contains("previous queue stays in service"));
+        browser.await(d -> browser.byId("queue-title").getText().contains("round 1"), "round 1 still served");
+        assertFalse(browser.byId("queue").findElements(By.cssSelector("tbody tr")).isEmpty());
         browser.screenshot("9-overview-failed-round");
     }
 

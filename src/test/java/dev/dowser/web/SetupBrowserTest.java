@@ -37,30 +37,26 @@ class SetupBrowserTest {
         db.close();
     }
 
-    private WebElement byId(String id) {
-        return browser.driver.findElement(By.id(id));
-    }
-
     @Test
     void theFirstAdminIsMadeWithTheConsoleCode() {
         String code = server.setupCode().orElseThrow();
         browser.driver.get("http://127.0.0.1:" + server.port() + "/");
-        WebElement form = browser.await(d -> d.getCurrentUrl().contains("login.html") && byId("setup").isDisplayed()
-                ? byId("setup") : null, "the setup form");
-        assertTrue(!byId("sign-in").isDisplayed(), "no sign-in before there is an account");
+        WebElement form = browser.await(d -> d.getCurrentUrl().contains("login.html") && browser.byId("setup").isDisplayed()
+                ? browser.byId("setup") : null, "the setup form");
+        assertTrue(!browser.byId("sign-in").isDisplayed(), "no sign-in before there is an account");
         form.findElement(By.name("code")).sendKeys("not-the-code");
         form.findElement(By.name("account")).sendKeys("Ines Varga");
         form.findElement(By.name("password")).sendKeys("a long first password");
         form.findElement(By.name("again")).sendKeys("a long first password");
         form.findElement(By.cssSelector("button[type=submit]")).click();
-        browser.await(d -> byId("login-message").getText().contains("the setup code is wrong"), "the refusal");
+        browser.await(d -> browser.byId("login-message").getText().contains("the setup code is wrong"), "the refusal");
         browser.screenshot("18-setup-refused");
 
         form.findElement(By.name("code")).clear();
         form.findElement(By.name("code")).sendKeys(code);
         form.findElement(By.cssSelector("button[type=submit]")).click();
         browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signed in after setup");
-        browser.await(d -> byId("account").getText().contains("Ines Varga · admin"), "the new admin signed in");
+        browser.await(d -> browser.byId("account").getText().contains("Ines Varga · admin"), "the new admin signed in");
         assertEquals("admin", db.users().require("Ines Varga").role());
         assertTrue(server.setupCode().isEmpty(), "the code is spent");
     }

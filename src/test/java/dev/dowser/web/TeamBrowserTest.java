@@ -90,14 +90,10 @@ class TeamBrowserTest {
         return "http://127.0.0.1:" + server.port() + "/";
     }
 
-    private WebElement byId(String id) {
-        return browser.driver.findElement(By.id(id));
-    }
-
     private void signIn(String name) {
         browser.driver.manage().deleteAllCookies();
         browser.driver.get(base() + "login.html");
-        WebElement form = browser.await(d -> byId("sign-in").isDisplayed() ? byId("sign-in") : null, "the sign-in form");
+        WebElement form = browser.await(d -> browser.byId("sign-in").isDisplayed() ? browser.byId("sign-in") : null, "the sign-in form");
         form.findElement(By.name("account")).sendKeys(name);
         form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
         browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signing in as " + name);
@@ -107,14 +103,14 @@ class TeamBrowserTest {
     void aLabellerReachesNeitherReviewNorAccountsAndSeesNoExport() {
         signIn("ana");
         browser.driver.get(base() + "overview.html?pool=gauges");
-        browser.await(d -> byId("pool-facts").getText().contains("6 records"), "the overview");
-        browser.await(d -> !byId("account").getText().isEmpty(), "the account corner");
+        browser.await(d -> browser.byId("pool-facts").getText().contains("6 records"), "the overview");
+        browser.await(d -> !browser.byId("account").getText().isEmpty(), "the account corner");
         assertTrue(browser.driver.findElements(By.id("export-csv")).isEmpty(), "an export button for a labeller");
         assertTrue(browser.driver.findElements(By.id("export-jsonl")).isEmpty());
         assertTrue(browser.driver.findElements(By.id("to-review")).isEmpty());
         assertTrue(browser.driver.findElements(By.id("round-now")).isEmpty());
-        assertTrue(byId("account").findElements(By.linkText("review")).isEmpty());
-        assertTrue(byId("account").findElements(By.linkText("accounts")).isEmpty());
+        assertTrue(browser.byId("account").findElements(By.linkText("review")).isEmpty());
+        assertTrue(browser.byId("account").findElements(By.linkText("accounts")).isEmpty());
         browser.screenshot("10-overview-as-labeller");
 
         for (String page : List.of("review.html?pool=gauges", "users.html")) {
@@ -123,7 +119,7 @@ class TeamBrowserTest {
             assertTrue(text.contains("an account with the role labeller may not do this"), page + ": " + text);
         }
         browser.driver.get(base() + "?pool=gauges");
-        browser.await(d -> !byId("pool-title").getText().isEmpty(), "the pool page");
+        browser.await(d -> !browser.byId("pool-title").getText().isEmpty(), "the pool page");
         assertTrue(browser.driver.findElements(By.id("export-csv")).isEmpty());
         assertTrue(browser.driver.findElements(By.id("add-pool")).isEmpty(), "the import form for a labeller");
     }
@@ -132,10 +128,10 @@ class TeamBrowserTest {
     void aReviewerSettlesADisagreementAndTheOverviewShowsAgreement() {
         signIn("rey");
         browser.driver.get(base() + "review.html?pool=gauges");
-        browser.await(d -> byId("review-facts").getText().contains("of 6"), "six labelled records");
-        new Select(byId("filters").findElement(By.name("show"))).selectByValue("disagree");
-        byId("filters").findElement(By.cssSelector("button[type=submit]")).click();
-        browser.await(d -> byId("review-facts").getText().contains("of 2"), "the two disagreements");
+        browser.await(d -> browser.byId("review-facts").getText().contains("of 6"), "six labelled records");
+        new Select(browser.byId("filters").findElement(By.name("show"))).selectByValue("disagree");
+        browser.byId("filters").findElement(By.cssSelector("button[type=submit]")).click();
+        browser.await(d -> browser.byId("review-facts").getText().contains("of 2"), "the two disagreements");
         WebElement g2 = browser.await(d -> d.findElement(By.cssSelector("[data-record='g2']")), "record g2");
         assertTrue(g2.getText().contains("ana: fault") && g2.getText().contains("ben: ok"), g2.getText());
         assertTrue(g2.findElement(By.className("accept")).getAttribute("disabled") != null,
@@ -144,7 +140,7 @@ class TeamBrowserTest {
         new Select(g2.findElement(By.tagName("select"))).selectByValue("fault");
         g2.findElement(By.tagName("input")).sendKeys("reading 3.5 is past the fault line");
         g2.findElement(By.className("override")).click();
-        browser.await(d -> byId("review-message").getText().contains("g2: final label fault"), "the override");
+        browser.await(d -> browser.byId("review-message").getText().contains("g2: final label fault"), "the override");
         // The list is drawn again after the decision; wait for the new card, then use it.
         WebElement settled = browser.await(d -> {
             WebElement card = d.findElement(By.cssSelector("[data-record='g2']"));
@@ -158,8 +154,8 @@ class TeamBrowserTest {
         browser.screenshot("12-review-history");
 
         browser.driver.get(base() + "overview.html?pool=gauges");
-        browser.await(d -> byId("agreement-facts").getText().contains("Fleiss' kappa over 6 records"), "agreement");
-        assertTrue(byId("pairs").getText().contains("ana & ben"), byId("pairs").getText());
+        browser.await(d -> browser.byId("agreement-facts").getText().contains("Fleiss' kappa over 6 records"), "agreement");
+        assertTrue(browser.byId("pairs").getText().contains("ana & ben"), browser.byId("pairs").getText());
         browser.screenshot("13-overview-agreement");
     }
 
@@ -168,7 +164,7 @@ class TeamBrowserTest {
         signIn("lead");
         browser.driver.get(base() + "users.html");
         browser.await(d -> d.findElements(By.cssSelector("#users tbody tr")).size() == 4, "four accounts");
-        WebElement add = byId("add-user");
+        WebElement add = browser.byId("add-user");
         add.findElement(By.name("account")).sendKeys("newcomer");
         new Select(add.findElement(By.name("role"))).selectByValue("reviewer");
         add.findElement(By.name("password")).sendKeys("a fine long password");
@@ -187,9 +183,9 @@ class TeamBrowserTest {
     void anyoneMakesATokenShownOnceAndRevokesIt() throws Exception {
         signIn("ana");
         browser.driver.get(base() + "account.html");
-        browser.await(d -> byId("me").getText().equals("ana · labeller"), "the account page");
-        byId("new-token").findElement(By.name("purpose")).sendKeys("nightly script", Keys.ENTER);
-        String token = browser.await(d -> byId("token-shown").isDisplayed() ? byId("token-text").getText() : null,
+        browser.await(d -> browser.byId("me").getText().equals("ana · labeller"), "the account page");
+        browser.byId("new-token").findElement(By.name("purpose")).sendKeys("nightly script", Keys.ENTER);
+        String token = browser.await(d -> browser.byId("token-shown").isDisplayed() ? browser.byId("token-text").getText() : null,
                 "the new token");
         assertTrue(token.startsWith("dwt_"), token);
         tokens.put("script", token);
@@ -199,7 +195,7 @@ class TeamBrowserTest {
                 "two live tokens: the test's and the new one");
         WebElement row = browser.driver.findElement(By.xpath("//table[@id='tokens']//tr[td[text()='nightly script']]"));
         row.findElement(By.tagName("button")).click();
-        browser.await(d -> byId("tokens-message").getText().contains("revoked"), "the revocation");
+        browser.await(d -> browser.byId("tokens-message").getText().contains("revoked"), "the revocation");
         assertEquals(401, call("script", "GET", "api/v1/pools", "").statusCode(), "a revoked token stops at once");
     }
 
@@ -208,23 +204,23 @@ class TeamBrowserTest {
         signIn("lead");
         browser.driver.get(base() + "overview.html?pool=gauges");
         WebElement batch = browser.await(d -> {
-            WebElement in = byId("settings").findElement(By.name("batch_size"));
+            WebElement in = browser.byId("settings").findElement(By.name("batch_size"));
             return "6".equals(in.getAttribute("value")) ? in : null;
         }, "the settings form");
         batch.clear();
         batch.sendKeys("7");
-        byId("settings-save").click();
-        browser.await(d -> byId("settings-history").getText().contains("lead · batch size 6 → 7"), "the change listed");
+        browser.byId("settings-save").click();
+        browser.await(d -> browser.byId("settings-history").getText().contains("lead · batch size 6 → 7"), "the change listed");
         // The setting made through the API before is listed too, with its before and after.
-        assertTrue(byId("settings-history").getText().contains("double label share 0.1 → 1"),
-                byId("settings-history").getText());
+        assertTrue(browser.byId("settings-history").getText().contains("double label share 0.1 → 1"),
+                browser.byId("settings-history").getText());
         assertEquals(2, db.history().of(db.pools().require("gauges").id(), "settings").size());
         browser.screenshot("16-overview-settings");
 
         signIn("rey");
         browser.driver.get(base() + "overview.html?pool=gauges");
-        browser.await(d -> byId("settings-history").getText().contains("batch size 6 → 7"), "the history for a reviewer");
+        browser.await(d -> browser.byId("settings-history").getText().contains("batch size 6 → 7"), "the history for a reviewer");
         assertTrue(browser.driver.findElements(By.id("settings-save")).isEmpty(), "a reviewer cannot save settings");
-        assertTrue(byId("settings").findElement(By.name("batch_size")).getAttribute("disabled") != null);
+        assertTrue(browser.byId("settings").findElement(By.name("batch_size")).getAttribute("disabled") != null);
     }
 }
