@@ -3,6 +3,8 @@ package dev.dowser.cli;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.model.Activation;
 import dev.dowser.model.Prior;
+import dev.dowser.sampler.ChainConfig;
+import dev.dowser.sampler.ChainSet;
 import dev.dowser.sampler.Health;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.PosteriorSampler;
@@ -97,8 +99,8 @@ final class FitCommand implements Callable<Integer> {
         SamplerConfig config = new SamplerConfig(KernelChoice.parse(kernel), SamplerConfig.DEFAULT_MALA_MAX_ROWS,
                 hidden, Activation.valueOf(activation.toUpperCase(java.util.Locale.ROOT)),
                 new Prior(priorScale, Prior.DEFAULT_BIAS_SCALE, hierarchical, Prior.DEFAULT_HYPER_SHAPE), chains,
-                draws, burnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS, thin, 128, learningRate, 0, temperature,
-                seed, dev.dowser.sampler.ChainSet.defaultThreads(chains));
+                draws, burnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS, thin, ChainConfig.DEFAULT_BATCH_ROWS, learningRate, 0,
+                temperature, seed, ChainSet.defaultThreads(chains));
         float[] probe = Arrays.copyOf(test.x(), Math.min(PROBE_ROWS, test.rows()) * test.cols());
         Sample sample = new PosteriorSampler(config).sample(train.x(), train.labels(), classes, null, probe, 0);
         float[] p = Predictive.meanProbabilities(sample.layout(), sample.draws(), test.x(), test.rows());
