@@ -5,7 +5,7 @@ import io.undertow.server.handlers.resource.ClassPathResourceManager;
 import io.undertow.server.handlers.resource.ResourceHandler;
 import io.undertow.util.Headers;
 
-/** The pages, scripts and styles under {@code web/}, served from the jar. */
+/** The pages, scripts and styles under {@code web/}, served from the jar; {@link Gate} adds the security headers. */
 final class StaticFiles {
 
     /** Pages revalidate on every load so a new version is seen at once; assets may be cached briefly. */
@@ -24,7 +24,6 @@ final class StaticFiles {
             String path = exchange.getRelativePath();
             boolean page = path.endsWith("/") || path.endsWith(".html");
             exchange.getResponseHeaders().put(Headers.CACHE_CONTROL, page ? PAGE_CACHE : ASSET_CACHE);
-            exchange.getResponseHeaders().put(Headers.X_CONTENT_TYPE_OPTIONS, "nosniff");
             files.handleRequest(exchange);
         };
     }
