@@ -19,18 +19,25 @@ final class Access {
     static final Set<Role> REVIEWERS = EnumSet.of(Role.REVIEWER, Role.ADMIN);
     static final Set<Role> ADMINS = EnumSet.of(Role.ADMIN);
 
-    /** One API route (path relative to {@code /api/v1}; {@code {x}} matches one path segment). */
-    record Route(String method, String template, Set<Role> roles) {
+    /**
+     * One route (an API path relative to {@code /api/v1}, or a page's path); {@code {x}} matches one
+     * path segment. The template is split once, here, not on every request.
+     */
+    record Route(String method, String template, Set<Role> roles, List<String> segments) {
 
-        boolean matches(String path) {
-            String[] want = template.split("/", -1);
-            String[] got = path.split("/", -1);
-            if (want.length != got.length) {
+        Route(String method, String template, Set<Role> roles) {
+            this(method, template, roles, List.of(template.split("/", -1)));
+        }
+
+        /** Whether a path, split at its slashes, fits the template. */
+        boolean matches(String[] path) {
+            if (segments.size() != path.length) {
                 return false;
             }
-            for (int i = 0; i < want.length; i++) {
-                boolean any = want[i].startsWith("{") && want[i].endsWith("}");
-                if (any ? got[i].isEmpty() : !want[i].equals(got[i])) {
+            for (int i = 0; i < path.length; i++) {
+                String want = segments.get(i);
+                boolean any = want.startsWith("{") && want.endsWith("}");
+                if (any ? path[i].isEmpty() : !want.equals(path[i])) {
                     return false;
                 }
             }
@@ -100,7 +107,8 @@ final class Access {
 
     /** True when some route has this path under another method: the answer is then 405, not 404. */
     static boolean apiPathExists(String path) {
-        return API.stream().anyMatch(r -> r.matches(path));
+        String[] split = path.split("/", -1);
+        return API.stream().anyMatch(r -> r.matches(split));
     }
 
     static Optional<Route> page(String method, String path) {
@@ -113,6 +121,7 @@ final class Access {
     }
 
     private static Optional<Route> find(List<Route> routes, String method, String path) {
-        return routes.stream().filter(r -> r.method().equals(method) && r.matches(path)).findFirst();
+        String[] split = path.split("/", -1);
+        return routes.stream().filter(r -> r.method().equals(method) && r.matches(split)).findFirst();
     }
 }
