@@ -2,6 +2,7 @@
 import { getJson, postJson } from './api.js';
 import { showAccount } from './account.js';
 import { recordBody } from './fields.js';
+import { showMessage } from './dom.js';
 
 const $ = (id) => document.getElementById(id);
 const BELIEF_KEY = 'dowser.showBelief';
@@ -20,10 +21,7 @@ const state = {
   progress: null,
 };
 
-function say(text, isError = false) {
-  $('desk-message').textContent = text;
-  $('desk-message').className = isError ? 'message error' : 'message';
-}
+const say = (text, isError = false) => showMessage('desk-message', text, isError);
 
 function showProgress(progress) {
   if (progress) {

@@ -1,12 +1,10 @@
 // Signing in, or on a fresh server creating the first admin with the console's setup code.
 import { getJson } from './api.js';
+import { showMessage } from './dom.js';
 
 const $ = (id) => document.getElementById(id);
 
-function say(text) {
-  $('login-message').textContent = text;
-  $('login-message').className = 'message error';
-}
+const say = (text) => showMessage('login-message', text, true);
 
 /** Only a path on this site may be the page to return to, never another site. */
 function nextPage() {

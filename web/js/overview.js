@@ -2,17 +2,10 @@
 import { showAccount } from './account.js';
 import { getJson, postJson, putJson, apiUrl } from './api.js';
 import { bandChart, barList } from './charts.js';
+import { cell, showMessage } from './dom.js';
 
 const $ = (id) => document.getElementById(id);
 let pool = null;
-
-function cell(row, text, className) {
-  const td = document.createElement('td');
-  td.textContent = text;
-  if (className) td.className = className;
-  row.append(td);
-  return td;
-}
 
 function headCell(row, text) {
   const th = document.createElement('th');
@@ -105,9 +98,8 @@ async function showRounds() {
   }
   const failed = r.rounds.find((x) => x.status === 'failed');
   if (failed && failed.round === r.rounds[0].round) {
-    $('overview-message').textContent = `Round ${failed.round} failed: ${failed.message}. `
-      + 'The previous queue stays in service.';
-    $('overview-message').className = 'message error';
+    showMessage('overview-message', `Round ${failed.round} failed: ${failed.message}. `
+      + 'The previous queue stays in service.', true);
   } else {
     $('overview-message').textContent = '';
   }
@@ -137,8 +129,7 @@ async function refresh() {
     await Promise.all([showPool(), showAccuracy(), showRounds(), showQueue(),
       getJson(`pools/${encodeURIComponent(pool)}/agreement`).then(showAgreement), showSettings()]);
   } catch (error) {
-    $('overview-message').textContent = error.message;
-    $('overview-message').className = 'message error';
+    showMessage('overview-message', error.message, true);
   }
 }
 
@@ -228,13 +219,11 @@ async function saveSettings(event) {
   for (const f of SETTINGS) body[f] = f === 'strategy' ? form.elements[f].value : Number(form.elements[f].value);
   try {
     await putJson(`pools/${encodeURIComponent(pool)}/settings`, body);
-    $('settings-message').textContent = 'Saved; the next round uses them.';
-    $('settings-message').className = 'message';
+    showMessage('settings-message', 'Saved; the next round uses them.');
     if (document.activeElement) document.activeElement.blur();
     await showSettings();
   } catch (e) {
-    $('settings-message').textContent = e.message;
-    $('settings-message').className = 'message error';
+    showMessage('settings-message', e.message, true);
   }
 }
 

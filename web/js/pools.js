@@ -2,16 +2,10 @@
 import { showAccount } from './account.js';
 import { getJson, postBody, apiUrl } from './api.js';
 import { recordBody } from './fields.js';
+import { el, showMessage } from './dom.js';
 
 const PAGE = 24;
 const $ = (id) => document.getElementById(id);
-
-function text(tag, className, value) {
-  const el = document.createElement(tag);
-  if (className) el.className = className;
-  el.textContent = value;
-  return el;
-}
 
 async function showPools() {
   const { pools } = await getJson('pools');
@@ -21,8 +15,8 @@ async function showPools() {
   for (const pool of pools) {
     const a = document.createElement('a');
     a.href = `overview.html?pool=${encodeURIComponent(pool.name)}`;
-    a.append(text('div', 'pool-name', pool.name));
-    a.append(text('div', 'pool-meta', `${pool.records.toLocaleString()} records · ${pool.labelled.toLocaleString()} labelled`));
+    a.append(el('div', 'pool-name', pool.name));
+    a.append(el('div', 'pool-meta', `${pool.records.toLocaleString()} records · ${pool.labelled.toLocaleString()} labelled`));
     const meter = document.createElement('div');
     meter.className = 'meter';
     const fill = document.createElement('span');
@@ -51,7 +45,7 @@ async function showPool(name, offset) {
   for (const c of pool.classes) {
     const chip = document.createElement('span');
     chip.className = 'class-chip';
-    if (c.key) chip.append(text('kbd', null, c.key));
+    if (c.key) chip.append(el('kbd', null, c.key));
     chip.append(document.createTextNode(`${c.name} · ${c.labelled}`));
     chips.append(chip);
   }
@@ -68,8 +62,8 @@ async function showPool(name, offset) {
     card.className = 'record';
     const head = document.createElement('div');
     head.className = 'record-head';
-    head.append(text('span', 'record-id', r.id));
-    head.append(text('span', 'record-label', r.label ? `${r.label} · ${r.labelled_by}` : ''));
+    head.append(el('span', 'record-id', r.id));
+    head.append(el('span', 'record-label', r.label ? `${r.label} · ${r.labelled_by}` : ''));
     card.append(head, recordBody(r.fields));
     records.append(card);
   }
@@ -86,9 +80,7 @@ function go(name, offset) {
 }
 
 function fail(error) {
-  const message = $('import-message') || $('page-message');
-  message.textContent = error.message;
-  message.className = 'message error';
+  showMessage($('import-message') ? 'import-message' : 'page-message', error.message, true);
   if ($('add-pool')) $('add-pool').hidden = false;
 }
 
@@ -131,7 +123,7 @@ async function previewFile(event) {
     const names = document.createElement('tr');
     const roles = document.createElement('tr');
     preview.columns.forEach((column, i) => {
-      names.append(text('th', column.numeric ? 'numeric' : 'text', column.name));
+      names.append(el('th', column.numeric ? 'numeric' : 'text', column.name));
       const td = document.createElement('td');
       const select = document.createElement('select');
       select.name = `role-${i}`;
@@ -150,15 +142,14 @@ async function previewFile(event) {
     body.replaceChildren();
     for (const values of preview.rows) {
       const tr = document.createElement('tr');
-      for (const v of values) tr.append(text('td', null, v === null ? '' : v));
+      for (const v of values) tr.append(el('td', null, v === null ? '' : v));
       body.append(tr);
     }
     $('import-form').hidden = true;
     $('mapping').hidden = false;
     message.textContent = '';
   } catch (error) {
-    message.className = 'message error';
-    message.textContent = error.message;
+    showMessage('import-message', error.message, true);
   }
 }
 
@@ -221,8 +212,7 @@ async function importFile(event) {
     $('import-form').reset();
     await showPools();
   } catch (error) {
-    message.className = 'message error';
-    message.textContent = error.message;
+    showMessage('import-message', error.message, true);
   } finally {
     $('import-button').disabled = false;
   }

@@ -3,22 +3,13 @@
 import { getJson, postJson } from './api.js';
 import { showAccount } from './account.js';
 import { recordBody } from './fields.js';
+import { el, showMessage } from './dom.js';
 
 const PAGE = 20;
 const $ = (id) => document.getElementById(id);
 const state = { pool: null, classes: [], offset: 0, filter: {} };
 
-function el(tag, className, value) {
-  const e = document.createElement(tag);
-  if (className) e.className = className;
-  if (value !== undefined) e.textContent = value;
-  return e;
-}
-
-function say(text, isError = false) {
-  $('review-message').textContent = text;
-  $('review-message').className = isError ? 'message error' : 'message';
-}
+const say = (text, isError = false) => showMessage('review-message', text, isError);
 
 function query() {
   const q = new URLSearchParams({ show: state.filter.show || 'all', offset: state.offset, limit: PAGE });

@@ -1,13 +1,11 @@
 // Your account: who you are signed in as, your password, and your API tokens (made, shown once, revoked).
 import { getJson, postJson, putJson, deleteJson } from './api.js';
 import { showAccount } from './account.js';
+import { cell, showMessage } from './dom.js';
 
 const $ = (id) => document.getElementById(id);
 
-function say(text, isError = false) {
-  $('tokens-message').textContent = text;
-  $('tokens-message').className = isError ? 'message error' : 'message';
-}
+const say = (text, isError = false) => showMessage('tokens-message', text, isError);
 
 async function showTokens() {
   const { tokens } = await getJson('tokens');
@@ -15,12 +13,8 @@ async function showTokens() {
   body.replaceChildren();
   for (const t of tokens) {
     const row = document.createElement('tr');
-    for (const v of [t.name, new Date(t.created_at).toLocaleString(), t.revoked_at ? 'revoked' : 'live']) {
-      const td = document.createElement('td');
-      td.textContent = v;
-      row.append(td);
-    }
-    const td = document.createElement('td');
+    for (const v of [t.name, new Date(t.created_at).toLocaleString(), t.revoked_at ? 'revoked' : 'live']) cell(row, v);
+    const td = cell(row, '');
     if (!t.revoked_at) {
       const revoke = document.createElement('button');
       revoke.type = 'button';
@@ -36,7 +30,6 @@ async function showTokens() {
       });
       td.append(revoke);
     }
-    row.append(td);
     body.append(row);
   }
 }
@@ -59,20 +52,16 @@ $('new-token').addEventListener('submit', async (event) => {
 $('change-password').addEventListener('submit', async (event) => {
   event.preventDefault();
   const form = event.target;
-  const message = $('password-message');
   if (form.password.value !== form.again.value) {
-    message.textContent = 'the two new passwords differ';
-    message.className = 'message error';
+    showMessage('password-message', 'the two new passwords differ', true);
     return;
   }
   try {
     const done = await putJson('session/password', { current: form.current.value, password: form.password.value });
-    message.textContent = done.message;
-    message.className = 'message';
+    showMessage('password-message', done.message);
     form.reset();
   } catch (e) {
-    message.textContent = e.message;
-    message.className = 'message error';
+    showMessage('password-message', e.message, true);
   }
 });
 

@@ -1,15 +1,13 @@
 // The accounts page (admins): list, add, change role, disable or enable, set a new password.
 import { getJson, postJson, putJson } from './api.js';
 import { showAccount } from './account.js';
+import { cell, showMessage } from './dom.js';
 
 const $ = (id) => document.getElementById(id);
 const ROLES = ['labeller', 'reviewer', 'admin'];
 let me = null;
 
-function say(text, isError = false) {
-  $('users-message').textContent = text;
-  $('users-message').className = isError ? 'message error' : 'message';
-}
+const say = (text, isError = false) => showMessage('users-message', text, isError);
 
 async function change(name, body, done) {
   try {
@@ -19,14 +17,6 @@ async function change(name, body, done) {
   } catch (e) {
     say(e.message, true);
   }
-}
-
-function cell(row, value) {
-  const td = document.createElement('td');
-  if (value instanceof Node) td.append(value);
-  else td.textContent = value;
-  row.append(td);
-  return td;
 }
 
 async function showUsers() {
