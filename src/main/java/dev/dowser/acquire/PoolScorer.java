@@ -1,6 +1,6 @@
 package dev.dowser.acquire;
 
-import dev.dowser.kernel.Blas;
+import dev.dowser.blas.Blas;
 import dev.dowser.model.Activation;
 import dev.dowser.model.Architecture;
 import dev.dowser.model.Layout;

@@ -12,9 +12,9 @@ import java.io.Writer;
 import java.lang.management.ManagementFactory;
 import java.lang.management.MemoryPoolMXBean;
 import java.lang.management.MemoryType;
+import java.nio.channels.FileChannel;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
-import java.nio.channels.FileChannel;
 import java.nio.file.Path;
 import java.nio.file.StandardOpenOption;
 import java.time.Clock;
@@ -22,8 +22,8 @@ import java.util.SplittableRandom;
 import java.util.concurrent.Callable;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Model.CommandSpec;
-import picocli.CommandLine.Spec;
 import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
 
 @Command(name = "bench", mixinStandardHelpOptions = true,
         description = {"Measures this machine and prints key=value lines.",
@@ -80,7 +80,7 @@ final class BenchCommand implements Callable<Integer> {
         }
         java.io.PrintWriter out = spec.commandLine().getOut();
         out.printf("cores=%d%nmax_heap_mib=%d%nblas=%s%n", Runtime.getRuntime().availableProcessors(),
-                Runtime.getRuntime().maxMemory() >> 20, dev.dowser.kernel.Blas.implementation());
+                Runtime.getRuntime().maxMemory() >> 20, dev.dowser.blas.Blas.implementation());
         out.flush();
         // The import runs first, on a fresh heap, so the pools the other suites build do not weigh on it.
         if (wants("import")) {

@@ -1,6 +1,6 @@
 package dev.dowser.cli;
 
-import dev.dowser.kernel.Blas;
+import dev.dowser.blas.Blas;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.PosteriorSampler;
 import dev.dowser.sampler.Sample;

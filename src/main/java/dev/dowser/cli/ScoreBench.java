@@ -1,7 +1,7 @@
 package dev.dowser.cli;
 
 import dev.dowser.acquire.PoolScorer;
-import dev.dowser.kernel.Blas;
+import dev.dowser.blas.Blas;
 import dev.dowser.model.Activation;
 import dev.dowser.model.Architecture;
 import dev.dowser.model.Layout;

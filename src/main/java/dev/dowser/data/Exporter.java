@@ -2,9 +2,9 @@ package dev.dowser.data;
 
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import dev.dowser.json.Json;
+import dev.dowser.labels.Resolution;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
-import dev.dowser.store.Resolution;
 import java.io.BufferedWriter;
 import java.io.IOException;
 import java.io.OutputStream;

@@ -1,6 +1,6 @@
 package dev.dowser.model;
 
-import dev.dowser.kernel.Blas;
+import dev.dowser.blas.Blas;
 
 /**
  * The network's forward pass and the gradient of its log-likelihood, hand-derived, batched over

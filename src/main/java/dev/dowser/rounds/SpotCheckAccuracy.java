@@ -1,10 +1,10 @@
 package dev.dowser.rounds;
 
 import dev.dowser.json.Json;
+import dev.dowser.labels.LabelRow;
 import dev.dowser.stats.Metrics;
 import dev.dowser.stats.Wilson;
 import dev.dowser.store.Database;
-import dev.dowser.store.LabelRow;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
 import java.util.ArrayList;

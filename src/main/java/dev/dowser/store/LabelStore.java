@@ -1,5 +1,7 @@
 package dev.dowser.store;
 
+import dev.dowser.labels.LabelRow;
+import dev.dowser.labels.Resolution;
 import java.sql.Connection;
 import java.sql.PreparedStatement;
 import java.sql.ResultSet;

@@ -1,5 +1,6 @@
 package dev.dowser.store;
 
+import dev.dowser.labels.LabelRow;
 import java.time.Instant;
 import java.util.Arrays;
 import java.util.Collections;

@@ -1,5 +1,7 @@
 package dev.dowser.store;
 
+import dev.dowser.labels.LabelRow;
+import dev.dowser.labels.Resolution;
 import java.io.IOException;
 import java.io.InputStream;
 import java.sql.Connection;

@@ -1,6 +1,6 @@
 package dev.dowser.team;
 
-import dev.dowser.store.Resolution;
+import dev.dowser.labels.Resolution;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;

@@ -1,11 +1,11 @@
 package dev.dowser.team;
 
+import dev.dowser.labels.Resolution;
 import dev.dowser.store.Database;
 import dev.dowser.store.LabelStore;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
-import dev.dowser.store.Resolution;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;

@@ -1,10 +1,8 @@
 package dev.dowser.store;
 
-import static org.junit.jupiter.api.Assertions.assertEquals;
-import static org.junit.jupiter.api.Assertions.assertNull;
-import static org.junit.jupiter.api.Assertions.assertThrows;
-
 import dev.dowser.TestSupport;
+import dev.dowser.labels.LabelRow;
+import dev.dowser.labels.Resolution;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.List;
@@ -13,6 +11,9 @@ import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertNull;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 
 /** How people's labels and reviews give a record's final label, all from appended rows. */
 class ResolutionTest {

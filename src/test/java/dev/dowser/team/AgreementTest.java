@@ -4,7 +4,7 @@ import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import dev.dowser.TestSupport;
-import dev.dowser.store.Resolution;
+import dev.dowser.labels.Resolution;
 import java.util.ArrayList;
 import java.util.List;
 import org.junit.jupiter.api.Test;

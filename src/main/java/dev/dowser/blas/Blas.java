@@ -1,4 +1,4 @@
-package dev.dowser.kernel;
+package dev.dowser.blas;
 
 import dev.ludovic.netlib.blas.BLAS;
 

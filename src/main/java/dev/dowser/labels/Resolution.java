@@ -1,4 +1,4 @@
-package dev.dowser.store;
+package dev.dowser.labels;
 
 import java.time.Instant;
 import java.util.List;
