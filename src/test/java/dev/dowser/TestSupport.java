@@ -27,6 +27,7 @@ import java.sql.ResultSet;
 import java.sql.SQLException;
 import java.sql.Statement;
 import java.time.Clock;
+import java.time.Duration;
 import java.time.Instant;
 import java.time.ZoneOffset;
 import java.util.ArrayList;
@@ -64,6 +65,36 @@ public final class TestSupport {
         return accounts.newToken(new Caller(name, role, null, null), "test");
     }
 
+    /** Something a test waits for; it may throw, which fails the wait at once. */
+    @FunctionalInterface
+    public interface Condition {
+        boolean holds() throws Exception;
+    }
+
+    /** How often {@link #await} looks again. */
+    static final Duration POLL = Duration.ofMillis(20);
+
+    /**
+     * Waits until {@code condition} holds, looking every 20 ms; fails after {@code deadline}, naming
+     * {@code what} was awaited. The one way tests wait: none waits without end.
+     */
+    public static void await(Duration deadline, Condition condition, String what) {
+        long until = System.nanoTime() + deadline.toNanos();
+        try {
+            while (!condition.holds()) {
+                if (System.nanoTime() - until > 0) {
+                    throw new AssertionError("waited " + deadline.toSeconds() + " s for " + what + "; it never came");
+                }
+                Thread.sleep(POLL.toMillis());
+            }
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            throw new AssertionError("interrupted while waiting for " + what, e);
+        } catch (Exception e) {
+            throw new AssertionError("failed while waiting for " + what + ": " + e.getMessage(), e);
+        }
+    }
+
     public static Database openDb(Path dir) {
         return Database.open(dir, CLOCK);
     }
@@ -73,7 +104,7 @@ public final class TestSupport {
 
         private volatile Instant now = NOW;
 
-        public void advance(java.time.Duration d) {
+        public void advance(Duration d) {
             now = now.plus(d);
         }
 

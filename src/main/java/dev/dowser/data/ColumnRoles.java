@@ -1,5 +1,6 @@
 package dev.dowser.data;
 
+import dev.dowser.json.Json;
 import java.util.List;
 
 /**
@@ -18,5 +19,10 @@ public record ColumnRoles(String id, List<String> features, List<String> display
         features = List.copyOf(features);
         display = List.copyOf(display);
         categorical = List.copyOf(categorical);
+    }
+
+    /** The roles as kept with a pool. */
+    public static ColumnRoles parse(String json) {
+        return Json.read(json, ColumnRoles.class);
     }
 }

@@ -46,7 +46,7 @@ public final class Exporter {
     /** Writes every labelled record of {@code poolName}; returns how many. */
     public long export(String poolName, FileFormat format, OutputStream out) {
         PoolRow pool = db.pools().require(poolName);
-        ColumnRoles roles = Json.read(pool.columnRolesJson(), ColumnRoles.class);
+        ColumnRoles roles = ColumnRoles.parse(pool.columnRolesJson());
         List<String> header = header(roles.display());
         Writer w = new BufferedWriter(new OutputStreamWriter(out, StandardCharsets.UTF_8), 1 << 16);
         long[] count = {0};

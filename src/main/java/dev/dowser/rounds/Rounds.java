@@ -33,6 +33,16 @@ public final class Rounds implements AutoCloseable {
                 new RoundWorker(service, p, PoolSettings.parse(db.pools().require(p).settingsJson()).batchSize()));
     }
 
+    /**
+     * Changes a pool's settings in {@code actor}'s name (kept in the history) and tells its worker
+     * the new batch size; returns them.
+     */
+    public PoolSettings changeSettings(String pool, PoolSettings next, String actor) {
+        db.pools().updateSettings(db.pools().require(pool).id(), next.toJson(), actor);
+        worker(pool).batchChanged(next.batchSize());
+        return next;
+    }
+
     @Override
     public void close() {
         workers.values().forEach(RoundWorker::close);

@@ -89,7 +89,48 @@ public final class RecordStore {
      * quick; records already cached are not read again.
      */
     public void warm(long poolId, long[] rows) {
-        long[] sorted = Arrays.stream(rows).filter(r -> cache.get(poolId, r) == null).sorted().distinct().toArray();
+        decode(poolId, rows);
+    }
+
+    /**
+     * The records at {@code rows}, in that order, with their final labels: each block is read once
+     * (records cached are not read again) and the labels in one query, for lists that show many
+     * records, such as the served queue and the review page.
+     */
+    public List<RecordRow> rows(long poolId, long[] rows) {
+        if (rows.length == 0) {
+            return List.of();
+        }
+        Map<Long, RecordRow> found = decode(poolId, rows);
+        long from = Arrays.stream(rows).min().orElseThrow();
+        long to = Arrays.stream(rows).max().orElseThrow() + 1;
+        Map<Long, LabelRow> current = new HashMap<>();
+        labels.forEachCurrent(poolId, from, to, l -> {
+            if (found.containsKey(l.row())) {
+                current.put(l.row(), l);
+            }
+        });
+        List<RecordRow> out = new ArrayList<>(rows.length);
+        for (long row : rows) {
+            RecordRow r = found.get(row);
+            if (r == null) {
+                throw new NotFoundException("pool " + poolId + " has no record at row " + row);
+            }
+            out.add(r.withLabel(current.get(row)));
+        }
+        return out;
+    }
+
+    /** Decodes the records at {@code rows} (without labels), from the cache or their blocks, and caches them. */
+    private Map<Long, RecordRow> decode(long poolId, long[] rows) {
+        Map<Long, RecordRow> found = new HashMap<>();
+        for (long r : rows) {
+            RecordRow cached = cache.get(poolId, r);
+            if (cached != null) {
+                found.put(r, cached);
+            }
+        }
+        long[] sorted = Arrays.stream(rows).filter(r -> !found.containsKey(r)).sorted().distinct().toArray();
         int i = 0;
         while (i < sorted.length) {
             int[] next = {i};
@@ -108,13 +149,16 @@ public final class RecordStore {
                 String[][] display = block.display(wanted);
                 for (int j = from; j < to; j++) {
                     int k = wanted[j - from];
-                    cache.put(poolId, sorted[j], new RecordRow(sorted[j], keys[k], lines[k],
-                            Arrays.asList(display[j - from]), null, null, null, null));
+                    RecordRow r = new RecordRow(sorted[j], keys[k], lines[k], Arrays.asList(display[j - from]), null,
+                            null, null, null);
+                    cache.put(poolId, sorted[j], r);
+                    found.put(sorted[j], r);
                 }
                 next[0] = to;
             });
             i = Math.max(i + 1, next[0]);
         }
+        return found;
     }
 
     public Optional<RecordRow> find(long poolId, String key) {
@@ -125,6 +169,12 @@ public final class RecordStore {
     public Optional<Long> rowOf(long poolId, String key) {
         long row = index(poolId).find(key, r -> keyOf(poolId, r));
         return row < 0 ? Optional.empty() : Optional.of(row);
+    }
+
+    /** The place of record {@code key} in {@code pool}; not found when the pool has no such record. */
+    public long requireRow(PoolRow pool, String key) {
+        return rowOf(pool.id(), key).orElseThrow(() ->
+                new NotFoundException("no record '" + key + "' in pool '" + pool.name() + "'"));
     }
 
     /** The id of the record at {@code row}: from the cache, else from its block's keys alone. */

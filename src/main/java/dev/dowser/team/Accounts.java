@@ -1,5 +1,6 @@
 package dev.dowser.team;
 
+import dev.dowser.store.ConflictException;
 import dev.dowser.store.Database;
 import dev.dowser.store.SessionRow;
 import dev.dowser.store.TokenRow;
@@ -93,6 +94,31 @@ public final class Accounts {
 
     public List<UserRow> list() {
         return db.users().list();
+    }
+
+    /**
+     * An admin's change to an account: any of a new role, disabled or enabled, a new password (null
+     * leaves each as it is). Nobody changes their own role or disables themselves, so that a team
+     * never loses its last admin by a slip; another admin must. Returns the account as it is now.
+     */
+    public UserRow change(String name, Role role, Boolean disabled, String password, String actor) {
+        UserRow account = db.users().require(name);
+        if (password != null) {
+            Passwords.check(password);
+        }
+        if (account.name().equals(actor) && (role != null || Boolean.TRUE.equals(disabled))) {
+            throw new ConflictException("you cannot change your own role or disable yourself; ask another admin");
+        }
+        if (role != null) {
+            changeRole(account.name(), role, actor);
+        }
+        if (disabled != null) {
+            setDisabled(account.name(), disabled, actor);
+        }
+        if (password != null) {
+            resetPassword(account.name(), password, actor);
+        }
+        return db.users().require(account.name());
     }
 
     public void changeRole(String name, Role role, String actor) {

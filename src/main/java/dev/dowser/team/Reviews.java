@@ -1,11 +1,13 @@
 package dev.dowser.team;
 
+import dev.dowser.data.ColumnRoles;
 import dev.dowser.labels.Resolution;
 import dev.dowser.store.Database;
 import dev.dowser.store.LabelStore;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
+import dev.dowser.store.RecordRow;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
@@ -52,11 +54,14 @@ public final class Reviews {
     }
 
     /** One listed record: where its labels stand, the model's view (may be null), whether it was a spot check. */
-    public record Item(Resolution resolution, double[] model, boolean spotCheck) {
+    public record Item(RecordRow record, Resolution resolution, double[] model, boolean spotCheck) {
     }
 
-    /** One page of the filtered records, how many pass the filter, and everyone who labelled in the pool. */
-    public record Page(List<Item> items, int total, List<String> people) {
+    /**
+     * One page of the filtered records, how many pass the filter, everyone who labelled in the pool,
+     * and the pool's display columns (the names of each record's display values).
+     */
+    public record Page(List<Item> items, int total, List<String> people, List<String> display) {
     }
 
     private final Database db;
@@ -66,7 +71,8 @@ public final class Reviews {
     }
 
     /** The labelled records of {@code pool} that pass {@code filter}, in pool order, {@code limit} from {@code offset}. */
-    public Page find(PoolRow pool, Filter filter, int offset, int limit) {
+    public Page find(String poolName, Filter filter, int offset, int limit) {
+        PoolRow pool = db.pools().require(poolName);
         if (offset < 0 || limit < 1 || limit > MAX_PAGE) {
             throw new IllegalArgumentException("offset must be 0 or more and limit between 1 and " + MAX_PAGE);
         }
@@ -79,7 +85,7 @@ public final class Reviews {
         for (QueueEntry e : db.queues().spotChecks(pool.id())) {
             spot.add(e.row());
         }
-        List<Item> items = new ArrayList<>();
+        List<Resolution> found = new ArrayList<>();
         int[] total = {0};
         Set<String> people = new TreeSet<>();
         db.labels().forEachResolution(pool.id(), r -> {
@@ -88,12 +94,19 @@ public final class Reviews {
             if (!passes(r, model, spot.contains(r.row()), filter, pool.classes())) {
                 return;
             }
-            if (total[0] >= offset && items.size() < limit) {
-                items.add(new Item(r, model, spot.contains(r.row())));
+            if (total[0] >= offset && found.size() < limit) {
+                found.add(r);
             }
             total[0]++;
         });
-        return new Page(items, total[0], List.copyOf(people));
+        List<RecordRow> records = db.records().rows(pool.id(), found.stream().mapToLong(Resolution::row).toArray());
+        List<Item> items = new ArrayList<>(found.size());
+        for (int i = 0; i < found.size(); i++) {
+            Resolution r = found.get(i);
+            items.add(new Item(records.get(i), r, predictions.map(p -> p.of(r.row())).orElse(null),
+                    spot.contains(r.row())));
+        }
+        return new Page(items, total[0], List.copyOf(people), ColumnRoles.parse(pool.columnRolesJson()).display());
     }
 
     static boolean passes(Resolution r, double[] model, boolean spotCheck, Filter f, List<String> classes) {
@@ -137,7 +150,10 @@ public final class Reviews {
     }
 
     /** A reviewer's accept (the people's label becomes final) or override (a label and a reason). */
-    public Resolution decide(PoolRow pool, long row, Caller reviewer, String verdict, String label, String reason) {
+    public Resolution decide(String poolName, String record, Caller reviewer, String verdict, String label,
+                             String reason) {
+        PoolRow pool = db.pools().require(poolName);
+        long row = db.records().requireRow(pool, record);
         if (label != null) {
             pool.checkClass(label);
         }
@@ -147,8 +163,15 @@ public final class Reviews {
         return db.labels().review(pool.id(), row, reviewer.name(), verdict, label, reason);
     }
 
+    /** Every label, withdrawal and decision of one record, oldest first. */
+    public List<LabelStore.Entry> history(String poolName, String record) {
+        PoolRow pool = db.pools().require(poolName);
+        return db.labels().history(pool.id(), db.records().requireRow(pool, record));
+    }
+
     /** Agreement over every record of the pool that two or more people labelled. */
-    public Agreement agreement(PoolRow pool) {
+    public Agreement agreement(String poolName) {
+        PoolRow pool = db.pools().require(poolName);
         List<Resolution> shared = new ArrayList<>();
         db.labels().forEachResolution(pool.id(), r -> {
             if (r.opinions().size() > 1) {

@@ -1,6 +1,7 @@
 package dev.dowser.web;
 
 import com.fasterxml.jackson.databind.node.ObjectNode;
+import dev.dowser.desk.LabelEvents;
 import dev.dowser.json.Json;
 import dev.dowser.rounds.RoundEvents;
 import dev.dowser.rounds.RoundService;
@@ -20,7 +21,7 @@ import org.xnio.IoUtils;
  * A connection that falls {@value #MAX_UNSENT} events behind (a tab that stopped reading) is closed
  * instead of buffering without bound; a browser's EventSource reconnects on its own.
  */
-final class Events implements RoundEvents {
+final class Events implements RoundEvents, LabelEvents {
 
     static final long KEEP_ALIVE_MILLIS = 15_000;
     static final long RETRY_MILLIS = 2_000;
@@ -71,7 +72,8 @@ final class Events implements RoundEvents {
                 .put("kernel", o.kernel()).put("message", o.message()).put("seconds", o.seconds()));
     }
 
-    void labelChanged(String pool, String record, String change, int labelsToNextRound) {
+    @Override
+    public void labelChanged(String pool, String record, String change, int labelsToNextRound) {
         send(pool, "label", Json.object().put("record", record).put("change", change)
                 .put("labels_to_next_round", labelsToNextRound));
     }

@@ -19,8 +19,9 @@ import java.util.Set;
 /**
  * In front of every request: security headers, then who is asking (session cookie or bearer
  * token), then the forgery check for state-changing requests, then the role rule of
- * {@link Access}. Handlers behind it read the signed-in {@link Caller} from the exchange and never
- * decide access themselves.
+ * {@link Routes}, whose handler it then calls with the path's parameters bound. Handlers read the
+ * signed-in {@link Caller} from the exchange and never decide access themselves; whatever they
+ * throw becomes one error response in {@link Errors}.
  */
 final class Gate implements HttpHandler {
 
@@ -33,11 +34,13 @@ final class Gate implements HttpHandler {
     private static final Set<String> SAFE_METHODS = Set.of("GET", "HEAD", "OPTIONS");
 
     private final Accounts accounts;
-    private final HttpHandler next;
+    private final Routes routes;
+    private final HttpHandler assets;
 
-    Gate(Accounts accounts, HttpHandler next) {
+    Gate(Accounts accounts, Routes routes, HttpHandler assets) {
         this.accounts = accounts;
-        this.next = next;
+        this.routes = routes;
+        this.assets = assets;
     }
 
     @Override
@@ -53,10 +56,10 @@ final class Gate implements HttpHandler {
             ex.getResponseHeaders().put(new HttpString("Strict-Transport-Security"), "max-age=31536000");
         }
         String path = ex.getRelativePath();
-        boolean api = path.equals(Api.PREFIX) || path.startsWith(Api.PREFIX + "/");
+        boolean api = path.equals(Routes.API_PREFIX) || path.startsWith(Routes.API_PREFIX + "/");
         try {
             if (api) {
-                api(ex, path.substring(Api.PREFIX.length()));
+                api(ex, path.substring(Routes.API_PREFIX.length()));
             } else {
                 page(ex, path);
             }
@@ -79,36 +82,46 @@ final class Gate implements HttpHandler {
 
     private void api(HttpServerExchange ex, String path) throws Exception {
         String method = ex.getRequestMethod().toString();
-        Optional<Access.Route> route = Access.api(method, path);
-        if (route.isEmpty()) {
-            Errors.send(ex, Access.apiPathExists(path)
-                    ? new ApiException(405, method + " is not allowed on " + Api.PREFIX + path)
-                    : new ApiException(404, "no API call " + method + " " + Api.PREFIX + path));
+        Optional<Routes.Match> match = routes.api(method, path);
+        if (match.isEmpty()) {
+            Errors.send(ex, routes.apiPathExists(path)
+                    ? new ApiException(405, method + " is not allowed on " + Routes.API_PREFIX + path)
+                    : new ApiException(404, "no API call " + method + " " + Routes.API_PREFIX + path));
             return;
         }
-        admit(ex, route.get(), method);
-        next.handleRequest(ex);
+        admit(ex, match.get().route(), method);
+        call(ex, match.get());
+    }
+
+    /** Calls the route's handler with the path's parameters bound; anything it throws becomes an error response. */
+    private static void call(HttpServerExchange ex, Routes.Match match) {
+        match.params().forEach(ex::addQueryParam);
+        try {
+            match.route().handler().handleRequest(ex);
+        } catch (Exception e) {
+            Errors.send(ex, e);
+        }
     }
 
     private void page(HttpServerExchange ex, String path) throws Exception {
-        if (Access.isAsset(path)) {
-            next.handleRequest(ex);
+        if (Routes.isAsset(path)) {
+            assets.handleRequest(ex);
             return;
         }
         String method = ex.getRequestMethod().toString();
-        Optional<Access.Route> route = Access.page(method, path);
-        if (route.isEmpty()) {
+        Optional<Routes.Match> match = routes.page(method, path);
+        if (match.isEmpty()) {
             ex.setStatusCode(404);
             ex.getResponseHeaders().put(Headers.CONTENT_TYPE, "text/plain; charset=utf-8");
             ex.getResponseSender().send("no page at " + path, StandardCharsets.UTF_8);
             return;
         }
-        admit(ex, route.get(), method);
-        next.handleRequest(ex);
+        admit(ex, match.get().route(), method);
+        call(ex, match.get());
     }
 
     /** Signs the caller in, checks forgery for state changes and the route's roles; throws when refused. */
-    private void admit(HttpServerExchange ex, Access.Route route, String method) {
+    private void admit(HttpServerExchange ex, Route route, String method) {
         Optional<Caller> caller = caller(ex);
         caller.ifPresent(c -> ex.putAttachment(CALLER, c));
         boolean unsafe = !SAFE_METHODS.contains(method);

@@ -13,6 +13,8 @@ import java.util.List;
 final class Requests {
 
     static final int MAX_JSON_BODY_BYTES = 16_384;
+    /** Records per page when a call's {@code limit} is not given. */
+    static final int DEFAULT_PAGE = 50;
 
     private Requests() {
     }

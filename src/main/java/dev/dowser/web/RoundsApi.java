@@ -6,6 +6,9 @@ import static dev.dowser.web.Requests.param;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
+import dev.dowser.desk.Desk;
+import dev.dowser.desk.Progress;
+import dev.dowser.desk.QueuePlace;
 import dev.dowser.json.Json;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.Rounds;
@@ -15,12 +18,9 @@ import dev.dowser.store.Database;
 import dev.dowser.store.HistoryStore;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
-import dev.dowser.store.QueueStore;
-import dev.dowser.store.RecordRow;
 import dev.dowser.store.RoundStore;
 import dev.dowser.team.Role;
 import io.undertow.server.HttpServerExchange;
-import io.undertow.server.RoutingHandler;
 import java.io.IOException;
 import java.util.Iterator;
 import java.util.List;
@@ -29,31 +29,25 @@ import java.util.Map;
 /** What the overview shows of a pool's rounds: their list and health, the served queue, spot-check accuracy, settings. */
 final class RoundsApi {
 
+    static final List<String> SETTINGS = List.of("batch_size", "spot_check_share", "lease_minutes", "strategy",
+            "double_label_share");
+
     private final Database db;
     private final Rounds rounds;
+    private final Desk desk;
 
-    RoundsApi(Database db, Rounds rounds) {
+    RoundsApi(Database db, Rounds rounds, Desk desk) {
         this.db = db;
         this.rounds = rounds;
+        this.desk = desk;
     }
 
-    void addTo(RoutingHandler routes) {
-        routes.get("/pools/{pool}/rounds", this::list)
-                .post("/pools/{pool}/rounds", this::request)
-                .get("/pools/{pool}/queue", this::queue)
-                .get("/pools/{pool}/accuracy", this::accuracy)
-                .get("/pools/{pool}/settings", this::settings)
-                .put("/pools/{pool}/settings", this::changeSettings)
-                .get("/pools/{pool}/settings/history", this::settingsHistory);
-    }
-
-    private void list(HttpServerExchange ex) {
+    void list(HttpServerExchange ex) {
         PoolRow pool = db.pools().require(param(ex, "pool"));
         ArrayNode out = Json.array();
         for (RoundStore.RoundRow r : db.rounds().list(pool.id())) {
             ObjectNode n = out.addObject().put("round", r.round()).put("status", r.status())
-                    .put("started_at", r.startedAt().toString())
-                    .put("finished_at", r.finishedAt() == null ? null : r.finishedAt().toString())
+                    .put("started_at", r.startedAt().toString()).put("finished_at", Views.time(r.finishedAt()))
                     .put("labels_at_start", r.labelsAtStart()).put("kernel", r.kernel()).put("message", r.message());
             if (r.finishedAt() != null) {
                 n.put("seconds", (r.finishedAt().toEpochMilli() - r.startedAt().toEpochMilli()) / 1000.0);
@@ -64,42 +58,41 @@ final class RoundsApi {
         }
         ObjectNode body = Json.object();
         body.set("rounds", out);
-        db.queues().servedRound(pool.id()).ifPresent(round -> body.put("served_round", round));
-        body.put("labels_to_next_round", rounds.worker(pool.name()).labelsToNextRound());
+        Progress p = desk.progress(pool.name());
+        if (p.servedRound() != null) {
+            body.put("served_round", p.servedRound());
+        }
+        body.put("labels_to_next_round", p.labelsToNextRound());
         Responses.ok(ex, body);
     }
 
-    private void request(HttpServerExchange ex) {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
-        rounds.worker(pool.name()).request();
+    void request(HttpServerExchange ex) {
+        rounds.worker(db.pools().require(param(ex, "pool")).name()).request();
         Responses.json(ex, 202, Json.object().put("requested", true));
     }
 
     /** The served queue; labels are left out for labellers, so that a second labeller judges alone. */
-    private void queue(HttpServerExchange ex) {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
+    void queue(HttpServerExchange ex) {
         boolean showLabels = Gate.caller(ex, true).role().atLeast(Role.REVIEWER);
+        List<QueuePlace> served = desk.served(param(ex, "pool"), showLabels);
         ArrayNode entries = Json.array();
-        List<QueueStore.Served> served = db.queues().served(pool.id());
-        db.records().warm(pool.id(), served.stream().mapToLong(s -> s.entry().row()).toArray());
-        for (QueueStore.Served s : served) {
-            QueueEntry e = s.entry();
-            RecordRow r = db.records().page(pool.id(), e.row(), 1).get(0);
-            entries.addObject().put("position", e.position()).put("record", r.key()).put("score", e.score())
-                    .put("spot_check", e.spotCheck()).put("copies", e.copies()).put("labelled", s.labelled())
-                    .put("label", showLabels ? r.label() : null)
-                    .put("leased_to", e.leasedTo())
-                    .put("lease_until", e.leaseUntil() == null ? null : e.leaseUntil().toString());
+        for (QueuePlace place : served) {
+            QueueEntry e = place.entry();
+            entries.addObject().put("position", e.position()).put("record", place.record()).put("score", e.score())
+                    .put("spot_check", e.spotCheck()).put("copies", e.copies()).put("labelled", place.done())
+                    .put("label", place.label()).put("leased_to", e.leasedTo())
+                    .put("lease_until", Views.time(e.leaseUntil()));
         }
         ObjectNode body = Json.object();
-        db.queues().servedRound(pool.id()).ifPresent(round -> body.put("round", round));
+        if (!served.isEmpty()) {
+            body.put("round", served.get(0).entry().round());
+        }
         body.set("entries", entries);
         Responses.ok(ex, body);
     }
 
-    private void accuracy(HttpServerExchange ex) {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
-        SpotCheckAccuracy.Report report = SpotCheckAccuracy.of(db, pool);
+    void accuracy(HttpServerExchange ex) {
+        SpotCheckAccuracy.Report report = SpotCheckAccuracy.of(db, db.pools().require(param(ex, "pool")));
         ArrayNode points = Json.array();
         for (SpotCheckAccuracy.Point p : report.points()) {
             points.addObject().put("labels", p.labels()).put("checked", p.checked()).put("correct", p.correct())
@@ -117,36 +110,32 @@ final class RoundsApi {
         Responses.ok(ex, body);
     }
 
-    private void settings(HttpServerExchange ex) {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
-        Responses.ok(ex, settingsJson(PoolSettings.parse(pool.settingsJson())));
+    void settings(HttpServerExchange ex) {
+        Responses.ok(ex, settingsJson(PoolSettings.parse(db.pools().require(param(ex, "pool")).settingsJson())));
     }
 
     /** Changes some of the settings; fields not named keep their value, unknown fields are refused. */
-    private void changeSettings(HttpServerExchange ex) throws IOException {
+    void changeSettings(HttpServerExchange ex) throws IOException {
         PoolRow pool = db.pools().require(param(ex, "pool"));
         JsonNode body = jsonBody(ex, "a settings change");
-        PoolSettings now = PoolSettings.parse(pool.settingsJson());
         for (Iterator<Map.Entry<String, JsonNode>> it = body.fields(); it.hasNext(); ) {
             String field = it.next().getKey();
-            if (!field.equals("batch_size") && !field.equals("spot_check_share") && !field.equals("lease_minutes")
-                    && !field.equals("strategy") && !field.equals("double_label_share")) {
-                throw new ApiException(400, "unknown setting '" + field + "'; the settings are batch_size,"
-                        + " spot_check_share, lease_minutes, strategy and double_label_share");
+            if (!SETTINGS.contains(field)) {
+                throw new ApiException(400, "unknown setting '" + field + "'; the settings are "
+                        + String.join(", ", SETTINGS));
             }
         }
+        PoolSettings now = PoolSettings.parse(pool.settingsJson());
         PoolSettings next = new PoolSettings(Requests.optionalInt(body, "batch_size", now.batchSize()),
                 Requests.optionalNumber(body, "spot_check_share", now.spotCheckShare()),
                 Requests.optionalInt(body, "lease_minutes", now.leaseMinutes()),
                 body.has("strategy") ? Strategy.parse(body.get("strategy").asText()) : now.strategy(),
                 Requests.optionalNumber(body, "double_label_share", now.doubleLabelShare()));
-        db.pools().updateSettings(pool.id(), next.toJson(), Gate.caller(ex, true).name());
-        rounds.worker(pool.name()).batchChanged(next.batchSize());
-        Responses.ok(ex, settingsJson(next));
+        Responses.ok(ex, settingsJson(rounds.changeSettings(pool.name(), next, Gate.caller(ex, true).name())));
     }
 
     /** Every change of the pool's settings, oldest first: who, when, before and after. */
-    private void settingsHistory(HttpServerExchange ex) {
+    void settingsHistory(HttpServerExchange ex) {
         PoolRow pool = db.pools().require(param(ex, "pool"));
         ArrayNode changes = Json.array();
         for (HistoryStore.Change c : db.history().of(pool.id(), "settings")) {

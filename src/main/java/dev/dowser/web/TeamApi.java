@@ -12,10 +12,8 @@ import dev.dowser.store.TokenRow;
 import dev.dowser.store.UserRow;
 import dev.dowser.team.Accounts;
 import dev.dowser.team.Caller;
-import dev.dowser.team.Passwords;
 import dev.dowser.team.Role;
 import io.undertow.server.HttpServerExchange;
-import io.undertow.server.RoutingHandler;
 import io.undertow.server.handlers.CookieImpl;
 import java.io.IOException;
 import java.net.InetSocketAddress;
@@ -29,33 +27,18 @@ final class TeamApi {
         this.accounts = accounts;
     }
 
-    void addTo(RoutingHandler routes) {
-        routes.get("/setup", this::setupNeeded)
-                .post("/setup", this::setup)
-                .post("/session", this::login)
-                .get("/session", this::session)
-                .delete("/session", this::logout)
-                .put("/session/password", this::changeOwnPassword)
-                .get("/tokens", this::tokens)
-                .post("/tokens", this::newToken)
-                .delete("/tokens/{id}", this::revokeToken)
-                .get("/users", this::users)
-                .post("/users", this::addUser)
-                .put("/users/{name}", this::changeUser);
-    }
-
-    private void setupNeeded(HttpServerExchange ex) {
+    void setupNeeded(HttpServerExchange ex) {
         Responses.ok(ex, Json.object().put("setup_needed", accounts.setupNeeded()));
     }
 
-    private void setup(HttpServerExchange ex) throws IOException {
+    void setup(HttpServerExchange ex) throws IOException {
         JsonNode body = jsonBody(ex, "a setup request");
         UserRow admin = accounts.setup(requiredText(body, "code"), requiredText(body, "name"),
                 requiredText(body, "password"));
         Responses.json(ex, 201, userJson(admin));
     }
 
-    private void login(HttpServerExchange ex) throws IOException {
+    void login(HttpServerExchange ex) throws IOException {
         JsonNode body = jsonBody(ex, "a sign-in");
         Accounts.SignIn in = accounts.login(requiredText(body, "name"), requiredText(body, "password"), address(ex));
         ex.setResponseCookie(new CookieImpl(Gate.SESSION_COOKIE, in.token()).setPath("/").setHttpOnly(true)
@@ -63,11 +46,11 @@ final class TeamApi {
         Responses.ok(ex, callerJson(in.caller()));
     }
 
-    private void session(HttpServerExchange ex) {
+    void session(HttpServerExchange ex) {
         Responses.ok(ex, callerJson(Gate.caller(ex, true)));
     }
 
-    private void logout(HttpServerExchange ex) {
+    void logout(HttpServerExchange ex) {
         accounts.logout(Gate.caller(ex, true));
         ex.setResponseCookie(new CookieImpl(Gate.SESSION_COOKIE, "").setPath("/").setHttpOnly(true)
                 .setSameSiteMode("Strict").setMaxAge(0));
@@ -75,7 +58,7 @@ final class TeamApi {
     }
 
     /** Body {"current": ..., "password": ...}: the signed-in person's new password. */
-    private void changeOwnPassword(HttpServerExchange ex) throws IOException {
+    void changeOwnPassword(HttpServerExchange ex) throws IOException {
         JsonNode body = jsonBody(ex, "a password change");
         accounts.changeOwnPassword(Gate.caller(ex, true), requiredText(body, "current"), requiredText(body, "password"),
                 address(ex));
@@ -87,7 +70,7 @@ final class TeamApi {
         return ((InetSocketAddress) ex.getSourceAddress()).getAddress().getHostAddress();
     }
 
-    private void tokens(HttpServerExchange ex) {
+    void tokens(HttpServerExchange ex) {
         ArrayNode list = Json.array();
         for (TokenRow t : accounts.tokens(Gate.caller(ex, true))) {
             list.addObject().put("id", t.id()).put("name", t.name()).put("created_at", t.createdAt().toString())
@@ -96,14 +79,14 @@ final class TeamApi {
         Responses.ok(ex, Json.object().set("tokens", list));
     }
 
-    private void newToken(HttpServerExchange ex) throws IOException {
+    void newToken(HttpServerExchange ex) throws IOException {
         JsonNode body = jsonBody(ex, "a token request");
         String token = accounts.newToken(Gate.caller(ex, true), requiredText(body, "name"));
         Responses.json(ex, 201, Json.object().put("token", token)
                 .put("message", "this token is shown only now; keep it as you would a password"));
     }
 
-    private void revokeToken(HttpServerExchange ex) {
+    void revokeToken(HttpServerExchange ex) {
         long id;
         try {
             id = Long.parseLong(param(ex, "id"));
@@ -116,13 +99,13 @@ final class TeamApi {
         Responses.ok(ex, Json.object().put("revoked", id));
     }
 
-    private void users(HttpServerExchange ex) {
+    void users(HttpServerExchange ex) {
         ArrayNode list = Json.array();
         accounts.list().forEach(u -> list.add(userJson(u)));
         Responses.ok(ex, Json.object().set("users", list));
     }
 
-    private void addUser(HttpServerExchange ex) throws IOException {
+    void addUser(HttpServerExchange ex) throws IOException {
         JsonNode body = jsonBody(ex, "a new account");
         UserRow u = accounts.add(requiredText(body, "name"), Role.parse(requiredText(body, "role")),
                 requiredText(body, "password"), Gate.caller(ex, true).name());
@@ -130,10 +113,8 @@ final class TeamApi {
     }
 
     /** Changes any of role, disabled and password of an account. */
-    private void changeUser(HttpServerExchange ex) throws IOException {
-        String name = accounts.require(param(ex, "name")).name();
+    void changeUser(HttpServerExchange ex) throws IOException {
         JsonNode body = jsonBody(ex, "an account change");
-        String actor = Gate.caller(ex, true).name();
         body.fieldNames().forEachRemaining(f -> {
             if (!f.equals("role") && !f.equals("disabled") && !f.equals("password")) {
                 throw new ApiException(400, "unknown field '" + f + "': an account change may set role, disabled"
@@ -143,23 +124,11 @@ final class TeamApi {
         if (body.has("disabled") && !body.get("disabled").isBoolean()) {
             throw new ApiException(400, "field 'disabled' must be true or false");
         }
-        Role role = body.has("role") ? Role.parse(requiredText(body, "role")) : null;
-        if (body.has("password")) {
-            Passwords.check(requiredText(body, "password"));
-        }
-        if (name.equals(actor) && (role != null || body.path("disabled").asBoolean(false))) {
-            throw new ApiException(409, "you cannot change your own role or disable yourself; ask another admin");
-        }
-        if (role != null) {
-            accounts.changeRole(name, role, actor);
-        }
-        if (body.has("disabled")) {
-            accounts.setDisabled(name, body.get("disabled").asBoolean(), actor);
-        }
-        if (body.has("password")) {
-            accounts.resetPassword(name, requiredText(body, "password"), actor);
-        }
-        Responses.ok(ex, userJson(accounts.require(name)));
+        UserRow changed = accounts.change(param(ex, "name"),
+                body.has("role") ? Role.parse(requiredText(body, "role")) : null,
+                body.has("disabled") ? body.get("disabled").asBoolean() : null,
+                body.has("password") ? requiredText(body, "password") : null, Gate.caller(ex, true).name());
+        Responses.ok(ex, userJson(changed));
     }
 
     private static ObjectNode callerJson(Caller c) {

@@ -1,14 +1,15 @@
 package dev.dowser.web;
 
+import dev.dowser.desk.Desk;
 import dev.dowser.rounds.Rounds;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import dev.dowser.team.Accounts;
+import dev.dowser.team.Reviews;
 import dev.dowser.team.TeamConfig;
 import io.undertow.Handlers;
 import io.undertow.Undertow;
 import io.undertow.server.HttpHandler;
-import io.undertow.server.handlers.BlockingHandler;
 import io.undertow.server.handlers.GracefulShutdownHandler;
 import java.net.InetSocketAddress;
 import java.security.SecureRandom;
@@ -34,16 +35,18 @@ public final class WebServer implements AutoCloseable {
     private final Rounds rounds;
     private final Events events;
     private final Accounts accounts;
+    private final Routes routes;
     private final boolean tls;
 
     private WebServer(Undertow undertow, GracefulShutdownHandler graceful, ImportJobs imports, Rounds rounds,
-                      Events events, Accounts accounts, boolean tls) {
+                      Events events, Accounts accounts, Routes routes, boolean tls) {
         this.undertow = undertow;
         this.graceful = graceful;
         this.imports = imports;
         this.rounds = rounds;
         this.events = events;
         this.accounts = accounts;
+        this.routes = routes;
         this.tls = tls;
     }
 
@@ -61,10 +64,11 @@ public final class WebServer implements AutoCloseable {
         Events events = new Events();
         Rounds rounds = new Rounds(db, sampler, events);
         Accounts accounts = new Accounts(db, new SecureRandom(), team);
-        HttpHandler api = new BlockingHandler(guarded(new Api(db, imports, rounds, events, accounts).routes()));
-        HttpHandler routes = Handlers.path(StaticFiles.handler()).addPrefixPath(Api.PREFIX, api)
-                .addExactPath(Api.PREFIX + "/events", events.handler());
-        HttpHandler gate = new Gate(accounts, guarded(routes));
+        Desk desk = new Desk(db, rounds, events);
+        HttpHandler files = StaticFiles.handler();
+        Routes routes = new Routes(new TeamApi(accounts), new PoolsApi(db), new ImportsApi(imports), new DeskApi(desk),
+                new RoundsApi(db, rounds, desk), new ReviewApi(new Reviews(db)), events.handler(), files);
+        HttpHandler gate = new Gate(accounts, routes, files);
         GracefulShutdownHandler graceful = Handlers.gracefulShutdown(config.trustProxy()
                 ? Handlers.proxyPeerAddress(gate) : gate);
         Undertow.Builder builder = Undertow.builder().setHandler(graceful);
@@ -75,18 +79,12 @@ public final class WebServer implements AutoCloseable {
         }
         Undertow undertow = builder.build();
         undertow.start();
-        return new WebServer(undertow, graceful, imports, rounds, events, accounts, config.tls() != null);
+        return new WebServer(undertow, graceful, imports, rounds, events, accounts, routes, config.tls() != null);
     }
 
-    /** Every API exception, thrown anywhere below, becomes one JSON error response. */
-    private static HttpHandler guarded(HttpHandler next) {
-        return exchange -> {
-            try {
-                next.handleRequest(exchange);
-            } catch (Exception e) {
-                Errors.send(exchange, e);
-            }
-        };
+    /** The route table the server was started with. */
+    Routes routes() {
+        return routes;
     }
 
     /** Asks for a round of the pool now, as {@code POST /api/v1/pools/{pool}/rounds} does. */

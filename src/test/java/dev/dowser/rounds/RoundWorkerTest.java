@@ -19,7 +19,6 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.List;
-import java.util.function.BooleanSupplier;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -29,14 +28,8 @@ class RoundWorkerTest {
     @TempDir
     Path dir;
 
-    private static void await(BooleanSupplier done, String what) throws InterruptedException {
-        long until = System.nanoTime() + 60_000_000_000L;
-        while (!done.getAsBoolean()) {
-            if (System.nanoTime() > until) {
-                throw new AssertionError("timed out waiting for " + what);
-            }
-            Thread.sleep(20);
-        }
+    private static void await(TestSupport.Condition done, String what) {
+        TestSupport.await(Duration.ofSeconds(60), done, what);
     }
 
     @Test

@@ -51,6 +51,25 @@ class AccountsTest {
     }
 
     @Test
+    void anAdminChangesOthersButNeverTheirOwnRoleOrAccess() {
+        accounts.add("ada", Role.ADMIN, "long enough pw", "test");
+        accounts.add("ben", Role.LABELLER, "long enough pw", "test");
+        assertEquals("reviewer", accounts.change("ben", Role.REVIEWER, null, null, "ada").role());
+        assertTrue(accounts.change("ben", null, true, null, "ada").disabled());
+        var own = assertThrows(dev.dowser.store.ConflictException.class,
+                () -> accounts.change("ada", Role.LABELLER, null, null, "ada"));
+        assertEquals("you cannot change your own role or disable yourself; ask another admin", own.getMessage());
+        assertThrows(dev.dowser.store.ConflictException.class, () -> accounts.change("ada", null, true, null, "ada"));
+        assertEquals("admin", db.users().require("ada").role(), "a refused change leaves the account as it was");
+        IllegalArgumentException shortPassword = assertThrows(IllegalArgumentException.class,
+                () -> accounts.change("ben", Role.ADMIN, null, "short", "ada"));
+        assertTrue(shortPassword.getMessage().contains("password"), shortPassword.getMessage());
+        assertEquals("reviewer", db.users().require("ben").role(), "nothing of a refused change is kept");
+        accounts.change("ada", null, false, "a new long password", "ada");
+        assertTrue(accounts.login("ada", "a new long password", "10.0.0.9").token().length() > 0);
+    }
+
+    @Test
     void sessionsEndWhenIdleWhenTooOldAndOnSignOut() {
         accounts.add("ana", Role.LABELLER, "long enough pw", "test");
         String idle = accounts.login("ana", "long enough pw", "10.0.0.1").token();

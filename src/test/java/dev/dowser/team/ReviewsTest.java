@@ -48,8 +48,13 @@ class ReviewsTest {
     }
 
     private List<Long> rows(Reviews.Show show, String labeller, String label) {
-        return reviews.find(pool, new Reviews.Filter(show, labeller, label), 0, 50).items().stream()
+        return reviews.find(pool.name(), new Reviews.Filter(show, labeller, label), 0, 50).items().stream()
                 .map(i -> i.resolution().row()).toList();
+    }
+
+    /** The id of the record at {@code row}. */
+    private String id(long row) {
+        return db.records().page(pool.id(), row, 1).get(0).key();
     }
 
     @Test
@@ -61,17 +66,17 @@ class ReviewsTest {
         assertEquals(List.of(3L), rows(Reviews.Show.SPOT, null, null));
         assertEquals(List.of(1L, 2L), rows(Reviews.Show.ALL, "ben", null));
         assertEquals(List.of(1L, 2L), rows(Reviews.Show.ALL, null, "b"));
-        assertEquals(2, reviews.find(pool, new Reviews.Filter(Reviews.Show.ALL, null, null), 1, 2).items().size());
-        assertEquals(4, reviews.find(pool, new Reviews.Filter(Reviews.Show.ALL, null, null), 1, 2).total());
-        assertEquals(List.of("ana", "ben"), reviews.find(pool, new Reviews.Filter(Reviews.Show.SPOT, null, null), 0, 5)
+        assertEquals(2, reviews.find(pool.name(), new Reviews.Filter(Reviews.Show.ALL, null, null), 1, 2).items().size());
+        assertEquals(4, reviews.find(pool.name(), new Reviews.Filter(Reviews.Show.ALL, null, null), 1, 2).total());
+        assertEquals(List.of("ana", "ben"), reviews.find(pool.name(), new Reviews.Filter(Reviews.Show.SPOT, null, null), 0, 5)
                 .people(), "everyone who labelled, whatever the filter");
 
         // Overriding the disagreement resolves it but it stays findable as one.
-        reviews.decide(pool, 1, new Caller("rey", Role.REVIEWER, null, null), LabelStore.KIND_OVERRIDE, "b", "clear b");
+        reviews.decide(pool.name(), id(1), new Caller("rey", Role.REVIEWER, null, null), LabelStore.KIND_OVERRIDE, "b", "clear b");
         assertEquals(List.of(), rows(Reviews.Show.UNRESOLVED, null, null));
         assertEquals(List.of(1L), rows(Reviews.Show.DISAGREE, null, null));
         // Accepting the model's view by overriding ends the model filter's hit.
-        reviews.decide(pool, 2, new Caller("rey", Role.REVIEWER, null, null), LabelStore.KIND_OVERRIDE, "a",
+        reviews.decide(pool.name(), id(2), new Caller("rey", Role.REVIEWER, null, null), LabelStore.KIND_OVERRIDE, "a",
                 "the model is right");
         assertEquals(List.of(), rows(Reviews.Show.MODEL, null, null));
     }
@@ -83,7 +88,7 @@ class ReviewsTest {
         assertEquals("'z' is not one of the classes a, b", assertThrows(IllegalArgumentException.class,
                 () -> rows(Reviews.Show.ALL, null, "z")).getMessage());
         assertEquals("an override needs the label you choose", assertThrows(IllegalArgumentException.class,
-                () -> reviews.decide(pool, 1, new Caller("rey", Role.REVIEWER, null, null),
+                () -> reviews.decide(pool.name(), id(1), new Caller("rey", Role.REVIEWER, null, null),
                         LabelStore.KIND_OVERRIDE, null, "why")).getMessage());
     }
 }

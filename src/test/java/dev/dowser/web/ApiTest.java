@@ -14,6 +14,7 @@ import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
 import java.nio.file.Path;
+import java.time.Duration;
 import java.util.Map;
 import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
@@ -126,12 +127,8 @@ class ApiTest {
         HttpResponse<String> r = upload("pool=later", "a\n1\n2\n");
         assertEquals(202, r.statusCode());
         long id = Json.tree(r.body()).get("id").asLong();
-        String state = "";
-        for (int i = 0; i < 200 && !state.equals("done"); i++) {
-            state = Json.tree(send(at("/api/v1/imports/" + id)).body()).get("state").asText();
-            Thread.sleep(20);
-        }
-        assertEquals("done", state);
+        TestSupport.await(Duration.ofSeconds(30), () -> Json.tree(send(at("/api/v1/imports/" + id)).body())
+                .get("state").asText().equals("done"), "the import to finish");
     }
 
     /** Iris (Fisher 1936, as shipped by Debian's python3-sklearn) without its labels: a first round, a lease, a label. */
@@ -142,14 +139,11 @@ class ApiTest {
                 + "&classes=setosa,versicolor,virginica&wait=true").POST(HttpRequest.BodyPublishers.ofFile(iris.csv())));
         assertEquals(201, imported.statusCode(), imported.body());
         assertEquals(202, send(at("/api/v1/pools/iris/rounds").POST(HttpRequest.BodyPublishers.noBody())).statusCode());
-        JsonNode rounds = null;
-        for (int i = 0; i < 500; i++) {
-            rounds = Json.tree(send(at("/api/v1/pools/iris/rounds")).body());
-            if (rounds.has("served_round") && rounds.get("rounds").get(0).get("status").asText().equals("published")) {
-                break;
-            }
-            Thread.sleep(20);
-        }
+        TestSupport.await(Duration.ofSeconds(60), () -> {
+            JsonNode r = Json.tree(send(at("/api/v1/pools/iris/rounds")).body());
+            return r.has("served_round") && r.get("rounds").get(0).get("status").asText().equals("published");
+        }, "the first round to be published");
+        JsonNode rounds = Json.tree(send(at("/api/v1/pools/iris/rounds")).body());
         assertEquals(1, rounds.get("served_round").asInt(), rounds.toString());
         assertEquals("published", rounds.get("rounds").get(0).get("status").asText());
 

@@ -21,6 +21,7 @@ import java.net.http.HttpResponse;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.time.Duration;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
@@ -67,11 +68,8 @@ class DeskApiTest {
                 csv.toString());
         assertEquals(201, up.statusCode(), up.body());
         assertEquals(202, send("POST", "/api/v1/pools/iris/rounds", "").statusCode());
-        long until = System.nanoTime() + 60_000_000_000L;
-        while (db.queues().servedRound(db.pools().require("iris").id()).isEmpty()) {
-            assertTrue(System.nanoTime() < until, "the first round never arrived");
-            Thread.sleep(20);
-        }
+        long pool = db.pools().require("iris").id();
+        TestSupport.await(Duration.ofSeconds(60), () -> db.queues().servedRound(pool).isPresent(), "the first round");
     }
 
     @AfterEach

@@ -3,12 +3,14 @@ package dev.dowser.web;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.dowser.TestSupport;
 import io.undertow.Undertow;
 import io.undertow.server.handlers.PathHandler;
 import java.io.InputStream;
 import java.net.InetSocketAddress;
 import java.net.Socket;
 import java.nio.charset.StandardCharsets;
+import java.time.Duration;
 import org.junit.jupiter.api.Test;
 
 /** The event stream's bound: a reader that stops reading is cut off, not buffered for without end. */
@@ -26,9 +28,7 @@ class EventsTest {
             stalled.connect(new InetSocketAddress("127.0.0.1", port));
             stalled.getOutputStream().write(("GET /events?pool=p HTTP/1.1\r\nHost: 127.0.0.1\r\n\r\n")
                     .getBytes(StandardCharsets.US_ASCII));
-            while (events.openStreams() == 0) {
-                Thread.sleep(5);
-            }
+            TestSupport.await(Duration.ofSeconds(30), () -> events.openStreams() > 0, "the event stream to open");
             String record = "r".repeat(2_000);
             int sent = 0;
             // The socket buffers on both sides fill first (a few MB on loopback), then the unsent count rises.

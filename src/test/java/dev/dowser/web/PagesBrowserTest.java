@@ -20,6 +20,7 @@ import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.time.Duration;
 import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.LinkedHashMap;
@@ -240,10 +241,8 @@ class PagesBrowserTest {
                 .POST(HttpRequest.BodyPublishers.ofString(csv)).build(), HttpResponse.BodyHandlers.ofString());
         assertEquals(201, up.statusCode(), up.body());
         server.requestRound("hostile");
-        long until = System.nanoTime() + 30_000_000_000L;
-        while (db.queues().servedRound(db.pools().require("hostile").id()).isEmpty() && System.nanoTime() < until) {
-            Thread.sleep(50);
-        }
+        long pool = db.pools().require("hostile").id();
+        TestSupport.await(Duration.ofSeconds(60), () -> db.queues().servedRound(pool).isPresent(), "the first round");
 
         signIn("labeller-b");
         browser.driver.get(base() + "desk.html?pool=hostile");
@@ -313,15 +312,10 @@ class PagesBrowserTest {
         browser.screenshot("9-overview-failed-round");
     }
 
-    private void awaitRound(long poolId, int round, String status) throws InterruptedException {
-        long until = System.nanoTime() + 60_000_000_000L;
-        while (true) {
+    private void awaitRound(long poolId, int round, String status) {
+        TestSupport.await(Duration.ofSeconds(60), () -> {
             var rounds = db.rounds().list(poolId);
-            if (!rounds.isEmpty() && rounds.get(0).round() == round && rounds.get(0).status().equals(status)) {
-                return;
-            }
-            assertTrue(System.nanoTime() < until, "round " + round + " never became " + status + ": " + rounds);
-            Thread.sleep(20);
-        }
+            return !rounds.isEmpty() && rounds.get(0).round() == round && rounds.get(0).status().equals(status);
+        }, "round " + round + " to become " + status);
     }
 }

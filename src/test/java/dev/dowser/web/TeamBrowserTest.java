@@ -13,6 +13,7 @@ import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
 import java.nio.file.Path;
+import java.time.Duration;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
@@ -58,9 +59,7 @@ class TeamBrowserTest {
                 "{\"double_label_share\":1.0,\"batch_size\":6,\"spot_check_share\":0}").statusCode());
         server.requestRound("gauges");
         long pool = db.pools().require("gauges").id();
-        while (db.queues().servedRound(pool).isEmpty()) {
-            Thread.sleep(20);
-        }
+        TestSupport.await(Duration.ofSeconds(60), () -> db.queues().servedRound(pool).isPresent(), "the first round");
         for (String person : List.of("ana", "ben")) {
             for (int i = 0; i < 6; i++) {
                 JsonNode next = Json.tree(call(person, "POST", "api/v1/pools/gauges/queue/next", "{}").body());

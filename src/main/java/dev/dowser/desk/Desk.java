@@ -1,0 +1,138 @@
+package dev.dowser.desk;
+
+import dev.dowser.data.ColumnRoles;
+import dev.dowser.labels.LabelRow;
+import dev.dowser.rounds.PoolSettings;
+import dev.dowser.rounds.RoundWorker;
+import dev.dowser.rounds.Rounds;
+import dev.dowser.store.Database;
+import dev.dowser.store.LabelStore;
+import dev.dowser.store.PoolRow;
+import dev.dowser.store.QueueEntry;
+import dev.dowser.store.QueueStore;
+import dev.dowser.store.RecordRow;
+import java.time.Duration;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Optional;
+
+/**
+ * The labelling desk: the next record under a lease, a label, a skip, and taking a label back, each
+ * in the name of the person at the desk. Labels never wait for a round: the pool's worker only
+ * hears that one was added, and open pages hear of it through {@link LabelEvents}.
+ */
+public final class Desk {
+
+    static final String NOTHING_LEFT = "nothing to label in the served queue; the next round will bring more";
+
+    /** A label given: the record with its final label now, and the progress line. */
+    public record Labelled(RecordView record, Progress progress) {
+    }
+
+    /** A label taken back: which label it was, the record as it stands now, and the progress line. */
+    public record Withdrawn(String label, RecordView record, Progress progress) {
+    }
+
+    private final Database db;
+    private final Rounds rounds;
+    private final LabelEvents events;
+
+    public Desk(Database db, Rounds rounds, LabelEvents events) {
+        this.db = db;
+        this.rounds = rounds;
+        this.events = events;
+    }
+
+    /** Leases the next record of the served queue to {@code person}; a record they hold comes back first. */
+    public Offer next(String poolName, String person) {
+        PoolRow pool = db.pools().require(poolName);
+        Optional<QueueEntry> next = db.queues().lease(pool.id(), person, lease(pool));
+        if (next.isEmpty()) {
+            return Offer.none(NOTHING_LEFT, progress(pool));
+        }
+        QueueEntry e = next.get();
+        // Another person's label is not shown: a second labeller must judge on their own.
+        RecordView record = view(pool, e.row()).unlabelled();
+        // Sent for spot checks too; the desk keeps it hidden there unless asked, so they stay an honest test.
+        Belief belief = e.predictionJson() == null ? null : Belief.parse(e.predictionJson());
+        return new Offer(e.round(), e.position(), e.copies(), e.spotCheck(), e.score(), e.leaseUntil(), record, belief,
+                progress(pool), null);
+    }
+
+    /** Gives {@code person}'s lease on a queue place back at once, for the next person. */
+    public void skip(String poolName, String person, int round, int position) {
+        PoolRow pool = db.pools().require(poolName);
+        db.queues().release(pool.id(), round, position, person);
+    }
+
+    /** Labels {@code record} as {@code label} in {@code person}'s name, with an optional note. */
+    public Labelled label(String poolName, String person, String record, String label, String note) {
+        PoolRow pool = db.pools().require(poolName);
+        if (note != null && note.length() > LabelStore.MAX_NOTE_CHARS) {
+            throw new IllegalArgumentException("field 'note' may hold at most " + LabelStore.MAX_NOTE_CHARS
+                    + " characters");
+        }
+        pool.checkClass(label);
+        long row = db.records().requireRow(pool, record);
+        db.labels().add(pool.id(), row, label, person, note == null || note.isBlank() ? null : note);
+        RoundWorker worker = rounds.worker(pool.name());
+        worker.labelAdded();
+        events.labelChanged(pool.name(), record, "added", worker.labelsToNextRound());
+        return new Labelled(view(pool, row), progress(pool));
+    }
+
+    /**
+     * Takes back {@code person}'s label of {@code record}; the record returns to them if the served
+     * queue holds it. Refused when they have no label on it.
+     */
+    public Withdrawn undo(String poolName, String person, String record) {
+        PoolRow pool = db.pools().require(poolName);
+        long row = db.records().requireRow(pool, record);
+        LabelRow withdrawn = db.labels().withdraw(pool.id(), row, person);
+        db.queues().leaseRow(pool.id(), row, person, lease(pool));
+        RoundWorker worker = rounds.worker(pool.name());
+        worker.labelWithdrawn();
+        events.labelChanged(pool.name(), record, "withdrawn", worker.labelsToNextRound());
+        return new Withdrawn(withdrawn.label(), view(pool, row), progress(pool));
+    }
+
+    /** The progress line of a pool's desk. */
+    public Progress progress(String poolName) {
+        return progress(db.pools().require(poolName));
+    }
+
+    /**
+     * The served queue in order, each place with its record; labels are left out unless
+     * {@code withLabels} (a labeller sees none, so that a second labeller judges alone).
+     */
+    public List<QueuePlace> served(String poolName, boolean withLabels) {
+        PoolRow pool = db.pools().require(poolName);
+        List<QueueStore.Served> served = db.queues().served(pool.id());
+        List<RecordRow> records = db.records().rows(pool.id(), served.stream().mapToLong(s -> s.entry().row()).toArray());
+        List<QueuePlace> out = new ArrayList<>(served.size());
+        for (int i = 0; i < served.size(); i++) {
+            QueueStore.Served s = served.get(i);
+            RecordRow r = records.get(i);
+            out.add(new QueuePlace(s.entry(), r.key(), s.labelled(), withLabels ? r.label() : null));
+        }
+        return out;
+    }
+
+    /** The display columns of a pool's records, in their stored order. */
+    static List<String> display(PoolRow pool) {
+        return ColumnRoles.parse(pool.columnRolesJson()).display();
+    }
+
+    private Progress progress(PoolRow pool) {
+        return new Progress(db.queues().servedRound(pool.id()).orElse(null),
+                rounds.worker(pool.name()).labelsToNextRound());
+    }
+
+    private RecordView view(PoolRow pool, long row) {
+        return RecordView.of(db.records().page(pool.id(), row, 1).get(0), display(pool));
+    }
+
+    private static Duration lease(PoolRow pool) {
+        return Duration.ofMinutes(PoolSettings.parse(pool.settingsJson()).leaseMinutes());
+    }
+}

@@ -1,0 +1,104 @@
+package dev.dowser.web;
+
+import static dev.dowser.web.Requests.longQuery;
+import static dev.dowser.web.Requests.param;
+import static dev.dowser.web.Requests.query;
+
+import com.fasterxml.jackson.databind.node.ArrayNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import dev.dowser.data.ColumnRoles;
+import dev.dowser.data.Exporter;
+import dev.dowser.data.FeatureColumn;
+import dev.dowser.data.FeatureKind;
+import dev.dowser.data.FeatureSchema;
+import dev.dowser.data.FileFormat;
+import dev.dowser.data.LabelKeys;
+import dev.dowser.desk.RecordView;
+import dev.dowser.json.Json;
+import dev.dowser.store.Database;
+import dev.dowser.store.PoolRow;
+import dev.dowser.store.PoolSummary;
+import dev.dowser.store.RecordRow;
+import io.undertow.server.HttpServerExchange;
+import io.undertow.util.Headers;
+import java.util.List;
+import java.util.Map;
+
+/** The pools: the list, one pool's classes, columns and features, its records page by page, and its export. */
+final class PoolsApi {
+
+    private final Database db;
+
+    PoolsApi(Database db) {
+        this.db = db;
+    }
+
+    void listPools(HttpServerExchange ex) {
+        ArrayNode pools = Json.array();
+        for (PoolSummary p : db.pools().list()) {
+            ObjectNode n = pools.addObject()
+                    .put("name", p.name())
+                    .put("records", p.recordCount())
+                    .put("labelled", p.labelledCount())
+                    .put("created_at", p.createdAt().toString());
+            n.set("label_counts", Json.mapper().valueToTree(p.labelCounts()));
+        }
+        Responses.ok(ex, Json.object().set("pools", pools));
+    }
+
+    void pool(HttpServerExchange ex) {
+        PoolRow pool = db.pools().require(param(ex, "pool"));
+        Map<String, Long> counts = db.pools().labelCounts(pool);
+        ObjectNode body = Json.object()
+                .put("name", pool.name())
+                .put("records", pool.recordCount())
+                .put("created_at", pool.createdAt().toString());
+        ArrayNode classes = body.putArray("classes");
+        List<String> keys = LabelKeys.keysFor(pool.classes());
+        for (int i = 0; i < pool.classes().size(); i++) {
+            classes.addObject().put("name", pool.classes().get(i)).put("key", keys.get(i))
+                    .put("labelled", counts.getOrDefault(pool.classes().get(i), 0L));
+        }
+        body.set("roles", Json.mapper().valueToTree(ColumnRoles.parse(pool.columnRolesJson())));
+        FeatureSchema schema = Json.read(pool.featureSchemaJson(), FeatureSchema.class);
+        ArrayNode features = body.putArray("features");
+        for (FeatureColumn c : schema.columns()) {
+            ObjectNode f = features.addObject().put("name", c.name()).put("kind", c.kind().name().toLowerCase())
+                    .put("width", c.encodedWidth()).put("missing", c.missing());
+            if (c.kind() == FeatureKind.CATEGORICAL) {
+                f.set("levels", Json.mapper().valueToTree(c.levels()));
+            } else {
+                f.set("mean", Json.mapper().valueToTree(c.mean()));
+                f.set("sd", Json.mapper().valueToTree(c.sd()));
+            }
+        }
+        body.put("feature_width", schema.encodedWidth());
+        Responses.ok(ex, body);
+    }
+
+    void records(HttpServerExchange ex) {
+        PoolRow pool = db.pools().require(param(ex, "pool"));
+        long offset = longQuery(ex, "offset", 0);
+        int limit = (int) longQuery(ex, "limit", Requests.DEFAULT_PAGE);
+        List<String> display = ColumnRoles.parse(pool.columnRolesJson()).display();
+        ArrayNode rows = Json.array();
+        for (RecordRow r : db.records().page(pool.id(), offset, limit)) {
+            rows.add(Views.record(RecordView.of(r, display)));
+        }
+        ObjectNode body = Json.object().put("offset", offset).put("limit", limit).put("total", pool.recordCount());
+        body.set("records", rows);
+        Responses.ok(ex, body);
+    }
+
+    void export(HttpServerExchange ex) {
+        String name = param(ex, "pool");
+        db.pools().require(name);
+        FileFormat format = FileFormat.parse(query(ex, "format", "csv"));
+        ex.startBlocking();
+        ex.getResponseHeaders().put(Headers.CONTENT_TYPE,
+                format == FileFormat.CSV ? "text/csv; charset=utf-8" : "application/x-ndjson; charset=utf-8");
+        ex.getResponseHeaders().put(Headers.CONTENT_DISPOSITION,
+                "attachment; filename=\"" + name + "-labels." + format.word() + "\"");
+        new Exporter(db).export(name, format, ex.getOutputStream());
+    }
+}
