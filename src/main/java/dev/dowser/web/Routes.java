@@ -35,8 +35,6 @@ final class Routes {
            HttpHandler events, HttpHandler files) {
         // Paths relative to API_PREFIX.
         this.api = List.of(
-                call("GET", "/setup", PUBLIC, team::setupNeeded),
-                call("POST", "/setup", PUBLIC, team::setup),
                 call("POST", "/session", PUBLIC, team::login),
                 call("GET", "/session", ANYONE_SIGNED_IN, team::session),
                 call("DELETE", "/session", ANYONE_SIGNED_IN, team::logout),

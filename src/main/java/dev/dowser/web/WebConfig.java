@@ -63,6 +63,11 @@ public record WebConfig(String bind, int port, long maxUploadBytes, Path spoolDi
         return new WebConfig(bind, port, maxUploadBytes, spoolDir, trustProxy, tls, l);
     }
 
+    /** The same spooling uploads in {@code dir}. */
+    public WebConfig withSpoolDir(Path dir) {
+        return new WebConfig(bind, port, maxUploadBytes, dir, trustProxy, tls, limits);
+    }
+
     /** The same listening on another port. */
     public WebConfig withPort(int p) {
         return new WebConfig(bind, p, maxUploadBytes, spoolDir, trustProxy, tls, limits);

