@@ -1,7 +1,7 @@
 // The pools page: the list of pools, one pool's records, and adding a pool from a file.
 import { showAccount } from './account.js';
 import { getJson, postBody, apiUrl } from './api.js';
-import { recordBody } from './fields.js';
+import { recordBody, scalesOf } from './fields.js';
 import { el, showMessage } from './dom.js';
 
 const PAGE = 24;
@@ -64,7 +64,7 @@ async function showPool(name, offset) {
     head.className = 'record-head';
     head.append(el('span', 'record-id', r.id));
     head.append(el('span', 'record-label', r.label ? `${r.label} · ${r.labelled_by}` : ''));
-    card.append(head, recordBody(r.fields));
+    card.append(head, recordBody(r.fields, scalesOf(pool)));
     records.append(card);
   }
   $('page-facts').textContent = `${offset + 1}–${Math.min(offset + PAGE, page.total)} of ${page.total.toLocaleString()}`;

@@ -2,12 +2,12 @@
 // and each record's full history.
 import { getJson, postJson } from './api.js';
 import { showAccount } from './account.js';
-import { recordBody } from './fields.js';
+import { recordBody, scalesOf } from './fields.js';
 import { el, showMessage } from './dom.js';
 
 const PAGE = 20;
 const $ = (id) => document.getElementById(id);
-const state = { pool: null, classes: [], offset: 0, filter: {} };
+const state = { pool: null, classes: [], scales: {}, offset: 0, filter: {} };
 
 const say = (text, isError = false) => showMessage('review-message', text, isError);
 
@@ -177,7 +177,7 @@ function card(record) {
   }
   facts.append(el('li', 'model-view', modelText(record.model) + (record.spot_check ? ' · spot check' : '')));
   c.append(el('p', 'final', record.final_label ? `final: ${record.final_label}` : 'final: unresolved'), facts);
-  c.append(recordBody(record.fields));
+  c.append(recordBody(record.fields, state.scales));
   const actions = el('div', 'inline-actions');
   decisionForm(record, actions, c);
   const historyButton = el('button', null, 'History');
@@ -229,6 +229,7 @@ async function start() {
   $('review').hidden = false;
   const pool = await getJson(`pools/${encodeURIComponent(state.pool)}`);
   state.classes = pool.classes;
+  state.scales = scalesOf(pool);
   const classSelect = $('filters').elements.label;
   for (const c of state.classes) classSelect.append(new Option(c.name, c.name));
   $('filters').addEventListener('submit', (event) => {
