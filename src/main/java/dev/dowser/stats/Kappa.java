@@ -1,4 +1,4 @@
-package dev.dowser.team;
+package dev.dowser.stats;
 
 /** Chance-corrected agreement between people who labelled the same records. Pure functions. */
 public final class Kappa {
