@@ -1,7 +1,7 @@
 package dev.dowser.web;
 
 import dev.dowser.desk.Desk;
-import dev.dowser.rounds.Rounds;
+import dev.dowser.rounds.RoundWorkers;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import dev.dowser.team.Accounts;
@@ -30,11 +30,11 @@ public final class WebServer implements AutoCloseable {
 
     private static final Logger LOG = LoggerFactory.getLogger(WebServer.class);
     static final long SHUTDOWN_WAIT_MILLIS = 20_000;
-    /** Rounds are reproducible: the chains' generators all come from this seed, the round and the chain. */
+    /** Rounds are reproducible: every random number of a round comes from this seed's tree (the pool, the round, its consumer). */
     public static final long DEFAULT_SEED = 1;
 
     /** What a served server runs, made by {@link #serve}. */
-    private record Services(ImportJobs imports, Rounds rounds, Events events, Accounts accounts, Routes routes,
+    private record Services(ImportJobs imports, RoundWorkers rounds, Events events, Accounts accounts, Routes routes,
                             Door door) {
     }
 
@@ -120,7 +120,7 @@ public final class WebServer implements AutoCloseable {
         WebConfig config = this.config.withSpoolDir(spoolDir);
         ImportJobs imports = new ImportJobs(db, config);
         Events events = new Events();
-        Rounds rounds = new Rounds(db, sampler, events);
+        RoundWorkers rounds = new RoundWorkers(db, sampler, events);
         Accounts accounts = new Accounts(db, new SecureRandom(), team);
         Desk desk = new Desk(db, rounds, events);
         HttpHandler files = StaticFiles.handler();
