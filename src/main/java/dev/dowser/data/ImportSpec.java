@@ -52,10 +52,12 @@ public record ImportSpec(
         classes = classes == null ? List.of() : List.copyOf(classes);
         categorical = categorical == null ? List.of() : List.copyOf(categorical);
         if (maxLevels < 2) {
-            throw new IllegalArgumentException("maxLevels is " + maxLevels + "; it must be at least 2");
+            throw new IllegalArgumentException("the most categories of a column (max_levels, --max-levels) is "
+                    + maxLevels + "; it must be at least 2");
         }
         if (maxFieldChars < 16) {
-            throw new IllegalArgumentException("maxFieldChars is " + maxFieldChars + "; it must be at least 16");
+            throw new IllegalArgumentException("the longest field (max_field_chars, --max-field-chars) is "
+                    + maxFieldChars + " characters; it must be at least 16");
         }
         if (maxBytes < 1) {
             throw new IllegalArgumentException("maxBytes is " + maxBytes + "; it must be positive");
