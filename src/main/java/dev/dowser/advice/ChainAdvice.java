@@ -75,11 +75,12 @@ public record ChainAdvice(String level, String summary, List<Point> points) {
 
     /**
      * Advice from a round's health: the largest function-space R-hat and the smallest bulk and
-     * tail ESS (NaN when too few draws to judge), for the draws and chains that round kept.
+     * tail ESS (NaN when too few draws to judge), for the {@code chains} and {@code draws} that
+     * round kept; suggestions start from the settings as they are now ({@code knobs}).
      */
-    public static ChainAdvice of(double rhat, double essBulk, double essTail, Knobs knobs) {
-        int m = knobs.chains();
-        int s = knobs.draws();
+    public static ChainAdvice of(double rhat, double essBulk, double essTail, int chains, int draws, Knobs knobs) {
+        int m = chains;
+        int s = draws;
         if (!Double.isFinite(rhat) || !Double.isFinite(essBulk)) {
             return new ChainAdvice(GOOD, "Too few draws per chain to judge the chains; nothing to do.", List.of());
         }
@@ -90,7 +91,10 @@ public record ChainAdvice(String level, String summary, List<Point> points) {
         if (correlated) {
             String worth = String.format(Locale.ROOT, "The %d draws behave like about %d independent ones.", s,
                     Math.max(1, Math.round(ess)));
-            if (knobs.draws() < knobs.maxDraws()) {
+            if (knobs.draws() > draws || knobs.chains() > chains) {
+                points.add(new Point(worth + " More draws or chains have been set since; the next round uses them.",
+                        null, 0));
+            } else if (knobs.draws() < knobs.maxDraws()) {
                 int more = Math.min(knobs.maxDraws(), 2 * knobs.draws());
                 points.add(new Point(worth + " Keeping more draws each round (" + more + ") makes predictions"
                         + " and scores steadier, at the cost of a longer round.", "draws", more));
@@ -118,7 +122,7 @@ public record ChainAdvice(String level, String summary, List<Point> points) {
             return new ChainAdvice(GOOD, "The chains agree and their draws are varied enough; nothing to do.",
                     List.of());
         }
-        boolean act = correlated && points.get(0).setting() != null;
+        boolean act = points.stream().anyMatch(p -> p.setting() != null && correlated);
         // A note says what is so; only a point a setting can help is a call to act.
         String summary = act ? "Predictions rest on few independent draws; a setting below would help."
                 : disagree ? "The chains tell somewhat different stories, which is usual for a neural network;"

@@ -1,5 +1,6 @@
 package dev.dowser.web;
 
+import dev.dowser.rounds.AdviceService;
 import dev.dowser.desk.Desk;
 import dev.dowser.rounds.RoundWorkers;
 import dev.dowser.sampler.SamplerConfig;
@@ -67,7 +68,7 @@ public final class WebServer implements AutoCloseable {
         Desk desk = new Desk(db, rounds, events);
         HttpHandler files = StaticFiles.handler();
         Routes routes = new Routes(new TeamApi(accounts), new PoolsApi(db), new ImportsApi(imports), new DeskApi(desk),
-                new RoundsApi(db, rounds, desk), new ReviewApi(new Reviews(db)), events.handler(), files);
+                new RoundsApi(db, rounds, desk), new AdviceApi(new AdviceService(db)), new ReviewApi(new Reviews(db)), events.handler(), files);
         HttpHandler gate = new Gate(accounts, routes, files);
         GracefulShutdownHandler graceful = Handlers.gracefulShutdown(config.trustProxy()
                 ? Handlers.proxyPeerAddress(gate) : gate);
