@@ -21,8 +21,10 @@ import java.util.Locale;
  * @param level    {@code good}, {@code note} (worth knowing, nothing wrong) or {@code act} (a setting would help)
  * @param summary  one sentence for the overview
  * @param points   the points in plain words, each with the setting it names
+ * @param rhatCeiling the R-hat above which the chains count as disagreeing, for the draws kept
+ * @param essFloor    the effective sample size below which the draws count as too few, for the draws kept
  */
-public record ChainAdvice(String level, String summary, List<Point> points) {
+public record ChainAdvice(String level, String summary, List<Point> points, double rhatCeiling, double essFloor) {
 
     public static final String GOOD = "good";
     public static final String NOTE = "note";
@@ -82,7 +84,8 @@ public record ChainAdvice(String level, String summary, List<Point> points) {
         int m = chains;
         int s = draws;
         if (!Double.isFinite(rhat) || !Double.isFinite(essBulk)) {
-            return new ChainAdvice(GOOD, "Too few draws per chain to judge the chains; nothing to do.", List.of());
+            return new ChainAdvice(GOOD, "Too few draws per chain to judge the chains; nothing to do.", List.of(),
+                    rhatCeiling(m, s), essFloor(s));
         }
         double ess = Double.isFinite(essTail) ? Math.min(essBulk, essTail) : essBulk;
         List<Point> points = new ArrayList<>();
@@ -120,7 +123,7 @@ public record ChainAdvice(String level, String summary, List<Point> points) {
         }
         if (points.isEmpty()) {
             return new ChainAdvice(GOOD, "The chains agree and their draws are varied enough; nothing to do.",
-                    List.of());
+                    List.of(), rhatCeiling(m, s), essFloor(s));
         }
         boolean act = points.stream().anyMatch(p -> p.setting() != null && correlated);
         // A note says what is so; only a point a setting can help is a call to act.
@@ -128,6 +131,6 @@ public record ChainAdvice(String level, String summary, List<Point> points) {
                 : disagree ? "The chains tell somewhat different stories, which is usual for a neural network;"
                         + " nothing needs doing." : "The draws lean on few independent ones; nothing more can be"
                         + " set to help.";
-        return new ChainAdvice(act ? ACT : NOTE, summary, points);
+        return new ChainAdvice(act ? ACT : NOTE, summary, points, rhatCeiling(m, s), essFloor(s));
     }
 }

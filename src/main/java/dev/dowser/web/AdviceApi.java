@@ -82,7 +82,8 @@ final class AdviceApi {
     /** A round's chain health in plain words, as the rounds list shows it. */
     static ObjectNode chains(ObjectNode n, String healthJson, String samplerJson, PoolSettings.Sampling now) {
         ChainAdvice c = AdviceService.chains(healthJson, samplerJson, now);
-        n.put("level", c.level()).put("summary", c.summary());
+        n.put("level", c.level()).put("summary", c.summary()).put("rhat_ceiling", c.rhatCeiling())
+                .put("ess_floor", c.essFloor());
         ArrayNode points = n.putArray("points");
         for (ChainAdvice.Point p : c.points()) {
             ObjectNode o = points.addObject().put("text", p.text()).put("setting", p.setting());
