@@ -174,6 +174,7 @@ async function start() {
   });
   set('export-csv', (a) => { a.href = apiUrl(`pools/${enc}/export?format=csv`); });
   set('export-jsonl', (a) => { a.href = apiUrl(`pools/${enc}/export?format=jsonl`); });
+  set('export-meta', (a) => { a.href = apiUrl(`pools/${enc}/export/metadata`); });
   set('round-now', (b) => b.addEventListener('click', async () => {
     await postJson(`pools/${enc}/rounds`, {});
     refreshSoon();

@@ -52,6 +52,7 @@ async function showPool(name, offset) {
   if ($('export-csv')) {
     $('export-csv').href = apiUrl(`pools/${encodeURIComponent(name)}/export?format=csv`);
     $('export-jsonl').href = apiUrl(`pools/${encodeURIComponent(name)}/export?format=jsonl`);
+    $('export-meta').href = apiUrl(`pools/${encodeURIComponent(name)}/export/metadata`);
   }
 
   const page = await getJson(`pools/${encodeURIComponent(name)}/records?offset=${offset}&limit=${PAGE}`);

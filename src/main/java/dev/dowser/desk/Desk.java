@@ -54,8 +54,7 @@ public final class Desk {
         // Another person's label is not shown: a second labeller must judge on their own.
         RecordView record = view(pool, e.row()).unlabelled();
         // Sent for spot checks too; the desk keeps it hidden there unless asked, so they stay an honest test.
-        Belief belief = e.predictionJson() == null ? null : Belief.parse(e.predictionJson());
-        return new Offer(e.round(), e.position(), e.copies(), e.spotCheck(), e.score(), e.leaseUntil(), record, belief,
+        return new Offer(e.round(), e.position(), e.copies(), e.spotCheck(), e.score(), e.leaseUntil(), record, e.belief(),
                 progress(pool), null);
     }
 

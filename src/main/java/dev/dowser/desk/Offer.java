@@ -1,5 +1,6 @@
 package dev.dowser.desk;
 
+import dev.dowser.store.Belief;
 import java.time.Instant;
 
 /**

@@ -18,7 +18,6 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.HashSet;
 import java.util.List;
-import java.util.Map;
 import java.util.Set;
 import java.util.SplittableRandom;
 import java.util.concurrent.ConcurrentHashMap;
@@ -211,8 +210,8 @@ public final class RoundService {
     /** The belief kept with a queued record: {"mean": [...], "sd": [...]} over the classes. */
     private static String beliefJson(Predictive.Belief belief, int i) {
         int c = belief.classes();
-        return Json.write(Map.of("mean", Arrays.copyOfRange(belief.mean(), i * c, (i + 1) * c),
-                "sd", Arrays.copyOfRange(belief.sd(), i * c, (i + 1) * c)));
+        return dev.dowser.store.Belief.of(Arrays.copyOfRange(belief.mean(), i * c, (i + 1) * c),
+                Arrays.copyOfRange(belief.sd(), i * c, (i + 1) * c)).toJson();
     }
 
     private static float[] gather(FeatureMatrix m, int[] rows) {

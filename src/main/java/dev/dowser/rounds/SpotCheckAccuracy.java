@@ -1,9 +1,9 @@
 package dev.dowser.rounds;
 
-import dev.dowser.json.Json;
 import dev.dowser.labels.LabelRow;
 import dev.dowser.stats.Metrics;
 import dev.dowser.stats.Wilson;
+import dev.dowser.store.Belief;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
@@ -42,7 +42,7 @@ public final class SpotCheckAccuracy {
     public static Report of(Database db, PoolRow pool) {
         Map<Long, float[]> belief = new HashMap<>();
         for (QueueEntry e : db.queues().spotChecks(pool.id())) {
-            float[] mean = meanOf(e.predictionJson());
+            float[] mean = meanOf(e);
             if (mean != null) {
                 belief.put(e.row(), mean);
             }
@@ -88,19 +88,15 @@ public final class SpotCheckAccuracy {
         return Metrics.ece(p, y, classes, ECE_BINS);
     }
 
-    /** The mean class probabilities from a queue entry's belief: {"mean": [...], ...}, or the bare array of older queues. */
-    static float[] meanOf(String json) {
-        if (json == null) {
+    /** The mean class probabilities of a queue entry's belief, or null when it has none. */
+    static float[] meanOf(QueueEntry e) {
+        Belief b = e.belief();
+        if (b == null) {
             return null;
         }
-        var tree = Json.tree(json);
-        var mean = tree.isArray() ? tree : tree.get("mean");
-        if (mean == null || !mean.isArray()) {
-            return null;
-        }
-        float[] out = new float[mean.size()];
+        float[] out = new float[b.mean().size()];
         for (int i = 0; i < out.length; i++) {
-            out[i] = (float) mean.get(i).asDouble();
+            out[i] = (float) b.mean(i);
         }
         return out;
     }

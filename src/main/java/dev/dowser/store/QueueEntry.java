@@ -21,6 +21,11 @@ public record QueueEntry(int round, int position, long row, double score, boolea
         this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, 1);
     }
 
+    /** What the model believed of the record when it was queued; null for the first batch, picked before any model. */
+    public Belief belief() {
+        return predictionJson == null ? null : Belief.parse(predictionJson);
+    }
+
     public QueueEntry withCopies(int n) {
         return new QueueEntry(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, n);
     }

@@ -9,10 +9,10 @@ import static dev.dowser.web.Requests.requiredText;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
-import dev.dowser.desk.Belief;
 import dev.dowser.desk.Desk;
 import dev.dowser.desk.Offer;
 import dev.dowser.json.Json;
+import dev.dowser.store.Belief;
 import io.undertow.server.HttpServerExchange;
 import java.io.IOException;
 

@@ -51,6 +51,7 @@ final class Routes {
                 call("GET", "/pools/{pool}", ANYONE_SIGNED_IN, pools::pool),
                 call("GET", "/pools/{pool}/records", REVIEWERS, pools::records),
                 call("GET", "/pools/{pool}/export", ADMINS, pools::export),
+                call("GET", "/pools/{pool}/export/metadata", ADMINS, pools::exportMetadata),
                 call("POST", "/imports", ADMINS, imports::startImport),
                 call("GET", "/imports/{id}", ADMINS, imports::importStatus),
                 call("POST", "/previews", ADMINS, imports::preview),

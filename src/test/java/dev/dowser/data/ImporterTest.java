@@ -265,7 +265,12 @@ class ImporterTest {
         assertEquals("line 2, column 'z': this field is not among the fields of the first line (a)",
                 fails("{\"a\":1}\n{\"z\":2}\n", TestSupport.jsonl("p")).getMessage());
         assertTrue(fails("{\"a\":1}\n{\"a\":\n", TestSupport.jsonl("p")).getMessage().startsWith("line 2: malformed JSON"));
-        assertEquals("line 2, column 'a': nested objects are not supported; give each value its own field",
-                fails("{\"a\":1}\n{\"a\":{\"b\":1}}\n", TestSupport.jsonl("p")).getMessage());
+        assertEquals("line 2, column 'a': an embedding must be an array of numbers only",
+                fails("{\"a\":1}\n{\"a\":[\"x\"]}\n", TestSupport.jsonl("p")).getMessage());
+        // An object is kept as its JSON text, shown as it is.
+        TestSupport.importText(db, "objects", "{\"id\":\"r1\",\"who\":{\"ana\":\"ok\"}}\n",
+                TestSupport.jsonl("objects").withId("id").withClasses(List.of("ok", "bad")).withDisplay(List.of("who")));
+        assertEquals("{\"ana\":\"ok\"}", db.records().find(db.pools().require("objects").id(), "r1").orElseThrow()
+                .display().get(0));
     }
 }

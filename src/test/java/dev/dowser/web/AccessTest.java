@@ -59,6 +59,7 @@ class AccessTest {
         {"GET", "/pools/{pool}", "/pools/p", "labeller reviewer admin"},
         {"GET", "/pools/{pool}/records", "/pools/p/records", "reviewer admin"},
         {"GET", "/pools/{pool}/export", "/pools/p/export", "admin"},
+        {"GET", "/pools/{pool}/export/metadata", "/pools/p/export/metadata", "admin"},
         {"POST", "/imports", "/imports?pool=q", "admin"},
         {"GET", "/imports/{id}", "/imports/99", "admin"},
         {"POST", "/previews", "/previews?file_name=x.csv", "admin"},
