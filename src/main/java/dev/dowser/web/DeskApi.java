@@ -34,7 +34,8 @@ final class DeskApi {
         } else {
             body.put("round", o.round()).put("position", o.position()).put("copies", o.copies())
                     .put("spot_check", o.spotCheck()).put("score", o.score())
-                    .put("lease_until", Views.time(o.leaseUntil()));
+                    .put("lease_until", Views.time(o.leaseUntil())).put("reason", o.reason())
+                    .put("second_opinion", o.secondOpinion());
             body.set("record", Views.unlabelledRecord(o.record()));
             if (o.belief() != null) {
                 body.set("belief", belief(o.belief()));
@@ -65,6 +66,15 @@ final class DeskApi {
         ObjectNode out = Json.object().put("withdrawn", w.label());
         out.set("record", Views.record(w.record()));
         Responses.ok(ex, Views.progress(out, w.progress()));
+    }
+
+    /** The signed-in person's latest labels that still stand, newest first. */
+    void mine(HttpServerExchange ex) {
+        ArrayNode list = Json.array();
+        for (Desk.Given g : desk.recent(param(ex, "pool"), Gate.caller(ex, true).name())) {
+            list.addObject().put("record", g.record()).put("label", g.label()).put("at", Views.time(g.at()));
+        }
+        Responses.ok(ex, Json.object().set("labels", list));
     }
 
     private static ObjectNode belief(Belief b) {

@@ -59,6 +59,7 @@ final class Routes {
                 call("POST", "/pools/{pool}/queue/skip", ANYONE_SIGNED_IN, desk::skip),
                 call("POST", "/pools/{pool}/labels", ANYONE_SIGNED_IN, desk::label),
                 call("POST", "/pools/{pool}/labels/undo", ANYONE_SIGNED_IN, desk::undo),
+                call("GET", "/pools/{pool}/labels/mine", ANYONE_SIGNED_IN, desk::mine),
                 call("GET", "/pools/{pool}/rounds", ANYONE_SIGNED_IN, rounds::list),
                 call("POST", "/pools/{pool}/rounds", REVIEWERS, rounds::request),
                 call("GET", "/pools/{pool}/queue", ANYONE_SIGNED_IN, rounds::queue),

@@ -67,6 +67,7 @@ class AccessTest {
         {"POST", "/pools/{pool}/queue/skip", "/pools/p/queue/skip", "labeller reviewer admin"},
         {"POST", "/pools/{pool}/labels", "/pools/p/labels", "labeller reviewer admin"},
         {"POST", "/pools/{pool}/labels/undo", "/pools/p/labels/undo", "labeller reviewer admin"},
+        {"GET", "/pools/{pool}/labels/mine", "/pools/p/labels/mine", "labeller reviewer admin"},
         {"GET", "/pools/{pool}/rounds", "/pools/p/rounds", "labeller reviewer admin"},
         {"POST", "/pools/{pool}/rounds", "/pools/p/rounds", "reviewer admin"},
         {"GET", "/pools/{pool}/queue", "/pools/p/queue", "labeller reviewer admin"},
