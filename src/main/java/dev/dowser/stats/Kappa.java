@@ -47,6 +47,18 @@ public final class Kappa {
         return chance >= 1 ? Double.NaN : (observed - chance) / (1 - chance);
     }
 
+    /** Cohen's kappa between two labellings of the same records, each a class index per record. */
+    public static double cohen(int[] first, int[] second, int classes) {
+        if (first.length != second.length) {
+            throw new IllegalArgumentException(first.length + " labels against " + second.length);
+        }
+        long[][] table = new long[classes][classes];
+        for (int i = 0; i < first.length; i++) {
+            table[first[i]][second[i]]++;
+        }
+        return cohen(table);
+    }
+
     /**
      * Fleiss' kappa (Fleiss 1971) from {@code counts[i][j]}, the number of people who put record i
      * in class j. Records with fewer than two labels carry no agreement and are left out. With m_i
