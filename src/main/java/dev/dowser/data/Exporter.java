@@ -3,7 +3,6 @@ package dev.dowser.data;
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import dev.dowser.json.Json;
 import dev.dowser.labels.Resolution;
-import dev.dowser.store.Belief;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
@@ -91,11 +90,11 @@ public final class Exporter {
                 QueueEntry e = queued.get(r.row());
                 add(cells, kinds, e == null ? null : Integer.toString(e.round()), Kind.NUMBER);
                 add(cells, kinds, e == null ? null : Boolean.toString(e.spotCheck()), Kind.RAW);
-                Belief b = e == null ? null : e.belief();
-                boolean known = b != null && b.mean().size() == pool.classes().size();
+                QueuedBelief b = e == null || e.predictionJson() == null ? null : QueuedBelief.parse(e.predictionJson());
+                boolean known = b != null && b.mean().length == pool.classes().size();
                 add(cells, kinds, known ? pool.classes().get(b.top()) : null, Kind.TEXT);
                 int labelAt = r.labelled() ? pool.classes().indexOf(r.label()) : -1;
-                add(cells, kinds, known && labelAt >= 0 ? probability(b.mean(labelAt)) : null, Kind.NUMBER);
+                add(cells, kinds, known && labelAt >= 0 ? probability(b.mean()[labelAt]) : null, Kind.NUMBER);
                 try {
                     if (format == FileFormat.CSV) {
                         writeCsvRow(w, cells);

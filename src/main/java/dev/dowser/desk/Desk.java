@@ -1,10 +1,11 @@
 package dev.dowser.desk;
 
+import dev.dowser.data.QueuedBelief;
 import dev.dowser.data.ColumnRoles;
 import dev.dowser.labels.LabelRow;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.RoundWorker;
-import dev.dowser.rounds.Rounds;
+import dev.dowser.rounds.RoundWorkers;
 import dev.dowser.store.Database;
 import dev.dowser.store.LabelStore;
 import dev.dowser.store.PoolRow;
@@ -44,10 +45,10 @@ public final class Desk {
     }
 
     private final Database db;
-    private final Rounds rounds;
+    private final RoundWorkers rounds;
     private final LabelEvents events;
 
-    public Desk(Database db, Rounds rounds, LabelEvents events) {
+    public Desk(Database db, RoundWorkers rounds, LabelEvents events) {
         this.db = db;
         this.rounds = rounds;
         this.events = events;
@@ -66,7 +67,8 @@ public final class Desk {
         // Sent for spot checks too; the desk keeps it hidden there unless asked, so they stay an honest test.
         boolean secondOpinion = e.copies() > 1 && !db.labels().resolution(pool.id(), e.row()).opinions().isEmpty();
         String reason = Reasons.why(e, PoolSettings.parse(pool.settingsJson()).strategy(), pool.classes(), secondOpinion);
-        return new Offer(e.round(), e.position(), e.copies(), e.spotCheck(), e.score(), e.leaseUntil(), record, e.belief(),
+        QueuedBelief belief = e.predictionJson() == null ? null : QueuedBelief.parse(e.predictionJson());
+        return new Offer(e.round(), e.position(), e.copies(), e.spotCheck(), e.score(), e.leaseUntil(), record, belief,
                 reason, secondOpinion, progress(pool), null);
     }
 

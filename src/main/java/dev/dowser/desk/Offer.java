@@ -1,6 +1,6 @@
 package dev.dowser.desk;
 
-import dev.dowser.store.Belief;
+import dev.dowser.data.QueuedBelief;
 import java.time.Instant;
 
 /**
@@ -12,7 +12,7 @@ import java.time.Instant;
  * Either way, the progress line.
  */
 public record Offer(int round, int position, int copies, boolean spotCheck, double score, Instant leaseUntil,
-                    RecordView record, Belief belief, String reason, boolean secondOpinion, Progress progress,
+                    RecordView record, QueuedBelief belief, String reason, boolean secondOpinion, Progress progress,
                     String message) {
 
     /** Nothing to label for this person now. */

@@ -1,7 +1,7 @@
 package dev.dowser.desk;
 
+import dev.dowser.data.QueuedBelief;
 import dev.dowser.rounds.Strategy;
-import dev.dowser.store.Belief;
 import dev.dowser.store.QueueEntry;
 import java.util.List;
 import java.util.Locale;
@@ -31,25 +31,25 @@ final class Reasons {
             return "Spot check: picked at random, so that the model's accuracy is measured without the bias of"
                     + " picking; its belief stays hidden until you ask." + pair;
         }
-        Belief b = e.belief();
-        if (b == null || b.mean().size() != classes.size() || classes.size() < 2) {
+        QueuedBelief b = e.predictionJson() == null ? null : QueuedBelief.parse(e.predictionJson());
+        if (b == null || b.mean().length != classes.size() || classes.size() < 2) {
             return "First batch: picked to cover the pool before the model has labels to learn from." + pair;
         }
         return picked(e.score(), b, strategy, classes) + pair;
     }
 
-    private static String picked(double score, Belief b, Strategy strategy, List<String> classes) {
+    private static String picked(double score, QueuedBelief b, Strategy strategy, List<String> classes) {
         int top = b.top();
         int second = top == 0 ? 1 : 0;
         for (int c = 0; c < classes.size(); c++) {
-            if (c != top && b.mean(c) > b.mean(second)) {
+            if (c != top && b.mean()[c] > b.mean()[second]) {
                 second = c;
             }
         }
-        String view = "on average its draws give " + classes.get(top) + " " + percent(b.mean(top)) + " and "
-                + classes.get(second) + " " + percent(b.mean(second));
-        if (!b.sd().isEmpty()) {
-            view += ", and single draws stray about " + Math.round(100 * b.sd().get(top)) + " points from the first";
+        String view = "on average its draws give " + classes.get(top) + " " + percent(b.mean()[top]) + " and "
+                + classes.get(second) + " " + percent(b.mean()[second]);
+        if (b.sd().length == b.mean().length) {
+            view += ", and single draws stray about " + Math.round(100 * b.sd()[top]) + " points from the first";
         }
         return switch (strategy) {
             case RANDOM -> "Picked at random (the pool's strategy): " + view + ".";

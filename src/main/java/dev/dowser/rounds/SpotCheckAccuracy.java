@@ -1,9 +1,9 @@
 package dev.dowser.rounds;
 
+import dev.dowser.data.QueuedBelief;
 import dev.dowser.labels.LabelRow;
 import dev.dowser.stats.Metrics;
 import dev.dowser.stats.Wilson;
-import dev.dowser.store.Belief;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
@@ -21,8 +21,6 @@ import java.util.Map;
  * Wilson's (1927) at 95%, and the calibration error is Guo et al.'s (2017, eq. 3) on the same checks.
  */
 public final class SpotCheckAccuracy {
-
-    static final int ECE_BINS = 10;
 
     /** After {@code labels} labels in all, {@code correct} of {@code checked} spot checks agreed. */
     public record Point(long labels, long checked, long correct, double accuracy, double lower, double upper) {
@@ -42,7 +40,7 @@ public final class SpotCheckAccuracy {
     public static Report of(Database db, PoolRow pool) {
         Map<Long, float[]> belief = new HashMap<>();
         for (QueueEntry e : db.queues().spotChecks(pool.id())) {
-            float[] mean = meanOf(e);
+            float[] mean = meanOf(e.predictionJson());
             if (mean != null) {
                 belief.put(e.row(), mean);
             }
@@ -85,18 +83,18 @@ public final class SpotCheckAccuracy {
             System.arraycopy(beliefs.get(i), 0, p, i * classes, classes);
             y[i] = given.get(i);
         }
-        return Metrics.ece(p, y, classes, ECE_BINS);
+        return Metrics.ece(p, y, classes);
     }
 
-    /** The mean class probabilities of a queue entry's belief, or null when it has none. */
-    static float[] meanOf(QueueEntry e) {
-        Belief b = e.belief();
-        if (b == null) {
+    /** The mean class probabilities from a queue entry's belief; null when none was kept. */
+    static float[] meanOf(String json) {
+        if (json == null) {
             return null;
         }
-        float[] out = new float[b.mean().size()];
+        double[] mean = QueuedBelief.parse(json).mean();
+        float[] out = new float[mean.length];
         for (int i = 0; i < out.length; i++) {
-            out[i] = (float) b.mean(i);
+            out[i] = (float) mean[i];
         }
         return out;
     }

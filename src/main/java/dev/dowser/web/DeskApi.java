@@ -1,5 +1,6 @@
 package dev.dowser.web;
 
+import dev.dowser.data.QueuedBelief;
 import static dev.dowser.web.Requests.jsonBody;
 import static dev.dowser.web.Requests.optionalText;
 import static dev.dowser.web.Requests.param;
@@ -12,7 +13,6 @@ import com.fasterxml.jackson.databind.node.ObjectNode;
 import dev.dowser.desk.Desk;
 import dev.dowser.desk.Offer;
 import dev.dowser.json.Json;
-import dev.dowser.store.Belief;
 import io.undertow.server.HttpServerExchange;
 import java.io.IOException;
 
@@ -77,13 +77,17 @@ final class DeskApi {
         Responses.ok(ex, Json.object().set("labels", list));
     }
 
-    private static ObjectNode belief(Belief b) {
+    private static ObjectNode belief(QueuedBelief b) {
         ObjectNode n = Json.object();
         ArrayNode mean = n.putArray("mean");
-        b.mean().forEach(mean::add);
-        if (!b.sd().isEmpty()) {
+        for (double v : b.mean()) {
+            mean.add(v);
+        }
+        if (b.sd().length > 0) {
             ArrayNode sd = n.putArray("sd");
-            b.sd().forEach(sd::add);
+            for (double v : b.sd()) {
+                sd.add(v);
+            }
         }
         return n;
     }

@@ -8,7 +8,6 @@ import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import dev.dowser.TestSupport;
 import dev.dowser.json.Json;
-import dev.dowser.store.Belief;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
@@ -87,9 +86,9 @@ class ExportRoundTripTest {
             PoolRow pool = db.pools().require("typed");
             // Round 1 queued a (a spot check) and b, with the model's belief at the time; c was never queued.
             db.queues().publish(pool.id(), 1, List.of(
-                    new QueueEntry(1, 0, 0, 0.2, true, Belief.of(new float[] {0.8f, 0.2f}, new float[] {0.1f, 0.1f}).toJson(),
+                    new QueueEntry(1, 0, 0, 0.2, true, QueuedBelief.write(new float[] {0.8f, 0.2f}, new float[] {0.1f, 0.1f}),
                             null, null),
-                    new QueueEntry(1, 1, 1, 0.6, false, Belief.of(new float[] {0.3f, 0.7f}, new float[] {0.2f, 0.2f}).toJson(),
+                    new QueueEntry(1, 1, 1, 0.6, false, QueuedBelief.write(new float[] {0.3f, 0.7f}, new float[] {0.2f, 0.2f}),
                             null, null)));
             db.labels().add(pool.id(), 0, "fault", "ana", null);
             db.labels().add(pool.id(), 1, "fault", "ben", null);
