@@ -231,8 +231,27 @@ class ImporterTest {
         Map<String, Long> before = TestSupport.tableCounts(dir);
         ImportException e = assertThrows(ImportException.class,
                 () -> TestSupport.importBytes(db, bad, TestSupport.csv("p")));
-        assertTrue(e.getMessage().contains("not valid UTF-8"), e.getMessage());
+        assertEquals("line 3: the file is not valid UTF-8 text (byte 0xC3 at byte 5); save it as UTF-8 and try again",
+                e.getMessage());
         assertEquals(before, TestSupport.tableCounts(dir));
+        // Far into a file, past the decoder's buffer, the line named is still the bad byte's.
+        StringBuilder text = new StringBuilder("a\n");
+        for (int i = 0; i < 30_000; i++) {
+            text.append(i).append('\n');
+        }
+        byte[] head = text.toString().getBytes(java.nio.charset.StandardCharsets.UTF_8);
+        byte[] far = java.util.Arrays.copyOf(head, head.length + 3);
+        far[head.length] = (byte) 0xFF;
+        far[head.length + 1] = '7';
+        far[head.length + 2] = '\n';
+        ImportException late = assertThrows(ImportException.class, () -> TestSupport.importBytes(db, far,
+                TestSupport.csv("p").withClasses(List.of("x", "y"))));
+        assertTrue(late.getMessage().startsWith("line 30002: the file is not valid UTF-8 text (byte 0xFF at byte "
+                + (head.length + 1) + ")"), late.getMessage());
+        // Text split anywhere across the buffer's edge decodes whole.
+        String wide = "a\n" + "é✓😀\n".repeat(20_000);
+        TestSupport.importText(db, "wide", wide, TestSupport.csv("wide").withClasses(List.of("x", "y")));
+        assertEquals("é✓😀", db.records().page(db.pools().require("wide").id(), 19_999, 1).get(0).display().get(0));
     }
 
     @Test
