@@ -222,6 +222,23 @@ start();
 
 const SETTINGS = ['batch_size', 'spot_check_share', 'double_label_share', 'lease_minutes', 'strategy'];
 
+/** A setting's name as the settings form says it ("labels per round"), so the history reads like the form. */
+function settingWords(form, field) {
+  const label = form.elements[field].closest('label');
+  const words = label ? label.firstChild.textContent.trim() : field.replaceAll('_', ' ');
+  return words.charAt(0).toLowerCase() + words.slice(1);
+}
+
+/** A setting's value as the form shows it: a choice by its words ("BatchBALD"), a number as it is. */
+function settingValue(form, field, value) {
+  const input = form.elements[field];
+  if (input.tagName === 'SELECT') {
+    const option = [...input.options].find((o) => o.value === String(value));
+    if (option) return option.textContent;
+  }
+  return String(value);
+}
+
 async function showSettings() {
   const form = $('settings');
   if (!form) return;
@@ -234,7 +251,8 @@ async function showSettings() {
   list.replaceChildren();
   for (const c of changes.slice().reverse()) {
     const changed = SETTINGS.filter((f) => !c.before || String(c.before[f]) !== String(c.after[f]))
-      .map((f) => `${f.replaceAll('_', ' ')} ${c.before ? `${c.before[f]} → ` : ''}${c.after[f]}`);
+      .map((f) => `${settingWords(form, f)} ${c.before ? `${settingValue(form, f, c.before[f])} → ` : ''}`
+        + `${settingValue(form, f, c.after[f])}`);
     const li = document.createElement('li');
     li.textContent = `${new Date(c.at).toLocaleString()} · ${c.by} · ${changed.join(', ') || 'saved unchanged'}`;
     list.append(li);
