@@ -49,16 +49,21 @@ final class DemoCommand implements Callable<Integer> {
             throw new IllegalArgumentException("--records must be at least 1, got " + records);
         }
         Path folder = fresh(dir);
+        // Each step says what it does as it starts: a newcomer sees progress, not a silent terminal.
+        progress("opening a new database in " + folder.toAbsolutePath());
         Database db = Database.open(folder, Clock.systemUTC());
+        progress(String.format(java.util.Locale.ROOT, "writing %,d invented pump readings and importing them", records));
         ImportResult r = DemoPool.load(db, folder, records, seed);
         // The demo signs in like any server: an admin and a labeller with fresh passwords, printed below.
         Accounts accounts = new Accounts(db, new SecureRandom(), TeamConfig.defaults());
         String adminPassword = UsersCommand.generatePassword(new SecureRandom());
         String labellerPassword = UsersCommand.generatePassword(new SecureRandom());
+        progress("making the accounts " + DEMO_ADMIN + " and " + DEMO_LABELLER);
         accounts.add(DEMO_ADMIN, Role.ADMIN, adminPassword, "demo");
         accounts.add(DEMO_LABELLER, Role.LABELLER, labellerPassword, "demo");
         WebConfig config = new WebConfig(WebConfig.DEFAULT_BIND, port, WebConfig.DEFAULT_MAX_UPLOAD_BYTES,
                 folder.resolve("uploads"));
+        progress("starting the server and the first round");
         // The first round (a batch spread over the pool by k-means++) is ready before anyone looks.
         ServerRunner.runUntilStopped(db, config, "Dowser demo: " + r.records() + " pump readings in pool '"
                 + r.poolName() + "'\nLabel at  {address}desk.html?pool=" + r.poolName()
@@ -67,6 +72,10 @@ final class DemoCommand implements Callable<Integer> {
                 + labellerPassword
                 + "\n(data: " + folder.toAbsolutePath() + "; Ctrl-C stops)", server -> server.requestRound(r.poolName()));
         return 0;
+    }
+
+    private static void progress(String step) {
+        System.err.println("dowser demo: " + step + "…");
     }
 
     private static Path fresh(Path dir) throws IOException {
