@@ -35,8 +35,6 @@ final class Routes {
            HttpHandler events, HttpHandler files) {
         // Paths relative to API_PREFIX.
         this.api = List.of(
-                call("GET", "/setup", PUBLIC, team::setupNeeded),
-                call("POST", "/setup", PUBLIC, team::setup),
                 call("POST", "/session", PUBLIC, team::login),
                 call("GET", "/session", ANYONE_SIGNED_IN, team::session),
                 call("DELETE", "/session", ANYONE_SIGNED_IN, team::logout),
@@ -52,9 +50,9 @@ final class Routes {
                 call("GET", "/pools/{pool}/records", REVIEWERS, pools::records),
                 call("GET", "/pools/{pool}/export", ADMINS, pools::export),
                 call("GET", "/pools/{pool}/export/metadata", ADMINS, pools::exportMetadata),
-                call("POST", "/imports", ADMINS, imports::startImport),
+                call("POST", "/imports", ADMINS, Route.Body.UPLOAD, imports::startImport),
                 call("GET", "/imports/{id}", ADMINS, imports::importStatus),
-                call("POST", "/previews", ADMINS, imports::preview),
+                call("POST", "/previews", ADMINS, Route.Body.FILE_HEAD, imports::preview),
                 call("POST", "/pools/{pool}/queue/next", ANYONE_SIGNED_IN, desk::next),
                 call("POST", "/pools/{pool}/queue/skip", ANYONE_SIGNED_IN, desk::skip),
                 call("POST", "/pools/{pool}/labels", ANYONE_SIGNED_IN, desk::label),
@@ -84,9 +82,15 @@ final class Routes {
                 new Route("GET", "/users.html", ADMINS, files));
     }
 
-    /** A JSON call: its handler reads and writes in blocking mode on a worker thread. */
+    /** A JSON call: a JSON body unless it only reads; its handler reads and writes in blocking mode. */
     private static Route call(String method, String template, Set<Role> roles, HttpHandler handler) {
-        return new Route(method, template, roles, new BlockingHandler(handler));
+        return call(method, template, roles, method.equals("GET") || method.equals("DELETE") ? Route.Body.NONE
+                : Route.Body.JSON, handler);
+    }
+
+    private static Route call(String method, String template, Set<Role> roles, Route.Body body,
+                              HttpHandler handler) {
+        return new Route(method, template, roles, body, new BlockingHandler(handler));
     }
 
     List<Route> api() {

@@ -1,14 +1,23 @@
 package dev.dowser.cli;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.json.Json;
 import dev.dowser.store.Database;
 import dev.dowser.team.Passwords;
+import dev.dowser.web.PortBusyException;
+import dev.dowser.web.WebConfig;
+import dev.dowser.web.WebServer;
+import java.io.ByteArrayOutputStream;
+import java.io.PrintStream;
 import java.io.PrintWriter;
 import java.io.StringWriter;
+import java.net.InetAddress;
+import java.net.ServerSocket;
+import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Clock;
@@ -128,5 +137,29 @@ class CommandLineTest {
             assertEquals(List.of("account-added", "account-disabled", "password-reset"),
                     db.history().of(null, "account:Ada Park").stream().map(c -> c.kind()).toList());
         }
+    }
+
+    /** The demo moves to a free port when its usual one is busy and says so; a port asked for is kept to. */
+    @Test
+    void theDemoTakesAFreePortWhenItsOwnIsBusy() throws Exception {
+        try (ServerSocket taken = new ServerSocket(0, 1, InetAddress.getLoopbackAddress())) {
+            ByteArrayOutputStream note = new ByteArrayOutputStream();
+            try (WebServer server = DemoCommand.listen(null, taken.getLocalPort(),
+                    new PrintStream(note, true, StandardCharsets.UTF_8))) {
+                assertTrue(server.port() != taken.getLocalPort());
+                assertEquals("dowser: port " + taken.getLocalPort() + " is busy, so the demo listens on port "
+                        + server.port() + " instead (choose one with --port)\n", note.toString(StandardCharsets.UTF_8));
+            }
+            PortBusyException busy = assertThrows(PortBusyException.class,
+                    () -> DemoCommand.listen(taken.getLocalPort(), WebConfig.DEFAULT_PORT, System.err));
+            assertEquals("cannot listen on 127.0.0.1 port " + taken.getLocalPort() + ": another program is using it",
+                    busy.getMessage());
+        }
+        Path data = dir.resolve("demo");
+        Files.createDirectories(data);
+        Files.writeString(data.resolve("keep.txt"), "mine");
+        Run full = run("demo", "--data", data.toString(), "--port", "0");
+        assertEquals(2, full.exit());
+        assertEquals("dowser: " + data + " is not empty; the demo needs a new or empty folder", full.err().strip());
     }
 }

@@ -43,8 +43,6 @@ class AccessTest {
 
     /** method, path with its placeholders, a concrete path, and who may call it ("-" for anyone). */
     private static final String[][] API = {
-        {"GET", "/setup", "/setup", "-"},
-        {"POST", "/setup", "/setup", "-"},
         {"POST", "/session", "/session", "-"},
         {"GET", "/session", "/session", "labeller reviewer admin"},
         {"DELETE", "/session", "/session", "labeller reviewer admin"},
@@ -198,7 +196,7 @@ class AccessTest {
         HttpResponse<String> method = http.send(request("PATCH", "/api/v1/pools", null, false, false).build(),
                 HttpResponse.BodyHandlers.ofString());
         assertEquals(405, method.statusCode());
-        for (String path : List.of("/login.html", "/api/v1/setup", "/js/api.js", "/api/v1/pools")) {
+        for (String path : List.of("/login.html", "/api/v1/session", "/js/api.js", "/api/v1/pools")) {
             HttpResponse<String> r = http.send(request("GET", path, null, false, false).build(),
                     HttpResponse.BodyHandlers.ofString());
             // The policy is the common-practice strict set: our own scripts and styles only, no framing.
