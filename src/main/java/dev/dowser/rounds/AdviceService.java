@@ -3,6 +3,7 @@ package dev.dowser.rounds;
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.advice.AccuracyReport;
 import dev.dowser.advice.ChainAdvice;
+import dev.dowser.data.QueuedBelief;
 import dev.dowser.json.Json;
 import dev.dowser.labels.LabelRow;
 import dev.dowser.stats.Metrics;

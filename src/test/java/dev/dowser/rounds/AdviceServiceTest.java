@@ -11,6 +11,7 @@ import dev.dowser.advice.AccuracyReport;
 import dev.dowser.advice.ChainAdvice;
 import dev.dowser.advice.StopAdvice;
 import dev.dowser.data.ImportProgress;
+import dev.dowser.data.QueuedBelief;
 import dev.dowser.data.Importer;
 import dev.dowser.stats.Lure;
 import dev.dowser.stats.Wilson;
