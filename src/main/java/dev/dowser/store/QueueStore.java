@@ -9,7 +9,9 @@ import java.time.Clock;
 import java.time.Duration;
 import java.time.Instant;
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.List;
+import java.util.Map;
 import java.util.Optional;
 import javax.sql.DataSource;
 
@@ -60,8 +62,8 @@ public final class QueueStore {
         try {
             Transactions.run(ds, c -> {
                 try (PreparedStatement ins = c.prepareStatement("INSERT INTO queue_entries (pool_id, round_no, position,"
-                        + " row_no, score, spot_check, prediction, copies, pick_probability)"
-                        + " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)");
+                        + " row_no, score, spot_check, prediction, copies, pick_probability, pick_order)"
+                        + " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)");
                      PreparedStatement del = c.prepareStatement("DELETE FROM served_queues WHERE pool_id = ?");
                      PreparedStatement serve = c.prepareStatement(
                              "INSERT INTO served_queues (pool_id, round_no) VALUES (?, ?)")) {
@@ -78,6 +80,11 @@ public final class QueueStore {
                             ins.setNull(9, java.sql.Types.DOUBLE);
                         } else {
                             ins.setDouble(9, e.pickProbability());
+                        }
+                        if (e.pickOrder() == null) {
+                            ins.setNull(10, java.sql.Types.INTEGER);
+                        } else {
+                            ins.setInt(10, e.pickOrder());
                         }
                         ins.addBatch();
                     }
@@ -278,6 +285,59 @@ public final class QueueStore {
             }
         } catch (SQLException e) {
             throw new StoreException("cannot read the spot checks of pool " + poolId + ": " + e.getMessage(), e);
+        }
+        return out;
+    }
+
+    /**
+     * One record as its round picked it: its place and probability in the round's sequence of
+     * picks, whether it was a spot check, and the serving model's belief when it was queued.
+     */
+    public record Picked(int round, int order, long row, boolean spotCheck, Double probability, String predictionJson) {
+    }
+
+    /**
+     * Every record a round picked itself (not those carried over), oldest round first and in pick
+     * order within a round: what the accuracy estimates weigh the labels by.
+     */
+    public List<Picked> picks(long poolId) {
+        List<Picked> out = new ArrayList<>();
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT round_no, pick_order, row_no, spot_check,"
+                     + " pick_probability, prediction FROM queue_entries WHERE pool_id = ? AND pick_order IS NOT NULL"
+                     + " ORDER BY round_no, pick_order")) {
+            q.setLong(1, poolId);
+            try (ResultSet rs = q.executeQuery()) {
+                while (rs.next()) {
+                    out.add(new Picked(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getBoolean(4), probability(rs, 5),
+                            rs.getString(6)));
+                }
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the picks of pool " + poolId + ": " + e.getMessage(), e);
+        }
+        return out;
+    }
+
+    /**
+     * Each record ever queued in the pool, by row, with its entry in the first round that queued it:
+     * the round, whether it was a spot check, and the model's belief before anyone labelled it.
+     */
+    public Map<Long, QueueEntry> firstQueued(long poolId) {
+        Map<Long, QueueEntry> out = new HashMap<>();
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT round_no, position, row_no, score, spot_check, prediction,"
+                     + " copies FROM queue_entries WHERE pool_id = ? ORDER BY round_no, position")) {
+            q.setFetchSize(4_096);
+            q.setLong(1, poolId);
+            try (ResultSet rs = q.executeQuery()) {
+                while (rs.next()) {
+                    out.putIfAbsent(rs.getLong(3), new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3),
+                            rs.getDouble(4), rs.getBoolean(5), rs.getString(6), null, null, rs.getInt(7)));
+                }
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the queues of pool " + poolId + ": " + e.getMessage(), e);
         }
         return out;
     }
