@@ -49,7 +49,7 @@ class TeamBrowserTest {
         tokens.put("rey", TestSupport.tokenFor(db, "rey", Role.REVIEWER));
         tokens.put("ana", TestSupport.tokenFor(db, "ana", Role.LABELLER));
         tokens.put("ben", TestSupport.tokenFor(db, "ben", Role.LABELLER));
-        browser = new Browser(dir.resolve("profile"));
+        browser = Browser.shared();
 
         // A small pool whose every queued record goes to two people; ana and ben label all of them,
         // agreeing on some and not on others.
