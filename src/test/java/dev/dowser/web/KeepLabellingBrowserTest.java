@@ -59,7 +59,7 @@ class KeepLabellingBrowserTest {
                 TestSupport.quickSampler(), TestSupport.FAST_TEAM);
         lead = TestSupport.tokenFor(db, LEAD, Role.ADMIN);
         person = TestSupport.tokenFor(db, PERSON, Role.LABELLER);
-        browser = new Browser(dir.resolve("profile"));
+        browser = Browser.shared();
     }
 
     @AfterEach
