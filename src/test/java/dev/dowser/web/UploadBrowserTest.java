@@ -52,7 +52,7 @@ class UploadBrowserTest {
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 200L << 20, dir.resolve("uploads")),
                 TestSupport.quickSampler(), TestSupport.FAST_TEAM);
         lead = TestSupport.tokenFor(db, "lead", Role.ADMIN);
-        browser = new Browser(dir.resolve("profile"));
+        browser = Browser.shared();
     }
 
     @AfterEach
