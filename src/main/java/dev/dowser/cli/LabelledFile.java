@@ -35,7 +35,8 @@ final class LabelledFile {
     /** Every labelled record of the file, standardised as the model sees them. */
     LabelledSet read() throws IOException {
         Path work = Files.createTempDirectory("dowser-offline-");
-        try (Database db = Database.open(work, Clock.systemUTC())) {
+        // A scratch database, deleted below: nothing in it needs to survive a crash.
+        try (Database db = Database.open(work, Clock.systemUTC(), Database.Commits.DELAYED)) {
             ImportSpec spec = ImportSpec.defaults(POOL, FileFormat.fromFileName(file.toString())).withLabel(label)
                     .withId(id);
             try (InputStream in = Files.newInputStream(file)) {
