@@ -2,6 +2,8 @@ package dev.dowser.store;
 
 import dev.dowser.labels.LabelRow;
 import dev.dowser.labels.Resolution;
+import dev.dowser.records.KeyIndex;
+import dev.dowser.records.RecordBlock;
 import java.io.IOException;
 import java.io.InputStream;
 import java.sql.Connection;
