@@ -1,7 +1,7 @@
 // The labelling desk: one record at a time, labelled by keyboard, never waiting for the model.
 import { getJson, postJson } from './api.js';
 import { showAccount } from './account.js';
-import { recordBody } from './fields.js';
+import { recordBody, scalesOf } from './fields.js';
 import { showMessage } from './dom.js';
 
 const $ = (id) => document.getElementById(id);
@@ -11,6 +11,7 @@ const state = {
   pool: null,
   person: null,
   classes: [],
+  scales: {},
   current: null, // the assignment being shown: {round, position, spot_check, record, belief}
   last: null, // the last label given: {assignment, label}
   labelledThisSession: 0,
@@ -119,7 +120,7 @@ function show(assignment) {
   const scored = assignment.belief && assignment.score !== undefined;
   $('card-score').textContent = assignment.spot_check ? ''
     : scored ? `information ${Number(assignment.score).toFixed(3)} nats` : 'first batch: spread over the pool';
-  $('card-body').replaceChildren(recordBody(r.fields));
+  $('card-body').replaceChildren(recordBody(r.fields, state.scales));
   $('note').value = '';
   state.beliefOpen = assignment.spot_check ? false : state.showBelief;
   renderBelief();
@@ -268,6 +269,7 @@ async function begin() {
   $('desk').hidden = false;
   const pool = await getJson(`pools/${encodeURIComponent(state.pool)}`);
   state.classes = pool.classes;
+  state.scales = scalesOf(pool);
   renderChoices();
   showProgress();
   listen();

@@ -10,34 +10,144 @@ export function numberSeries(text) {
   return values.every(Number.isFinite) ? values : null;
 }
 
-/** A small line chart of a series, scaled to its own range. */
-export function seriesChart(values) {
-  const width = 300;
-  const height = 60;
-  const min = Math.min(...values);
-  const max = Math.max(...values);
-  const span = max - min || 1;
-  const svg = document.createElementNS(SVG, 'svg');
-  svg.setAttribute('viewBox', `0 0 ${width} ${height}`);
-  svg.setAttribute('preserveAspectRatio', 'none');
-  svg.setAttribute('role', 'img');
-  svg.setAttribute('aria-label', `line chart of ${values.length} values from ${min} to ${max}`);
-  const zero = document.createElementNS(SVG, 'line');
-  const zeroY = height - ((0 - min) / span) * height;
-  zero.setAttribute('x1', '0');
-  zero.setAttribute('x2', String(width));
-  zero.setAttribute('y1', String(zeroY));
-  zero.setAttribute('y2', String(zeroY));
-  svg.append(zero);
-  const line = document.createElementNS(SVG, 'polyline');
-  const step = width / (values.length - 1);
-  line.setAttribute('points', values.map((v, i) => `${(i * step).toFixed(1)},${(height - ((v - min) / span) * height).toFixed(1)}`).join(' '));
-  svg.append(line);
-  return svg;
+const LENGTH_UNITS = { m: 'm', mm: 'mm', cm: 'cm', um: 'µm', km: 'km' };
+const TIME_UNITS = { s: 's', s2: 's²', min: 'min', h: 'h' };
+const UNITS = {
+  g: 'g', m: 'm', mm: 'mm', cm: 'cm', um: 'µm', km: 'km', s: 's', ms: 'ms', us: 'µs', min: 'min', h: 'h',
+  hz: 'Hz', khz: 'kHz', v: 'V', mv: 'mV', kv: 'kV', a: 'A', ma: 'mA', w: 'W', kw: 'kW', mw: 'MW', kwh: 'kWh',
+  j: 'J', degc: '°C', c: '°C', degf: '°F', k: 'K', pa: 'Pa', kpa: 'kPa', mpa: 'MPa', bar: 'bar', mbar: 'mbar',
+  psi: 'psi', lps: 'L/s', lpm: 'L/min', l: 'L', ml: 'mL', m3h: 'm³/h', rpm: 'rpm', pct: '%', percent: '%',
+  db: 'dB', dba: 'dB(A)', n: 'N', nm: 'N·m', kg: 'kg', ppm: 'ppm',
+};
+
+/**
+ * The unit a column's name carries, if any: in brackets at its end ("pressure (kPa)", "accel [g]"),
+ * or as its last word after an underscore ("vibration_g", "flow_lps", "speed_mm_s"); null otherwise.
+ */
+export function unitOf(name) {
+  const bracketed = /[([]\s*([^()[\]]{1,12}?)\s*[)\]]\s*$/.exec(name);
+  if (bracketed) return bracketed[1];
+  const words = name.toLowerCase().split(/[_\s]+/).filter((w) => w);
+  if (words.length < 2) return null;
+  const last = words[words.length - 1];
+  const before = words[words.length - 2];
+  if (words.length >= 3 && LENGTH_UNITS[before] && TIME_UNITS[last]) return `${LENGTH_UNITS[before]}/${TIME_UNITS[last]}`;
+  return UNITS[last] || null;
 }
 
-/** A definition list of a record's fields. */
-export function fieldList(fields) {
+/** A number short enough for an axis: at most 3 significant digits, no trailing zeros. */
+export function tick(v) {
+  if (v === 0) return '0';
+  const a = Math.abs(v);
+  if (a >= 1e4 || a < 1e-2) return v.toExponential(1).replace('e+', 'e');
+  return String(Number(v.toPrecision(3)));
+}
+
+/** The range widened to round numbers, so that its ends and middle are ticks a person reads at a glance. */
+export function niceRange(low, high) {
+  const half = (high - low) / 2 || Math.abs(high) || 1;
+  const power = 10 ** Math.floor(Math.log10(half));
+  const step = [1, 2, 2.5, 5, 10].map((m) => m * power).find((v) => v >= half);
+  return { low: Math.floor(low / step) * step, high: Math.ceil(high / step) * step };
+}
+
+/**
+ * A line chart of a series with its axes: values up the side (with the unit), sample numbers along
+ * the bottom. {@code scale} is the pool's range for the column ({low, high}): every record of the
+ * pool is then drawn on one scale, so a gentle and a violent trace look different. A button switches
+ * this chart between that scale and the record's own range.
+ */
+export function seriesChart(values, { scale = null, unit = null, name = 'series' } = {}) {
+  const own = { low: Math.min(...values), high: Math.max(...values) };
+  const shared = scale && Number.isFinite(scale.low) && Number.isFinite(scale.high) && scale.high > scale.low
+    ? { low: Math.min(scale.low, own.low), high: Math.max(scale.high, own.high) } : null;
+  const figure = document.createElement('figure');
+  figure.className = 'trace';
+  const plot = document.createElement('div');
+  plot.className = 'trace-plot';
+  const axis = document.createElement('div');
+  axis.className = 'trace-y';
+  const svg = document.createElementNS(SVG, 'svg');
+  svg.setAttribute('preserveAspectRatio', 'none');
+  svg.setAttribute('role', 'img');
+  plot.append(axis, svg);
+  const foot = document.createElement('figcaption');
+  foot.className = 'trace-foot';
+  const xAxis = document.createElement('div');
+  xAxis.className = 'trace-x';
+  const first = document.createElement('span');
+  first.textContent = '0';
+  const middle = document.createElement('span');
+  middle.textContent = `sample${unit ? ` · values in ${unit}` : ''}`;
+  const last = document.createElement('span');
+  last.textContent = String(values.length - 1);
+  xAxis.append(first, middle, last);
+  plot.append(document.createElement('span'), xAxis);
+  figure.append(plot, foot);
+
+  const width = 600;
+  const height = 120;
+  const draw = (exact, which) => {
+    const range = niceRange(exact.low, exact.high);
+    const span = range.high - range.low || 1;
+    const y = (v) => (height - ((v - range.low) / span) * height).toFixed(1);
+    svg.setAttribute('viewBox', `0 0 ${width} ${height}`);
+    svg.setAttribute('aria-label', `${name}: ${values.length} values from ${tick(own.low)} to ${tick(own.high)}`
+      + `${unit ? ` ${unit}` : ''}, drawn on ${which}`);
+    svg.replaceChildren();
+    for (const at of [range.low, (range.low + range.high) / 2, range.high]) {
+      const grid = document.createElementNS(SVG, 'line');
+      grid.setAttribute('class', 'grid');
+      grid.setAttribute('x1', '0');
+      grid.setAttribute('x2', String(width));
+      grid.setAttribute('y1', y(at));
+      grid.setAttribute('y2', y(at));
+      svg.append(grid);
+    }
+    if (range.low < 0 && range.high > 0) {
+      const zero = document.createElementNS(SVG, 'line');
+      zero.setAttribute('class', 'zero');
+      zero.setAttribute('x1', '0');
+      zero.setAttribute('x2', String(width));
+      zero.setAttribute('y1', y(0));
+      zero.setAttribute('y2', y(0));
+      svg.append(zero);
+    }
+    const line = document.createElementNS(SVG, 'polyline');
+    const step = width / Math.max(1, values.length - 1);
+    line.setAttribute('points', values.map((v, i) => `${(i * step).toFixed(1)},${y(v)}`).join(' '));
+    svg.append(line);
+    axis.replaceChildren(...[range.high, (range.low + range.high) / 2, range.low].map((v) => {
+      const label = document.createElement('span');
+      label.textContent = tick(v);
+      return label;
+    }));
+    if (unit) axis.firstChild.textContent += ` ${unit}`;
+  };
+  let onShared = shared !== null;
+  draw(shared || own, shared ? 'the pool\'s scale' : 'its own scale');
+  if (shared) {
+    const toggle = document.createElement('button');
+    toggle.type = 'button';
+    toggle.className = 'scale-toggle';
+    toggle.textContent = 'this record\'s scale';
+    toggle.title = 'switch between the scale shared by the pool and this record\'s own range';
+    toggle.addEventListener('click', () => {
+      onShared = !onShared;
+      draw(onShared ? shared : own, onShared ? 'the pool\'s scale' : 'its own scale');
+      toggle.textContent = onShared ? 'this record\'s scale' : 'the pool\'s scale';
+      figure.classList.toggle('own-scale', !onShared);
+    });
+    foot.append(toggle);
+  }
+  return figure;
+}
+
+/**
+ * A definition list of a record's fields. {@code scales} gives the pool's range of each column
+ * that has one ({name: {low, high}}), on which its series are drawn.
+ */
+export function fieldList(fields, scales = {}) {
   const dl = document.createElement('dl');
   for (const [name, value] of Object.entries(fields)) {
     const dt = document.createElement('dt');
@@ -48,7 +158,7 @@ export function fieldList(fields) {
       dd.textContent = '—';
       dd.className = 'missing';
     } else if (series) {
-      dd.append(seriesChart(series));
+      dd.append(seriesChart(series, { scale: scales[name], unit: unitOf(name), name }));
     } else {
       dd.textContent = value;
     }
@@ -83,15 +193,26 @@ export function pixelGrid(fields) {
   return canvas;
 }
 
+/** The range of each feature column of a pool (from its description) by name, for drawing series on one scale. */
+export function scalesOf(pool) {
+  const scales = {};
+  for (const f of pool.features || []) {
+    if (f.low !== null && f.low !== undefined && f.high !== null && f.high !== undefined) {
+      scales[f.name] = { low: f.low, high: f.high };
+    }
+  }
+  return scales;
+}
+
 /** A record's card body: an image for a pixel grid (fields folded below it), else the field list. */
-export function recordBody(fields) {
+export function recordBody(fields, scales = {}) {
   const grid = pixelGrid(fields);
-  if (!grid) return fieldList(fields);
+  if (!grid) return fieldList(fields, scales);
   const wrap = document.createElement('div');
   const details = document.createElement('details');
   const summary = document.createElement('summary');
   summary.textContent = 'values';
-  details.append(summary, fieldList(fields));
+  details.append(summary, fieldList(fields, scales));
   wrap.append(grid, details);
   return wrap;
 }

@@ -2,12 +2,12 @@
 // and each record's full history.
 import { getJson, postJson } from './api.js';
 import { showAccount } from './account.js';
-import { recordBody } from './fields.js';
+import { recordBody, scalesOf } from './fields.js';
 import { el, showMessage } from './dom.js';
 
 const PAGE = 20;
 const $ = (id) => document.getElementById(id);
-const state = { pool: null, classes: [], offset: 0, filter: {} };
+const state = { pool: null, classes: [], scales: {}, offset: 0, filter: {} };
 
 const say = (text, isError = false) => showMessage('review-message', text, isError);
 
@@ -22,31 +22,113 @@ function modelText(model) {
   if (!model) return 'no model view yet';
   let top = 0;
   model.forEach((p, i) => { if (p > model[top]) top = i; });
-  return `model: ${state.classes[top]} ${(100 * model[top]).toFixed(0)}%`;
+  return `model: ${state.classes[top].name} ${(100 * model[top]).toFixed(0)}%`;
 }
 
-function decisionForm(record, list) {
-  const form = el('form', 'inline-form decision');
-  const accept = el('button', null, 'Accept');
+/** What a record's final label is now, in words: the label, or "unresolved" with the people's labels. */
+function currentText(record) {
+  if (record.final_label) return record.final_label;
+  const given = record.opinions.map((o) => `${o.person}: ${o.label}`).join(', ');
+  return given ? `unresolved (${given})` : 'unresolved';
+}
+
+/**
+ * The decision controls of one card. Nothing is chosen at first: the reviewer picks the new label
+ * by clicking a class or pressing its key (the desk's keys) while the card has focus, writes a
+ * reason, and confirms a sentence that names the old and the new final label.
+ */
+function decisionForm(record, list, cardElement) {
+  const form = el('form', 'decision');
+  const chosen = { label: null };
+  const agreed = record.opinions.length > 0 && new Set(record.opinions.map((o) => o.label)).size === 1;
+  const peoples = agreed ? record.opinions[0].label : null;
+  const accept = el('button', 'accept', record.review && peoples ? `Restore ${peoples}` : 'Accept');
   accept.type = 'button';
-  accept.className = 'accept';
-  accept.disabled = record.opinions.length === 0 || new Set(record.opinions.map((o) => o.label)).size > 1;
-  accept.title = accept.disabled ? 'people disagree: choose a label and give a reason' : 'make the people\'s label final';
-  accept.addEventListener('click', () => decide({ record: record.id, verdict: 'accept' }));
-  const choice = el('select');
-  choice.setAttribute('aria-label', `label for ${record.id}`);
-  for (const c of state.classes) choice.append(new Option(c, c));
-  const reason = el('input');
+  accept.disabled = !agreed || (record.review && record.review.verdict === 'accept');
+  accept.title = !agreed ? 'people disagree: choose a label and give a reason'
+    : record.review ? `make the people's label (${peoples}) final again` : 'make the people\'s label final';
+  const choices = el('div', 'review-choices');
+  choices.setAttribute('role', 'radiogroup');
+  choices.setAttribute('aria-label', `new label for ${record.id}`);
+  const reason = el('input', 'reason');
   reason.placeholder = 'reason for the override';
   reason.maxLength = 2000;
   reason.setAttribute('aria-label', `reason for ${record.id}`);
-  const override = el('button', 'override', 'Override');
+  const override = el('button', 'override', 'Override…');
   override.type = 'submit';
-  form.append(accept, choice, reason, override);
+  const confirm = el('div', 'confirm');
+  confirm.hidden = true;
+  const sentence = el('p', 'confirm-text');
+  const yes = el('button', 'confirm-yes', 'Yes, change it');
+  yes.type = 'button';
+  const no = el('button', 'confirm-no', 'Cancel');
+  no.type = 'button';
+  confirm.append(sentence, yes, no);
+
+  const buttons = new Map();
+  const choose = (name) => {
+    chosen.label = name;
+    for (const [n, b] of buttons) b.setAttribute('aria-checked', String(n === name));
+    confirm.hidden = true;
+    reason.focus();
+  };
+  for (const c of state.classes) {
+    const b = el('button', 'choice small');
+    b.type = 'button';
+    b.setAttribute('role', 'radio');
+    b.setAttribute('aria-checked', 'false');
+    b.dataset.label = c.name;
+    if (c.key) b.append(el('kbd', null, c.key));
+    b.append(document.createTextNode(c.name));
+    b.addEventListener('click', () => choose(c.name));
+    buttons.set(c.name, b);
+    choices.append(b);
+  }
+  cardElement.addEventListener('keydown', (event) => {
+    if (event.ctrlKey || event.metaKey || event.altKey) return;
+    if (['INPUT', 'SELECT', 'TEXTAREA'].includes(event.target.tagName)) {
+      if (event.key === 'Escape') confirm.hidden = true;
+      return;
+    }
+    if (event.key === 'Escape') {
+      confirm.hidden = true;
+      return;
+    }
+    const c = state.classes.find((x) => x.key && x.key === event.key.toLowerCase());
+    if (c) {
+      event.preventDefault();
+      choose(c.name);
+    }
+  });
+  const ask = (text, body) => {
+    sentence.textContent = text;
+    confirm.hidden = false;
+    yes.onclick = () => decide(body);
+    yes.focus();
+  };
+  accept.addEventListener('click', () => ask(
+    `Make ${peoples} the final label of ${record.id}? It is now ${currentText(record)}.`,
+    { record: record.id, verdict: 'accept' }));
+  no.addEventListener('click', () => { confirm.hidden = true; });
   form.addEventListener('submit', (event) => {
     event.preventDefault();
-    decide({ record: record.id, verdict: 'override', label: choice.value, reason: reason.value });
+    if (!chosen.label) {
+      say(`${record.id}: choose the new label first (click a class or press its key).`, true);
+      return;
+    }
+    if (!reason.value.trim()) {
+      say(`${record.id}: give a reason for the override; it is kept with the label.`, true);
+      reason.focus();
+      return;
+    }
+    ask(`Change the final label of ${record.id} from ${currentText(record)} to ${chosen.label}?`,
+      { record: record.id, verdict: 'override', label: chosen.label, reason: reason.value.trim() });
   });
+  const row = el('div', 'decision-row');
+  row.append(accept, el('span', 'hint', 'or override with'), choices);
+  const why = el('div', 'decision-row');
+  why.append(reason, override);
+  form.append(row, why, confirm);
   list.append(form);
 }
 
@@ -79,6 +161,8 @@ async function toggleHistory(record, box, button) {
 function card(record) {
   const c = el('article', `record review-card status-${record.status}`);
   c.dataset.record = record.id;
+  c.tabIndex = 0;
+  c.setAttribute('aria-label', `record ${record.id}: focus it and press a class key to choose a new label`);
   const head = el('div', 'record-head');
   head.append(el('span', 'record-id', record.id), el('span', `chip chip-${record.status}`, record.status));
   c.append(head);
@@ -93,9 +177,9 @@ function card(record) {
   }
   facts.append(el('li', 'model-view', modelText(record.model) + (record.spot_check ? ' · spot check' : '')));
   c.append(el('p', 'final', record.final_label ? `final: ${record.final_label}` : 'final: unresolved'), facts);
-  c.append(recordBody(record.fields));
+  c.append(recordBody(record.fields, state.scales));
   const actions = el('div', 'inline-actions');
-  decisionForm(record, actions);
+  decisionForm(record, actions, c);
   const historyButton = el('button', null, 'History');
   historyButton.type = 'button';
   const history = el('ul', 'history');
@@ -144,9 +228,10 @@ async function start() {
   $('review-title').textContent = `Review · ${state.pool}`;
   $('review').hidden = false;
   const pool = await getJson(`pools/${encodeURIComponent(state.pool)}`);
-  state.classes = pool.classes.map((c) => c.name);
+  state.classes = pool.classes;
+  state.scales = scalesOf(pool);
   const classSelect = $('filters').elements.label;
-  for (const c of state.classes) classSelect.append(new Option(c, c));
+  for (const c of state.classes) classSelect.append(new Option(c.name, c.name));
   $('filters').addEventListener('submit', (event) => {
     event.preventDefault();
     const f = event.target.elements;

@@ -109,19 +109,83 @@ public final class Pickers {
      * Stochastic power sampling (Kirsch, Farquhar, Atighehchian, Jesson, Branchaud-Charron & Gal
      * 2023, "Stochastic Batch Acquisition: A Simple Baseline for Deep Active Learning"): the top b
      * of log(score) + Gumbel(0, 1/beta) noise, which draws b records without replacement with
-     * probabilities proportional to score^beta. A score of 0 is never picked while others remain.
+     * probabilities proportional to w = score^beta. This is Gumbel-top-k, so the order of the picks
+     * follows Plackett-Luce (Kool, van Hoof & Welling 2019, "Stochastic Beams and Where to Find
+     * Them", section 3): the m-th pick i_m had probability w_{i_m} / (W - sum_{j<m} w_{i_j}), with W
+     * the sum of every candidate's weight. Records scored 0 are picked only when no other remains,
+     * then uniformly among themselves.
      */
-    public static int[] power(double[] scores, int b, double beta, SplittableRandom rng) {
+    public static Picks power(double[] scores, int b, double beta, SplittableRandom rng) {
         if (!(beta > 0)) {
             throw new IllegalArgumentException("beta must be positive, got " + beta);
         }
-        double[] perturbed = new double[scores.length];
-        for (int i = 0; i < scores.length; i++) {
+        int n = scores.length;
+        double[] perturbed = new double[n];
+        double[] weight = new double[n];
+        double maxLog = Double.NEGATIVE_INFINITY;
+        int positive = 0;
+        for (int i = 0; i < n; i++) {
             // Gumbel(0, 1/beta) = -log(-log U) / beta; 1 - U keeps U away from 0.
             double u = 1 - rng.nextDouble();
             double gumbel = -Math.log(-Math.log(u)) / beta;
-            perturbed[i] = scores[i] > 0 ? Math.log(scores[i]) + gumbel : Double.NEGATIVE_INFINITY;
+            if (scores[i] > 0) {
+                perturbed[i] = Math.log(scores[i]) + gumbel;
+                maxLog = Math.max(maxLog, beta * Math.log(scores[i]));
+                positive++;
+            } else {
+                perturbed[i] = Double.NEGATIVE_INFINITY;
+            }
         }
-        return topB(perturbed, b);
+        // Weights relative to the largest, so score^beta neither overflows nor underflows to all zeros.
+        double total = 0;
+        for (int i = 0; i < n; i++) {
+            weight[i] = scores[i] > 0 ? Math.exp(beta * Math.log(scores[i]) - maxLog) : 0;
+            total += weight[i];
+        }
+        int k = Math.min(b, n);
+        int fromScores = Math.min(k, positive);
+        int[] top = topB(perturbed, fromScores);
+        int[] out = new int[k];
+        double[] q = new double[k];
+        double left = total;
+        for (int m = 0; m < fromScores; m++) {
+            out[m] = top[m];
+            q[m] = weight[top[m]] / left;
+            left -= weight[top[m]];
+        }
+        if (fromScores < k) {
+            Picks rest = uniformAmong(zeroScored(scores), k - fromScores, rng);
+            System.arraycopy(rest.positions(), 0, out, fromScores, rest.size());
+            System.arraycopy(rest.probabilities(), 0, q, fromScores, rest.size());
+        }
+        return new Picks(out, q);
+    }
+
+    /** b of n candidates uniformly at random without replacement; the m-th had probability 1 / (n - m). */
+    public static Picks uniform(int n, int b, SplittableRandom rng) {
+        int[] all = new int[n];
+        for (int i = 0; i < n; i++) {
+            all[i] = i;
+        }
+        return uniformAmong(all, b, rng);
+    }
+
+    /** The first k places of a partial Fisher-Yates shuffle of {@code among}: a uniform ordered sample. */
+    private static Picks uniformAmong(int[] among, int b, SplittableRandom rng) {
+        int[] pool = among.clone();
+        int k = Math.min(b, pool.length);
+        double[] q = new double[k];
+        for (int m = 0; m < k; m++) {
+            int j = m + rng.nextInt(pool.length - m);
+            int t = pool[m];
+            pool[m] = pool[j];
+            pool[j] = t;
+            q[m] = 1.0 / (pool.length - m);
+        }
+        return new Picks(java.util.Arrays.copyOf(pool, k), q);
+    }
+
+    private static int[] zeroScored(double[] scores) {
+        return java.util.stream.IntStream.range(0, scores.length).filter(i -> !(scores[i] > 0)).toArray();
     }
 }

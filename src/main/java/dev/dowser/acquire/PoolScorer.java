@@ -15,9 +15,10 @@ import java.util.concurrent.Future;
  * Scores every record of a pool from S posterior draws in one fused pass. Rows go in blocks; for
  * each block, the first layer of all draws is one matrix product (the draws' first-layer weights
  * stacked side by side, d x S*h), then each draw's remaining layers, the output layer transposed
- * (classes x rows), and then the softmax, the entropy (H = logsumexp(z) - sum p z) and the vote
- * are folded into running sums in double, in loops along rows that the JIT vectorises (the
- * per-element Math.exp they replace took a third of the time on shape (a) of the bench). Nothing of size N x S x C is ever held: memory is the draws plus one block per thread.
+ * (classes x rows), and then the softmax and the entropy (H = logsumexp(z) - sum p z) are
+ * folded into running sums in double, in loops along rows that the JIT vectorises (the
+ * per-element Math.exp they replace took a third of the time on shape (a) of the bench). Nothing
+ * of size N x S x C is ever held: memory is the draws plus one block per thread.
  * Blocks are spread over threads; BLAS itself stays single-threaded.
  */
 public final class PoolScorer implements AutoCloseable {
@@ -34,9 +35,11 @@ public final class PoolScorer implements AutoCloseable {
     private record Group(int first, int count, float[] w1) {
     }
 
-    /** Per record: BALD, predictive entropy, variation ratio, and the mean class probabilities. */
-    public record Result(double[] bald, double[] entropy, double[] variationRatio, float[] meanProbabilities,
-                         int classes) {
+    /**
+     * Per record: BALD, the predictive entropy, and the margin (1 minus the gap between the two
+     * largest mean class probabilities, so that larger means less sure, as for the others).
+     */
+    public record Result(double[] bald, double[] entropy, double[] margin) {
     }
 
     private final ExecutorService pool;
@@ -82,8 +85,7 @@ public final class PoolScorer implements AutoCloseable {
             }
             groups.add(new Group(first, count, w1));
         }
-        Result out = new Result(new double[rows], new double[rows], new double[rows], new float[rows * classes],
-                classes);
+        Result out = new Result(new double[rows], new double[rows], new double[rows]);
         int blocks = (rows + blockRows - 1) / blockRows;
         List<Future<?>> futures = new ArrayList<>();
         for (int t = 0; t < threads; t++) {
@@ -127,7 +129,6 @@ public final class PoolScorer implements AutoCloseable {
         private final float[] xOnes;
         private final double[] meanP;
         private final double[] meanH;
-        private final int[] votes;
         private final double[] shifted;
         private final double[] expU;
         private final double[] sumProduct;
@@ -152,7 +153,6 @@ public final class PoolScorer implements AutoCloseable {
             this.xOnes = new float[blockRows * (arch.inputs() + 1)];
             this.meanP = new double[blockRows * classes];
             this.meanH = new double[blockRows];
-            this.votes = new int[blockRows * classes];
             this.shifted = new double[blockRows * classes];
             this.expU = new double[blockRows * classes];
             this.sumProduct = new double[blockRows];
@@ -167,7 +167,6 @@ public final class PoolScorer implements AutoCloseable {
             int layers = arch.layers();
             java.util.Arrays.fill(meanP, 0, n * classes, 0);
             java.util.Arrays.fill(meanH, 0, n, 0);
-            java.util.Arrays.fill(votes, 0, n * classes, 0);
             java.util.Arrays.fill(sumProduct, 0, n, 1);
             for (Group g : groups) {
                 int width = g.count() * h1;
@@ -191,18 +190,24 @@ public final class PoolScorer implements AutoCloseable {
             for (int r = 0; r < n; r++) {
                 int row = start + r;
                 double h = 0;
-                int mode = 0;
+                double first = 0;
+                double second = 0;
                 for (int c = 0; c < classes; c++) {
                     double p = meanP[c * n + r] / s;
-                    out.meanProbabilities()[row * classes + c] = (float) p;
                     if (p > 0) {
                         h -= p * Math.log(p);
                     }
-                    mode = Math.max(mode, votes[c * n + r]);
+                    if (p > first) {
+                        second = first;
+                        first = p;
+                    } else if (p > second) {
+                        second = p;
+                    }
                 }
                 out.entropy()[row] = h;
                 out.bald()[row] = Math.max(0, h - meanH[r] / s);
-                out.variationRatio()[row] = 1 - (double) mode / s;
+                // Margin sampling (Scheffer, Decomain & Wrobel 2001) on the posterior predictive.
+                out.margin()[row] = 1 - (first - second);
             }
         }
 
@@ -260,9 +265,8 @@ public final class PoolScorer implements AutoCloseable {
 
         /**
          * Folds one draw's logits (by class, z[c][r]) into the running sums. With m the row's largest
-         * logit and u = z - m: p = exp(u) / sum, H = log(sum) - sum_c p u, the vote is the first
-         * argmax. Every loop but the vote runs along rows, so the JIT vectorises it, the
-         * exponentials included ({@link FastExp}); the log of each row's sum waits in a product
+         * logit and u = z - m: p = exp(u) / sum, H = log(sum) - sum_c p u. Every loop runs along
+         * rows, so the JIT vectorises it, the exponentials included ({@link FastExp}); the log of each row's sum waits in a product
          * until the group ends ({@link #flushLogs}).
          */
         private void accumulate(int n) {
@@ -272,13 +276,6 @@ public final class PoolScorer implements AutoCloseable {
                 for (int r = 0; r < n; r++) {
                     rowMax[r] = Math.max(rowMax[r], logitsT[o + r]);
                 }
-            }
-            for (int r = 0; r < n; r++) {
-                int c = 0;
-                while (c < classes - 1 && logitsT[c * n + r] != rowMax[r]) {
-                    c++;
-                }
-                votes[c * n + r]++;
             }
             for (int c = 0; c < classes; c++) {
                 int o = c * n;

@@ -62,28 +62,9 @@ public final class Scores {
     }
 
     /**
-     * Variation ratio (Freeman 1965): 1 - (draws voting for the modal class) / S, each draw voting
-     * for its most probable class.
+     * Margin (Scheffer, Decomain & Wrobel 2001): 1 minus the gap between the two largest mean
+     * probabilities, so that larger means less sure.
      */
-    public static double variationRatio(float[] p, int draws, int classes) {
-        int[] votes = new int[classes];
-        for (int s = 0; s < draws; s++) {
-            int best = 0;
-            for (int k = 1; k < classes; k++) {
-                if (p[s * classes + k] > p[s * classes + best]) {
-                    best = k;
-                }
-            }
-            votes[best]++;
-        }
-        int mode = 0;
-        for (int v : votes) {
-            mode = Math.max(mode, v);
-        }
-        return 1 - (double) mode / draws;
-    }
-
-    /** Margin: 1 minus the gap between the two largest mean probabilities, so that larger means less sure. */
     public static double margin(float[] p, int draws, int classes) {
         double[] m = mean(p, draws, classes);
         double first = Double.NEGATIVE_INFINITY;

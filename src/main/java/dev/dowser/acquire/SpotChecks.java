@@ -19,33 +19,38 @@ public final class SpotChecks {
     private SpotChecks() {
     }
 
-    /** One place in a queue: a candidate's position, and whether it is a spot check. */
-    public record Entry(int candidate, boolean spotCheck) {
+    /**
+     * One place in a queue: a candidate's position, whether it is a spot check, and the probability
+     * with which it was picked given the places picked before it (a spot check: 1 / the candidates
+     * still free when it was drawn).
+     */
+    public record Entry(int candidate, boolean spotCheck, double probability) {
     }
 
     /**
      * The queue: {@code round(share * size)} places go to spot checks drawn uniformly from the
      * candidates not already picked, spread evenly through the queue; the rest keep the picked order.
      */
-    public static List<Entry> mix(int[] picked, int candidates, int size, double share, SplittableRandom rng) {
+    public static List<Entry> mix(Picks picked, int candidates, int size, double share, SplittableRandom rng) {
         if (!(share >= 0 && share <= 1)) {
             throw new IllegalArgumentException("the spot-check share must lie between 0 and 1, got " + share);
         }
         int checks = (int) Math.round(share * size);
         Set<Integer> taken = new HashSet<>();
-        List<Integer> byScore = new ArrayList<>();
-        for (int p : picked) {
+        List<Entry> byScore = new ArrayList<>();
+        for (int i = 0; i < picked.size(); i++) {
+            int p = picked.positions()[i];
             if (byScore.size() < size - checks && taken.add(p)) {
-                byScore.add(p);
+                byScore.add(new Entry(p, false, picked.probabilities()[i]));
             }
         }
-        List<Integer> spot = new ArrayList<>();
-        int free = candidates - taken.size();
-        checks = Math.min(checks, free);
+        List<Entry> spot = new ArrayList<>();
+        checks = Math.min(checks, candidates - taken.size());
         while (spot.size() < checks) {
+            int free = candidates - taken.size();
             int c = rng.nextInt(candidates);
             if (taken.add(c)) {
-                spot.add(c);
+                spot.add(new Entry(c, true, 1.0 / free));
             }
         }
         // Spot checks at evenly spaced places, floor((j + 1/2) total / checks), so an early stop still leaves some.
@@ -58,7 +63,7 @@ public final class SpotChecks {
         int s = 0;
         int b = 0;
         for (int i = 0; i < total; i++) {
-            queue.add(spotAt[i] ? new Entry(spot.get(s++), true) : new Entry(byScore.get(b++), false));
+            queue.add(spotAt[i] ? spot.get(s++) : byScore.get(b++));
         }
         return queue;
     }

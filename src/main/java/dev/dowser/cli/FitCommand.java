@@ -9,9 +9,10 @@ import dev.dowser.sampler.Health;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.PosteriorSampler;
 import dev.dowser.sampler.Predictive;
-import dev.dowser.sampler.Sample;
+import dev.dowser.sampler.RoundDraws;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.stats.Metrics;
+import dev.dowser.stats.SeedTree;
 import dev.dowser.stats.Splits;
 import java.io.IOException;
 import java.io.PrintWriter;
@@ -30,7 +31,6 @@ import picocli.CommandLine.Spec;
                 + " key=value lines: accuracy, nll, ece (15 bins), rhat_max, ess_min, kernel, draws, seconds."})
 final class FitCommand implements Callable<Integer> {
 
-    static final int ECE_BINS = 15;
     static final int PROBE_ROWS = 8;
 
     @Spec
@@ -102,7 +102,8 @@ final class FitCommand implements Callable<Integer> {
                 draws, burnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS, thin, ChainConfig.DEFAULT_BATCH_ROWS, learningRate, 0,
                 temperature, seed, ChainSet.defaultThreads(chains));
         float[] probe = Arrays.copyOf(test.x(), Math.min(PROBE_ROWS, test.rows()) * test.cols());
-        Sample sample = new PosteriorSampler(config).sample(train.x(), train.labels(), classes, null, probe, 0);
+        RoundDraws sample = new PosteriorSampler(config).sample(train.x(), train.labels(), classes, null, probe,
+                SeedTree.of(seed));
         float[] p = Predictive.meanProbabilities(sample.layout(), sample.draws(), test.x(), test.rows());
         Health h = sample.health();
         PrintWriter out = command.commandLine().getOut();
@@ -110,7 +111,7 @@ final class FitCommand implements Callable<Integer> {
                         + "ess_min=%.1f%nkernel=%s%nkernel_why=%s%ndraws=%d%ndivergences=%d%nacceptance=%.3f%n"
                         + "seconds=%.2f%n",
                 train.rows(), test.rows(), Metrics.accuracy(p, test.labels(), classes),
-                Metrics.nll(p, test.labels(), classes), Metrics.ece(p, test.labels(), classes, ECE_BINS),
+                Metrics.nll(p, test.labels(), classes), Metrics.ece(p, test.labels(), classes),
                 h.rhatMax(), Math.min(h.essBulkMin(), h.essTailMin()), sample.choice().kernel().word(),
                 sample.choice().why(), sample.draws().size(), h.divergences(), h.acceptance(), sample.seconds());
         for (String a : h.advice()) {

@@ -75,6 +75,14 @@ final class ImportCommand implements Callable<Integer> {
         FileFormat fileFormat = format == null ? FileFormat.fromFileName(file.toString()) : FileFormat.parse(format);
         ImportSpec spec = new ImportSpec(pool, fileFormat, id, features, display, label, classes, categorical,
                 maxLevels, maxFieldChars, ImportSpec.UNLIMITED_BYTES, "import");
+        if (!spec.namesLabelSet()) {
+            throw new IllegalArgumentException("a pool needs classes for people to choose from: name them with"
+                    + " --classes a,b,c, or name the column that holds labels already given with --label COL");
+        }
+        if (!Files.isRegularFile(file)) {
+            throw new IllegalArgumentException(Files.exists(file) ? file + " is not a file"
+                    : "there is no file " + file);
+        }
         long size;
         try {
             size = Files.size(file);

@@ -4,8 +4,9 @@ import dev.dowser.acquire.Pickers;
 import dev.dowser.acquire.PoolScorer;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.PosteriorSampler;
-import dev.dowser.sampler.Sample;
+import dev.dowser.sampler.RoundDraws;
 import dev.dowser.sampler.SamplerConfig;
+import dev.dowser.stats.SeedTree;
 import java.io.PrintWriter;
 import java.util.Arrays;
 import java.util.List;
@@ -42,11 +43,11 @@ final class RoundBench {
         float[] labelledX = Arrays.copyOf(x, LABELLED * INPUTS);
         SamplerConfig config = SamplerConfig.defaults(5).withKernel(KernelChoice.PSGLD).withHidden(List.of(128));
         PosteriorSampler sampler = new PosteriorSampler(config);
-        Sample previous = sampler.sample(labelledX, y, CLASSES, null, new float[0], 0);
+        RoundDraws previous = sampler.sample(labelledX, y, CLASSES, null, new float[0], SeedTree.of(0));
         try (PoolScorer scorer = PoolScorer.withAllCores()) {
             scorer.score(previous.layout(), previous.draws(), x, Math.min(pool, 10_000));
             long t0 = System.nanoTime();
-            Sample round = sampler.sample(labelledX, y, CLASSES, previous.lastStates(), new float[0], 1);
+            RoundDraws round = sampler.sample(labelledX, y, CLASSES, previous.lastStates(), new float[0], SeedTree.of(1));
             long t1 = System.nanoTime();
             PoolScorer.Result scores = scorer.score(round.layout(), round.draws(), x, pool);
             long t2 = System.nanoTime();

@@ -3,8 +3,9 @@ package dev.dowser.cli;
 import dev.dowser.blas.Blas;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.PosteriorSampler;
-import dev.dowser.sampler.Sample;
+import dev.dowser.sampler.RoundDraws;
 import dev.dowser.sampler.SamplerConfig;
+import dev.dowser.stats.SeedTree;
 import java.io.PrintWriter;
 import java.util.List;
 import java.util.SplittableRandom;
@@ -69,11 +70,11 @@ final class SamplerBench {
         PosteriorSampler sampler = new PosteriorSampler(config);
         // A warm-up round for the JIT, then three measured cold rounds: the median is reported, with
         // the range, since other work on a shared machine moves single runs by about 10%.
-        sampler.sample(x, y, CLASSES, null, new float[0], 0);
+        sampler.sample(x, y, CLASSES, null, new float[0], SeedTree.of(0));
         double[] rates = new double[MEASURED_ROUNDS];
-        Sample cold = null;
+        RoundDraws cold = null;
         for (int r = 0; r < MEASURED_ROUNDS; r++) {
-            cold = sampler.sample(x, y, CLASSES, null, new float[0], 1 + r);
+            cold = sampler.sample(x, y, CLASSES, null, new float[0], SeedTree.of(1 + r));
             rates[r] = cold.chainSteps() / cold.seconds();
         }
         java.util.Arrays.sort(rates);
@@ -84,7 +85,7 @@ final class SamplerBench {
         if (sgemmGflops > 0) {
             out.printf("sgld_fraction_of_sgemm=%.3f%n", stepsPerSecond * flopsPerStep() / 1e9 / sgemmGflops);
         }
-        Sample warm = sampler.sample(x, y, CLASSES, cold.lastStates(), new float[0], 1 + MEASURED_ROUNDS);
+        RoundDraws warm = sampler.sample(x, y, CLASSES, cold.lastStates(), new float[0], SeedTree.of(1 + MEASURED_ROUNDS));
         out.printf("round_sampling_seconds=%.3f%n", warm.seconds());
         out.printf("round_sampling_chain_steps=%d%n", warm.chainSteps());
     }

@@ -1,6 +1,7 @@
 package dev.dowser.cli;
 
 import dev.dowser.data.LabelledSet;
+import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.Simulation;
 import dev.dowser.rounds.SimulationReport;
 import dev.dowser.rounds.Strategy;
@@ -72,7 +73,9 @@ final class SimulateCommand implements Callable<Integer> {
         List<Strategy> chosen = strategies.stream().map(Strategy::parse).toList();
         SamplerConfig sampler = SamplerConfig.defaults(1).withChains(SamplerConfig.DEFAULT_CHAINS, draws)
                 .withSteps(Math.max(reburnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS), reburnIn, 10);
-        Simulation.Plan plan = new Simulation.Plan(chosen, seeds, seedLabels, batch, budget, testFraction, sampler);
+        PoolSettings settings = PoolSettings.defaults().withBatchSize(batch);
+        Simulation.Plan plan = new Simulation.Plan(chosen, seeds, seedLabels, budget, testFraction, settings, sampler,
+                1);
         LabelledSet all = input.read();
         int total = plan.roundsEach() * chosen.size() * seeds;
         ProgressBar bar = new ProgressBar(System.err, "rounds");

@@ -30,6 +30,8 @@ final class ColumnStats {
     private double[] shift;
     private double[] sum;
     private double[] sumSq;
+    private double low = Double.POSITIVE_INFINITY;
+    private double high = Double.NEGATIVE_INFINITY;
 
     ColumnStats(String name, boolean categorical, int maxLevels) {
         this.name = name;
@@ -196,6 +198,8 @@ final class ColumnStats {
         double y = x - shift[d];
         sum[d] += y;
         sumSq[d] += y * y;
+        low = Math.min(low, x);
+        high = Math.max(high, x);
     }
 
 
@@ -221,7 +225,9 @@ final class ColumnStats {
                 sd[d] = Math.sqrt(Math.max(0, sumSq[d] / count - m * m));
             }
         }
-        return new FeatureColumn(name, kind, dims, levels, count, missing, means, sd);
+        boolean ranged = kind != FeatureKind.CATEGORICAL && count > 0;
+        return new FeatureColumn(name, kind, dims, levels, count, missing, means, sd, ranged ? low : null,
+                ranged ? high : null);
     }
 
     private static String shorten(String s) {

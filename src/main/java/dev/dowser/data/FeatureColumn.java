@@ -13,9 +13,12 @@ import java.util.List;
  * @param missing records without one
  * @param mean    per dimension: mean of the values (for a categorical column, each level's share)
  * @param sd      per dimension: population standard deviation of the values
+ * @param low     the smallest value over every dimension (null for a categorical column, or a pool
+ *                imported before it was kept); with {@code high}, the range a trace is drawn on
+ * @param high    the largest value over every dimension
  */
 public record FeatureColumn(String name, FeatureKind kind, int dims, List<String> levels, long count, long missing,
-                            double[] mean, double[] sd) {
+                            double[] mean, double[] sd, Double low, Double high) {
 
     public FeatureColumn {
         levels = List.copyOf(levels);

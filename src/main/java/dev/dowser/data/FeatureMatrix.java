@@ -34,4 +34,18 @@ public record FeatureMatrix(float[] values, int rows, int cols, FeatureSchema sc
     public float get(int row, int col) {
         return values[row * cols + col];
     }
+
+    /** The given rows of this matrix, in that order, row-major. */
+    public float[] rows(int[] which) {
+        return gather(values, cols, which);
+    }
+
+    /** The given rows of a row-major matrix of {@code cols} columns, in that order: the one way rows are gathered. */
+    public static float[] gather(float[] x, int cols, int[] rows) {
+        float[] out = new float[rows.length * cols];
+        for (int i = 0; i < rows.length; i++) {
+            System.arraycopy(x, rows[i] * cols, out, i * cols, cols);
+        }
+        return out;
+    }
 }

@@ -82,6 +82,14 @@ public record ImportSpec(
                 DEFAULT_MAX_FIELD_CHARS, UNLIMITED_BYTES, "import");
     }
 
+    /**
+     * Whether the spec gives people classes to choose from: a label set, or a column of labels to
+     * take them from. A pool made for labelling needs one; the commands that fit a file do not.
+     */
+    public boolean namesLabelSet() {
+        return labelColumn != null || !classes.isEmpty();
+    }
+
     public ImportSpec withId(String column) {
         return new ImportSpec(poolName, format, column, featureColumns, displayColumns, labelColumn, classes,
                 categorical, maxLevels, maxFieldChars, maxBytes, importedBy);

@@ -58,6 +58,10 @@ public final class Importer {
                 if (writer.rows() == 0) {
                     throw ImportException.of("the file has no records after its header");
                 }
+                if (encoder.classes().isEmpty() && spec.labelColumn() != null) {
+                    throw ImportException.of("the label column '" + spec.labelColumn() + "' holds no labels, so the"
+                            + " pool would have no classes to choose from; name the classes as well");
+                }
                 FeatureSchema schema = encoder.schema();
                 writer.commit(encoder.classes(), Json.write(plan.roles()), Json.write(schema), "{}", fileName,
                         spec.format().word(), counted.count());

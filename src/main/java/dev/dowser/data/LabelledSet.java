@@ -19,6 +19,15 @@ public record LabelledSet(float[] x, int[] labels, long[] poolRows, int cols, Li
         return labels.length;
     }
 
+    /** The matrix's rows {@code rows} with class indices {@code labels}, in that order. */
+    public static LabelledSet of(FeatureMatrix matrix, int[] rows, int[] labels, List<String> classes) {
+        if (rows.length != labels.length) {
+            throw new IllegalArgumentException(rows.length + " rows with " + labels.length + " labels");
+        }
+        return new LabelledSet(matrix.rows(rows), labels.clone(), java.util.Arrays.stream(rows).asLongStream().toArray(),
+                matrix.cols(), classes);
+    }
+
     /** Every record of the pool that has a current label in the label set, in pool order. */
     public static LabelledSet of(Database db, String poolName, FeatureMatrix matrix) {
         PoolRow pool = db.pools().require(poolName);
@@ -30,25 +39,16 @@ public record LabelledSet(float[] x, int[] labels, long[] poolRows, int cols, Li
                 found.add(new long[] {l.row(), k});
             }
         });
-        int cols = matrix.cols();
-        float[] x = new float[found.size() * cols];
-        int[] labels = new int[found.size()];
-        long[] rows = new long[found.size()];
-        for (int i = 0; i < found.size(); i++) {
-            rows[i] = found.get(i)[0];
-            labels[i] = (int) found.get(i)[1];
-            System.arraycopy(matrix.values(), (int) rows[i] * cols, x, i * cols, cols);
-        }
-        return new LabelledSet(x, labels, rows, cols, classes);
+        return of(matrix, found.stream().mapToInt(f -> (int) f[0]).toArray(),
+                found.stream().mapToInt(f -> (int) f[1]).toArray(), classes);
     }
 
     /** The rows at the given indices of this set. */
     public LabelledSet subset(int[] which) {
-        float[] sx = new float[which.length * cols];
+        float[] sx = FeatureMatrix.gather(x, cols, which);
         int[] sy = new int[which.length];
         long[] sr = new long[which.length];
         for (int i = 0; i < which.length; i++) {
-            System.arraycopy(x, which[i] * cols, sx, i * cols, cols);
             sy[i] = labels[which[i]];
             sr[i] = poolRows[which[i]];
         }

@@ -28,9 +28,9 @@ public final class PumpTraces {
 
     /** The columns of the file {@link #write} produces. */
     public static final List<String> COLUMNS =
-            List.of("reading", "unit", "station", "recorded_at", "rpm", "flow_lps", "trace", "condition");
-    public static final List<String> FEATURES = List.of("station", "rpm", "flow_lps", "trace");
-    public static final List<String> DISPLAY = List.of("unit", "station", "recorded_at", "rpm", "flow_lps", "trace");
+            List.of("reading", "unit", "station", "recorded_at", "rpm", "flow_lps", "vibration_g", "condition");
+    public static final List<String> FEATURES = List.of("station", "rpm", "flow_lps", "vibration_g");
+    public static final List<String> DISPLAY = List.of("unit", "station", "recorded_at", "rpm", "flow_lps", "vibration_g");
 
     private PumpTraces() {
     }

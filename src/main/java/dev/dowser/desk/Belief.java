@@ -1,8 +1,6 @@
 package dev.dowser.desk;
 
-import com.fasterxml.jackson.databind.JsonNode;
-import dev.dowser.json.Json;
-import java.util.ArrayList;
+import dev.dowser.rounds.QueuedBelief;
 import java.util.List;
 
 /**
@@ -16,15 +14,13 @@ public record Belief(List<Double> mean, List<Double> sd) {
         sd = List.copyOf(sd);
     }
 
-    /** Reads the belief kept with a queue entry; queues of the first releases kept only the means, as an array. */
+    /** Reads the belief kept with a queue entry. */
     public static Belief parse(String json) {
-        JsonNode n = Json.tree(json);
-        return n.isArray() ? new Belief(numbers(n), List.of()) : new Belief(numbers(n.path("mean")), numbers(n.path("sd")));
+        QueuedBelief b = QueuedBelief.parse(json);
+        return new Belief(numbers(b.mean()), numbers(b.sd()));
     }
 
-    private static List<Double> numbers(JsonNode array) {
-        List<Double> out = new ArrayList<>(array.size());
-        array.forEach(v -> out.add(v.asDouble()));
-        return out;
+    private static List<Double> numbers(double[] v) {
+        return java.util.Arrays.stream(v).boxed().toList();
     }
 }

@@ -4,7 +4,7 @@ import dev.dowser.data.ColumnRoles;
 import dev.dowser.labels.LabelRow;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.RoundWorker;
-import dev.dowser.rounds.Rounds;
+import dev.dowser.rounds.RoundWorkers;
 import dev.dowser.store.Database;
 import dev.dowser.store.LabelStore;
 import dev.dowser.store.PoolRow;
@@ -34,10 +34,10 @@ public final class Desk {
     }
 
     private final Database db;
-    private final Rounds rounds;
+    private final RoundWorkers rounds;
     private final LabelEvents events;
 
-    public Desk(Database db, Rounds rounds, LabelEvents events) {
+    public Desk(Database db, RoundWorkers rounds, LabelEvents events) {
         this.db = db;
         this.rounds = rounds;
         this.events = events;

@@ -2,20 +2,15 @@ package dev.dowser.rounds;
 
 import dev.dowser.json.Json;
 import dev.dowser.model.Architecture;
-import dev.dowser.sampler.Sample;
 import dev.dowser.sampler.State;
 import dev.dowser.store.SavedChain;
 import java.util.ArrayList;
 import java.util.List;
 
-/** Turns the sampler's chain states into stored rows and back. */
+/** The one codec between the sampler's chain states and their stored rows. */
 final class ChainStates {
 
     private ChainStates() {
-    }
-
-    static List<SavedChain> toSaved(Sample sample, int round) {
-        return toSaved(sample.lastStates(), sample.choice().kernel().word(), sample.layout().architecture(), round);
     }
 
     static List<SavedChain> toSaved(List<State> states, String kernel, Architecture arch, int round) {

@@ -1,6 +1,7 @@
 package dev.dowser.rounds;
 
 import com.fasterxml.jackson.databind.JsonNode;
+import dev.dowser.acquire.BatchBald;
 import dev.dowser.json.Json;
 
 /**
@@ -19,6 +20,8 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
     public static final double DEFAULT_SPOT_CHECK_SHARE = 0.10;
     public static final int DEFAULT_LEASE_MINUTES = 10;
     public static final double DEFAULT_DOUBLE_LABEL_SHARE = 0.10;
+    /** What a new pool picks by; {@code default} names it in settings and on the command line. */
+    public static final Strategy DEFAULT_STRATEGY = Strategy.BALD;
 
     public PoolSettings {
         if (batchSize < 1 || batchSize > 1_000) {
@@ -33,18 +36,28 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
         if (strategy == null) {
             throw new IllegalArgumentException("a strategy is required");
         }
+        if (strategy == Strategy.BATCHBALD && batchSize > BatchBald.MAX_BATCH) {
+            throw new IllegalArgumentException("batchbald picks at most " + BatchBald.MAX_BATCH
+                    + " records a round (its joint entropy grows with the batch), got a batch size of " + batchSize
+                    + "; lower the batch size or choose power, which scales to any batch");
+        }
         if (!(doubleLabelShare >= 0 && doubleLabelShare <= 1)) {
             throw new IllegalArgumentException("doubleLabelShare must lie between 0 and 1, got " + doubleLabelShare);
         }
     }
 
-    /** The same settings with {@code share} of each queue labelled by two people. */
-    public PoolSettings withDoubleLabelShare(double share) {
-        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, share);
+    /** The same settings with another batch size. */
+    public PoolSettings withBatchSize(int size) {
+        return new PoolSettings(size, spotCheckShare, leaseMinutes, strategy, doubleLabelShare);
+    }
+
+    /** The same settings with another strategy. */
+    public PoolSettings withStrategy(Strategy s) {
+        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, s, doubleLabelShare);
     }
 
     public static PoolSettings defaults() {
-        return new PoolSettings(DEFAULT_BATCH_SIZE, DEFAULT_SPOT_CHECK_SHARE, DEFAULT_LEASE_MINUTES, Strategy.BALD,
+        return new PoolSettings(DEFAULT_BATCH_SIZE, DEFAULT_SPOT_CHECK_SHARE, DEFAULT_LEASE_MINUTES, DEFAULT_STRATEGY,
                 DEFAULT_DOUBLE_LABEL_SHARE);
     }
 

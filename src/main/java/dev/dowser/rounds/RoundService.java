@@ -1,33 +1,36 @@
 package dev.dowser.rounds;
 
-import dev.dowser.acquire.ColdStart;
 import dev.dowser.acquire.PoolScorer;
-import dev.dowser.acquire.SpotChecks;
 import dev.dowser.data.FeatureMatrix;
+import dev.dowser.data.LabelledSet;
 import dev.dowser.json.Json;
-import dev.dowser.sampler.Predictive;
-import dev.dowser.sampler.Sample;
+import dev.dowser.labels.LabelRow;
+import dev.dowser.model.Architecture;
+import dev.dowser.sampler.PosteriorSampler;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.sampler.SamplingStopped;
+import dev.dowser.sampler.State;
 import dev.dowser.sampler.StopSignal;
+import dev.dowser.stats.SeedTree;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
+import dev.dowser.store.RoundStore;
+import dev.dowser.store.SavedChain;
 import java.util.ArrayList;
 import java.util.Arrays;
-import java.util.HashSet;
 import java.util.List;
-import java.util.Map;
-import java.util.Set;
-import java.util.SplittableRandom;
 import java.util.concurrent.ConcurrentHashMap;
 
 /**
- * Runs a round for a pool: continue the chains on the labels so far (or, with no labels yet, seed
- * the first batch by k-means++), score every unlabelled record, pick a batch, mix in spot checks,
- * and publish the queue at once. A round that fails is recorded with its reason and the previous
- * queue stays in service.
+ * Runs a pool's rounds: loads what a round needs once (the labels as they stand, the chains the
+ * last round left, the unlabelled candidates), calls the pure {@link RoundStep}, and persists
+ * once (the chains, the model's view of the labelled records, the queue, the round's record). A
+ * round that fails is recorded with its reason and the previous queue stays in service. Each
+ * round keeps what it was computed from (its seed, the sampler's configuration, the settings,
+ * the last label row it read, the chains it continued), so {@link #rebuild} can compute its
+ * queue again from the database.
  */
 public final class RoundService {
 
@@ -61,6 +64,14 @@ public final class RoundService {
         this.events = events;
     }
 
+    /**
+     * The pool's node of the seed tree: the server's seed, then the pool's id. Round r of the pool
+     * draws from its child r.
+     */
+    public static SeedTree seedsOf(long serverSeed, long poolId) {
+        return SeedTree.of(serverSeed).child(poolId);
+    }
+
     public Outcome run(String poolName) {
         return run(poolName, StopSignal.never());
     }
@@ -73,109 +84,98 @@ public final class RoundService {
         long begun = System.nanoTime();
         PoolRow pool = db.pools().require(poolName);
         PoolSettings settings = PoolSettings.parse(pool.settingsJson());
-        // Records anyone has labelled are not picked again, resolved or not; the model learns from final labels.
-        Set<Long> labelled = new HashSet<>();
-        int[] finals = {0};
-        db.labels().forEachResolution(pool.id(), r -> {
-            labelled.add(r.row());
-            if (r.finalLabel() != null) {
-                finals[0]++;
-            }
-        });
-        int round = db.rounds().start(pool.id(), finals[0]);
+        long lastLabel = db.labels().lastLabelId(pool.id());
+        Labels labels = Labels.read(db, pool, lastLabel);
+        List<SavedChain> saved = db.chains().load(pool.id());
+        int round = db.rounds().next(pool.id());
+        SeedTree seeds = seedsOf(config.seed(), pool.id()).child(round);
+        RoundStore.Inputs inputs = new RoundStore.Inputs(seeds.seed(), Json.write(config), settings.toJson(), lastLabel,
+                saved.isEmpty() ? null : saved.get(0).round());
+        db.rounds().start(pool.id(), round, labels.finalRows().length, inputs);
         events.roundStarted(poolName, round);
-        Outcome outcome = runStarted(pool, settings, labelled, finals[0] == 0, round, stop, begun);
+        Outcome outcome;
+        try {
+            RoundStep.Input input = input(pool, settings, labels, saved, seeds, round, config);
+            RoundStep.Result result = RoundStep.run(input, scorer, stop);
+            outcome = persist(pool, input, result, begun);
+        } catch (SamplingStopped e) {
+            String why = "stopped at a safe point because the server is shutting down; the chains were saved"
+                    + " and the next round continues them";
+            Architecture arch = e.layout().architecture();
+            db.chains().save(pool.id(), ChainStates.toSaved(e.lastStates(), e.choice().kernel().word(), arch, round));
+            db.rounds().stop(pool.id(), round, e.choice().kernel().word(), why);
+            outcome = new Outcome(round, STOPPED, 0, e.choice().kernel().word(), why, seconds(begun));
+        } catch (RuntimeException e) {
+            String why = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
+            db.rounds().fail(pool.id(), round, why);
+            outcome = new Outcome(round, FAILED, 0, null, why, seconds(begun));
+        }
         events.roundEnded(poolName, outcome);
         return outcome;
     }
 
-    private Outcome runStarted(PoolRow pool, PoolSettings settings, Set<Long> labelled, boolean cold, int round,
-                               StopSignal stop, long begun) {
-        String poolName = pool.name();
-        try {
-            FeatureMatrix m = matrices.computeIfAbsent(poolName, name -> FeatureMatrix.load(db, name));
-            int[] candidates = new int[m.rows() - labelled.size()];
-            int at = 0;
-            for (int i = 0; i < m.rows() && at < candidates.length; i++) {
-                if (!labelled.contains((long) i)) {
-                    candidates[at++] = i;
-                }
-            }
-            SplittableRandom rng = new SplittableRandom(config.seed() * 31 + round);
-            int b = Math.min(settings.batchSize(), candidates.length);
-            List<QueueEntry> entries = new ArrayList<>();
-            String kernel;
-            String message;
-            String health = null;
-            if (cold) {
-                float[] cx = gather(m, candidates);
-                int[] picks = ColdStart.kmeansPlusPlus(cx, candidates.length, m.cols(), b, rng);
-                for (SpotChecks.Entry e : SpotChecks.mix(picks, candidates.length, b, settings.spotCheckShare(), rng)) {
-                    entries.add(new QueueEntry(round, entries.size(), candidates[e.candidate()], 0, e.spotCheck(), null,
-                            null, null));
-                }
-                kernel = "none";
-                message = "no labels yet: the first batch is spread over the pool by k-means++";
-            } else {
-                Sample sample = new PoolPosterior(db, config).sampleRound(poolName, m, probe(m, candidates), stop);
-                float[] cx = gather(m, candidates);
-                PoolScorer.Result scores = scorer.score(sample.layout(), sample.draws(), cx, candidates.length);
-                int[] picks = BatchPicker.pick(settings.strategy(), b, scores, cx, sample.layout(), sample.draws(), rng);
-                List<SpotChecks.Entry> mixed = SpotChecks.mix(picks, candidates.length, b, settings.spotCheckShare(), rng);
-                int[] queued = mixed.stream().mapToInt(e -> candidates[e.candidate()]).toArray();
-                Predictive.Belief belief = Predictive.belief(sample.layout(), sample.draws(), gather(m, queued),
-                        queued.length);
-                for (SpotChecks.Entry e : mixed) {
-                    int i = entries.size();
-                    entries.add(new QueueEntry(round, i, candidates[e.candidate()], scores.bald()[e.candidate()],
-                            e.spotCheck(), beliefJson(belief, i), null, null));
-                }
-                kernel = sample.choice().kernel().word();
-                message = sample.choice().why();
-                health = Json.write(sample.health());
-                keepPredictions(pool, round, m, labelled, sample);
-            }
-            entries = carryOver(db.queues().awaitingSecondLabel(pool.id()), round,
-                    sendToTwo(entries, settings.doubleLabelShare(), rng));
-            db.records().warm(pool.id(), entries.stream().mapToLong(QueueEntry::row).toArray());
-            db.queues().publish(pool.id(), round, entries);
-            db.rounds().finish(pool.id(), round, kernel, message, health);
-            return new Outcome(round, PUBLISHED, entries.size(), kernel, message, seconds(begun));
-        } catch (SamplingStopped e) {
-            String why = "stopped at a safe point because the server is shutting down; the chains were saved"
-                    + " and the next round continues them";
-            db.rounds().stop(pool.id(), round, e.choice().kernel().word(), why);
-            return new Outcome(round, STOPPED, 0, e.choice().kernel().word(), why, seconds(begun));
-        } catch (RuntimeException e) {
-            String why = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
-            db.rounds().fail(pool.id(), round, why);
-            return new Outcome(round, FAILED, 0, null, why, seconds(begun));
+    /**
+     * Computes round {@code round} of the pool again from what it kept: its labels, the chains it
+     * continued, its settings, sampler and seed. The queue comes out as the round published it
+     * (before records awaiting a second label were carried over ahead of it).
+     */
+    public RoundStep.Result rebuild(String poolName, int round) {
+        PoolRow pool = db.pools().require(poolName);
+        RoundStore.Inputs kept = db.rounds().inputs(pool.id(), round).orElseThrow(() -> new IllegalArgumentException(
+                "round " + round + " of pool '" + poolName + "' did not keep what it was computed from"));
+        List<SavedChain> saved = kept.chainsFrom() == null ? List.of() : db.chains().load(pool.id(), kept.chainsFrom());
+        if (kept.chainsFrom() != null && saved.isEmpty()) {
+            throw new IllegalArgumentException("the chains round " + round + " continued (from round "
+                    + kept.chainsFrom() + ") are no longer kept; only the latest rounds can be rebuilt");
         }
+        Labels labels = Labels.read(db, pool, kept.lastLabelId());
+        SamplerConfig sampler = Json.read(kept.samplerJson(), SamplerConfig.class);
+        RoundStep.Input input = input(pool, PoolSettings.parse(kept.settingsJson()), labels, saved,
+                new SeedTree(kept.seed()), round, sampler);
+        return RoundStep.run(input, scorer, StopSignal.never());
     }
 
-    /**
-     * Marks {@code share} of the queue, chosen uniformly, to be labelled by two different people:
-     * the pairs that agreement is measured on.
-     */
-    static List<QueueEntry> sendToTwo(List<QueueEntry> entries, double share, SplittableRandom rng) {
-        int n = entries.size();
-        int twice = (int) Math.round(share * n);
-        int[] order = new int[n];
-        for (int i = 0; i < n; i++) {
-            order[i] = i;
+    /** The round step's input from what was loaded. */
+    private RoundStep.Input input(PoolRow pool, PoolSettings settings, Labels labels, List<SavedChain> saved,
+                                  SeedTree seeds, int round, SamplerConfig sampler) {
+        FeatureMatrix m = matrices.computeIfAbsent(pool.name(), name -> FeatureMatrix.load(db, name));
+        int classes = pool.classes().size();
+        Architecture arch = new PosteriorSampler(sampler).layout(m.cols(), classes).architecture();
+        List<State> chains = ChainStates.continuable(saved, arch, sampler.chains());
+        int[] candidates = labels.unlabelled(m.rows());
+        int[] judged = labels.judgedRows();
+        LabelledSet known = LabelledSet.of(m, labels.finalRows(), labels.finalClasses(), pool.classes());
+        return new RoundStep.Input(known, rows(m, candidates), rows(m, judged), chains, settings, sampler, seeds, round);
+    }
+
+    private static RoundStep.Rows rows(FeatureMatrix m, int[] which) {
+        return new RoundStep.Rows(m.rows(which), Arrays.stream(which).asLongStream().toArray(), m.cols());
+    }
+
+    private Outcome persist(PoolRow pool, RoundStep.Input input, RoundStep.Result result, long begun) {
+        int round = result.round();
+        String health = null;
+        if (!result.cold()) {
+            var draws = result.draws();
+            db.chains().save(pool.id(), ChainStates.toSaved(draws.lastStates(), result.kernel(),
+                    draws.layout().architecture(), round));
+            db.predictions().replace(pool.id(), new PredictionStore.Predictions(round, input.judged().rows(),
+                    result.judgedMean(), pool.classes().size()));
+            health = Json.write(draws.health());
         }
-        // The first `twice` places of a partial Fisher-Yates shuffle: a uniform subset of that size.
-        boolean[] chosen = new boolean[n];
-        for (int i = 0; i < twice; i++) {
-            int j = i + rng.nextInt(n - i);
-            int t = order[i];
-            order[i] = order[j];
-            order[j] = t;
-            chosen[order[i]] = true;
-        }
-        List<QueueEntry> out = new ArrayList<>(n);
-        for (int i = 0; i < n; i++) {
-            out.add(chosen[i] ? entries.get(i).withCopies(2) : entries.get(i));
+        List<QueueEntry> entries = carryOver(db.queues().awaitingSecondLabel(pool.id()), round, entries(result));
+        db.records().warm(pool.id(), entries.stream().mapToLong(QueueEntry::row).toArray());
+        db.queues().publish(pool.id(), round, entries);
+        db.rounds().finish(pool.id(), round, result.kernel(), result.why(), health);
+        return new Outcome(round, PUBLISHED, entries.size(), result.kernel(), result.why(), seconds(begun));
+    }
+
+    private static List<QueueEntry> entries(RoundStep.Result result) {
+        List<QueueEntry> out = new ArrayList<>();
+        for (RoundStep.Pick p : result.queue()) {
+            String belief = p.mean() == null ? null : QueuedBelief.write(p.mean(), p.sd());
+            out.add(new QueueEntry(result.round(), out.size(), p.row(), p.score(), p.spotCheck(), belief, null, null,
+                    p.copies(), p.probability()));
         }
         return out;
     }
@@ -190,42 +190,51 @@ public final class RoundService {
         List<QueueEntry> out = new ArrayList<>(in.size());
         for (QueueEntry e : in) {
             out.add(new QueueEntry(round, out.size(), e.row(), e.score(), e.spotCheck(), e.predictionJson(), null, null,
-                    e.copies()));
+                    e.copies(), e.pickProbability()));
         }
         return out;
-    }
-
-    /** The posterior predictive of every labelled record, for the review page's model-disagrees filter. */
-    private void keepPredictions(PoolRow pool, int round, FeatureMatrix m, Set<Long> labelled, Sample sample) {
-        long[] rows = labelled.stream().mapToLong(Long::longValue).sorted().toArray();
-        int[] at = Arrays.stream(rows).mapToInt(r -> (int) r).toArray();
-        Predictive.Belief belief = Predictive.belief(sample.layout(), sample.draws(), gather(m, at), at.length);
-        db.predictions().replace(pool.id(), new PredictionStore.Predictions(round, rows, belief.mean(),
-                belief.classes()));
     }
 
     private static double seconds(long begun) {
         return (System.nanoTime() - begun) / 1e9;
     }
 
-    /** The belief kept with a queued record: {"mean": [...], "sd": [...]} over the classes. */
-    private static String beliefJson(Predictive.Belief belief, int i) {
-        int c = belief.classes();
-        return Json.write(Map.of("mean", Arrays.copyOfRange(belief.mean(), i * c, (i + 1) * c),
-                "sd", Arrays.copyOfRange(belief.sd(), i * c, (i + 1) * c)));
-    }
+    /**
+     * The pool's labels as a round reads them, in one pass over the label rows up to a given one:
+     * the records anyone labelled (never picked again, resolved or not) and those with a final
+     * label in the label set (what the model learns from), each in pool order.
+     */
+    record Labels(int[] judgedRows, int[] finalRows, int[] finalClasses) {
 
-    private static float[] gather(FeatureMatrix m, int[] rows) {
-        float[] out = new float[rows.length * m.cols()];
-        for (int i = 0; i < rows.length; i++) {
-            System.arraycopy(m.values(), rows[i] * m.cols(), out, i * m.cols(), m.cols());
+        static Labels read(Database db, PoolRow pool, long lastLabelId) {
+            List<Integer> judged = new ArrayList<>();
+            List<int[]> finals = new ArrayList<>();
+            db.labels().forEachResolutionUpTo(pool.id(), lastLabelId, r -> {
+                judged.add((int) r.row());
+                LabelRow f = r.finalLabel();
+                int k = f == null ? -1 : pool.classes().indexOf(f.label());
+                if (k >= 0) {
+                    finals.add(new int[] {(int) r.row(), k});
+                }
+            });
+            return new Labels(judged.stream().mapToInt(Integer::intValue).toArray(),
+                    finals.stream().mapToInt(f -> f[0]).toArray(), finals.stream().mapToInt(f -> f[1]).toArray());
         }
-        return out;
-    }
 
-    /** A few unlabelled rows, the same ones each round while they stay unlabelled: the diagnostics' probe. */
-    private static float[] probe(FeatureMatrix m, int[] candidates) {
-        int n = Math.min(8, candidates.length);
-        return gather(m, Arrays.copyOf(candidates, n));
+        /** Rows 0..n-1 that nobody has labelled, in order. */
+        int[] unlabelled(int n) {
+            boolean[] taken = new boolean[n];
+            for (int r : judgedRows) {
+                taken[r] = true;
+            }
+            int[] out = new int[n - judgedRows.length];
+            int at = 0;
+            for (int i = 0; i < n; i++) {
+                if (!taken[i]) {
+                    out[at++] = i;
+                }
+            }
+            return out;
+        }
     }
 }

@@ -1,46 +1,61 @@
 package dev.dowser.rounds;
 
-import dev.dowser.acquire.ColdStart;
 import dev.dowser.acquire.PoolScorer;
+import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.LabelledSet;
-import dev.dowser.sampler.PosteriorSampler;
 import dev.dowser.sampler.Predictive;
-import dev.dowser.sampler.Sample;
+import dev.dowser.sampler.RoundDraws;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.sampler.State;
+import dev.dowser.sampler.StopSignal;
 import dev.dowser.stats.Metrics;
+import dev.dowser.stats.SeedTree;
 import dev.dowser.stats.Splits;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
-import java.util.SplittableRandom;
 import java.util.function.IntConsumer;
 
 /**
- * The whole picking loop offline, with a file's known labels acting as the labeller: seed labels
- * by k-means++, then round after round continue the chains on the labels so far (warm start, as
- * the app does), score the unlabelled training rows, pick a batch by the strategy, and reveal its
- * labels; after each round the held-out test split is scored.
+ * The whole picking loop offline, with a file's known labels acting as the labellers: round after
+ * round the same {@link RoundStep} the server runs (a cold start first, then chains continued on
+ * the labels so far, the pool scored, a batch picked with spot checks mixed in), and every queued
+ * record's label revealed, as people at the desk would give it. After each round with a model the
+ * held-out test split is scored.
  */
 public final class Simulation {
 
-    public static final int ECE_BINS = 15;
+    /** Branches of a seed's node in the seed tree. */
+    static final int SPLIT = 0;
+    static final int LOOP = 1;
 
-    /** One point of a learning curve. */
+    /** One point of a learning curve: the model trained on {@code labels} labels, scored on the test split. */
     public record Point(Strategy strategy, int seed, int labels, double accuracy, double nll, double ece,
                         double seconds) {
     }
 
-    /** What a simulation runs: strategies, seeds, sizes. */
-    public record Plan(List<Strategy> strategies, int seeds, int seedLabels, int batch, int budget,
-                       double testFraction, SamplerConfig sampler) {
+    /**
+     * What a simulation runs.
+     *
+     * @param strategies   the strategies compared, each on the same splits and seed sets
+     * @param seeds        repeats, each with its own split and seed set
+     * @param seedLabels   the size of the first batch (the cold start)
+     * @param budget       labels at which a run stops
+     * @param testFraction share of each class held out for testing
+     * @param settings     the pool settings every round uses (its strategy is replaced by each compared)
+     * @param sampler      how the posterior is sampled
+     * @param seed         the root of the seed tree
+     */
+    public record Plan(List<Strategy> strategies, int seeds, int seedLabels, int budget, double testFraction,
+                       PoolSettings settings, SamplerConfig sampler, long seed) {
 
         public Plan {
             strategies = List.copyOf(strategies);
             if (strategies.isEmpty()) {
                 throw new IllegalArgumentException("name at least one strategy");
             }
-            if (seeds < 1 || seedLabels < 1 || batch < 1) {
-                throw new IllegalArgumentException("seeds, seed labels and batch must be at least 1");
+            if (seeds < 1 || seedLabels < 1) {
+                throw new IllegalArgumentException("seeds and seed labels must be at least 1");
             }
             if (budget < seedLabels) {
                 throw new IllegalArgumentException("the budget (" + budget + ") must be at least the seed labels ("
@@ -48,9 +63,9 @@ public final class Simulation {
             }
         }
 
-        /** Rounds per strategy and seed, for a progress bar. */
+        /** Rounds per strategy and seed, for a progress bar: the cold start, then one per batch and the last. */
         public int roundsEach() {
-            return 1 + (budget - seedLabels + batch - 1) / batch;
+            return 2 + (budget - seedLabels + settings.batchSize() - 1) / settings.batchSize();
         }
     }
 
@@ -61,80 +76,116 @@ public final class Simulation {
     public static List<Point> run(LabelledSet all, Plan plan, IntConsumer tick) {
         List<Point> out = new ArrayList<>();
         int classes = all.classes().size();
+        SeedTree root = SeedTree.of(plan.seed());
         try (PoolScorer scorer = PoolScorer.withAllCores()) {
             for (int seed = 0; seed < plan.seeds(); seed++) {
-                Splits.Split split = Splits.stratified(all.labels(), classes, plan.testFraction(), 1000 + seed);
+                SeedTree node = root.child(seed);
+                Splits.Split split = Splits.stratified(all.labels(), classes, plan.testFraction(),
+                        node.child(SPLIT).rng());
                 LabelledSet train = all.subset(split.train());
                 LabelledSet test = all.subset(split.test());
-                int[] seedRows = ColdStart.kmeansPlusPlus(train.x(), train.rows(), train.cols(), plan.seedLabels(),
-                        new SplittableRandom(2000 + seed));
                 for (Strategy strategy : plan.strategies()) {
-                    out.addAll(runOne(strategy, seed, train, test, seedRows, plan, scorer, tick));
+                    out.addAll(curve(strategy, seed, train, test, plan, node.child(LOOP), scorer, tick));
                 }
             }
         }
         return out;
     }
 
-    private static List<Point> runOne(Strategy strategy, int seed, LabelledSet train, LabelledSet test,
-                                      int[] seedRows, Plan plan, PoolScorer scorer, IntConsumer tick) {
+    private static List<Point> curve(Strategy strategy, int seed, LabelledSet train, LabelledSet test, Plan plan,
+                                     SeedTree seeds, PoolScorer scorer, IntConsumer tick) {
         int classes = train.classes().size();
-        boolean[] labelled = new boolean[train.rows()];
-        List<Integer> order = new ArrayList<>();
-        for (int r : seedRows) {
-            if (!labelled[r]) {
-                labelled[r] = true;
-                order.add(r);
-            }
-        }
-        SplittableRandom rng = new SplittableRandom(3000L * (seed + 1) + strategy.ordinal());
-        PosteriorSampler sampler = new PosteriorSampler(plan.sampler().withSeed(plan.sampler().seed() + seed));
-        List<State> chains = null;
         List<Point> curve = new ArrayList<>();
         long begun = System.nanoTime();
-        for (int round = 0; ; round++) {
-            LabelledSet known = train.subset(order.stream().mapToInt(Integer::intValue).toArray());
-            Sample sample = sampler.sample(known.x(), known.labels(), classes, chains, new float[0], round);
-            chains = sample.lastStates();
-            float[] p = Predictive.meanProbabilities(sample.layout(), sample.draws(), test.x(), test.rows());
-            curve.add(new Point(strategy, seed, order.size(), Metrics.accuracy(p, test.labels(), classes),
-                    Metrics.nll(p, test.labels(), classes), Metrics.ece(p, test.labels(), classes, ECE_BINS),
-                    (System.nanoTime() - begun) / 1e9));
+        Labeller run = new Labeller(train, plan.settings().withStrategy(strategy), plan.sampler(), seeds);
+        while (true) {
+            int labels = run.labelled();
+            int batch = labels == 0 ? plan.seedLabels() : Math.min(plan.settings().batchSize(), plan.budget() - labels);
+            RoundStep.Result r = run.round(Math.max(1, batch), scorer);
             tick.accept(1);
-            if (order.size() >= plan.budget()) {
+            if (!r.cold()) {
+                RoundDraws draws = r.draws();
+                float[] p = Predictive.meanProbabilities(draws.layout(), draws.draws(), test.x(), test.rows());
+                curve.add(new Point(strategy, seed, labels, Metrics.accuracy(p, test.labels(), classes),
+                        Metrics.nll(p, test.labels(), classes), Metrics.ece(p, test.labels(), classes),
+                        (System.nanoTime() - begun) / 1e9));
+            }
+            if (labels >= plan.budget() || r.queue().isEmpty()) {
                 return curve;
             }
-            int[] candidates = unlabelled(labelled);
-            if (candidates.length == 0) {
-                return curve;
-            }
-            float[] cx = new float[candidates.length * train.cols()];
-            for (int i = 0; i < candidates.length; i++) {
-                System.arraycopy(train.x(), candidates[i] * train.cols(), cx, i * train.cols(), train.cols());
-            }
-            PoolScorer.Result scores = scorer.score(sample.layout(), sample.draws(), cx, candidates.length);
-            int b = Math.min(plan.batch(), plan.budget() - order.size());
-            for (int pos : BatchPicker.pick(strategy, b, scores, cx, sample.layout(), sample.draws(), rng)) {
-                int row = candidates[pos];
-                labelled[row] = true;
-                order.add(row);
-            }
+            run.reveal(r);
         }
     }
 
-    private static int[] unlabelled(boolean[] labelled) {
-        int n = 0;
-        for (boolean l : labelled) {
-            n += l ? 0 : 1;
+    /**
+     * A pool whose every label is known, worked round by round as the server would: each
+     * {@link #round} runs the round step on the labels revealed so far, and {@link #reveal} gives
+     * the labels of everything it queued.
+     */
+    public static final class Labeller {
+
+        private final LabelledSet pool;
+        private final PoolSettings settings;
+        private final SamplerConfig sampler;
+        private final SeedTree seeds;
+        private final boolean[] labelled;
+        private List<State> chains;
+        private int round;
+        private int count;
+
+        /**
+         * @param pool     every record with the label a person would give it, in pool order
+         * @param settings the pool's settings
+         * @param seeds    the pool's node of the seed tree: round r draws from its child r
+         */
+        public Labeller(LabelledSet pool, PoolSettings settings, SamplerConfig sampler, SeedTree seeds) {
+            this.pool = pool;
+            this.settings = settings;
+            this.sampler = sampler;
+            this.seeds = seeds;
+            this.labelled = new boolean[pool.rows()];
         }
-        int[] out = new int[n];
-        int at = 0;
-        for (int i = 0; i < labelled.length; i++) {
-            if (!labelled[i]) {
-                out[at++] = i;
+
+        /** Labels revealed so far. */
+        public int labelled() {
+            return count;
+        }
+
+        /** The next round, picking {@code batch} records. */
+        public RoundStep.Result round(int batch, PoolScorer scorer) {
+            round++;
+            int[] known = new int[count];
+            int[] candidates = new int[pool.rows() - count];
+            int k = 0;
+            int c = 0;
+            for (int i = 0; i < pool.rows(); i++) {
+                if (labelled[i]) {
+                    known[k++] = i;
+                } else {
+                    candidates[c++] = i;
+                }
+            }
+            RoundStep.Rows cand = new RoundStep.Rows(FeatureMatrix.gather(pool.x(), pool.cols(), candidates),
+                    Arrays.stream(candidates).asLongStream().toArray(), pool.cols());
+            RoundStep.Rows none = new RoundStep.Rows(new float[0], new long[0], pool.cols());
+            RoundStep.Input in = new RoundStep.Input(pool.subset(known), cand, none, chains,
+                    settings.withBatchSize(batch), sampler, seeds.child(round), round);
+            RoundStep.Result r = RoundStep.run(in, scorer, StopSignal.never());
+            if (!r.cold()) {
+                chains = r.draws().lastStates();
+            }
+            return r;
+        }
+
+        /** Every record the round queued is labelled. */
+        public void reveal(RoundStep.Result r) {
+            for (RoundStep.Pick p : r.queue()) {
+                if (!labelled[(int) p.row()]) {
+                    labelled[(int) p.row()] = true;
+                    count++;
+                }
             }
         }
-        return out;
     }
 
     /**

@@ -1,6 +1,5 @@
 package dev.dowser.rounds;
 
-import dev.dowser.json.Json;
 import dev.dowser.labels.LabelRow;
 import dev.dowser.stats.Metrics;
 import dev.dowser.stats.Wilson;
@@ -21,8 +20,6 @@ import java.util.Map;
  * Wilson's (1927) at 95%, and the calibration error is Guo et al.'s (2017, eq. 3) on the same checks.
  */
 public final class SpotCheckAccuracy {
-
-    static final int ECE_BINS = 10;
 
     /** After {@code labels} labels in all, {@code correct} of {@code checked} spot checks agreed. */
     public record Point(long labels, long checked, long correct, double accuracy, double lower, double upper) {
@@ -85,22 +82,18 @@ public final class SpotCheckAccuracy {
             System.arraycopy(beliefs.get(i), 0, p, i * classes, classes);
             y[i] = given.get(i);
         }
-        return Metrics.ece(p, y, classes, ECE_BINS);
+        return Metrics.ece(p, y, classes);
     }
 
-    /** The mean class probabilities from a queue entry's belief: {"mean": [...], ...}, or the bare array of older queues. */
+    /** The mean class probabilities from a queue entry's belief; null when none was kept. */
     static float[] meanOf(String json) {
         if (json == null) {
             return null;
         }
-        var tree = Json.tree(json);
-        var mean = tree.isArray() ? tree : tree.get("mean");
-        if (mean == null || !mean.isArray()) {
-            return null;
-        }
-        float[] out = new float[mean.size()];
+        double[] mean = QueuedBelief.parse(json).mean();
+        float[] out = new float[mean.length];
         for (int i = 0; i < out.length; i++) {
-            out[i] = (float) mean.get(i).asDouble();
+            out[i] = (float) mean[i];
         }
         return out;
     }

@@ -3,6 +3,7 @@ package dev.dowser.sampler;
 import dev.dowser.model.Architecture;
 import dev.dowser.model.Layout;
 import dev.dowser.model.Prior;
+import dev.dowser.stats.SeedTree;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
@@ -46,31 +47,24 @@ public final class PosteriorSampler {
         return new Layout(new Architecture(inputs, config.hidden(), classes, config.activation()));
     }
 
-    /** The generator of chain {@code chain} in round {@code round}: reproducible, and fresh every round. */
-    static SplittableRandom rngFor(long seed, int round, int chain) {
-        long z = seed ^ (0x9E3779B97F4A7C15L * (1 + round * 1_000_003L + chain));
-        // SplitMix64's finaliser (Steele, Lea & Flood 2014), so nearby seeds give unrelated streams.
-        z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9L;
-        z = (z ^ (z >>> 27)) * 0x94D049BB133111EBL;
-        return new SplittableRandom(z ^ (z >>> 31));
-    }
-
     /**
      * Runs one round on the labelled rows {@code x} (standardised, row-major) with class indices
      * {@code labels}. {@code previous} holds the chains' last states from the round before (same
      * network), or is null to start from scratch. {@code probe} holds rows whose predictive
-     * probabilities serve as diagnostics summaries (may be empty).
+     * probabilities serve as diagnostics summaries (may be empty). Chain c draws its random numbers
+     * from branch c of {@code seeds}.
      */
-    public Sample sample(float[] x, int[] labels, int classes, List<State> previous, float[] probe, int round) {
-        return sample(x, labels, classes, previous, probe, round, StopSignal.never());
+    public RoundDraws sample(float[] x, int[] labels, int classes, List<State> previous, float[] probe,
+                             SeedTree seeds) {
+        return sample(x, labels, classes, previous, probe, seeds, StopSignal.never());
     }
 
     /**
      * As above; when {@code stop} is raised the chains end at their next safe point and
      * {@link SamplingStopped} carries their states.
      */
-    public Sample sample(float[] x, int[] labels, int classes, List<State> previous, float[] probe, int round,
-                         StopSignal stop) {
+    public RoundDraws sample(float[] x, int[] labels, int classes, List<State> previous, float[] probe,
+                             SeedTree seeds, StopSignal stop) {
         long begun = System.nanoTime();
         int rows = labels.length;
         if (rows == 0) {
@@ -95,7 +89,7 @@ public final class PosteriorSampler {
             MlpPosterior target = new MlpPosterior(layout, config.prior(), x, labels, workRows);
             targets.add(target);
             Kernel kernel = kernel(choice.kernel(), target);
-            SplittableRandom rng = rngFor(config.seed(), round, c);
+            SplittableRandom rng = seeds.child(c).rng();
             State start;
             Batch first = kernel.fullBatch() ? Batch.full(rows) : Batch.full(Math.min(rows, config.batchRows()));
             if (warm) {
@@ -122,7 +116,7 @@ public final class PosteriorSampler {
             throw new SamplingStopped(choice, layout, runs.stream().map(ChainRun::last).toList());
         }
         Health health = Health.of(runs, targets.get(0), layout, probe);
-        return new Sample(choice, layout, runs, health, warm, (System.nanoTime() - begun) / 1e9,
+        return new RoundDraws(choice, layout, runs, health, warm, (System.nanoTime() - begun) / 1e9,
                 chainConfig.totalSteps() * config.chains());
     }
 

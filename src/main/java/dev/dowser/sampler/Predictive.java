@@ -50,4 +50,23 @@ public final class Predictive {
         }
         return new Belief(mean, sd, c);
     }
+
+    /**
+     * Each draw's class probabilities for {@code rows} rows of x: {@code out[(i * S + s) * C + k]}
+     * for row i, draw s and class k, the layout the batch scores read.
+     */
+    public static float[] perDraw(Layout layout, List<float[]> draws, float[] x, int rows) {
+        int c = layout.architecture().classes();
+        int s = draws.size();
+        Mlp mlp = new Mlp(layout, Math.max(1, Math.min(BLOCK_ROWS, rows)));
+        float[] out = new float[rows * s * c];
+        float[] p = new float[rows * c];
+        for (int k = 0; k < s; k++) {
+            mlp.probabilities(draws.get(k), x, 0, rows, p);
+            for (int i = 0; i < rows; i++) {
+                System.arraycopy(p, i * c, out, (i * s + k) * c, c);
+            }
+        }
+        return out;
+    }
 }

@@ -5,6 +5,8 @@ public final class Metrics {
 
     /** Probabilities are clipped here before a log, so one overconfident miss costs a bounded amount. */
     static final double MIN_PROBABILITY = 1e-12;
+    /** Bins of the calibration error: Guo et al.'s (2017) choice, used for every figure Dowser reports. */
+    public static final int ECE_BINS = 15;
 
     private Metrics() {
     }
@@ -43,6 +45,11 @@ public final class Metrics {
      * Neural Networks", eq. 3): predictions binned by confidence into M equal-width bins,
      * ECE = sum_m |B_m| / n * |acc(B_m) - conf(B_m)|.
      */
+    public static double ece(float[] p, int[] y, int classes) {
+        return ece(p, y, classes, ECE_BINS);
+    }
+
+    /** As above with {@code bins} bins. */
     public static double ece(float[] p, int[] y, int classes, int bins) {
         double[] conf = new double[bins];
         double[] acc = new double[bins];

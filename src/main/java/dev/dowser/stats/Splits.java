@@ -19,11 +19,15 @@ public final class Splits {
      * n_class) go to the test side, so both sides keep the class shares.
      */
     public static Split stratified(int[] labels, int classes, double testFraction, long seed) {
+        return stratified(labels, classes, testFraction, new SplittableRandom(seed));
+    }
+
+    /** As above, shuffled with {@code rng}. */
+    public static Split stratified(int[] labels, int classes, double testFraction, SplittableRandom rng) {
         if (!(testFraction > 0 && testFraction < 1)) {
             throw new IllegalArgumentException("the test fraction must lie strictly between 0 and 1, got "
                     + testFraction);
         }
-        SplittableRandom rng = new SplittableRandom(seed);
         List<Integer> train = new ArrayList<>();
         List<Integer> test = new ArrayList<>();
         for (int k = 0; k < classes; k++) {

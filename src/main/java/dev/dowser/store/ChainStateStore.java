@@ -15,7 +15,10 @@ import java.util.ArrayList;
 import java.util.List;
 import javax.sql.DataSource;
 
-/** Saves and loads the chains' last states, all of a pool's chains together. */
+/**
+ * Saves and loads the chains' last states, all of a pool's chains together, per round: the latest
+ * two rounds' states are kept, so the round before the latest can be continued (or rebuilt) again.
+ */
 public final class ChainStateStore {
 
     private final DataSource ds;
@@ -26,15 +29,32 @@ public final class ChainStateStore {
         this.clock = clock;
     }
 
-    /** Replaces the pool's saved chains with these, in one transaction. */
+    /** Rounds whose chain states are kept for each pool. */
+    static final int KEPT_ROUNDS = 2;
+
+    /**
+     * Saves the pool's chains as they stood after a round (all with the same round number),
+     * replacing any saved for that round and dropping those older than the latest two rounds, in
+     * one transaction.
+     */
     public void save(long poolId, List<SavedChain> chains) {
+        if (chains.isEmpty() || chains.stream().anyMatch(s -> s.round() != chains.get(0).round())) {
+            throw new IllegalArgumentException("save the chains of one round together");
+        }
+        int round = chains.get(0).round();
         try {
             Transactions.run(ds, c -> {
-                try (PreparedStatement del = c.prepareStatement("DELETE FROM chain_states WHERE pool_id = ?");
+                try (PreparedStatement del = c.prepareStatement("DELETE FROM chain_states WHERE pool_id = ?"
+                        + " AND (round_no = ? OR round_no < (SELECT MIN(r) FROM (SELECT DISTINCT round_no AS r"
+                        + " FROM chain_states WHERE pool_id = ? AND round_no <> ? ORDER BY r DESC FETCH FIRST "
+                        + (KEPT_ROUNDS - 1) + " ROWS ONLY) AS latest))");
                      PreparedStatement ins = c.prepareStatement("INSERT INTO chain_states (pool_id, chain_no, round_no,"
                              + " kernel, network, position, preconditioner, hyper, step_size, step_count, accepted,"
                              + " proposed, saved_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)")) {
                     del.setLong(1, poolId);
+                    del.setInt(2, round);
+                    del.setLong(3, poolId);
+                    del.setInt(4, round);
                     del.executeUpdate();
                     Timestamp now = Timestamp.from(clock.instant());
                     for (SavedChain s : chains) {
@@ -67,14 +87,24 @@ public final class ChainStateStore {
         }
     }
 
-    /** The pool's saved chains in chain order; empty when none were saved. */
+    /** The pool's chains as the latest round left them, in chain order; empty when none were saved. */
     public List<SavedChain> load(long poolId) {
+        return load(poolId, "(SELECT MAX(round_no) FROM chain_states WHERE pool_id = ?)", poolId);
+    }
+
+    /** The pool's chains as round {@code round} left them; empty when they are not kept. */
+    public List<SavedChain> load(long poolId, int round) {
+        return load(poolId, "?", round);
+    }
+
+    private List<SavedChain> load(long poolId, String roundSql, long roundParameter) {
         List<SavedChain> out = new ArrayList<>();
         try (Connection c = ds.getConnection();
              PreparedStatement q = c.prepareStatement("SELECT chain_no, round_no, kernel, network, position,"
                      + " preconditioner, hyper, step_size, step_count, accepted, proposed FROM chain_states"
-                     + " WHERE pool_id = ? ORDER BY chain_no")) {
+                     + " WHERE pool_id = ? AND round_no = " + roundSql + " ORDER BY chain_no")) {
             q.setLong(1, poolId);
+            q.setLong(2, roundParameter);
             try (ResultSet rs = q.executeQuery()) {
                 while (rs.next()) {
                     byte[] v = rs.getBytes(6);

@@ -214,6 +214,33 @@ public final class LabelStore {
         forEachResolution(poolId, 0, Long.MAX_VALUE, sink);
     }
 
+    /**
+     * Every record anyone had labelled once the label rows up to id {@code lastLabelId} were
+     * written, as those rows resolve it: label rows are appended, never changed, so this is the
+     * labelled set as it stood then.
+     */
+    public void forEachResolutionUpTo(long poolId, long lastLabelId, Consumer<Resolution> sink) {
+        withCursor(poolId, 0, Long.MAX_VALUE, lastLabelId, cursor -> {
+            for (Resolution r = cursor.next(); r != null; r = cursor.next()) {
+                sink.accept(r);
+            }
+        });
+    }
+
+    /** The id of the pool's newest label row (labels, withdrawals and reviews alike); 0 when there is none. */
+    public long lastLabelId(long poolId) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT COALESCE(MAX(id), 0) FROM labels WHERE pool_id = ?")) {
+            q.setLong(1, poolId);
+            try (ResultSet rs = q.executeQuery()) {
+                rs.next();
+                return rs.getLong(1);
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the labels of pool " + poolId + ": " + e.getMessage(), e);
+        }
+    }
+
     void forEachResolution(long poolId, long from, long to, Consumer<Resolution> sink) {
         withCursor(poolId, from, to, cursor -> {
             for (Resolution r = cursor.next(); r != null; r = cursor.next()) {
@@ -229,13 +256,18 @@ public final class LabelStore {
     private static final String CURSOR_COLUMNS = "row_no, label, labelled_by, labelled_at, note, withdrawn, kind";
 
     private void withCursor(long poolId, long from, long to, Consumer<Cursor> use) {
+        withCursor(poolId, from, to, Long.MAX_VALUE, use);
+    }
+
+    private void withCursor(long poolId, long from, long to, long lastId, Consumer<Cursor> use) {
         try (Connection c = ds.getConnection();
              PreparedStatement q = c.prepareStatement("SELECT " + CURSOR_COLUMNS
-                     + " FROM labels WHERE pool_id = ? AND row_no >= ? AND row_no < ? ORDER BY row_no, id")) {
+                     + " FROM labels WHERE pool_id = ? AND row_no >= ? AND row_no < ? AND id <= ? ORDER BY row_no, id")) {
             q.setFetchSize(4_096);
             q.setLong(1, poolId);
             q.setLong(2, from);
             q.setLong(3, to);
+            q.setLong(4, lastId);
             try (ResultSet rs = q.executeQuery()) {
                 use.accept(new Cursor(rs));
             }

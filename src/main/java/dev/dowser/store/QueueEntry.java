@@ -3,25 +3,36 @@ package dev.dowser.store;
 import java.time.Instant;
 
 /**
- * One place in a served queue: the record, why it was picked, who holds it until when, and how
- * many different people must label it ({@code copies}: 1, or 2 when agreement is measured on it).
+ * One place in a served queue: the record, why it was picked, who holds it until when, how many
+ * different people must label it ({@code copies}: 1, or 2 when agreement is measured on it), and
+ * the probability with which it was picked given the places picked before it
+ * ({@code pickProbability}; null for queues written before it was kept).
  */
 public record QueueEntry(int round, int position, long row, double score, boolean spotCheck, String predictionJson,
-                         String leasedTo, Instant leaseUntil, int copies) {
+                         String leasedTo, Instant leaseUntil, int copies, Double pickProbability) {
 
     public QueueEntry {
         if (copies < 1 || copies > 2) {
             throw new IllegalArgumentException("a queued record is labelled by 1 or 2 people, not " + copies);
         }
+        if (pickProbability != null && !(pickProbability > 0 && pickProbability <= 1)) {
+            throw new IllegalArgumentException("a pick's probability lies in (0, 1], not " + pickProbability);
+        }
+    }
+
+    public QueueEntry(int round, int position, long row, double score, boolean spotCheck, String predictionJson,
+                      String leasedTo, Instant leaseUntil, int copies) {
+        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, copies, null);
     }
 
     /** An entry that one person labels. */
     public QueueEntry(int round, int position, long row, double score, boolean spotCheck, String predictionJson,
                       String leasedTo, Instant leaseUntil) {
-        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, 1);
+        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, 1, null);
     }
 
     public QueueEntry withCopies(int n) {
-        return new QueueEntry(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, n);
+        return new QueueEntry(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, n,
+                pickProbability);
     }
 }

@@ -60,7 +60,8 @@ public final class QueueStore {
         try {
             Transactions.run(ds, c -> {
                 try (PreparedStatement ins = c.prepareStatement("INSERT INTO queue_entries (pool_id, round_no, position,"
-                        + " row_no, score, spot_check, prediction, copies) VALUES (?, ?, ?, ?, ?, ?, ?, ?)");
+                        + " row_no, score, spot_check, prediction, copies, pick_probability)"
+                        + " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)");
                      PreparedStatement del = c.prepareStatement("DELETE FROM served_queues WHERE pool_id = ?");
                      PreparedStatement serve = c.prepareStatement(
                              "INSERT INTO served_queues (pool_id, round_no) VALUES (?, ?)")) {
@@ -73,6 +74,11 @@ public final class QueueStore {
                         ins.setBoolean(6, e.spotCheck());
                         ins.setString(7, e.predictionJson());
                         ins.setInt(8, e.copies());
+                        if (e.pickProbability() == null) {
+                            ins.setNull(9, java.sql.Types.DOUBLE);
+                        } else {
+                            ins.setDouble(9, e.pickProbability());
+                        }
                         ins.addBatch();
                     }
                     ins.executeBatch();
@@ -135,8 +141,8 @@ public final class QueueStore {
         if (served.isEmpty()) {
             return Optional.empty();
         }
-        String columns = "SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check, q.prediction, q.copies"
-                + " FROM queue_entries q WHERE q.pool_id = ? AND q.round_no = ?"
+        String columns = "SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check, q.prediction, q.copies,"
+                + " q.pick_probability FROM queue_entries q WHERE q.pool_id = ? AND q.round_no = ?"
                 + " AND q.done = FALSE AND (q.copies = 1 OR NOT " + LABELLED_BY_PERSON + ")";
         // Ordered by every column of queue_entries_open, so that the database reads that index in order
         // from the first open entry and stops after a few, rather than sorting all of them.
@@ -173,7 +179,8 @@ public final class QueueStore {
                             take.setString(7, person);
                             if (take.executeUpdate() == 1) {
                                 return Optional.of(new QueueEntry(round, position, rs.getLong(3), rs.getDouble(4),
-                                        rs.getBoolean(5), rs.getString(6), person, until, rs.getInt(7)));
+                                        rs.getBoolean(5), rs.getString(6), person, until, rs.getInt(7),
+                                        probability(rs, 8)));
                             }
                         }
                     }
@@ -212,7 +219,7 @@ public final class QueueStore {
         List<Served> out = new ArrayList<>();
         try (Connection c = ds.getConnection();
              PreparedStatement q = c.prepareStatement("SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check,"
-                     + " q.prediction, q.leased_to, q.lease_until, q.done, q.copies"
+                     + " q.prediction, q.leased_to, q.lease_until, q.done, q.copies, q.pick_probability"
                      + " FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
                      + " WHERE q.pool_id = ? ORDER BY q.position")) {
             q.setLong(1, poolId);
@@ -221,7 +228,8 @@ public final class QueueStore {
                     Timestamp until = rs.getTimestamp(8);
                     out.add(new Served(new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getDouble(4),
                             rs.getBoolean(5), rs.getString(6), rs.getString(7),
-                            until == null ? null : until.toInstant(), rs.getInt(10)), rs.getBoolean(9)));
+                            until == null ? null : until.toInstant(), rs.getInt(10), probability(rs, 11)),
+                            rs.getBoolean(9)));
                 }
             }
         } catch (SQLException e) {
@@ -238,14 +246,15 @@ public final class QueueStore {
         List<QueueEntry> out = new ArrayList<>();
         try (Connection c = ds.getConnection();
              PreparedStatement q = c.prepareStatement("SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check,"
-                     + " q.prediction FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id"
-                     + " AND s.round_no = q.round_no WHERE q.pool_id = ? AND q.copies = 2 AND NOT q.done"
+                     + " q.prediction, q.pick_probability FROM queue_entries q JOIN served_queues s"
+                     + " ON s.pool_id = q.pool_id AND s.round_no = q.round_no WHERE q.pool_id = ? AND q.copies = 2"
+                     + " AND NOT q.done"
                      + " AND (SELECT COUNT(*) " + LIVE_LABELS + ") > 0 ORDER BY q.position")) {
             q.setLong(1, poolId);
             try (ResultSet rs = q.executeQuery()) {
                 while (rs.next()) {
                     out.add(new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getDouble(4),
-                            rs.getBoolean(5), rs.getString(6), null, null, 2));
+                            rs.getBoolean(5), rs.getString(6), null, null, 2, probability(rs, 7)));
                 }
             }
         } catch (SQLException e) {
@@ -286,5 +295,11 @@ public final class QueueStore {
         } catch (SQLException e) {
             throw new StoreException("cannot release the lease: " + e.getMessage(), e);
         }
+    }
+
+    /** A pick's probability, or null where none was kept. */
+    private static Double probability(ResultSet rs, int column) throws SQLException {
+        double q = rs.getDouble(column);
+        return rs.wasNull() ? null : q;
     }
 }

@@ -18,6 +18,18 @@ public final class RoundStore {
                            long labelsAtStart, String kernel, String message, String healthJson) {
     }
 
+    /**
+     * What a round was computed from, kept so that its queue can be rebuilt.
+     *
+     * @param seed         the round's node of the pool's seed tree
+     * @param samplerJson  the sampler's configuration
+     * @param settingsJson the pool's settings
+     * @param lastLabelId  the newest label row the round read (0 when there were none)
+     * @param chainsFrom   the round whose chain states it continued; null when they started afresh
+     */
+    public record Inputs(long seed, String samplerJson, String settingsJson, long lastLabelId, Integer chainsFrom) {
+    }
+
     private final DataSource ds;
     private final Clock clock;
 
@@ -26,30 +38,65 @@ public final class RoundStore {
         this.clock = clock;
     }
 
-    /** Records the start of the pool's next round and returns its number (1, 2, ...). */
-    public int start(long poolId, long labels) {
-        try {
-            return Transactions.run(ds, c -> {
-                try (PreparedStatement max = c.prepareStatement(
-                             "SELECT COALESCE(MAX(round_no), 0) FROM rounds WHERE pool_id = ?");
-                     PreparedStatement ins = c.prepareStatement("INSERT INTO rounds (pool_id, round_no, status,"
-                             + " started_at, labels_at_start) VALUES (?, ?, 'running', ?, ?)")) {
-                    max.setLong(1, poolId);
-                    int round;
-                    try (ResultSet rs = max.executeQuery()) {
-                        rs.next();
-                        round = rs.getInt(1) + 1;
-                    }
-                    ins.setLong(1, poolId);
-                    ins.setInt(2, round);
-                    ins.setTimestamp(3, Timestamp.from(clock.instant()));
-                    ins.setLong(4, labels);
-                    ins.executeUpdate();
-                    return round;
-                }
-            });
+    /** The number the pool's next round will have (1, 2, ...), unless another starts first. */
+    public int next(long poolId) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement max = c.prepareStatement("SELECT COALESCE(MAX(round_no), 0) FROM rounds WHERE pool_id = ?")) {
+            max.setLong(1, poolId);
+            try (ResultSet rs = max.executeQuery()) {
+                rs.next();
+                return rs.getInt(1) + 1;
+            }
         } catch (SQLException e) {
-            throw new StoreException("cannot start a round of pool " + poolId + ": " + e.getMessage(), e);
+            throw new StoreException("cannot read the rounds of pool " + poolId + ": " + e.getMessage(), e);
+        }
+    }
+
+    /**
+     * Records the start of round {@code round} of the pool with what it is computed from; refused
+     * when that number is taken (another round started first).
+     */
+    public void start(long poolId, int round, long labels, Inputs inputs) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement ins = c.prepareStatement("INSERT INTO rounds (pool_id, round_no, status, started_at,"
+                     + " labels_at_start, seed, sampler, settings, last_label_id, chains_from)"
+                     + " VALUES (?, ?, 'running', ?, ?, ?, ?, ?, ?, ?)")) {
+            ins.setLong(1, poolId);
+            ins.setInt(2, round);
+            ins.setTimestamp(3, Timestamp.from(clock.instant()));
+            ins.setLong(4, labels);
+            ins.setLong(5, inputs.seed());
+            ins.setString(6, inputs.samplerJson());
+            ins.setString(7, inputs.settingsJson());
+            ins.setLong(8, inputs.lastLabelId());
+            if (inputs.chainsFrom() == null) {
+                ins.setNull(9, java.sql.Types.INTEGER);
+            } else {
+                ins.setInt(9, inputs.chainsFrom());
+            }
+            ins.executeUpdate();
+        } catch (SQLException e) {
+            throw new StoreException("cannot start round " + round + " of pool " + poolId + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** What round {@code round} of the pool was computed from; empty for rounds stored before this was kept. */
+    public java.util.Optional<Inputs> inputs(long poolId, int round) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT seed, sampler, settings, last_label_id, chains_from"
+                     + " FROM rounds WHERE pool_id = ? AND round_no = ? AND seed IS NOT NULL")) {
+            q.setLong(1, poolId);
+            q.setInt(2, round);
+            try (ResultSet rs = q.executeQuery()) {
+                if (!rs.next()) {
+                    return java.util.Optional.empty();
+                }
+                int from = rs.getInt(5);
+                return java.util.Optional.of(new Inputs(rs.getLong(1), rs.getString(2), rs.getString(3), rs.getLong(4),
+                        rs.wasNull() ? null : from));
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read round " + round + " of pool " + poolId + ": " + e.getMessage(), e);
         }
     }
 

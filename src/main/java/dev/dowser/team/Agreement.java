@@ -1,6 +1,7 @@
 package dev.dowser.team;
 
 import dev.dowser.labels.Resolution;
+import dev.dowser.stats.Kappa;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;

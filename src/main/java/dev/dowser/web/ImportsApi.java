@@ -41,6 +41,10 @@ final class ImportsApi {
                 listQuery(ex, "categorical"), (int) longQuery(ex, "max_levels", ImportSpec.DEFAULT_MAX_LEVELS),
                 (int) longQuery(ex, "max_field_chars", ImportSpec.DEFAULT_MAX_FIELD_CHARS),
                 ImportSpec.UNLIMITED_BYTES, "import");
+        if (!spec.namesLabelSet()) {
+            throw new ApiException(400, "a pool needs classes for people to choose from: add classes=a,b,c to"
+                    + " the call, or label=COLUMN naming the column that holds labels already given");
+        }
         ex.startBlocking();
         ImportJobs.Submission job = imports.submit(ex.getInputStream(), fileName, spec);
         if (Boolean.parseBoolean(query(ex, "wait", "false"))) {
@@ -61,8 +65,11 @@ final class ImportsApi {
         ObjectNode body = Json.object().put("format", format.word());
         ArrayNode columns = body.putArray("columns");
         for (int c = 0; c < p.columns().size(); c++) {
-            columns.addObject().put("name", p.columns().get(c)).put("numeric", p.numeric().get(c));
+            columns.addObject().put("name", p.columns().get(c)).put("kind", p.kinds().get(c))
+                    .put("numeric", p.kinds().get(c).equals(Preview.NUMBER)).put("filled", p.filled().get(c))
+                    .put("distinct", p.distinct().get(c)).put("unique", p.unique(c));
         }
+        body.put("sampled", p.sampled());
         body.set("rows", Json.mapper().valueToTree(p.rows()));
         body.set("suggested", Json.mapper().valueToTree(p.suggested()));
         Responses.ok(ex, body);

@@ -70,6 +70,7 @@ final class PoolsApi {
             } else {
                 f.set("mean", Json.mapper().valueToTree(c.mean()));
                 f.set("sd", Json.mapper().valueToTree(c.sd()));
+                f.put("low", c.low()).put("high", c.high());
             }
         }
         body.put("feature_width", schema.encodedWidth());

@@ -11,7 +11,7 @@ import dev.dowser.desk.Progress;
 import dev.dowser.desk.QueuePlace;
 import dev.dowser.json.Json;
 import dev.dowser.rounds.PoolSettings;
-import dev.dowser.rounds.Rounds;
+import dev.dowser.rounds.RoundWorkers;
 import dev.dowser.rounds.SpotCheckAccuracy;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.store.Database;
@@ -33,10 +33,10 @@ final class RoundsApi {
             "double_label_share");
 
     private final Database db;
-    private final Rounds rounds;
+    private final RoundWorkers rounds;
     private final Desk desk;
 
-    RoundsApi(Database db, Rounds rounds, Desk desk) {
+    RoundsApi(Database db, RoundWorkers rounds, Desk desk) {
         this.db = db;
         this.rounds = rounds;
         this.desk = desk;

@@ -1,7 +1,7 @@
 package dev.dowser.web;
 
 import dev.dowser.desk.Desk;
-import dev.dowser.rounds.Rounds;
+import dev.dowser.rounds.RoundWorkers;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import dev.dowser.team.Accounts;
@@ -26,19 +26,19 @@ public final class WebServer implements AutoCloseable {
 
     private static final Logger LOG = LoggerFactory.getLogger(WebServer.class);
     static final long SHUTDOWN_WAIT_MILLIS = 20_000;
-    /** Rounds are reproducible: the chains' generators all come from this seed, the round and the chain. */
+    /** Rounds are reproducible: every random number of a round comes from this seed's tree (the pool, the round, its consumer). */
     public static final long DEFAULT_SEED = 1;
 
     private final Undertow undertow;
     private final GracefulShutdownHandler graceful;
     private final ImportJobs imports;
-    private final Rounds rounds;
+    private final RoundWorkers rounds;
     private final Events events;
     private final Accounts accounts;
     private final Routes routes;
     private final boolean tls;
 
-    private WebServer(Undertow undertow, GracefulShutdownHandler graceful, ImportJobs imports, Rounds rounds,
+    private WebServer(Undertow undertow, GracefulShutdownHandler graceful, ImportJobs imports, RoundWorkers rounds,
                       Events events, Accounts accounts, Routes routes, boolean tls) {
         this.undertow = undertow;
         this.graceful = graceful;
@@ -62,7 +62,7 @@ public final class WebServer implements AutoCloseable {
     public static WebServer start(Database db, WebConfig config, SamplerConfig sampler, TeamConfig team) {
         ImportJobs imports = new ImportJobs(db, config.spoolDir(), config.maxUploadBytes());
         Events events = new Events();
-        Rounds rounds = new Rounds(db, sampler, events);
+        RoundWorkers rounds = new RoundWorkers(db, sampler, events);
         Accounts accounts = new Accounts(db, new SecureRandom(), team);
         Desk desk = new Desk(db, rounds, events);
         HttpHandler files = StaticFiles.handler();

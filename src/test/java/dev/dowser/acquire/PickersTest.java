@@ -7,6 +7,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import java.util.Arrays;
 import java.util.HashSet;
 import java.util.Set;
+import java.util.List;
 import java.util.SplittableRandom;
 import org.junit.jupiter.api.Test;
 
@@ -133,7 +134,7 @@ class PickersTest {
             int trials = 20_000;
             int[] first = new int[4];
             for (int t = 0; t < trials; t++) {
-                first[Pickers.power(scores, 2, beta, rng)[0]]++;
+                first[Pickers.power(scores, 2, beta, rng).positions()[0]]++;
             }
             double total = 0;
             for (double v : scores) {
@@ -146,6 +147,47 @@ class PickersTest {
             }
             assertTrue(chi2 < 16.27, "beta " + beta + ": chi-square " + chi2 + " for " + Arrays.toString(first));
         }
+    }
+
+    /**
+     * Power sampling reports each pick's probability given the picks before it, which is
+     * Plackett-Luce for Gumbel-top-k (Kool, van Hoof & Welling 2019): the ordered pairs (i, j) of
+     * 2-pick batches occur with frequency q_i q_j, q_i = w_i / W and q_j = w_j / (W - w_i). A
+     * chi-square test over the 12 ordered pairs of 4 candidates against 31.26, the 0.1% point of
+     * chi-square with 11 degrees of freedom (Commons Math below). A score of 0 comes only after every
+     * positive one, uniformly among the zeros.
+     */
+    @Test
+    void powerSamplingReportsPlackettLuceProbabilities() {
+        assertEquals(31.264, new org.apache.commons.math3.distribution.ChiSquaredDistribution(11)
+                .inverseCumulativeProbability(0.999), 1e-3);
+        double[] scores = {0.5, 1, 2, 4};
+        double total = 7.5;
+        SplittableRandom rng = new SplittableRandom(8);
+        int trials = 30_000;
+        int[][] pairs = new int[4][4];
+        for (int t = 0; t < trials; t++) {
+            Picks p = Pickers.power(scores, 2, 1.0, rng);
+            int i = p.positions()[0];
+            int j = p.positions()[1];
+            pairs[i][j]++;
+            assertEquals(scores[i] / total, p.probabilities()[0], 1e-12);
+            assertEquals(scores[j] / (total - scores[i]), p.probabilities()[1], 1e-12);
+        }
+        double chi2 = 0;
+        for (int i = 0; i < 4; i++) {
+            for (int j = 0; j < 4; j++) {
+                if (i != j) {
+                    double expected = trials * scores[i] / total * scores[j] / (total - scores[i]);
+                    chi2 += (pairs[i][j] - expected) * (pairs[i][j] - expected) / expected;
+                }
+            }
+        }
+        assertTrue(chi2 < 31.26, "chi-square " + chi2);
+        Picks withZeros = Pickers.power(new double[] {0, 3, 0, 1}, 4, 1.0, rng);
+        assertEquals(List.of(1, 3), List.of(withZeros.positions()[0], withZeros.positions()[1]).stream().sorted().toList());
+        assertEquals(0.5, withZeros.probabilities()[2], 1e-12, "the first of two zeros, uniformly");
+        assertEquals(1.0, withZeros.probabilities()[3], 1e-12);
     }
 
     @Test

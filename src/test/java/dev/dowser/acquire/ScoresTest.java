@@ -49,10 +49,8 @@ class ScoresTest {
     }
 
     @Test
-    void variationRatioAndMargin() {
-        // Three draws voting for classes 0, 0, 1: one in three disagrees with the mode.
+    void margin() {
         float[] p = {0.6f, 0.4f, 0.8f, 0.2f, 0.3f, 0.7f};
-        assertEquals(1.0 / 3, Scores.variationRatio(p, 3, 2), 1e-12);
         // Mean probabilities 0.5667 and 0.4333: margin score 1 - 0.1333.
         assertEquals(1 - (1.7 - 1.3) / 3, Scores.margin(p, 3, 2), 1e-6);
     }

@@ -15,7 +15,7 @@ class SpotChecksTest {
     @Test
     void aTenthOfTheQueueIsSpotChecksSpreadThrough() {
         int[] picked = {5, 9, 2, 7, 1, 3, 8, 4, 6, 0, 11, 12, 13, 14, 15, 16, 17, 18, 19, 20};
-        List<SpotChecks.Entry> q = SpotChecks.mix(picked, 1_000, 20, SpotChecks.DEFAULT_SHARE, new SplittableRandom(1));
+        List<SpotChecks.Entry> q = SpotChecks.mix(Picks.greedy(picked), 1_000, 20, SpotChecks.DEFAULT_SHARE, new SplittableRandom(1));
         assertEquals(20, q.size());
         long spots = q.stream().filter(SpotChecks.Entry::spotCheck).count();
         assertEquals(2, spots);
@@ -36,7 +36,7 @@ class SpotChecksTest {
         int[] bins = new int[10];
         int trials = 20_000;
         for (int t = 0; t < trials; t++) {
-            for (SpotChecks.Entry e : SpotChecks.mix(new int[] {}, candidates, 1, 1.0, rng)) {
+            for (SpotChecks.Entry e : SpotChecks.mix(Picks.greedy(new int[] {}), candidates, 1, 1.0, rng)) {
                 bins[e.candidate() / 10]++;
             }
         }

@@ -73,10 +73,18 @@ class CommandLineTest {
     void badInputIsOneSentenceAndExitCode2() throws Exception {
         Path csv = dir.resolve("bad.csv");
         Files.writeString(csv, "a,b\n1,2\n3\n");
-        Run r = run("import", "--data", dir.resolve("data").toString(), "--pool", "p", "--file", csv.toString());
+        Run r = run("import", "--data", dir.resolve("data").toString(), "--pool", "p", "--file", csv.toString(),
+                "--classes", "yes,no");
         assertEquals(2, r.exit());
         assertEquals("dowser: line 3: the record has 1 field where the header has 2; quote fields that contain"
                 + " commas", r.err().strip());
+        Run noClasses = run("import", "--data", dir.resolve("data").toString(), "--pool", "p", "--file", csv.toString());
+        assertEquals(2, noClasses.exit());
+        assertEquals("dowser: a pool needs classes for people to choose from: name them with --classes a,b,c, or name"
+                + " the column that holds labels already given with --label COL", noClasses.err().strip());
+        Run noFile = run("import", "--data", dir.resolve("data").toString(), "--pool", "p", "--file",
+                dir.resolve("absent.csv").toString(), "--classes", "yes,no");
+        assertEquals("dowser: there is no file " + dir.resolve("absent.csv"), noFile.err().strip());
         Run missing = run("export", "--data", dir.resolve("data").toString(), "--pool", "nope");
         assertEquals(2, missing.exit());
         assertEquals("dowser: no pool named 'nope'", missing.err().strip());

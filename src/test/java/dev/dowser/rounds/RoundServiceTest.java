@@ -6,8 +6,10 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.dowser.TestSupport;
 import dev.dowser.acquire.PoolScorer;
+import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.ImportProgress;
 import dev.dowser.data.Importer;
+import dev.dowser.data.LabelledSet;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
@@ -15,6 +17,7 @@ import dev.dowser.store.PoolRow;
 import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
 import dev.dowser.store.RoundStore;
+import dev.dowser.store.SavedChain;
 import java.io.IOException;
 import java.io.InputStream;
 import java.nio.file.Files;
@@ -129,6 +132,123 @@ class RoundServiceTest {
         }
     }
 
+    /** Iris's own labels (Fisher 1936): sklearn's file holds 50 setosa, then 50 versicolor, then 50 virginica. */
+    private static int irisClass(long row) {
+        return (int) (row / 50);
+    }
+
+    private static void labelAsIris(Database db, PoolRow pool, List<QueueEntry> queue) {
+        for (QueueEntry e : queue) {
+            db.labels().add(pool.id(), e.row(), pool.classes().get(irisClass(e.row())), "test", null);
+        }
+    }
+
+    /**
+     * The server's rounds and the offline loop run the same step: from the same seed and the same
+     * labels they queue the same records, round after round (a cold start, then chains continued).
+     */
+    @Test
+    void theServerAndTheSimulationQueueTheSameRecords() throws IOException {
+        try (Database db = irisWithoutLabels(); PoolScorer scorer = new PoolScorer(2, 64)) {
+            PoolRow pool = db.pools().require("iris");
+            SamplerConfig config = small();
+            RoundService rounds = new RoundService(db, config, scorer);
+            FeatureMatrix m = FeatureMatrix.load(db, "iris");
+            int[] all = java.util.stream.IntStream.range(0, m.rows()).toArray();
+            LabelledSet truth = LabelledSet.of(m, all, Arrays.stream(all).map(r -> irisClass(r)).toArray(),
+                    pool.classes());
+            PoolSettings settings = PoolSettings.parse(pool.settingsJson());
+            Simulation.Labeller offline = new Simulation.Labeller(truth, settings, config,
+                    RoundService.seedsOf(config.seed(), pool.id()));
+            for (int round = 1; round <= 3; round++) {
+                assertTrue(rounds.run("iris").published());
+                // Records carried over for a second label were queued before: compare this round's picks.
+                List<QueueEntry> served = drain(db, pool).stream()
+                        .filter(e -> db.labels().resolution(pool.id(), e.row()).opinions().isEmpty()).toList();
+                RoundStep.Result sim = offline.round(settings.batchSize(), scorer);
+                assertEquals(sim.queue().stream().map(RoundStep.Pick::row).toList(),
+                        served.stream().map(QueueEntry::row).toList(), "round " + round);
+                assertEquals(sim.queue().stream().map(RoundStep.Pick::probability).toList(),
+                        served.stream().map(QueueEntry::pickProbability).toList(), "round " + round);
+                labelAsIris(db, pool, served);
+                offline.reveal(sim);
+            }
+        }
+    }
+
+    /**
+     * A round keeps what it was computed from: rebuilt from the database (its labels as they stood,
+     * the chains it continued, its settings, sampler and seed), the queue comes out the same, even
+     * after labels arrived and the settings changed.
+     */
+    @Test
+    void aRoundsQueueIsRebuiltFromTheDatabase() throws IOException {
+        try (Database db = irisWithoutLabels(); PoolScorer scorer = new PoolScorer(2, 64)) {
+            PoolRow pool = db.pools().require("iris");
+            RoundService rounds = new RoundService(db, small(), scorer);
+            assertTrue(rounds.run("iris").published());
+            labelAsIris(db, pool, drain(db, pool));
+            assertTrue(rounds.run("iris").published());
+            List<QueueEntry> second = drain(db, pool);
+            labelAsIris(db, pool, second);
+            assertTrue(rounds.run("iris").published());
+            List<QueueEntry> third = drain(db, pool).stream()
+                    .filter(e -> db.labels().resolution(pool.id(), e.row()).opinions().isEmpty()).toList();
+            labelAsIris(db, pool, third.subList(0, 3));
+            db.pools().updateSettings(pool.id(), PoolSettings.defaults().withStrategy(Strategy.RANDOM).toJson(), "test");
+            RoundStep.Result rebuilt = new RoundService(db, small().withSeed(99), scorer).rebuild("iris", 3);
+            assertEquals(third.stream().map(QueueEntry::row).toList(),
+                    rebuilt.queue().stream().map(RoundStep.Pick::row).toList());
+            assertEquals(third.stream().map(QueueEntry::predictionJson).toList(), rebuilt.queue().stream()
+                    .map(p -> QueuedBelief.write(p.mean(), p.sd())).toList());
+        }
+    }
+
+    /** Chains saved after a round are continued by the next, also after the database is closed and reopened. */
+    @Test
+    void aRestartContinuesWhereTheChainsStopped() throws IOException {
+        Path data = dir.resolve("db");
+        long stepsAfterFirst;
+        SamplerConfig config = small().withKernel(KernelChoice.PSGLD);
+        try (Database db = irisWithoutLabels(); PoolScorer scorer = new PoolScorer(2, 64)) {
+            PoolRow pool = db.pools().require("iris");
+            RoundService rounds = new RoundService(db, config, scorer);
+            rounds.run("iris");
+            labelAsIris(db, pool, drain(db, pool));
+            assertTrue(rounds.run("iris").published());
+            List<SavedChain> saved = db.chains().load(pool.id());
+            assertEquals(2, saved.size());
+            assertEquals(2, saved.get(0).round(), "chains are saved under the round's own number");
+            assertTrue(saved.get(0).preconditioner() != null, "preconditioned SGLD keeps its preconditioner");
+            stepsAfterFirst = saved.get(0).step();
+        }
+        try (Database db = TestSupport.openDb(data); PoolScorer scorer = new PoolScorer(2, 64)) {
+            PoolRow pool = db.pools().require("iris");
+            assertTrue(new RoundService(db, config, scorer).run("iris").published());
+            List<SavedChain> saved = db.chains().load(pool.id());
+            assertEquals(3, saved.get(0).round());
+            assertEquals(stepsAfterFirst + config.reburnInSteps() + (long) config.draws() / config.chains()
+                    * config.thinSteps(), saved.get(0).step(), "the third round continued the second's chains");
+            assertEquals(stepsAfterFirst, db.chains().load(pool.id(), 2).get(0).step(), "the round before is kept");
+        }
+    }
+
+    @Test
+    void aDifferentNetworkStartsAfresh() throws IOException {
+        try (Database db = irisWithoutLabels(); PoolScorer scorer = new PoolScorer(2, 64)) {
+            PoolRow pool = db.pools().require("iris");
+            new RoundService(db, small(), scorer).run("iris");
+            labelAsIris(db, pool, drain(db, pool));
+            new RoundService(db, small(), scorer).run("iris");
+            long steps = db.chains().load(pool.id()).get(0).step();
+            SamplerConfig wider = small().withHidden(List.of(32));
+            assertTrue(new RoundService(db, wider, scorer).run("iris").published());
+            assertEquals(wider.burnInSteps() + (long) wider.draws() / wider.chains() * wider.thinSteps(),
+                    db.chains().load(pool.id()).get(0).step(),
+                    "chains of a 16-unit network cannot continue as a 32-unit one (they had " + steps + " steps)");
+        }
+    }
+
     /**
      * The share sent to two people is exact in size and uniform over the queue's places: a
      * chi-square test over the 10 places against 27.88, the 0.1% point for 9 df (Commons Math
@@ -138,17 +258,19 @@ class RoundServiceTest {
     void theShareSentToTwoIsExactAndUniform() {
         assertEquals(27.877, new ChiSquaredDistribution(9)
                 .inverseCumulativeProbability(0.999), 1e-3);
-        List<QueueEntry> queue = new ArrayList<>();
-        for (int i = 0; i < 10; i++) {
-            queue.add(new QueueEntry(1, i, i, 0, false, null, null, null));
-        }
         SplittableRandom rng = new SplittableRandom(4);
         long[] hits = new long[10];
         int trials = 20_000;
         for (int t = 0; t < trials; t++) {
-            List<QueueEntry> out = RoundService.sendToTwo(queue, 0.2, rng);
-            assertEquals(2, out.stream().filter(e -> e.copies() == 2).count());
-            out.stream().filter(e -> e.copies() == 2).forEach(e -> hits[e.position()]++);
+            boolean[] twice = RoundStep.chooseTwice(10, 0.2, rng);
+            int n = 0;
+            for (int i = 0; i < 10; i++) {
+                if (twice[i]) {
+                    hits[i]++;
+                    n++;
+                }
+            }
+            assertEquals(2, n);
         }
         double expected = trials * 2 / 10.0;
         double chi2 = 0;
@@ -156,6 +278,8 @@ class RoundServiceTest {
             chi2 += (h - expected) * (h - expected) / expected;
         }
         assertTrue(chi2 < 27.88, "chi-square " + chi2);
-        assertEquals(0, RoundService.sendToTwo(queue, 0, rng).stream().filter(e -> e.copies() == 2).count());
+        for (boolean b : RoundStep.chooseTwice(10, 0, rng)) {
+            assertFalse(b);
+        }
     }
 }

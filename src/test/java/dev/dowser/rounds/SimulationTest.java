@@ -39,10 +39,10 @@ class SimulationTest {
             }
             LabelledSet all = LabelledSet.of(db, "digits", FeatureMatrix.load(db, "digits"));
             SamplerConfig sampler = SamplerConfig.defaults(1).withChains(4, 32).withSteps(300, 200, 10);
-            Simulation.Plan plan = new Simulation.Plan(List.of(Strategy.BALD, Strategy.RANDOM), 3, 20, 10, 300, 0.3,
-                    sampler);
+            Simulation.Plan plan = new Simulation.Plan(List.of(Strategy.BALD, Strategy.RANDOM), 3, 20, 300, 0.3,
+                    PoolSettings.defaults(), sampler, 1);
             List<Simulation.Point> points = Simulation.run(all, plan, k -> { });
-            assertEquals(plan.roundsEach() * 2 * 3, points.size());
+            assertEquals((plan.roundsEach() - 1) * 2 * 3, points.size(), "a point for every round with a model");
             StringWriter table = new StringWriter();
             SimulationReport.summary(new PrintWriter(table), points, plan, List.of(0.9));
             System.out.println("Simulation on digits, batch 10, budget 300, 3 seeds:\n" + table);

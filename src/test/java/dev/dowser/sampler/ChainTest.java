@@ -8,6 +8,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import dev.dowser.model.Prior;
 import java.util.List;
 import java.util.SplittableRandom;
+import dev.dowser.stats.SeedTree;
 import org.junit.jupiter.api.Test;
 
 /** Divergence recovery, reproducibility, and warm starts, on a small network and invented-free data. */
@@ -47,7 +48,7 @@ class ChainTest {
         // Plain SGLD with a learning rate this large multiplies the weights by about 14 a step,
         // so within a few dozen steps they overflow float; each halving brings it nearer stability.
         SamplerConfig config = small(7).withKernel(KernelChoice.SGLD).withLearningRate(1e3);
-        Sample s = new PosteriorSampler(config).sample(d[0], ints(d[1]), 2, null, new float[0], 0);
+        RoundDraws s = new PosteriorSampler(config).sample(d[0], ints(d[1]), 2, null, new float[0], SeedTree.of(0));
         assertFalse(s.divergences().isEmpty(), "no divergence was recorded");
         Divergence first = s.divergences().get(0);
         assertEquals("non-finite log density or gradient", first.reason());
@@ -63,13 +64,13 @@ class ChainTest {
     @Test
     void sameSeedSameDrawsBitForBit() {
         float[][] d = blobs(80, 2);
-        Sample a = new PosteriorSampler(small(11)).sample(d[0], ints(d[1]), 2, null, new float[0], 0);
-        Sample b = new PosteriorSampler(small(11)).sample(d[0], ints(d[1]), 2, null, new float[0], 0);
+        RoundDraws a = new PosteriorSampler(small(11)).sample(d[0], ints(d[1]), 2, null, new float[0], SeedTree.of(11));
+        RoundDraws b = new PosteriorSampler(small(11)).sample(d[0], ints(d[1]), 2, null, new float[0], SeedTree.of(11));
         assertEquals(a.draws().size(), b.draws().size());
         for (int i = 0; i < a.draws().size(); i++) {
             assertArrayEquals(a.draws().get(i), b.draws().get(i), 0f, "draw " + i);
         }
-        Sample c = new PosteriorSampler(small(12)).sample(d[0], ints(d[1]), 2, null, new float[0], 0);
+        RoundDraws c = new PosteriorSampler(small(12)).sample(d[0], ints(d[1]), 2, null, new float[0], SeedTree.of(12));
         assertFalse(java.util.Arrays.equals(a.draws().get(0), c.draws().get(0)));
     }
 
@@ -77,8 +78,8 @@ class ChainTest {
     void aWarmStartContinuesFromTheLastStates() {
         float[][] d = blobs(80, 3);
         PosteriorSampler sampler = new PosteriorSampler(small(13));
-        Sample first = sampler.sample(d[0], ints(d[1]), 2, null, new float[0], 0);
-        Sample second = sampler.sample(d[0], ints(d[1]), 2, first.lastStates(), new float[0], 1);
+        RoundDraws first = sampler.sample(d[0], ints(d[1]), 2, null, new float[0], SeedTree.of(0));
+        RoundDraws second = sampler.sample(d[0], ints(d[1]), 2, first.lastStates(), new float[0], SeedTree.of(1));
         assertTrue(second.warmStart());
         long firstSteps = first.lastStates().get(0).step();
         assertEquals(firstSteps + 100 + 4 * 10, second.lastStates().get(0).step(),
@@ -89,7 +90,7 @@ class ChainTest {
     void hierarchicalPriorResamplesLayerPrecisions() {
         float[][] d = blobs(60, 4);
         SamplerConfig config = small(5).withPrior(new Prior(3, 1, true, 2));
-        Sample s = new PosteriorSampler(config).sample(d[0], ints(d[1]), 2, null, new float[0], 0);
+        RoundDraws s = new PosteriorSampler(config).sample(d[0], ints(d[1]), 2, null, new float[0], SeedTree.of(0));
         double[] tau = s.lastStates().get(0).hyper();
         assertEquals(2, tau.length);
         double[] fixed = config.prior().initialPrecisions(s.layout());

@@ -14,6 +14,7 @@ import java.io.IOException;
 import java.io.InputStream;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import dev.dowser.stats.SeedTree;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -38,8 +39,8 @@ class OpenDatasetsPosteriorTest {
             Splits.Split split = Splits.stratified(all.labels(), classes, 0.3, 1);
             LabelledSet train = all.subset(split.train());
             LabelledSet test = all.subset(split.test());
-            Sample s = new PosteriorSampler(SamplerConfig.defaults(1)).sample(train.x(), train.labels(), classes,
-                    null, new float[0], 0);
+            RoundDraws s = new PosteriorSampler(SamplerConfig.defaults(1)).sample(train.x(), train.labels(), classes,
+                    null, new float[0], SeedTree.of(1));
             float[] p = Predictive.meanProbabilities(s.layout(), s.draws(), test.x(), test.rows());
             return Metrics.accuracy(p, test.labels(), classes);
         }

@@ -17,6 +17,7 @@ import java.nio.file.Path;
 import java.util.Arrays;
 import java.util.List;
 import java.util.SplittableRandom;
+import dev.dowser.stats.SeedTree;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -48,7 +49,7 @@ class WarmStartTest {
         return PosteriorSampler.choose(config, rows).kernel().word();
     }
 
-    static Score score(Sample s, LabelledSet test, int classes) {
+    static Score score(RoundDraws s, LabelledSet test, int classes) {
         float[] p = Predictive.meanProbabilities(s.layout(), s.draws(), test.x(), test.rows());
         return new Score(Metrics.accuracy(p, test.labels(), classes), Metrics.nll(p, test.labels(), classes),
                 s.seconds());
@@ -93,17 +94,17 @@ class WarmStartTest {
                 int labelled = startLabels;
                 LabelledSet train = all.subset(Arrays.copyOf(order, labelled));
                 List<State> chains = new PosteriorSampler(base.withSteps(4 * R, R, 10))
-                        .sample(train.x(), train.labels(), classes, null, new float[0], 0).lastStates();
+                        .sample(train.x(), train.labels(), classes, null, new float[0], SeedTree.of(9 + seed).child(0)).lastStates();
                 for (int round = 1; round <= rounds; round++) {
                     labelled += 10;
                     train = all.subset(Arrays.copyOf(order, labelled));
-                    Sample warm = new PosteriorSampler(base).sample(train.x(), train.labels(), classes, chains,
-                            new float[0], round);
+                    RoundDraws warm = new PosteriorSampler(base).sample(train.x(), train.labels(), classes, chains,
+                            new float[0], SeedTree.of(9 + seed).child(round));
                     chains = warm.lastStates();
-                    Sample coldR = new PosteriorSampler(base).sample(train.x(), train.labels(), classes, null,
-                            new float[0], round);
-                    Sample cold4R = new PosteriorSampler(base.withSteps(4 * R, R, 10)).sample(train.x(),
-                            train.labels(), classes, null, new float[0], round);
+                    RoundDraws coldR = new PosteriorSampler(base).sample(train.x(), train.labels(), classes, null,
+                            new float[0], SeedTree.of(9 + seed).child(round));
+                    RoundDraws cold4R = new PosteriorSampler(base.withSteps(4 * R, R, 10)).sample(train.x(),
+                            train.labels(), classes, null, new float[0], SeedTree.of(9 + seed).child(round));
                     Score w = score(warm, test, classes);
                     Score c = score(coldR, test, classes);
                     Score c4 = score(cold4R, test, classes);

@@ -93,15 +93,25 @@ class ApiTest {
 
     @Test
     void errorsAreJsonWithAMessageAndLeaveDataAlone() throws Exception {
-        upload("pool=kept&wait=true", "a\n1\n");
+        upload("pool=kept&classes=yes,no&wait=true", "a\n1\n");
         Map<String, Long> before = TestSupport.tableCounts(dir.resolve("db"));
 
-        HttpResponse<String> bad = upload("pool=p&wait=true", "a,b\n1,2\n3\n");
+        HttpResponse<String> noClasses = upload("pool=p&wait=true", "a,b\n1,2\n");
+        assertEquals(400, noClasses.statusCode());
+        assertEquals("a pool needs classes for people to choose from: add classes=a,b,c to the call, or"
+                + " label=COLUMN naming the column that holds labels already given",
+                Json.tree(noClasses.body()).get("error").asText());
+        HttpResponse<String> emptyLabels = upload("pool=p&label=b&wait=true", "a,b\n1,\n2,\n");
+        assertEquals(400, emptyLabels.statusCode());
+        assertEquals("the label column 'b' holds no labels, so the pool would have no classes to choose from;"
+                + " name the classes as well", Json.tree(emptyLabels.body()).get("error").asText());
+
+        HttpResponse<String> bad = upload("pool=p&classes=yes,no&wait=true", "a,b\n1,2\n3\n");
         assertEquals(400, bad.statusCode());
         assertEquals("line 3: the record has 1 field where the header has 2; quote fields that contain commas",
                 Json.tree(bad.body()).get("error").asText());
 
-        HttpResponse<String> big = upload("pool=p&wait=true", "a\n" + "1\n".repeat(5_000));
+        HttpResponse<String> big = upload("pool=p&classes=yes,no&wait=true", "a\n" + "1\n".repeat(5_000));
         assertEquals(413, big.statusCode());
         assertEquals("the upload is larger than the limit of 4096 bytes; nothing was imported",
                 Json.tree(big.body()).get("error").asText());
@@ -124,7 +134,7 @@ class ApiTest {
 
     @Test
     void importProgressCanBeFollowed() throws Exception {
-        HttpResponse<String> r = upload("pool=later", "a\n1\n2\n");
+        HttpResponse<String> r = upload("pool=later&classes=yes,no", "a\n1\n2\n");
         assertEquals(202, r.statusCode());
         long id = Json.tree(r.body()).get("id").asLong();
         TestSupport.await(Duration.ofSeconds(30), () -> Json.tree(send(at("/api/v1/imports/" + id)).body())

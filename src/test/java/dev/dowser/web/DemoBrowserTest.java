@@ -61,6 +61,15 @@ class DemoBrowserTest {
                 "the first record");
         WebElement card = browser.byId("card");
         assertFalse(card.findElements(By.tagName("polyline")).isEmpty(), "the vibration trace is drawn as a line");
+        // On the pool's scale, with its unit from the column's name; one click shows the record's own range.
+        WebElement trace = card.findElement(By.className("trace"));
+        assertTrue(trace.getText().contains("sample · values in g"), trace.getText());
+        String poolScale = trace.findElement(By.className("trace-y")).getText();
+        assertTrue(trace.findElement(By.tagName("svg")).getAttribute("aria-label").endsWith("drawn on the pool's scale"));
+        trace.findElement(By.className("scale-toggle")).click();
+        assertTrue(trace.findElement(By.tagName("svg")).getAttribute("aria-label").endsWith("drawn on its own scale"));
+        assertFalse(poolScale.equals(trace.findElement(By.className("trace-y")).getText()), "the axis follows the scale");
+        trace.findElement(By.className("scale-toggle")).click();
         assertTrue(browser.byId("choices").getText().contains("cavitation"), browser.byId("choices").getText());
         assertTrue(browser.byId("card-score").getText().isEmpty() || browser.byId("card-score").getText().equals(
                 "first batch: spread over the pool"), "round 1 has no scores to show: " + browser.byId("card-score").getText());

@@ -144,7 +144,7 @@ class PagesBrowserTest {
         browser.byId("import-form").findElement(By.name("file")).sendKeys(file.toAbsolutePath().toString());
         browser.byId("preview-button").click();
         browser.await(d -> browser.byId("mapping").isDisplayed(), "the mapping step");
-        List<WebElement> roles = browser.byId("mapping").findElements(By.tagName("select"));
+        List<WebElement> roles = browser.byId("mapping-table").findElements(By.tagName("select"));
         assertEquals(14, roles.size(), "one role per column: 13 features and the label");
         assertEquals("label", new Select(roles.get(13)).getFirstSelectedOption().getAttribute("value"));
         assertEquals("feature-shown", new Select(roles.get(0)).getFirstSelectedOption().getAttribute("value"));
@@ -228,6 +228,63 @@ class PagesBrowserTest {
             }
         }
         assertEquals(given, exported);
+    }
+
+    @Test
+    void theMappingStepSuggestsTheIdWarnsOfAFullyLabelledFileAndSetsManyColumnsAtOnce() throws Exception {
+        StringBuilder csv = new StringBuilder("row_id,px0,px1,px2,px3,px4,px5,site,target\n");
+        for (int i = 0; i < 30; i++) {
+            csv.append(1000 + i * 7).append(',');
+            for (int p = 0; p < 6; p++) {
+                csv.append((i * 31 + p * 17) % 16).append(',');
+            }
+            csv.append(i % 2 == 0 ? "north" : "south").append(',').append(i % 3 == 0 ? "wet" : "dry").append('\n');
+        }
+        Path file = dir.resolve("field-scans.csv");
+        Files.writeString(file, csv);
+        signIn(LEAD);
+        browser.driver.get(base());
+        browser.byId("import-form").findElement(By.name("pool")).sendKeys("scans");
+        browser.byId("import-form").findElement(By.name("file")).sendKeys(file.toAbsolutePath().toString());
+        browser.byId("preview-button").click();
+        browser.await(d -> browser.byId("mapping").isDisplayed(), "the mapping step");
+        Select id = new Select(browser.byId("mapping").findElement(By.name("role-0")));
+        assertEquals("id", id.getFirstSelectedOption().getAttribute("value"), "row_id suggested as the id");
+        assertEquals("label", new Select(browser.byId("mapping").findElement(By.name("role-8")))
+                .getFirstSelectedOption().getAttribute("value"));
+        String warning = browser.byId("mapping-warning").getText();
+        assertTrue(warning.contains("Every one of the first 30 records already has a label in 'target'"), warning);
+
+        // Six pixel columns set at once by a name pattern.
+        WebElement mapping = browser.byId("mapping");
+        new Select(mapping.findElement(By.name("bulk_role"))).selectByValue("feature");
+        new Select(mapping.findElement(By.name("bulk_which"))).selectByValue("pattern");
+        mapping.findElement(By.name("bulk_pattern")).sendKeys("px*");
+        browser.await(d -> browser.byId("bulk-count").getText().equals("6 columns"), "six columns named by the pattern");
+        browser.byId("bulk-apply").click();
+        for (int c = 1; c <= 6; c++) {
+            assertEquals("feature", new Select(mapping.findElement(By.name("role-" + c))).getFirstSelectedOption()
+                    .getAttribute("value"), "column px" + (c - 1));
+        }
+        assertEquals("shown", new Select(mapping.findElement(By.name("role-7"))).getFirstSelectedOption()
+                .getAttribute("value"), "site is text: shown, not a feature");
+        browser.screenshot("1b-mapping-warning");
+
+        browser.byId("import-button").click();
+        browser.await(d -> browser.byId("import-message").getText().contains("tick \"Import these labels anyway\""),
+                "the import held back until the labels are accepted");
+        // Without the label column, the classes are asked for.
+        new Select(mapping.findElement(By.name("role-8"))).selectByValue("ignored");
+        assertFalse(browser.byId("mapping-warning").isDisplayed());
+        browser.byId("import-button").click();
+        browser.await(d -> browser.byId("import-message").getText().startsWith("Name the classes"), "the classes asked for");
+        mapping.findElement(By.name("classes")).sendKeys("wet,dry");
+        browser.byId("import-button").click();
+        browser.await(d -> !d.findElements(By.id("new-pool-link")).isEmpty(), "the import to finish");
+        var pool = db.pools().require("scans");
+        assertEquals(List.of("wet", "dry"), pool.classes());
+        assertEquals(0, db.labels().counts(pool.id()).size(), "nothing labelled: the pool starts from scratch");
+        assertEquals("1007", db.records().page(pool.id(), 1, 1).get(0).key());
     }
 
     @Test

@@ -136,9 +136,24 @@ class TeamBrowserTest {
         assertTrue(g2.findElement(By.className("accept")).getAttribute("disabled") != null,
                 "accept is for agreed labels; a disagreement needs an override");
         browser.screenshot("11-review-disagreements");
-        new Select(g2.findElement(By.tagName("select"))).selectByValue("fault");
-        g2.findElement(By.tagName("input")).sendKeys("reading 3.5 is past the fault line");
+        // Nothing is chosen at first: a reason and Enter alone save nothing.
+        assertTrue(g2.findElements(By.cssSelector(".choice[aria-checked=true]")).isEmpty(), "a class preselected");
+        g2.findElement(By.className("reason")).sendKeys("reading 3.5 is past the fault line", Keys.ENTER);
+        browser.await(d -> browser.byId("review-message").getText().contains("g2: choose the new label first"),
+                "the refusal without a chosen class");
+        // The desk's key chooses on the review page too: fault is the second class, key 2.
+        g2.sendKeys("2");
+        browser.await(d -> "true".equals(g2.findElement(By.cssSelector(".choice[data-label=fault]"))
+                .getAttribute("aria-checked")), "fault chosen by its key");
         g2.findElement(By.className("override")).click();
+        String sentence = browser.await(d -> g2.findElement(By.className("confirm")).isDisplayed()
+                ? g2.findElement(By.className("confirm-text")).getText() : null, "the confirmation");
+        assertEquals("Change the final label of g2 from unresolved (ana: fault, ben: ok) to fault?", sentence);
+        assertEquals(0, db.labels().history(db.pools().require("gauges").id(),
+                db.records().requireRow(db.pools().require("gauges"), "g2")).stream()
+                .filter(e -> !e.kind().equals("label")).count(), "nothing saved before the confirmation");
+        browser.screenshot("11b-review-confirm");
+        g2.findElement(By.className("confirm-yes")).click();
         browser.await(d -> browser.byId("review-message").getText().contains("g2: final label fault"), "the override");
         // The list is drawn again after the decision; wait for the new card, then use it.
         WebElement settled = browser.await(d -> {
@@ -151,6 +166,18 @@ class TeamBrowserTest {
         String history = browser.driver.findElement(By.cssSelector("[data-record='g2'] .history")).getText();
         assertTrue(history.contains("ana · label fault") && history.contains("ben · label ok"), history);
         browser.screenshot("12-review-history");
+
+        // A later review reverses this one; the history keeps both.
+        WebElement again = browser.await(d -> d.findElement(By.cssSelector("[data-record='g2']")), "g2 again");
+        again.sendKeys("1");
+        again.findElement(By.className("reason")).sendKeys("second look: the gauge was miscalibrated", Keys.ENTER);
+        browser.await(d -> again.findElement(By.className("confirm")).isDisplayed(), "the second confirmation");
+        assertEquals("Change the final label of g2 from fault to ok?", again.findElement(By.className("confirm-text")).getText());
+        again.findElement(By.className("confirm-yes")).sendKeys(Keys.ENTER);
+        browser.await(d -> browser.byId("review-message").getText().contains("g2: final label ok"), "the reversal");
+        List<String> kinds = db.labels().history(db.pools().require("gauges").id(),
+                db.records().requireRow(db.pools().require("gauges"), "g2")).stream().map(e -> e.kind()).toList();
+        assertEquals(List.of("label", "label", "override", "override"), kinds);
 
         browser.driver.get(base() + "overview.html?pool=gauges");
         browser.await(d -> browser.byId("agreement-facts").getText().contains("Fleiss' kappa over 6 records"), "agreement");

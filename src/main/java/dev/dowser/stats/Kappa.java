@@ -1,4 +1,4 @@
-package dev.dowser.team;
+package dev.dowser.stats;
 
 /** Chance-corrected agreement between people who labelled the same records. Pure functions. */
 public final class Kappa {
@@ -45,6 +45,18 @@ public final class Kappa {
             chance += (rows[i] / n) * (cols[i] / n);
         }
         return chance >= 1 ? Double.NaN : (observed - chance) / (1 - chance);
+    }
+
+    /** Cohen's kappa between two labellings of the same records, each a class index per record. */
+    public static double cohen(int[] first, int[] second, int classes) {
+        if (first.length != second.length) {
+            throw new IllegalArgumentException(first.length + " labels against " + second.length);
+        }
+        long[][] table = new long[classes][classes];
+        for (int i = 0; i < first.length; i++) {
+            table[first[i]][second[i]]++;
+        }
+        return cohen(table);
     }
 
     /**

@@ -1,4 +1,4 @@
-package dev.dowser.team;
+package dev.dowser.stats;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;

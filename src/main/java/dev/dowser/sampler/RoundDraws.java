@@ -5,13 +5,13 @@ import java.util.ArrayList;
 import java.util.List;
 
 /**
- * One round's result: the kernel used and why, every chain's run (its draws, its last state to
- * continue from, its divergences), and the chains' health.
+ * What one round of sampling produced: the kernel used and why, every chain's run (its draws, its
+ * last state to continue from, its divergences), and the chains' health.
  */
-public record Sample(PosteriorSampler.Choice choice, Layout layout, List<ChainRun> runs, Health health,
+public record RoundDraws(PosteriorSampler.Choice choice, Layout layout, List<ChainRun> runs, Health health,
                      boolean warmStart, double seconds, long chainSteps) {
 
-    public Sample {
+    public RoundDraws {
         runs = List.copyOf(runs);
     }
 

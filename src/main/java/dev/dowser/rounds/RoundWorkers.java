@@ -6,18 +6,18 @@ import dev.dowser.store.Database;
 import java.util.concurrent.ConcurrentHashMap;
 
 /** Every pool's round worker, made when first needed and closed together on shutdown. */
-public final class Rounds implements AutoCloseable {
+public final class RoundWorkers implements AutoCloseable {
 
     private final Database db;
     private final RoundService service;
     private final PoolScorer scorer;
     private final ConcurrentHashMap<String, RoundWorker> workers = new ConcurrentHashMap<>();
 
-    public Rounds(Database db, SamplerConfig config) {
+    public RoundWorkers(Database db, SamplerConfig config) {
         this(db, config, RoundEvents.NONE);
     }
 
-    public Rounds(Database db, SamplerConfig config, RoundEvents events) {
+    public RoundWorkers(Database db, SamplerConfig config, RoundEvents events) {
         this.db = db;
         this.scorer = PoolScorer.withAllCores();
         this.service = new RoundService(db, config, scorer, events);

@@ -1,0 +1,129 @@
+package dev.dowser.advice;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+
+/**
+ * The chains' health in plain words, judged against thresholds that fit the draws actually kept,
+ * and advice that names the pool setting that would help. A point that no setting can help is
+ * never raised.
+ *
+ * <p>Thresholds. Vehtari et al. (2021) ask for an effective sample size (ESS) of 100 per chain,
+ * which with Stan's default of 1,000 draws per chain is a tenth of the draws; we keep that share,
+ * ESS >= 0.1 S for S draws, rather than the absolute 400 that 64 draws can never reach. Vats &
+ * Knudson (2021, "Revisiting the Gelman-Rubin diagnostic") tie R-hat to ESS for m chains,
+ * R-hat ~ sqrt(1 + m / ESS) (from memory), so the R-hat that goes with that ESS is
+ * sqrt(1 + m / (0.1 S)): 1.27 for 4 chains and 64 draws, 1.005 for Stan's 4 x 1,000 (near their
+ * usual 1.01). R-hat is computed in function space (the log-likelihood and predictions of the
+ * draws), since a network's weights are only identified up to relabelled hidden units.
+ *
+ * @param level    {@code good}, {@code note} (worth knowing, nothing wrong) or {@code act} (a setting would help)
+ * @param summary  one sentence for the overview
+ * @param points   the points in plain words, each with the setting it names
+ */
+public record ChainAdvice(String level, String summary, List<Point> points) {
+
+    public static final String GOOD = "good";
+    public static final String NOTE = "note";
+    public static final String ACT = "act";
+
+    /** The share of the draws that should count as independent (see the class comment). */
+    public static final double ESS_SHARE = 0.1;
+
+    /** The sentence every disagreement comes with. */
+    static final String EXPLANATIONS = "Chains that disagree can each be a different good explanation of the"
+            + " labels; the queue and the accuracy average over all of them.";
+
+    /**
+     * One point of advice.
+     *
+     * @param text    the point in plain words
+     * @param setting the pool setting that would help ({@code draws}, {@code chains}, {@code reburn_in_steps}), or null
+     * @param suggest the value to try, or 0 with no setting
+     */
+    public record Point(String text, String setting, int suggest) {
+    }
+
+    /**
+     * The sampler's settings now and how far each may go, for suggesting values.
+     *
+     * @param chains        chains run side by side
+     * @param draws         draws kept in all
+     * @param reburnInSteps steps each continued chain takes before drawing
+     * @param maxChains     the most chains allowed
+     * @param maxDraws      the most draws allowed
+     * @param maxReburnIn   the longest re-burn-in allowed
+     */
+    public record Knobs(int chains, int draws, int reburnInSteps, int maxChains, int maxDraws, int maxReburnIn) {
+    }
+
+    public ChainAdvice {
+        points = List.copyOf(points);
+    }
+
+    /** ESS below this, for S draws kept, means the draws lean on few independent ones. */
+    public static double essFloor(int draws) {
+        return ESS_SHARE * draws;
+    }
+
+    /** R-hat above this, for m chains and S draws, means the chains disagree beyond the draws' own noise. */
+    public static double rhatCeiling(int chains, int draws) {
+        // R-hat ~ sqrt(1 + m / ESS) at ESS = 0.1 S (Vats & Knudson 2021).
+        return Math.sqrt(1 + chains / essFloor(draws));
+    }
+
+    /**
+     * Advice from a round's health: the largest function-space R-hat and the smallest bulk and
+     * tail ESS (NaN when too few draws to judge), for the draws and chains that round kept.
+     */
+    public static ChainAdvice of(double rhat, double essBulk, double essTail, Knobs knobs) {
+        int m = knobs.chains();
+        int s = knobs.draws();
+        if (!Double.isFinite(rhat) || !Double.isFinite(essBulk)) {
+            return new ChainAdvice(GOOD, "Too few draws per chain to judge the chains; nothing to do.", List.of());
+        }
+        double ess = Double.isFinite(essTail) ? Math.min(essBulk, essTail) : essBulk;
+        List<Point> points = new ArrayList<>();
+        boolean disagree = rhat > rhatCeiling(m, s);
+        boolean correlated = ess < essFloor(s);
+        if (correlated) {
+            String worth = String.format(Locale.ROOT, "The %d draws behave like about %d independent ones.", s,
+                    Math.max(1, Math.round(ess)));
+            if (knobs.draws() < knobs.maxDraws()) {
+                int more = Math.min(knobs.maxDraws(), 2 * knobs.draws());
+                points.add(new Point(worth + " Keeping more draws each round (" + more + ") makes predictions"
+                        + " and scores steadier, at the cost of a longer round.", "draws", more));
+            } else if (knobs.chains() < knobs.maxChains()) {
+                int more = Math.min(knobs.maxChains(), 2 * knobs.chains());
+                points.add(new Point(worth + " More chains (" + more + ") add independent draws.", "chains", more));
+            } else {
+                points.add(new Point(worth + " Draws and chains are at their largest already.", null, 0));
+            }
+        }
+        if (disagree) {
+            String text = "The chains do not settle on the same answers for every record. " + EXPLANATIONS;
+            if (knobs.chains() < knobs.maxChains()) {
+                int more = Math.min(knobs.maxChains(), 2 * knobs.chains());
+                points.add(new Point(text + " More chains (" + more + ") take in more of them.", "chains", more));
+            } else if (knobs.reburnInSteps() < knobs.maxReburnIn()) {
+                int more = Math.min(knobs.maxReburnIn(), 2 * knobs.reburnInSteps());
+                points.add(new Point(text + " A longer warm-up each round (" + more + " steps) lets each chain"
+                        + " settle further.", "reburn_in_steps", more));
+            } else {
+                points.add(new Point(text, null, 0));
+            }
+        }
+        if (points.isEmpty()) {
+            return new ChainAdvice(GOOD, "The chains agree and their draws are varied enough; nothing to do.",
+                    List.of());
+        }
+        boolean act = correlated && points.get(0).setting() != null;
+        // A note says what is so; only a point a setting can help is a call to act.
+        String summary = act ? "Predictions rest on few independent draws; a setting below would help."
+                : disagree ? "The chains tell somewhat different stories, which is usual for a neural network;"
+                        + " nothing needs doing." : "The draws lean on few independent ones; nothing more can be"
+                        + " set to help.";
+        return new ChainAdvice(act ? ACT : NOTE, summary, points);
+    }
+}

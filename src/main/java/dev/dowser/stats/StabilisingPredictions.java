@@ -1,0 +1,72 @@
+package dev.dowser.stats;
+
+import java.util.List;
+
+/**
+ * The stopping rule of stabilising predictions (Bloodgood & Vijay-Shanker 2009, "A Method for
+ * Stopping Active Learning Based on Stabilizing Predictions and the Need for User-Adjustable
+ * Stopping", CoNLL): keep a stop set of unlabelled records fixed from the start, compare each
+ * round's predicted classes on it with the previous round's by Cohen's kappa, and stop once the
+ * mean kappa of the last {@code window} comparisons reaches {@code threshold}. The paper uses a
+ * window of 3 and a threshold of 0.99 (from memory), and a stop set of a few thousand records.
+ *
+ * @param window    comparisons averaged
+ * @param threshold the mean kappa at which predictions count as stable
+ */
+public record StabilisingPredictions(int window, double threshold) {
+
+    public static final int DEFAULT_WINDOW = 3;
+    public static final double DEFAULT_THRESHOLD = 0.99;
+    /** Records in the stop set, at most (the paper's sets held about 2,000). */
+    public static final int STOP_SET_RECORDS = 2_000;
+
+    public StabilisingPredictions {
+        if (window < 1) {
+            throw new IllegalArgumentException("the window must hold at least one comparison, got " + window);
+        }
+        if (!(threshold > 0 && threshold <= 1)) {
+            throw new IllegalArgumentException("the kappa threshold must lie in (0, 1], got " + threshold);
+        }
+    }
+
+    public static StabilisingPredictions defaults() {
+        return new StabilisingPredictions(DEFAULT_WINDOW, DEFAULT_THRESHOLD);
+    }
+
+    /**
+     * Agreement between two rounds' predicted classes on the stop set: Cohen's kappa. Kappa is
+     * undefined (NaN) when both rounds predict one class for every record; that counts as not stable.
+     */
+    public static double agreement(int[] before, int[] after, int classes) {
+        return Kappa.cohen(before, after, classes);
+    }
+
+    /** The mean of the last {@code window} agreements, oldest first; NaN while there are fewer. */
+    public double recentMean(List<Double> agreements) {
+        int n = agreements.size();
+        if (n < window) {
+            return Double.NaN;
+        }
+        double s = 0;
+        for (int i = n - window; i < n; i++) {
+            s += agreements.get(i);
+        }
+        return s / window;
+    }
+
+    /** Whether the rule says stop after these agreements (oldest first). */
+    public boolean stable(List<Double> agreements) {
+        // NaN >= threshold is false: an undefined kappa never counts as stable.
+        return recentMean(agreements) >= threshold;
+    }
+
+    /** The first index into {@code agreements} after which the rule said stop, or -1 if it never did. */
+    public int firstStable(List<Double> agreements) {
+        for (int i = window; i <= agreements.size(); i++) {
+            if (stable(agreements.subList(0, i))) {
+                return i - 1;
+            }
+        }
+        return -1;
+    }
+}
