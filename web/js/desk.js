@@ -1,5 +1,5 @@
 // The labelling desk: one record at a time, labelled by keyboard, never waiting for the model.
-import { getJson, postJson } from './api.js';
+import { getJson, postJson, postJsonOnLeave } from './api.js';
 import { showAccount } from './account.js';
 import { recordBody, scalesOf } from './fields.js';
 import { showMessage } from './dom.js';
@@ -193,7 +193,7 @@ function undo() {
     const current = state.current;
     if (current && current.record && current.record.id !== last.assignment.record.id) {
       // The record we moved on to goes back to the queue; the one taken back is shown again.
-      await postJson(`pools/${encodeURIComponent(state.pool)}/queue/skip`,
+      await postJson(`pools/${encodeURIComponent(state.pool)}/queue/release`,
         { round: current.round, position: current.position });
     }
     show(last.assignment);
@@ -286,6 +286,13 @@ function start() {
   $('desk-pool').textContent = `labelling ${state.pool}`;
   $('to-overview').href = `overview.html?pool=${encodeURIComponent(state.pool)}`;
   $('skip').addEventListener('click', skip);
+  // A closed tab gives its record back at once instead of holding it until the lease runs out.
+  window.addEventListener('pagehide', () => {
+    const a = state.current;
+    if (a && a.record) {
+      postJsonOnLeave(`pools/${encodeURIComponent(state.pool)}/queue/release`, { round: a.round, position: a.position });
+    }
+  });
   $('undo').addEventListener('click', undo);
   $('belief-toggle').addEventListener('click', toggleBelief);
   document.addEventListener('keydown', onKey);

@@ -4,7 +4,8 @@ import dev.dowser.store.QueueEntry;
 
 /**
  * One place of the served queue as the overview lists it: the entry (score, spot check, copies,
- * lease), its record's id, whether it is done, and its final label (null when hidden or none).
+ * lease, reserve), its record's id, whether it is done, whether one of its two people labelled it
+ * and the second is awaited, and its final label (null when hidden or none).
  */
-public record QueuePlace(QueueEntry entry, String record, boolean done, String label) {
+public record QueuePlace(QueueEntry entry, String record, boolean done, boolean awaitingSecondLabel, String label) {
 }

@@ -37,6 +37,7 @@ public final class RoundStep {
     static final int PICK = 1;
     static final int SPOT_CHECKS = 2;
     static final int COPIES = 3;
+    static final int RESERVE = 4;
     /** Unlabelled rows whose predictions serve the chains' diagnostics: the first few candidates. */
     static final int PROBE_ROWS = 8;
 
@@ -95,7 +96,8 @@ public final class RoundStep {
      * @param spotCheck   drawn uniformly at random rather than picked by score
      * @param probability the probability with which it was picked, given the places picked before
      *                    it: Plackett-Luce for power sampling, 1 / (candidates left) for random
-     *                    picks and spot checks, 1 for greedy strategies and the cold start
+     *                    picks and spot checks, 1 for greedy strategies and the cold start; NaN for
+     *                    the reserve, which is ranked, not picked
      * @param copies      how many different people label it (2 to measure their agreement)
      * @param mean        the serving model's mean class probabilities (null in a cold start)
      * @param sd          their spread across the draws (null in a cold start)
@@ -108,16 +110,19 @@ public final class RoundStep {
      * What a round produced.
      *
      * @param queue        the new queue, in serving order
+     * @param reserve      the next-best candidates after it, best first ({@link NextBest}), served once
+     *                     the queue is taken while the next round runs
      * @param draws        the posterior draws, chains and health; null in a cold start
      * @param kernel       the kernel's word, or {@code none} in a cold start
      * @param why          why this kernel (or the cold start), in words for the person who runs the pool
      * @param judgedMean   the posterior predictive of each judged record (rows x classes); empty in a cold start
      */
-    public record Result(int round, List<Pick> queue, RoundDraws draws, String kernel, String why,
+    public record Result(int round, List<Pick> queue, List<Pick> reserve, RoundDraws draws, String kernel, String why,
                          float[] judgedMean) {
 
         public Result {
             queue = List.copyOf(queue);
+            reserve = List.copyOf(reserve);
         }
 
         public boolean cold() {
@@ -142,7 +147,13 @@ public final class RoundStep {
                 queue.add(new Pick(cand.rows()[e.candidate()], e.candidate(), 0, e.spotCheck(), e.probability(), 1,
                         null, null));
             }
-            return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), null, NO_KERNEL,
+            int[] at = mixed.stream().mapToInt(SpotChecks.Entry::candidate).toArray();
+            List<Pick> reserve = new ArrayList<>();
+            for (int c : NextBest.ranked(null, cand.count(), at, NextBest.size(b, cand.count() - at.length),
+                    in.seeds().child(RESERVE).rng())) {
+                reserve.add(new Pick(cand.rows()[c], c, 0, false, Double.NaN, 1, null, null));
+            }
+            return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), reserve, null, NO_KERNEL,
                     "no labels yet: the first batch is spread over the pool by k-means++", new float[0]);
         }
         LabelledSet known = in.labelled();
@@ -166,7 +177,18 @@ public final class RoundStep {
         }
         float[] judgedMean = Predictive.meanProbabilities(draws.layout(), draws.draws(), in.judged().x(),
                 in.judged().count());
-        return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), draws,
+        double[] rankBy = NextBest.scoreOf(settings.strategy(), scores);
+        int[] next = NextBest.ranked(rankBy, cand.count(), at, NextBest.size(b, cand.count() - at.length),
+                in.seeds().child(RESERVE).rng());
+        Predictive.Belief nextBelief = Predictive.belief(draws.layout(), draws.draws(),
+                FeatureMatrix.gather(cand.x(), cand.cols(), next), next.length);
+        List<Pick> reserve = new ArrayList<>(next.length);
+        for (int i = 0; i < next.length; i++) {
+            reserve.add(new Pick(cand.rows()[next[i]], next[i], scores.bald()[next[i]], false, Double.NaN, 1,
+                    Arrays.copyOfRange(nextBelief.mean(), i * classes, (i + 1) * classes),
+                    Arrays.copyOfRange(nextBelief.sd(), i * classes, (i + 1) * classes)));
+        }
+        return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), reserve, draws,
                 draws.choice().kernel().word(), draws.choice().why(), judgedMean);
     }
 

@@ -29,6 +29,7 @@ public final class Database implements AutoCloseable {
     private final LabelStore labels;
     private final ChainStateStore chains;
     private final QueueStore queues;
+    private final LeaseStore leases;
     private final RoundStore rounds;
     private final UserStore users;
     private final HistoryStore history;
@@ -40,9 +41,11 @@ public final class Database implements AutoCloseable {
         this.labels = new LabelStore(dataSource, clock);
         this.pools = new PoolStore(dataSource, labels, clock);
         this.records = new RecordStore(dataSource, labels);
+        Sql sql = new Sql(dataSource);
         this.chains = new ChainStateStore(dataSource, clock);
-        this.queues = new QueueStore(dataSource, clock);
-        this.rounds = new RoundStore(dataSource, clock);
+        this.queues = new QueueStore(sql, clock);
+        this.leases = new LeaseStore(sql, clock, queues);
+        this.rounds = new RoundStore(sql, clock);
         this.users = new UserStore(dataSource, clock);
         this.history = new HistoryStore(dataSource, clock);
         this.predictions = new PredictionStore(dataSource);
@@ -147,6 +150,10 @@ public final class Database implements AutoCloseable {
 
     public QueueStore queues() {
         return queues;
+    }
+
+    public LeaseStore leases() {
+        return leases;
     }
 
     public RoundStore rounds() {

@@ -178,13 +178,19 @@ public final class LabelStore {
             p.setBoolean(8, withdrawn);
             p.executeUpdate();
         }
-        try (PreparedStatement u = c.prepareStatement(QueueStore.AFTER_LABEL_ROW)) {
-            u.setString(1, by);
-            u.setLong(2, poolId);
-            u.setLong(3, row);
-            u.executeUpdate();
-        }
+        // The author has acted on the record: their lease on it ends, and its entries' done flags follow
+        // the labels (a record wanted by two people is then free for the second at once).
+        Sql.update(c, "DELETE FROM leases WHERE pool_id = ? AND row_no = ? AND person = ?", poolId, row, by);
+        Sql.update(c, QueueStore.REFRESH_DONE, now, poolId, row);
         return now;
+    }
+
+    /** Records that someone has a label on, or that a reviewer decided. */
+    public long labelledRecords(long poolId) {
+        return new Sql(ds).first("count the labelled records of pool " + poolId, "SELECT COUNT(DISTINCT l.row_no)"
+                + " FROM labels l WHERE l.pool_id = ? AND (l.kind <> 'label' OR (NOT l.withdrawn AND NOT EXISTS"
+                + " (SELECT 1 FROM labels w WHERE w.pool_id = l.pool_id AND w.row_no = l.row_no AND w.kind = 'label'"
+                + " AND w.labelled_by = l.labelled_by AND w.id > l.id)))", rs -> rs.getLong(1), poolId).orElse(0L);
     }
 
     /** Records per final label; classes with no records are left to the caller. */

@@ -3,13 +3,14 @@ package dev.dowser.store;
 import java.time.Instant;
 
 /**
- * One place in a served queue: the record, why it was picked, who holds it until when, how many
- * different people must label it ({@code copies}: 1, or 2 when agreement is measured on it), and
- * the probability with which it was picked given the places picked before it
- * ({@code pickProbability}; null for queues written before it was kept).
+ * One place in a queue: the record, why it was picked, who holds it until when (when read with its
+ * lease), how many different people must label it ({@code copies}: 1, or 2 when agreement is
+ * measured on it), the probability with which it was picked given the places picked before it
+ * ({@code pickProbability}; null for queues written before it was kept, and for reserve places),
+ * and whether it is one of the round's next-best records served after its batch ({@code reserve}).
  */
 public record QueueEntry(int round, int position, long row, double score, boolean spotCheck, String predictionJson,
-                         String leasedTo, Instant leaseUntil, int copies, Double pickProbability) {
+                         String leasedTo, Instant leaseUntil, int copies, Double pickProbability, boolean reserve) {
 
     public QueueEntry {
         if (copies < 1 || copies > 2) {
@@ -20,19 +21,26 @@ public record QueueEntry(int round, int position, long row, double score, boolea
         }
     }
 
+    /** A place of a round's batch. */
+    public QueueEntry(int round, int position, long row, double score, boolean spotCheck, String predictionJson,
+                      String leasedTo, Instant leaseUntil, int copies, Double pickProbability) {
+        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, copies, pickProbability,
+                false);
+    }
+
     public QueueEntry(int round, int position, long row, double score, boolean spotCheck, String predictionJson,
                       String leasedTo, Instant leaseUntil, int copies) {
-        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, copies, null);
+        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, copies, null, false);
     }
 
     /** An entry that one person labels. */
     public QueueEntry(int round, int position, long row, double score, boolean spotCheck, String predictionJson,
                       String leasedTo, Instant leaseUntil) {
-        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, 1, null);
+        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, 1, null, false);
     }
 
     public QueueEntry withCopies(int n) {
         return new QueueEntry(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, n,
-                pickProbability);
+                pickProbability, reserve);
     }
 }

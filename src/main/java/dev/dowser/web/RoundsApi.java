@@ -46,7 +46,7 @@ final class RoundsApi {
         PoolRow pool = db.pools().require(param(ex, "pool"));
         ArrayNode out = Json.array();
         for (RoundStore.RoundRow r : db.rounds().list(pool.id())) {
-            ObjectNode n = out.addObject().put("round", r.round()).put("status", r.status())
+            ObjectNode n = out.addObject().put("round", r.round()).put("status", r.status().word())
                     .put("started_at", r.startedAt().toString()).put("finished_at", Views.time(r.finishedAt()))
                     .put("labels_at_start", r.labelsAtStart()).put("kernel", r.kernel()).put("message", r.message());
             if (r.finishedAt() != null) {
@@ -80,6 +80,7 @@ final class RoundsApi {
             QueueEntry e = place.entry();
             entries.addObject().put("position", e.position()).put("record", place.record()).put("score", e.score())
                     .put("spot_check", e.spotCheck()).put("copies", e.copies()).put("labelled", place.done())
+                    .put("awaiting_second_label", place.awaitingSecondLabel()).put("reserve", e.reserve())
                     .put("label", place.label()).put("leased_to", e.leasedTo())
                     .put("lease_until", Views.time(e.leaseUntil()));
         }

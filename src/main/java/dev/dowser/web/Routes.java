@@ -56,6 +56,7 @@ final class Routes {
                 call("POST", "/previews", ADMINS, imports::preview),
                 call("POST", "/pools/{pool}/queue/next", ANYONE_SIGNED_IN, desk::next),
                 call("POST", "/pools/{pool}/queue/skip", ANYONE_SIGNED_IN, desk::skip),
+                call("POST", "/pools/{pool}/queue/release", ANYONE_SIGNED_IN, desk::release),
                 call("POST", "/pools/{pool}/labels", ANYONE_SIGNED_IN, desk::label),
                 call("POST", "/pools/{pool}/labels/undo", ANYONE_SIGNED_IN, desk::undo),
                 call("GET", "/pools/{pool}/rounds", ANYONE_SIGNED_IN, rounds::list),

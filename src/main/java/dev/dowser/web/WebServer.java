@@ -63,6 +63,8 @@ public final class WebServer implements AutoCloseable {
         ImportJobs imports = new ImportJobs(db, config.spoolDir(), config.maxUploadBytes());
         Events events = new Events();
         RoundWorkers rounds = new RoundWorkers(db, sampler, events);
+        // Rounds a killed server left running are marked interrupted, short queues refilled, new pools served.
+        rounds.watch();
         Accounts accounts = new Accounts(db, new SecureRandom(), team);
         Desk desk = new Desk(db, rounds, events);
         HttpHandler files = StaticFiles.handler();

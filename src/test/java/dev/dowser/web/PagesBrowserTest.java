@@ -11,6 +11,7 @@ import dev.dowser.json.Json;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
+import dev.dowser.store.RoundStatus;
 import dev.dowser.team.Role;
 import java.io.BufferedReader;
 import java.io.StringReader;
@@ -343,7 +344,7 @@ class PagesBrowserTest {
         long poolId = db.pools().require("gauges").id();
         // Round 1 has no labels to learn from: its queue is spread over the pool, no chains yet.
         server.requestRound("gauges");
-        awaitRound(poolId, 1, "published");
+        awaitRound(poolId, 1, RoundStatus.PUBLISHED);
         for (String[] l : new String[][] {{"k1", "ok"}, {"k2", "fault"}}) {
             HttpResponse<String> r = http.send(asLead("api/v1/pools/gauges/labels")
                     .POST(HttpRequest.BodyPublishers.ofString("{\"record\":\"" + l[0] + "\",\"label\":\"" + l[1]
@@ -358,7 +359,7 @@ class PagesBrowserTest {
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")), broken,
                 TestSupport.FAST_TEAM);
         server.requestRound("gauges");
-        awaitRound(poolId, 2, "failed");
+        awaitRound(poolId, 2, RoundStatus.FAILED);
 
         signIn(LEAD);
         browser.driver.get(base() + "overview.html?pool=gauges");
@@ -369,10 +370,10 @@ class PagesBrowserTest {
         browser.screenshot("9-overview-failed-round");
     }
 
-    private void awaitRound(long poolId, int round, String status) {
+    private void awaitRound(long poolId, int round, RoundStatus status) {
         TestSupport.await(Duration.ofSeconds(60), () -> {
             var rounds = db.rounds().list(poolId);
-            return !rounds.isEmpty() && rounds.get(0).round() == round && rounds.get(0).status().equals(status);
-        }, "round " + round + " to become " + status);
+            return !rounds.isEmpty() && rounds.get(0).round() == round && rounds.get(0).status() == status;
+        }, "round " + round + " to become " + status.word());
     }
 }
