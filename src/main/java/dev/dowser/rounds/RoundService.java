@@ -43,6 +43,9 @@ public final class RoundService {
         }
     }
 
+    /** Records of a new queue read into the record cache as it is published: its batch, then its reserve. */
+    static final int WARM_RECORDS = 1_000;
+
     private final Database db;
     private final SamplerConfig config;
     private final PoolScorer scorer;
@@ -160,9 +163,9 @@ public final class RoundService {
                     result.judgedMean(), pool.classes().size()));
             health = Json.write(draws.health());
         }
-        // Read ahead what the desk will show first: the batch, and as much of the reserve again.
-        db.records().warm(pool.id(), java.util.stream.Stream.concat(result.queue().stream(),
-                result.reserve().stream().limit(result.queue().size())).mapToLong(RoundStep.Pick::row).toArray());
+        // Read ahead what the desk will show first: the batch and the start of the reserve.
+        db.records().warm(pool.id(), java.util.stream.Stream.concat(result.queue().stream(), result.reserve().stream())
+                .limit(WARM_RECORDS).mapToLong(RoundStep.Pick::row).toArray());
         List<QueueEntry> entries = db.queues().publish(pool.id(), round, entries(round, result.queue()),
                 entries(round, result.reserve()));
         db.rounds().finish(pool.id(), round, result.kernel(), result.why(), health);

@@ -76,6 +76,8 @@ public final class RoundWorkers implements AutoCloseable {
         for (String pool : db.queues().poolsToServe(RoundWorker.LOW_WATER_PER_LABELLER)) {
             worker(pool).requestUnlessFailing();
         }
+        // The id index of each pool is built now, off the desk's path, rather than at the first label.
+        watcher.execute(() -> db.pools().ids().values().forEach(db.records()::warmKeys));
         watcher.scheduleWithFixedDelay(this::serveNewPools, WATCH_PERIOD.toMillis(), WATCH_PERIOD.toMillis(),
                 TimeUnit.MILLISECONDS);
     }
