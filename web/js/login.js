@@ -1,15 +1,24 @@
-// Signing in, or on a fresh server creating the first admin with the console's setup code.
-import { getJson } from './api.js';
+// Signing in, then back to the page that sent you here (on this site only).
 import { showMessage } from './dom.js';
 
 const $ = (id) => document.getElementById(id);
 
 const say = (text) => showMessage('login-message', text, true);
 
-/** Only a path on this site may be the page to return to, never another site. */
-function nextPage() {
-  const next = new URLSearchParams(location.search).get('next');
-  return next && next.startsWith('/') && !next.startsWith('//') ? next : './';
+/**
+ * The page to return to: only a path on this very site. The address is resolved the way the
+ * browser would resolve it (so `/\evil.example`, `//evil.example` or `https:evil.example` show
+ * their true origin) and refused unless it stays on this origin.
+ */
+export function nextPage(search = location.search, origin = location.origin) {
+  const next = new URLSearchParams(search).get('next');
+  if (!next || !next.startsWith('/') || /[\u0000-\u001f\\]/.test(next)) return './';
+  try {
+    const url = new URL(next, origin);
+    return url.origin === origin ? url.pathname + url.search + url.hash : './';
+  } catch (e) {
+    return './';
+  }
 }
 
 async function post(path, value) {
@@ -23,16 +32,12 @@ async function post(path, value) {
   return data;
 }
 
-async function signIn(name, password) {
-  await post('session', { name, password });
-  location.assign(nextPage());
-}
-
 $('sign-in').addEventListener('submit', async (event) => {
   event.preventDefault();
   const form = event.target;
   try {
-    await signIn(form.account.value.trim(), form.password.value);
+    await post('session', { name: form.account.value.trim(), password: form.password.value });
+    location.assign(nextPage());
   } catch (e) {
     say(e.message);
     form.password.value = '';
@@ -40,30 +45,4 @@ $('sign-in').addEventListener('submit', async (event) => {
   }
 });
 
-$('setup').addEventListener('submit', async (event) => {
-  event.preventDefault();
-  const form = event.target;
-  if (form.password.value !== form.again.value) {
-    say('the two passwords differ');
-    return;
-  }
-  try {
-    await post('setup', { code: form.code.value.trim(), name: form.account.value.trim(), password: form.password.value });
-    await signIn(form.account.value.trim(), form.password.value);
-  } catch (e) {
-    say(e.message);
-  }
-});
-
-async function start() {
-  try {
-    const { setup_needed: setupNeeded } = await getJson('setup');
-    const form = setupNeeded ? $('setup') : $('sign-in');
-    form.hidden = false;
-    form.querySelector('input').focus();
-  } catch (e) {
-    say(e.message);
-  }
-}
-
-start();
+$('sign-in').querySelector('input').focus();

@@ -2,6 +2,7 @@ package dev.dowser.cli;
 
 import dev.dowser.data.ImportException;
 import dev.dowser.store.StoreException;
+import dev.dowser.web.PortBusyException;
 import java.io.UncheckedIOException;
 import picocli.CommandLine;
 import picocli.CommandLine.IExecutionExceptionHandler;
@@ -16,6 +17,10 @@ final class ErrorHandler implements IExecutionExceptionHandler {
     @Override
     public int handleExecutionException(Exception e, CommandLine cl, ParseResult parsed) {
         var err = cl.getErr();
+        if (e instanceof PortBusyException busy) {
+            err.println("dowser: " + busy.getMessage() + "; choose another port with --port");
+            return EXIT_INPUT;
+        }
         if (e instanceof ImportException || e instanceof StoreException || e instanceof IllegalArgumentException
                 || e instanceof UncheckedIOException) {
             err.println("dowser: " + e.getMessage());

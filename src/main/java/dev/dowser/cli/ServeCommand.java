@@ -1,8 +1,13 @@
 package dev.dowser.cli;
 
+import dev.dowser.store.Database;
+import dev.dowser.team.Accounts;
+import dev.dowser.team.TeamConfig;
 import dev.dowser.web.TlsConfig;
 import dev.dowser.web.WebConfig;
+import dev.dowser.web.WebServer;
 import java.nio.file.Path;
+import java.security.SecureRandom;
 import java.util.concurrent.Callable;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
@@ -10,6 +15,7 @@ import picocli.CommandLine.Option;
 
 @Command(name = "serve", mixinStandardHelpOptions = true,
         description = {"Runs the web app on the database in --data until stopped (Ctrl-C).",
+            "The database needs an admin first: dowser users add NAME --role admin --data DIR.",
             "Listens on loopback by default; put it behind your own network and TLS before letting others"
                 + " reach it."})
 final class ServeCommand implements Callable<Integer> {
@@ -25,7 +31,7 @@ final class ServeCommand implements Callable<Integer> {
             description = "Address to listen on (default: ${DEFAULT-VALUE}).")
     String bind;
 
-    @Option(names = "--max-upload-mib", defaultValue = "2048", paramLabel = "N",
+    @Option(names = WebConfig.MAX_UPLOAD_OPTION, defaultValue = "" + WebConfig.DEFAULT_MAX_UPLOAD_MIB, paramLabel = "N",
             description = "Largest import upload accepted, in MiB (default: ${DEFAULT-VALUE}).")
     long maxUploadMib;
 
@@ -46,7 +52,11 @@ final class ServeCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        WebConfig config = new WebConfig(bind, port, maxUploadMib << 20, data.dir.resolve("uploads"), trustProxy, null);
+        if (maxUploadMib < 1 || maxUploadMib > 1L << 40) {
+            throw new IllegalArgumentException(WebConfig.MAX_UPLOAD_OPTION + " must be 1 to " + (1L << 40) + ", got "
+                    + maxUploadMib);
+        }
+        WebConfig config = new WebConfig(bind, port, maxUploadMib << 20, data.dir.resolve(ServerRunner.UPLOADS), trustProxy, null);
         if (tlsKeystore != null) {
             String password = System.getenv(tlsPasswordEnv);
             if (password == null) {
@@ -55,8 +65,27 @@ final class ServeCommand implements Callable<Integer> {
             }
             config = config.withTls(new TlsConfig(tlsKeystore, password));
         }
-        ServerRunner.runUntilStopped(data.open(), config, "Dowser is serving {address}  (data: "
-                + data.dir.toAbsolutePath() + ")");
+        // Nothing is written before the port is bound: a fresh folder is refused untouched, a busy port found first.
+        if (!Database.exists(data.dir)) {
+            throw new IllegalArgumentException(noAdmin("there is no database in " + data.dir + " yet"));
+        }
+        WebServer server = WebServer.listen(config);
+        Database db = ServerRunner.orClose(server, data::open);
+        if (!new Accounts(db, new SecureRandom(), TeamConfig.defaults()).hasAdmin()) {
+            server.close();
+            db.close();
+            throw new IllegalArgumentException(noAdmin("the database in " + data.dir + " has no enabled admin"));
+        }
+        ServerRunner.runUntilStopped(server, db, data.dir, "Dowser is serving {address}  (data: "
+                + data.dir.toAbsolutePath() + ")", s -> { });
         return 0;
+    }
+
+    /** The refusal to serve without an admin, with the command that makes one. */
+    private String noAdmin(String why) {
+        String folder = data.dir.toString().contains(" ") ? "'" + data.dir + "'" : data.dir.toString();
+        return why + ", and a server needs an admin to manage it. Make the first one here with\n"
+                + "  dowser users add NAME --role admin --data " + folder + "\n"
+                + "(it prints a password to sign in with), then start dowser serve again.";
     }
 }

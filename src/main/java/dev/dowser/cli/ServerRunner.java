@@ -1,26 +1,41 @@
 package dev.dowser.cli;
 
+import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
-import dev.dowser.web.WebConfig;
+import dev.dowser.team.TeamConfig;
 import dev.dowser.web.WebServer;
+import java.nio.file.Path;
 import java.util.concurrent.CountDownLatch;
 import java.util.function.Consumer;
 
-/** Runs the web server until the process is told to stop, then shuts down in order. */
+/**
+ * Runs the web server until the process is told to stop, then shuts down in order. The commands
+ * bind the port first ({@link WebServer#listen}) and only then open or create anything, so a busy
+ * port leaves no trace.
+ */
 final class ServerRunner {
+
+    /** The folder of a data folder where uploads wait while they are imported. */
+    static final String UPLOADS = "uploads";
 
     private ServerRunner() {
     }
 
-    static void runUntilStopped(Database db, WebConfig config, String banner) {
-        runUntilStopped(db, config, banner, server -> { });
-    }
-
-    /** As above, calling {@code onStart} once the server listens. */
-    static void runUntilStopped(Database db, WebConfig config, String banner,
+    /**
+     * Serves {@code db} on the bound {@code server} (uploads spooled in {@code dataDir/uploads}),
+     * prints the banner, calls {@code onStart}, waits for the end.
+     */
+    static void runUntilStopped(WebServer server, Database db, Path dataDir, String banner,
                                 Consumer<WebServer> onStart) {
-        WebServer server = WebServer.start(db, config);
-        onStart.accept(server);
+        try {
+            server.serve(db, dataDir.resolve(UPLOADS), SamplerConfig.defaults(WebServer.DEFAULT_SEED),
+                    TeamConfig.defaults());
+            onStart.accept(server);
+        } catch (RuntimeException e) {
+            server.close();
+            db.close();
+            throw e;
+        }
         CountDownLatch stopped = new CountDownLatch(1);
         Runtime.getRuntime().addShutdownHook(new Thread(() -> {
             System.err.println("dowser: stopping; letting requests in flight finish");
@@ -29,13 +44,21 @@ final class ServerRunner {
             stopped.countDown();
         }, "dowser-shutdown"));
         System.out.println(banner.replace("{address}", server.address()));
-        server.setupCode().ifPresent(code -> System.out.println("No account yet: open " + server.address()
-                + "login.html and create the first admin with the one-time setup code " + code));
         System.out.flush();
         try {
             stopped.await();
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
+        }
+    }
+
+    /** Closes the listening server when opening what it would serve fails. */
+    static <T> T orClose(WebServer server, java.util.function.Supplier<T> open) {
+        try {
+            return open.get();
+        } catch (RuntimeException e) {
+            server.close();
+            throw e;
         }
     }
 }

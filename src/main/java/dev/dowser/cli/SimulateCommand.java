@@ -73,7 +73,8 @@ final class SimulateCommand implements Callable<Integer> {
         List<Strategy> chosen = strategies.stream().map(Strategy::parse).toList();
         SamplerConfig sampler = SamplerConfig.defaults(1).withChains(SamplerConfig.DEFAULT_CHAINS, draws)
                 .withSteps(Math.max(reburnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS), reburnIn, 10);
-        PoolSettings settings = PoolSettings.defaults().withBatchSize(batch);
+        PoolSettings settings = PoolSettings.defaults().withBatchSize(batch)
+                .withSampling(new PoolSettings.Sampling(SamplerConfig.DEFAULT_CHAINS, draws, reburnIn));
         Simulation.Plan plan = new Simulation.Plan(chosen, seeds, seedLabels, budget, testFraction, settings, sampler,
                 1);
         LabelledSet all = input.read();

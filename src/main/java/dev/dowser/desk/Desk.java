@@ -1,5 +1,6 @@
 package dev.dowser.desk;
 
+import dev.dowser.data.QueuedBelief;
 import dev.dowser.data.ColumnRoles;
 import dev.dowser.labels.LabelRow;
 import dev.dowser.rounds.PoolSettings;
@@ -14,6 +15,7 @@ import dev.dowser.store.RecordRow;
 import dev.dowser.store.RoundStatus;
 import dev.dowser.store.RoundStore;
 import java.time.Duration;
+import java.time.Instant;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Optional;
@@ -28,6 +30,13 @@ public final class Desk {
     static final String NOTHING_FOR_YOU = "nothing is open for you right now: the records still open are with other"
             + " people, or are ones you labelled; the next round brings more, and this desk shows it by itself";
     static final String ALL_LABELLED = "every record of this pool has its labels; nothing is left to label";
+
+    /** One of a person's own labels that still stands: the record's id, the label, when. */
+    public record Given(String record, String label, Instant at) {
+    }
+
+    /** How many of a person's labels the desk lists, newest first, for taking back. */
+    public static final int RECENT = 10;
 
     /** A label given: the record with its final label now, and the progress line. */
     public record Labelled(RecordView record, Progress progress) {
@@ -64,9 +73,11 @@ public final class Desk {
         // Another person's label is not shown: a second labeller must judge on their own.
         RecordView record = view(pool, e.row()).unlabelled();
         // Sent for spot checks too; the desk keeps it hidden there unless asked, so they stay an honest test.
-        Belief belief = e.predictionJson() == null ? null : Belief.parse(e.predictionJson());
+        boolean secondOpinion = e.copies() > 1 && !db.labels().resolution(pool.id(), e.row()).opinions().isEmpty();
+        String reason = Reasons.why(e, PoolSettings.parse(pool.settingsJson()).strategy(), pool.classes(), secondOpinion);
+        QueuedBelief belief = e.predictionJson() == null ? null : QueuedBelief.parse(e.predictionJson());
         return new Offer(e.round(), e.position(), e.copies(), e.spotCheck(), e.score(), e.leaseUntil(), record, belief,
-                progress(pool), null);
+                reason, secondOpinion, progress(pool), null);
     }
 
     /** Why a desk is empty, and the way out. */
@@ -126,6 +137,21 @@ public final class Desk {
         worker.labelWithdrawn();
         events.labelChanged(pool.name(), record, "withdrawn", worker.labelsToNextRound());
         return new Withdrawn(withdrawn.label(), view(pool, row), progress(pool));
+    }
+
+    /**
+     * {@code person}'s latest labels in the pool that still stand, newest first, at most
+     * {@link #RECENT}: the desk's "my last labels", any of which can be taken back.
+     */
+    public List<Given> recent(String poolName, String person) {
+        PoolRow pool = db.pools().require(poolName);
+        List<LabelRow> mine = db.labels().latestBy(pool.id(), person, RECENT);
+        List<RecordRow> records = db.records().rows(pool.id(), mine.stream().mapToLong(LabelRow::row).toArray());
+        List<Given> out = new ArrayList<>(mine.size());
+        for (int i = 0; i < mine.size(); i++) {
+            out.add(new Given(records.get(i).key(), mine.get(i).label(), mine.get(i).labelledAt()));
+        }
+        return out;
     }
 
     /** The progress line of a pool's desk. */

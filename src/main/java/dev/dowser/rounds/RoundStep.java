@@ -67,13 +67,15 @@ public final class RoundStep {
      * @param judged     the records anyone has labelled, resolved or not, whose predictions the
      *                   round reports (the review page compares them with people's labels)
      * @param chains     where each chain stopped in the round before, or null to start them afresh
+     * @param stopSet    the pool's fixed stop set, with the round before's predictions for it
      * @param settings   the pool's picking settings
      * @param sampler    how the posterior is sampled
      * @param seeds      this round's node of the seed tree
      * @param round      the round's number (1 for a pool's first)
      */
-    public record Input(LabelledSet labelled, Rows candidates, Rows judged, List<State> chains, PoolSettings settings,
-                        SamplerConfig sampler, SeedTree seeds, int round) {
+    public record Input(LabelledSet labelled, Rows candidates, Rows judged, List<State> chains,
+                        Settling.StopSet stopSet, PoolSettings settings, SamplerConfig sampler, SeedTree seeds,
+                        int round) {
 
         public Input {
             if (labelled.cols() != candidates.cols()) {
@@ -98,12 +100,15 @@ public final class RoundStep {
      *                    it: Plackett-Luce for power sampling, 1 / (candidates left) for random
      *                    picks and spot checks, 1 for greedy strategies and the cold start; NaN for
      *                    the reserve, which is ranked, not picked
+     * @param order       its place in the round's sequence of picks, 1 first (the picks by score,
+     *                    then the spot checks): with {@code probability}, what importance weighting needs;
+     *                    0 for the reserve
      * @param copies      how many different people label it (2 to measure their agreement)
      * @param mean        the serving model's mean class probabilities (null in a cold start)
      * @param sd          their spread across the draws (null in a cold start)
      */
-    public record Pick(long row, int candidate, double score, boolean spotCheck, double probability, int copies,
-                       float[] mean, float[] sd) {
+    public record Pick(long row, int candidate, double score, boolean spotCheck, double probability, int order,
+                       int copies, float[] mean, float[] sd) {
     }
 
     /**
@@ -116,9 +121,10 @@ public final class RoundStep {
      * @param kernel       the kernel's word, or {@code none} in a cold start
      * @param why          why this kernel (or the cold start), in words for the person who runs the pool
      * @param judgedMean   the posterior predictive of each judged record (rows x classes); empty in a cold start
+     * @param settling     the stop set's predictions and the information left in the pool; null in a cold start
      */
     public record Result(int round, List<Pick> queue, List<Pick> reserve, RoundDraws draws, String kernel, String why,
-                         float[] judgedMean) {
+                         float[] judgedMean, Settling settling) {
 
         public Result {
             queue = List.copyOf(queue);
@@ -144,17 +150,17 @@ public final class RoundStep {
             List<SpotChecks.Entry> mixed = SpotChecks.mix(picks, cand.count(), b, settings.spotCheckShare(), spotRng);
             List<Pick> queue = new ArrayList<>();
             for (SpotChecks.Entry e : mixed) {
-                queue.add(new Pick(cand.rows()[e.candidate()], e.candidate(), 0, e.spotCheck(), e.probability(), 1,
-                        null, null));
+                queue.add(new Pick(cand.rows()[e.candidate()], e.candidate(), 0, e.spotCheck(), e.probability(),
+                        e.order(), 1, null, null));
             }
             int[] at = mixed.stream().mapToInt(SpotChecks.Entry::candidate).toArray();
             List<Pick> reserve = new ArrayList<>();
             for (int c : NextBest.ranked(null, cand.count(), at, NextBest.size(b, cand.count() - at.length),
                     in.seeds().child(RESERVE).rng())) {
-                reserve.add(new Pick(cand.rows()[c], c, 0, false, Double.NaN, 1, null, null));
+                reserve.add(new Pick(cand.rows()[c], c, 0, false, Double.NaN, 0, 1, null, null));
             }
             return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), reserve, null, NO_KERNEL,
-                    "no labels yet: the first batch is spread over the pool by k-means++", new float[0]);
+                    "no labels yet: the first batch is spread over the pool by k-means++", new float[0], null);
         }
         LabelledSet known = in.labelled();
         int classes = known.classes().size();
@@ -172,7 +178,7 @@ public final class RoundStep {
         for (int i = 0; i < mixed.size(); i++) {
             SpotChecks.Entry e = mixed.get(i);
             queue.add(new Pick(cand.rows()[e.candidate()], e.candidate(), scores.bald()[e.candidate()], e.spotCheck(),
-                    e.probability(), 1, Arrays.copyOfRange(belief.mean(), i * classes, (i + 1) * classes),
+                    e.probability(), e.order(), 1, Arrays.copyOfRange(belief.mean(), i * classes, (i + 1) * classes),
                     Arrays.copyOfRange(belief.sd(), i * classes, (i + 1) * classes)));
         }
         float[] judgedMean = Predictive.meanProbabilities(draws.layout(), draws.draws(), in.judged().x(),
@@ -184,12 +190,13 @@ public final class RoundStep {
                 FeatureMatrix.gather(cand.x(), cand.cols(), next), next.length);
         List<Pick> reserve = new ArrayList<>(next.length);
         for (int i = 0; i < next.length; i++) {
-            reserve.add(new Pick(cand.rows()[next[i]], next[i], scores.bald()[next[i]], false, Double.NaN, 1,
+            reserve.add(new Pick(cand.rows()[next[i]], next[i], scores.bald()[next[i]], false, Double.NaN, 0, 1,
                     Arrays.copyOfRange(nextBelief.mean(), i * classes, (i + 1) * classes),
                     Arrays.copyOfRange(nextBelief.sd(), i * classes, (i + 1) * classes)));
         }
+        Settling settling = Settling.of(draws, in.stopSet(), cand, scores.bald(), b, classes);
         return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), reserve, draws,
-                draws.choice().kernel().word(), draws.choice().why(), judgedMean);
+                draws.choice().kernel().word(), draws.choice().why(), judgedMean, settling);
     }
 
     /**
@@ -201,8 +208,8 @@ public final class RoundStep {
         List<Pick> out = new ArrayList<>(queue.size());
         for (int i = 0; i < queue.size(); i++) {
             Pick p = queue.get(i);
-            out.add(twice[i] ? new Pick(p.row(), p.candidate(), p.score(), p.spotCheck(), p.probability(), 2,
-                    p.mean(), p.sd()) : p);
+            out.add(twice[i] ? new Pick(p.row(), p.candidate(), p.score(), p.spotCheck(), p.probability(), p.order(),
+                    2, p.mean(), p.sd()) : p);
         }
         return out;
     }

@@ -23,6 +23,7 @@ public final class RoundWorkers implements AutoCloseable {
     static final Duration WATCH_PERIOD = Duration.ofSeconds(2);
 
     private final Database db;
+    private final SamplerConfig config;
     private final RoundService service;
     private final PoolScorer scorer;
     private final ConcurrentHashMap<String, RoundWorker> workers = new ConcurrentHashMap<>();
@@ -38,8 +39,14 @@ public final class RoundWorkers implements AutoCloseable {
 
     public RoundWorkers(Database db, SamplerConfig config, RoundEvents events) {
         this.db = db;
+        this.config = config;
         this.scorer = PoolScorer.withAllCores();
         this.service = new RoundService(db, config, scorer, events);
+    }
+
+    /** The server's sampler: what a pool's rounds run unless its settings have their own sampling. */
+    public SamplerConfig sampler() {
+        return config;
     }
 
     /**

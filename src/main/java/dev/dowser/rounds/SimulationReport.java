@@ -1,5 +1,6 @@
 package dev.dowser.rounds;
 
+import dev.dowser.stats.AccuracyEstimate;
 import java.io.IOException;
 import java.io.PrintWriter;
 import java.io.Writer;
@@ -21,10 +22,14 @@ public final class SimulationReport {
     public static void write(Path dir, List<Simulation.Point> points, Simulation.Plan plan) throws IOException {
         Files.createDirectories(dir);
         try (Writer w = Files.newBufferedWriter(dir.resolve(CSV))) {
-            w.write("strategy,seed,labels,accuracy,nll,ece,seconds\n");
+            w.write("strategy,seed,labels,accuracy,nll,ece,seconds,agreement,settled,estimate,estimate_lower,"
+                    + "estimate_upper\n");
             for (Simulation.Point p : points) {
-                w.write(String.format(Locale.ROOT, "%s,%d,%d,%.5f,%.5f,%.5f,%.3f%n", p.strategy().word(), p.seed(),
-                        p.labels(), p.accuracy(), p.nll(), p.ece(), p.seconds()));
+                AccuracyEstimate e = p.estimate() != null && p.estimate().known() ? p.estimate() : null;
+                w.write(String.format(Locale.ROOT, "%s,%d,%d,%.5f,%.5f,%.5f,%.3f,%s,%b,%s,%s,%s%n", p.strategy().word(),
+                        p.seed(), p.labels(), p.accuracy(), p.nll(), p.ece(), p.seconds(), cell(p.agreement()),
+                        p.settled(), e == null ? "" : cell(e.accuracy()), e == null ? "" : cell(e.lower()),
+                        e == null ? "" : cell(e.upper())));
             }
         }
         List<CurvePlot.Curve> curves = CurvePlot.curves(points, plan.strategies());
@@ -56,7 +61,13 @@ public final class SimulationReport {
                 out.printf(Locale.ROOT, "labels_to_%s_%s=%s%n", targetName(target), s.word(), n < 0 ? "none" : n);
             }
         }
+        StopSummary.print(out, StopSummary.seeds(points, plan.strategies(), plan.seeds()), plan.strategies());
         out.flush();
+    }
+
+    /** A number for the CSV: empty when there is none. */
+    private static String cell(double v) {
+        return Double.isNaN(v) ? "" : String.format(Locale.ROOT, "%.5f", v);
     }
 
     /** 0.9 -> "0.9", 0.95 -> "0.95": the target as typed. */

@@ -65,6 +65,11 @@ public final class Database implements AutoCloseable {
         DELAYED
     }
 
+    /** True when {@code dataDir} holds a database; looking writes nothing. */
+    public static boolean exists(Path dataDir) {
+        return Files.isRegularFile(dataDir.resolve(FILE_STEM + ".mv.db"));
+    }
+
     /** Opens (creating if needed) the database in {@code dataDir} and applies pending migrations. */
     public static Database open(Path dataDir, Clock clock) {
         return open(dataDir, clock, Commits.WRITTEN);

@@ -135,7 +135,7 @@ public final class LeaseStore {
                 return Optional.empty();
             }
             return Optional.of(new QueueEntry(e.round(), e.position(), e.row(), e.score(), e.spotCheck(),
-                    e.predictionJson(), person, until, e.copies(), e.pickProbability(), e.reserve()));
+                    e.predictionJson(), person, until, e.copies(), e.pickProbability(), e.pickOrder(), e.reserve()));
         });
     }
 

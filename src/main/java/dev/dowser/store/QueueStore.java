@@ -6,8 +6,10 @@ import java.sql.SQLException;
 import java.time.Clock;
 import java.time.Instant;
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.HashSet;
 import java.util.List;
+import java.util.Map;
 import java.util.Optional;
 import java.util.Set;
 import java.util.concurrent.ThreadLocalRandom;
@@ -46,7 +48,7 @@ public final class QueueStore {
             + " WHERE q.pool_id = ? AND q.row_no = ?";
 
     static final String COLUMNS = "q.round_no, q.position, q.row_no, q.score, q.spot_check, q.prediction, q.copies,"
-            + " q.pick_probability, q.reserve";
+            + " q.pick_probability, q.pick_order, q.reserve";
 
     /** How many records a desk with nothing left appends at random (rare: only once a round's reserve is used up). */
     static final int RANDOM_APPEND = 10;
@@ -74,8 +76,10 @@ public final class QueueStore {
 
     /** Reads an entry from the columns of {@link #COLUMNS}, held by {@code leasedTo} until {@code until}. */
     static QueueEntry entry(ResultSet rs, String leasedTo, Instant until) throws SQLException {
+        int order = rs.getInt(9);
         return new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getDouble(4), rs.getBoolean(5),
-                rs.getString(6), leasedTo, until, rs.getInt(7), Sql.nullableDouble(rs, 8), rs.getBoolean(9));
+                rs.getString(6), leasedTo, until, rs.getInt(7), Sql.nullableDouble(rs, 8), rs.wasNull() ? null : order,
+                rs.getBoolean(10));
     }
 
     /**
@@ -95,11 +99,12 @@ public final class QueueStore {
                     rs -> entry(rs, null, null), poolId, old.get(), now);
             List<QueueEntry> places = new ArrayList<>();
             Set<Long> rows = new HashSet<>();
+            // A carried record keeps its place among the picks of the round that picked it, in that round's entry.
             for (QueueEntry e : carried) {
-                add(places, rows, e, round, false);
+                add(places, rows, e, round, null, false);
             }
-            batch.forEach(e -> add(places, rows, e, round, false));
-            reserve.forEach(e -> add(places, rows, e, round, true));
+            batch.forEach(e -> add(places, rows, e, round, e.pickOrder(), false));
+            reserve.forEach(e -> add(places, rows, e, round, null, true));
             insert(c, poolId, places);
             // Records labelled while the round ran are done already.
             markDone(c, poolId, round, now);
@@ -123,10 +128,11 @@ public final class QueueStore {
         return publish(poolId, round, batch, List.of());
     }
 
-    private static void add(List<QueueEntry> places, Set<Long> rows, QueueEntry e, int round, boolean reserve) {
+    private static void add(List<QueueEntry> places, Set<Long> rows, QueueEntry e, int round, Integer pickOrder,
+                            boolean reserve) {
         if (rows.add(e.row())) {
             places.add(new QueueEntry(round, places.size(), e.row(), e.score(), e.spotCheck(), e.predictionJson(),
-                    null, null, e.copies(), e.pickProbability(), reserve));
+                    null, null, e.copies(), e.pickProbability(), pickOrder, reserve));
         }
     }
 
@@ -134,10 +140,10 @@ public final class QueueStore {
         List<Object[]> rows = new ArrayList<>(places.size());
         for (QueueEntry e : places) {
             rows.add(new Object[] {poolId, e.round(), e.position(), e.row(), e.score(), e.spotCheck(),
-                e.predictionJson(), e.copies(), e.pickProbability(), e.reserve()});
+                e.predictionJson(), e.copies(), e.pickProbability(), e.pickOrder(), e.reserve()});
         }
         Sql.batch(c, "INSERT INTO queue_entries (pool_id, round_no, position, row_no, score, spot_check, prediction,"
-                + " copies, pick_probability, reserve) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)", rows);
+                + " copies, pick_probability, pick_order, reserve) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)", rows);
     }
 
     private static void markDone(Connection c, long poolId, int round, Instant now) throws SQLException {
@@ -225,6 +231,35 @@ public final class QueueStore {
     }
 
     /**
+     * One record as its round picked it: its place and probability in the round's sequence of
+     * picks, whether it was a spot check, and the serving model's belief when it was queued.
+     */
+    public record Picked(int round, int order, long row, boolean spotCheck, Double probability, String predictionJson) {
+    }
+
+    /**
+     * Every record a round picked itself (not those carried over, nor its reserve), oldest round
+     * first and in pick order within a round: what the accuracy estimates weigh the labels by.
+     */
+    public List<Picked> picks(long poolId) {
+        return sql.list("read the picks of pool " + poolId, "SELECT round_no, pick_order, row_no, spot_check,"
+                + " pick_probability, prediction FROM queue_entries WHERE pool_id = ? AND pick_order IS NOT NULL"
+                + " ORDER BY round_no, pick_order", rs -> new Picked(rs.getInt(1), rs.getInt(2), rs.getLong(3),
+                rs.getBoolean(4), Sql.nullableDouble(rs, 5), rs.getString(6)), poolId);
+    }
+
+    /**
+     * Each record ever queued in the pool, by row, with its entry in the first round that queued it:
+     * the round, whether it was a spot check, and the model's belief before anyone labelled it.
+     */
+    public Map<Long, QueueEntry> firstQueued(long poolId) {
+        Map<Long, QueueEntry> out = new HashMap<>();
+        sql.list("read the queues of pool " + poolId, "SELECT " + COLUMNS + " FROM queue_entries q WHERE q.pool_id = ?"
+                + " ORDER BY q.round_no, q.position", rs -> out.putIfAbsent(rs.getLong(3), entry(rs, null, null)), poolId);
+        return out;
+    }
+
+    /**
      * The last resort of a desk with nothing left for a person while records remain: appends up to
      * {@value #RANDOM_APPEND} records, drawn from scattered places of the pool, that nobody labelled
      * and the served queue does not hold, as reserve places without a score. Returns how many it
@@ -256,7 +291,7 @@ public final class QueueStore {
                         + " UNION ALL SELECT 1 FROM queue_entries WHERE pool_id = ? AND round_no = ? AND row_no = ?",
                         rs -> 1, poolId, row, poolId, round.get(), row).isEmpty()) {
                     added.add(new QueueEntry(round.get(), next + added.size(), row, 0, false, null, null, null, 1, null,
-                            true));
+                            null, true));
                 }
             }
             insert(c, poolId, added);

@@ -12,7 +12,7 @@ public final class RoundStore {
 
     /** One round as stored. */
     public record RoundRow(int round, RoundStatus status, Instant startedAt, Instant finishedAt, long labelsAtStart,
-                           String kernel, String message, String healthJson) {
+                           String kernel, String message, String healthJson, String samplerJson) {
     }
 
     /**
@@ -97,22 +97,60 @@ public final class RoundStore {
                 RoundStatus.RUNNING.word());
     }
 
+    /**
+     * What a round told about whether more labels pay (see {@code Settling} in the rounds).
+     *
+     * @param candidates     the unlabelled records it picked from
+     * @param agreement      Cohen's kappa of its stop-set predictions with the round before's (NaN: nothing to compare)
+     * @param compared       the stop-set records compared
+     * @param information    BALD summed over every candidate (nats)
+     * @param informationTop BALD summed over the batch's best candidates (nats)
+     */
+    public record Settled(long candidates, double agreement, int compared, double information, double informationTop) {
+    }
+
+    /** A published round with a model, as the accuracy and stopping advice read it. */
+    public record Evidence(int round, long labelsAtStart, Settled settled, String samplerJson, String healthJson) {
+    }
+
+    /** Keeps what round {@code round} told about whether more labels pay. */
+    public void settled(long poolId, int round, Settled s) {
+        sql.update("record what round " + round + " told", "UPDATE rounds SET candidates = ?, agreement = ?,"
+                + " agreement_records = ?, information = ?, information_top = ? WHERE pool_id = ? AND round_no = ?",
+                s.candidates(), Double.isNaN(s.agreement()) ? null : s.agreement(), s.compared(), s.information(),
+                s.informationTop(), poolId, round);
+    }
+
+    /** The pool's published rounds that had a model and kept what they told, oldest first. */
+    public List<Evidence> evidence(long poolId) {
+        return sql.list("read the rounds of pool " + poolId, "SELECT round_no, labels_at_start, candidates, agreement,"
+                + " agreement_records, information, information_top, sampler, health FROM rounds"
+                + " WHERE pool_id = ? AND status = ? AND candidates IS NOT NULL ORDER BY round_no",
+                rs -> {
+                    Double agreement = Sql.nullableDouble(rs, 4);
+                    return new Evidence(rs.getInt(1), rs.getLong(2), new Settled(rs.getLong(3),
+                            agreement == null ? Double.NaN : agreement, rs.getInt(5), rs.getDouble(6), rs.getDouble(7)),
+                            rs.getString(8), rs.getString(9));
+                }, poolId, RoundStatus.PUBLISHED.word());
+    }
+
     /** The pool's rounds, newest first. */
     public List<RoundRow> list(long poolId) {
-        return sql.list("list the rounds of pool " + poolId, "SELECT round_no, status, started_at, finished_at,"
-                + " labels_at_start, kernel, message, health FROM rounds WHERE pool_id = ? ORDER BY round_no DESC",
-                RoundStore::row, poolId);
+        return sql.list("list the rounds of pool " + poolId, "SELECT " + ROW_COLUMNS
+                + " FROM rounds WHERE pool_id = ? ORDER BY round_no DESC", RoundStore::row, poolId);
     }
 
     /** The pool's newest round, if it has had one. */
     public Optional<RoundRow> latest(long poolId) {
-        return sql.first("read the rounds of pool " + poolId, "SELECT round_no, status, started_at, finished_at,"
-                + " labels_at_start, kernel, message, health FROM rounds WHERE pool_id = ? ORDER BY round_no DESC",
-                RoundStore::row, poolId);
+        return sql.first("read the rounds of pool " + poolId, "SELECT " + ROW_COLUMNS
+                + " FROM rounds WHERE pool_id = ? ORDER BY round_no DESC", RoundStore::row, poolId);
     }
+
+    private static final String ROW_COLUMNS = "round_no, status, started_at, finished_at, labels_at_start, kernel,"
+            + " message, health, sampler";
 
     private static RoundRow row(ResultSet rs) throws SQLException {
         return new RoundRow(rs.getInt(1), RoundStatus.parse(rs.getString(2)), Sql.instant(rs, 3), Sql.instant(rs, 4),
-                rs.getLong(5), rs.getString(6), rs.getString(7), rs.getString(8));
+                rs.getLong(5), rs.getString(6), rs.getString(7), rs.getString(8), rs.getString(9));
     }
 }

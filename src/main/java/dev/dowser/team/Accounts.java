@@ -15,8 +15,7 @@ import java.util.regex.Pattern;
 
 /**
  * Accounts, sign-in and the checks behind every request: passwords, browser sessions (idle and
- * absolute expiry, ended server-side on logout), API tokens, the one-time setup code of a fresh
- * server, and the hold on password guessing. A disabled account's sessions and tokens stop
+ * absolute expiry, ended server-side on logout), API tokens, and the hold on password guessing. A disabled account's sessions and tokens stop
  * working at once, because every request reads the account.
  */
 public final class Accounts {
@@ -32,7 +31,6 @@ public final class Accounts {
     private final TeamConfig config;
     private final Passwords passwords;
     private final LoginLimiter limiter;
-    private volatile String setupCode;
     private volatile String decoyHash;
 
     public Accounts(Database db, SecureRandom random, TeamConfig config) {
@@ -49,36 +47,11 @@ public final class Accounts {
     }
 
     /**
-     * The one-time code that creates the first admin, made when the server has no account yet;
-     * empty once there is one. The server prints it on its console.
+     * True when some enabled account is an admin. A server needs one to be managed, so {@code dowser
+     * serve} refuses to start without it and says how to make one ({@code dowser users add}).
      */
-    public synchronized Optional<String> setupCode() {
-        if (db.users().count() > 0) {
-            setupCode = null;
-            return Optional.empty();
-        }
-        if (setupCode == null) {
-            setupCode = Secrets.token(random).substring(0, 12);
-        }
-        return Optional.of(setupCode);
-    }
-
-    public boolean setupNeeded() {
-        return db.users().count() == 0;
-    }
-
-    /** Creates the first admin with the code from the console; the code then stops working. */
-    public synchronized UserRow setup(String code, String name, String password) {
-        if (!setupNeeded()) {
-            throw new AuthException(AuthException.Kind.FORBIDDEN, "this server is already set up; sign in instead");
-        }
-        if (setupCode == null || !Secrets.same(setupCode, code)) {
-            throw new AuthException(AuthException.Kind.FORBIDDEN,
-                    "the setup code is wrong; use the one printed on the server's console");
-        }
-        UserRow admin = add(name, Role.ADMIN, password, name);
-        setupCode = null;
-        return admin;
+    public boolean hasAdmin() {
+        return db.users().list().stream().anyMatch(u -> !u.disabled() && Role.parse(u.role()) == Role.ADMIN);
     }
 
     public UserRow add(String name, Role role, String password, String actor) {

@@ -19,6 +19,10 @@ final class Errors {
     }
 
     static void send(HttpServerExchange exchange, Throwable e) {
+        if (e instanceof ClientGone gone) {
+            Bodies.abandoned(exchange, gone.received(), gone.getMessage());
+            return;
+        }
         int status;
         String message;
         if (e instanceof AuthException auth) {
@@ -51,6 +55,10 @@ final class Errors {
         if (exchange.isResponseStarted()) {
             exchange.endExchange();
             return;
+        }
+        if (!exchange.isRequestComplete()) {
+            // The rest of the body is not wanted: close the connection after the answer rather than read it.
+            exchange.setPersistent(false);
         }
         var body = Json.object().put("error", message);
         Responses.json(exchange, status, body);

@@ -15,6 +15,7 @@ import java.nio.charset.StandardCharsets;
 import java.security.MessageDigest;
 import java.util.Optional;
 import java.util.Set;
+import java.util.concurrent.Executor;
 
 /**
  * In front of every request: security headers, then who is asking (session cookie or bearer
@@ -22,6 +23,11 @@ import java.util.Set;
  * {@link Routes}, whose handler it then calls with the path's parameters bound. Handlers read the
  * signed-in {@link Caller} from the exchange and never decide access themselves; whatever they
  * throw becomes one error response in {@link Errors}.
+ *
+ * <p>Bodies: a declared body over the route's limit is refused with 413 before a byte is read;
+ * bounded bodies (JSON, the head of a file) are read by {@link Bodies} before the handler runs,
+ * without holding a thread while they arrive. Requests from people not signed in go through the
+ * {@link Door}: a fixed number at once, served on their own threads.
  */
 final class Gate implements HttpHandler {
 
@@ -36,11 +42,15 @@ final class Gate implements HttpHandler {
     private final Accounts accounts;
     private final Routes routes;
     private final HttpHandler assets;
+    private final Door door;
+    private final WebConfig config;
 
-    Gate(Accounts accounts, Routes routes, HttpHandler assets) {
+    Gate(Accounts accounts, Routes routes, HttpHandler assets, Door door, WebConfig config) {
         this.accounts = accounts;
         this.routes = routes;
         this.assets = assets;
+        this.door = door;
+        this.config = config;
     }
 
     @Override
@@ -73,9 +83,7 @@ final class Gate implements HttpHandler {
                         "/login.html?next=" + URLEncoder.encode(back, StandardCharsets.UTF_8));
                 ex.endExchange();
             } else {
-                ex.setStatusCode(403);
-                ex.getResponseHeaders().put(Headers.CONTENT_TYPE, "text/plain; charset=utf-8");
-                ex.getResponseSender().send(e.getMessage(), StandardCharsets.UTF_8);
+                Pages.send(ex, 403, "Not for your role", e.getMessage());
             }
         }
     }
@@ -90,7 +98,46 @@ final class Gate implements HttpHandler {
             return;
         }
         admit(ex, match.get().route(), method);
-        call(ex, match.get());
+        proceed(ex, match.get());
+    }
+
+    /**
+     * Refuses a body declared larger than the route takes, lets a request from someone not signed
+     * in through the door (or answers 503), reads a bounded body, then calls the handler.
+     */
+    private void proceed(HttpServerExchange ex, Routes.Match match) throws Exception {
+        Route.Body body = match.route().body();
+        long limit = bodyLimit(body);
+        long declared = ex.getRequestContentLength();
+        if (declared > limit) {
+            Errors.send(ex, body == Route.Body.UPLOAD ? ImportJobs.tooLarge(Bytes.text(declared), config)
+                    : Bodies.tooLarge(ex, limit));
+            return;
+        }
+        Executor executor = null;
+        if (ex.getAttachment(CALLER) == null) {
+            if (!door.enter(ex)) {
+                return;
+            }
+            executor = door.lane();
+        }
+        HttpHandler handler = e -> call(e, match);
+        // A body sent where none is taken is read the same way (and dropped), so that no thread waits for it.
+        if (body != Route.Body.UPLOAD && !ex.isRequestComplete()) {
+            Bodies.receive(ex, (int) limit, config.limits().bodyTimeoutMillis(), executor, handler);
+        } else if (executor != null) {
+            ex.dispatch(executor, handler);
+        } else {
+            handler.handleRequest(ex);
+        }
+    }
+
+    private long bodyLimit(Route.Body body) {
+        return switch (body) {
+            case NONE, JSON -> Requests.MAX_JSON_BODY_BYTES;
+            case FILE_HEAD -> ImportsApi.MAX_PREVIEW_BYTES;
+            case UPLOAD -> config.maxUploadBytes();
+        };
     }
 
     /** Calls the route's handler with the path's parameters bound; anything it throws becomes an error response. */
@@ -111,13 +158,11 @@ final class Gate implements HttpHandler {
         String method = ex.getRequestMethod().toString();
         Optional<Routes.Match> match = routes.page(method, path);
         if (match.isEmpty()) {
-            ex.setStatusCode(404);
-            ex.getResponseHeaders().put(Headers.CONTENT_TYPE, "text/plain; charset=utf-8");
-            ex.getResponseSender().send("no page at " + path, StandardCharsets.UTF_8);
+            Pages.send(ex, 404, "No such page", "There is no page at " + path + ".");
             return;
         }
         admit(ex, match.get().route(), method);
-        call(ex, match.get());
+        proceed(ex, match.get());
     }
 
     /** Signs the caller in, checks forgery for state changes and the route's roles; throws when refused. */

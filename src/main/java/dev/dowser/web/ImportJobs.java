@@ -21,8 +21,10 @@ import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
 /**
- * Imports uploaded through the API: the upload is spooled to disk (refused past the size limit),
- * then imported on one background thread while its progress can be asked for.
+ * Imports uploaded through the API: the upload is spooled to disk as it arrives (refused past the
+ * size limit, so memory stays bounded whatever its size), then imported on one background thread
+ * while its progress can be asked for. Spooling first keeps a slow upload from holding the import
+ * thread and an open database transaction for as long as the network takes.
  */
 final class ImportJobs implements AutoCloseable {
 
@@ -37,6 +39,7 @@ final class ImportJobs implements AutoCloseable {
     private final Database db;
     private final Path spoolDir;
     private final long maxUploadBytes;
+    private final String uploadLimit;
     private final ExecutorService worker = Executors.newSingleThreadExecutor(r -> {
         Thread t = new Thread(r, "dowser-import");
         t.setDaemon(true);
@@ -45,10 +48,11 @@ final class ImportJobs implements AutoCloseable {
     private final AtomicLong nextId = new AtomicLong(1);
     private final Map<Long, Status> jobs = new ConcurrentHashMap<>();
 
-    ImportJobs(Database db, Path spoolDir, long maxUploadBytes) {
+    ImportJobs(Database db, WebConfig config) {
         this.db = db;
-        this.spoolDir = spoolDir;
-        this.maxUploadBytes = maxUploadBytes;
+        this.spoolDir = config.spoolDir();
+        this.maxUploadBytes = config.maxUploadBytes();
+        this.uploadLimit = config.uploadLimitText();
         removeLeftovers(spoolDir);
     }
 
@@ -118,6 +122,27 @@ final class ImportJobs implements AutoCloseable {
         return s;
     }
 
+    /** The refusal of an upload of {@code size} (as people read it) past the server's limit. */
+    static ApiException tooLarge(String size, WebConfig config) {
+        return new ApiException(413, "the upload is " + size + ", larger than the limit of "
+                + config.uploadLimitText() + "; nothing was imported");
+    }
+
+    /** Refuses an upload of {@code declared} bytes at once when the upload folder has no room for it. */
+    void checkRoom(long declared) {
+        try {
+            Files.createDirectories(spoolDir);
+            long free = Files.getFileStore(spoolDir).getUsableSpace();
+            if (declared > free) {
+                throw new ApiException(507, "the server's upload folder " + spoolDir + " has " + Bytes.text(free)
+                        + " free, too little for this upload of " + Bytes.text(declared) + "; nothing was imported");
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot prepare the upload folder " + spoolDir + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** Copies the upload to a file of the upload folder, refusing it past the limit; on any failure the file goes. */
     private Path spool(InputStream body) {
         Path file = null;
         try {
@@ -127,13 +152,18 @@ final class ImportJobs implements AutoCloseable {
             byte[] buf = new byte[SPOOL_BUFFER_BYTES];
             try (var out = Files.newOutputStream(file)) {
                 int n;
-                while ((n = body.read(buf)) > 0) {
+                while ((n = body.read(buf)) >= 0) {
                     written += n;
                     if (written > maxUploadBytes) {
-                        throw new ApiException(413, "the upload is larger than the limit of " + maxUploadBytes
-                                + " bytes; nothing was imported");
+                        throw new ApiException(413, "the upload is larger than the limit of " + uploadLimit
+                                + "; nothing was imported");
                     }
-                    out.write(buf, 0, n);
+                    try {
+                        out.write(buf, 0, n);
+                    } catch (IOException e) {
+                        throw new ApiException(507, "the server could not store the upload in " + spoolDir + " ("
+                                + e.getMessage() + "), after " + Bytes.text(written) + "; nothing was imported");
+                    }
                 }
             }
             return file;

@@ -15,7 +15,6 @@ import dev.dowser.data.Preview;
 import dev.dowser.json.Json;
 import io.undertow.server.HttpServerExchange;
 import java.io.ByteArrayInputStream;
-import java.io.IOException;
 import java.util.concurrent.ExecutionException;
 import java.util.concurrent.Future;
 
@@ -26,9 +25,11 @@ final class ImportsApi {
     static final int MAX_PREVIEW_BYTES = 1 << 20;
 
     private final ImportJobs imports;
+    private final WebConfig config;
 
-    ImportsApi(ImportJobs imports) {
+    ImportsApi(ImportJobs imports, WebConfig config) {
         this.imports = imports;
+        this.config = config;
     }
 
     void startImport(HttpServerExchange ex) {
@@ -45,8 +46,13 @@ final class ImportsApi {
             throw new ApiException(400, "a pool needs classes for people to choose from: add classes=a,b,c to"
                     + " the call, or label=COLUMN naming the column that holds labels already given");
         }
-        ex.startBlocking();
-        ImportJobs.Submission job = imports.submit(ex.getInputStream(), fileName, spec);
+        long declared = ex.getRequestContentLength();
+        if (declared > 0) {
+            imports.checkRoom(declared);
+        }
+        UploadStream body = new UploadStream(ex.getRequestChannel(), config.limits().uploadStallMillis(),
+                received -> ImportJobs.tooLarge("over " + Bytes.text(config.maxUploadBytes()), config));
+        ImportJobs.Submission job = imports.submit(body, fileName, spec);
         if (Boolean.parseBoolean(query(ex, "wait", "false"))) {
             ImportJobs.Status done = await(job.done());
             Responses.json(ex, "done".equals(done.state()) ? 201 : 400, statusJson(done));
@@ -55,12 +61,12 @@ final class ImportsApi {
         }
     }
 
-    void preview(HttpServerExchange ex) throws IOException {
+    /** The body (read by the gate, at most {@value #MAX_PREVIEW_BYTES} bytes) is the head of a file. */
+    void preview(HttpServerExchange ex) {
         String fileName = query(ex, "file_name", "upload");
         String formatWord = query(ex, "format", null);
         FileFormat format = formatWord == null ? FileFormat.fromFileName(fileName) : FileFormat.parse(formatWord);
-        ex.startBlocking();
-        byte[] head = ex.getInputStream().readNBytes(MAX_PREVIEW_BYTES);
+        byte[] head = Bodies.of(ex);
         Preview p = Preview.of(new ByteArrayInputStream(head), format, Preview.DEFAULT_ROWS);
         ObjectNode body = Json.object().put("format", format.word());
         ArrayNode columns = body.putArray("columns");

@@ -3,11 +3,13 @@ package dev.dowser.web;
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.json.Json;
 import io.undertow.server.HttpServerExchange;
-import java.io.IOException;
+import java.nio.ByteBuffer;
+import java.nio.charset.CharacterCodingException;
 import java.nio.charset.StandardCharsets;
 import java.util.Arrays;
 import java.util.Deque;
 import java.util.List;
+import java.util.Locale;
 
 /** Reading requests: path and query parameters, and bounded JSON bodies, each failing with a message that names the field. */
 final class Requests {
@@ -53,14 +55,28 @@ final class Requests {
         }
     }
 
-    /** The request's JSON body, refused past {@value #MAX_JSON_BODY_BYTES} bytes; {@code what} names it in the error. */
-    static JsonNode jsonBody(HttpServerExchange ex, String what) throws IOException {
-        ex.startBlocking();
-        byte[] bytes = ex.getInputStream().readNBytes(MAX_JSON_BODY_BYTES + 1);
-        if (bytes.length > MAX_JSON_BODY_BYTES) {
-            throw new ApiException(413, what + " may hold at most " + MAX_JSON_BODY_BYTES + " bytes");
+    /**
+     * The request's JSON body, a JSON object (the gate has read it, refusing it past
+     * {@value #MAX_JSON_BODY_BYTES} bytes); {@code what} names it in the error.
+     */
+    static JsonNode jsonBody(HttpServerExchange ex, String what) {
+        byte[] bytes = Bodies.of(ex);
+        if (bytes.length == 0) {
+            throw new ApiException(400, what + " needs a JSON object as its body; the body was empty");
         }
-        return Json.tree(new String(bytes, StandardCharsets.UTF_8));
+        JsonNode body;
+        try {
+            body = Json.tree(StandardCharsets.UTF_8.newDecoder().decode(ByteBuffer.wrap(bytes)).toString());
+        } catch (CharacterCodingException e) {
+            throw new ApiException(400, what + " must be JSON in UTF-8; its body is not UTF-8");
+        } catch (IllegalArgumentException e) {
+            throw new ApiException(400, what + " is " + e.getMessage());
+        }
+        if (body == null || !body.isObject()) {
+            throw new ApiException(400, what + " needs a JSON object as its body, got "
+                    + (body == null || body.isMissingNode() ? "nothing" : body.getNodeType().name().toLowerCase(Locale.ROOT)));
+        }
+        return body;
     }
 
     static String requiredText(JsonNode body, String field) {

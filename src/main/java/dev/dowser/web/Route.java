@@ -9,13 +9,33 @@ import java.util.Set;
 
 /**
  * One API call or page: its method, its path ({@code {x}} matches one path segment, bound as the
- * parameter {@code x}), the roles allowed (none: anyone, signed in or not), and the handler. The
- * template is split once, here, not on every request.
+ * parameter {@code x}), the roles allowed (none: anyone, signed in or not), the body it takes, and
+ * the handler. The template is split once, here, not on every request.
  */
-record Route(String method, String template, Set<Role> roles, HttpHandler handler, List<String> segments) {
+record Route(String method, String template, Set<Role> roles, Body body, HttpHandler handler,
+             List<String> segments) {
+
+    /**
+     * What a call reads from its request. The gate reads bounded bodies before the handler runs,
+     * without holding a thread while they arrive, and refuses any body over its limit unread.
+     */
+    enum Body {
+        /** Nothing: a body sent anyway is refused past {@link Requests#MAX_JSON_BODY_BYTES}, never read. */
+        NONE,
+        /** A JSON document of at most {@link Requests#MAX_JSON_BODY_BYTES}, read in full first. */
+        JSON,
+        /** The head of a file, at most {@link ImportsApi#MAX_PREVIEW_BYTES}, read in full first. */
+        FILE_HEAD,
+        /** A whole file, streamed by the handler up to the server's upload limit. */
+        UPLOAD
+    }
+
+    Route(String method, String template, Set<Role> roles, Body body, HttpHandler handler) {
+        this(method, template, Set.copyOf(roles), body, handler, List.of(template.split("/", -1)));
+    }
 
     Route(String method, String template, Set<Role> roles, HttpHandler handler) {
-        this(method, template, Set.copyOf(roles), handler, List.of(template.split("/", -1)));
+        this(method, template, roles, Body.NONE, handler);
     }
 
     /** The path parameters when a path, split at its slashes, fits the template; null when it does not. */

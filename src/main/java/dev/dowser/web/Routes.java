@@ -31,12 +31,10 @@ final class Routes {
     private final List<Route> api;
     private final List<Route> pages;
 
-    Routes(TeamApi team, PoolsApi pools, ImportsApi imports, DeskApi desk, RoundsApi rounds, ReviewApi review,
-           HttpHandler events, HttpHandler files) {
+    Routes(TeamApi team, PoolsApi pools, ImportsApi imports, DeskApi desk, RoundsApi rounds, AdviceApi advice,
+           ReviewApi review, HttpHandler events, HttpHandler files) {
         // Paths relative to API_PREFIX.
         this.api = List.of(
-                call("GET", "/setup", PUBLIC, team::setupNeeded),
-                call("POST", "/setup", PUBLIC, team::setup),
                 call("POST", "/session", PUBLIC, team::login),
                 call("GET", "/session", ANYONE_SIGNED_IN, team::session),
                 call("DELETE", "/session", ANYONE_SIGNED_IN, team::logout),
@@ -51,18 +49,21 @@ final class Routes {
                 call("GET", "/pools/{pool}", ANYONE_SIGNED_IN, pools::pool),
                 call("GET", "/pools/{pool}/records", REVIEWERS, pools::records),
                 call("GET", "/pools/{pool}/export", ADMINS, pools::export),
-                call("POST", "/imports", ADMINS, imports::startImport),
+                call("GET", "/pools/{pool}/export/metadata", ADMINS, pools::exportMetadata),
+                call("POST", "/imports", ADMINS, Route.Body.UPLOAD, imports::startImport),
                 call("GET", "/imports/{id}", ADMINS, imports::importStatus),
-                call("POST", "/previews", ADMINS, imports::preview),
+                call("POST", "/previews", ADMINS, Route.Body.FILE_HEAD, imports::preview),
                 call("POST", "/pools/{pool}/queue/next", ANYONE_SIGNED_IN, desk::next),
                 call("POST", "/pools/{pool}/queue/skip", ANYONE_SIGNED_IN, desk::skip),
                 call("POST", "/pools/{pool}/queue/release", ANYONE_SIGNED_IN, desk::release),
                 call("POST", "/pools/{pool}/labels", ANYONE_SIGNED_IN, desk::label),
                 call("POST", "/pools/{pool}/labels/undo", ANYONE_SIGNED_IN, desk::undo),
+                call("GET", "/pools/{pool}/labels/mine", ANYONE_SIGNED_IN, desk::mine),
                 call("GET", "/pools/{pool}/rounds", ANYONE_SIGNED_IN, rounds::list),
                 call("POST", "/pools/{pool}/rounds", REVIEWERS, rounds::request),
                 call("GET", "/pools/{pool}/queue", ANYONE_SIGNED_IN, rounds::queue),
-                call("GET", "/pools/{pool}/accuracy", ANYONE_SIGNED_IN, rounds::accuracy),
+                call("GET", "/pools/{pool}/accuracy", ANYONE_SIGNED_IN, advice::accuracy),
+                call("GET", "/pools/{pool}/advice", ANYONE_SIGNED_IN, advice::advice),
                 call("GET", "/pools/{pool}/settings", ANYONE_SIGNED_IN, rounds::settings),
                 call("PUT", "/pools/{pool}/settings", ADMINS, rounds::changeSettings),
                 call("GET", "/pools/{pool}/settings/history", REVIEWERS, rounds::settingsHistory),
@@ -83,9 +84,15 @@ final class Routes {
                 new Route("GET", "/users.html", ADMINS, files));
     }
 
-    /** A JSON call: its handler reads and writes in blocking mode on a worker thread. */
+    /** A JSON call: a JSON body unless it only reads; its handler reads and writes in blocking mode. */
     private static Route call(String method, String template, Set<Role> roles, HttpHandler handler) {
-        return new Route(method, template, roles, new BlockingHandler(handler));
+        return call(method, template, roles, method.equals("GET") || method.equals("DELETE") ? Route.Body.NONE
+                : Route.Body.JSON, handler);
+    }
+
+    private static Route call(String method, String template, Set<Role> roles, Route.Body body,
+                              HttpHandler handler) {
+        return new Route(method, template, roles, body, new BlockingHandler(handler));
     }
 
     List<Route> api() {

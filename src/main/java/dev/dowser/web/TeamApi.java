@@ -18,24 +18,13 @@ import io.undertow.server.handlers.CookieImpl;
 import java.io.IOException;
 import java.net.InetSocketAddress;
 
-/** Signing in and out, the first admin, API tokens, and accounts (admins only, as {@link Access} says). */
+/** Signing in and out, API tokens, and accounts (admins only, as {@link Routes} says). */
 final class TeamApi {
 
     private final Accounts accounts;
 
     TeamApi(Accounts accounts) {
         this.accounts = accounts;
-    }
-
-    void setupNeeded(HttpServerExchange ex) {
-        Responses.ok(ex, Json.object().put("setup_needed", accounts.setupNeeded()));
-    }
-
-    void setup(HttpServerExchange ex) throws IOException {
-        JsonNode body = jsonBody(ex, "a setup request");
-        UserRow admin = accounts.setup(requiredText(body, "code"), requiredText(body, "name"),
-                requiredText(body, "password"));
-        Responses.json(ex, 201, userJson(admin));
     }
 
     void login(HttpServerExchange ex) throws IOException {

@@ -1,6 +1,7 @@
 package dev.dowser.web;
 
 import dev.dowser.desk.Desk;
+import dev.dowser.rounds.AdviceService;
 import dev.dowser.rounds.RoundWorkers;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
@@ -9,18 +10,22 @@ import dev.dowser.team.Reviews;
 import dev.dowser.team.TeamConfig;
 import io.undertow.Handlers;
 import io.undertow.Undertow;
+import io.undertow.UndertowOptions;
 import io.undertow.server.HttpHandler;
 import io.undertow.server.handlers.GracefulShutdownHandler;
 import java.net.InetSocketAddress;
+import java.nio.file.Path;
 import java.security.SecureRandom;
-import java.util.Optional;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
+import org.xnio.Options;
 
 /**
- * The Undertow server: the JSON API under {@code /api/v1} and the pages from {@code web/}.
- * Closing it stops taking requests, ends the event streams, lets requests in flight finish, stops
- * a running round at a safe point (its chains saved), then stops.
+ * The Undertow server: the JSON API under {@code /api/v1} and the pages from {@code web/}. It binds
+ * its port first ({@link #listen}), answering 503 while the rest starts, so that a busy port is
+ * found before anything is written; {@link #serve} then opens for business. Closing it stops
+ * taking requests, ends the event streams, lets requests in flight finish, stops a running round
+ * at a safe point (its chains saved), then stops.
  */
 public final class WebServer implements AutoCloseable {
 
@@ -29,25 +34,22 @@ public final class WebServer implements AutoCloseable {
     /** Rounds are reproducible: every random number of a round comes from this seed's tree (the pool, the round, its consumer). */
     public static final long DEFAULT_SEED = 1;
 
+    /** What a served server runs, made by {@link #serve}. */
+    private record Services(ImportJobs imports, RoundWorkers rounds, Events events, Accounts accounts, Routes routes,
+                            Door door) {
+    }
+
     private final Undertow undertow;
     private final GracefulShutdownHandler graceful;
-    private final ImportJobs imports;
-    private final RoundWorkers rounds;
-    private final Events events;
-    private final Accounts accounts;
-    private final Routes routes;
-    private final boolean tls;
+    private final Starting front;
+    private final WebConfig config;
+    private volatile Services services;
 
-    private WebServer(Undertow undertow, GracefulShutdownHandler graceful, ImportJobs imports, RoundWorkers rounds,
-                      Events events, Accounts accounts, Routes routes, boolean tls) {
+    private WebServer(Undertow undertow, GracefulShutdownHandler graceful, Starting front, WebConfig config) {
         this.undertow = undertow;
         this.graceful = graceful;
-        this.imports = imports;
-        this.rounds = rounds;
-        this.events = events;
-        this.accounts = accounts;
-        this.routes = routes;
-        this.tls = tls;
+        this.front = front;
+        this.config = config;
     }
 
     public static WebServer start(Database db, WebConfig config) {
@@ -60,7 +62,64 @@ public final class WebServer implements AutoCloseable {
 
     /** Starts the server; rounds sample with {@code sampler}, accounts and sessions follow {@code team}. */
     public static WebServer start(Database db, WebConfig config, SamplerConfig sampler, TeamConfig team) {
-        ImportJobs imports = new ImportJobs(db, config.spoolDir(), config.maxUploadBytes());
+        WebServer server = listen(config);
+        try {
+            return server.serve(db, sampler, team);
+        } catch (RuntimeException e) {
+            server.close();
+            throw e;
+        }
+    }
+
+    /**
+     * Binds the port and answers every request with 503 (starting) until {@link #serve}.
+     *
+     * @throws PortBusyException when another program holds the port
+     */
+    public static WebServer listen(WebConfig config) {
+        Starting front = new Starting();
+        // A client that asks before sending its body (Expect: 100-continue) is told to go on only when
+        // the body is read, so a refused one (413, 401) never sends it.
+        HttpHandler continued = Handlers.httpContinueRead(front);
+        GracefulShutdownHandler graceful = Handlers.gracefulShutdown(config.trustProxy()
+                ? Handlers.proxyPeerAddress(continued) : continued);
+        ClientLimits limits = config.limits();
+        Undertow.Builder builder = Undertow.builder().setHandler(graceful)
+                .setServerOption(UndertowOptions.REQUEST_PARSE_TIMEOUT, limits.headerTimeoutMillis())
+                .setServerOption(UndertowOptions.NO_REQUEST_TIMEOUT, limits.idleTimeoutMillis())
+                // The largest body any route takes; the gate sets each request's own limit below it.
+                .setServerOption(UndertowOptions.MAX_ENTITY_SIZE, Math.max(config.maxUploadBytes(),
+                        ImportsApi.MAX_PREVIEW_BYTES))
+                // Not Options.READ_TIMEOUT: Undertow counts it from the last byte received whatever the
+                // request is doing, so it would also end event streams and long imports; bodies have
+                // their own deadlines (Bodies, UploadStream).
+                .setSocketOption(Options.WRITE_TIMEOUT, limits.writeTimeoutMillis());
+        if (config.tls() != null) {
+            builder.addHttpsListener(config.port(), config.bind(), config.tls().context());
+        } else {
+            builder.addHttpListener(config.port(), config.bind());
+        }
+        Undertow undertow = builder.build();
+        try {
+            undertow.start();
+        } catch (RuntimeException e) {
+            throw PortBusyException.from(e, config.bind(), config.port());
+        }
+        return new WebServer(undertow, graceful, front, config);
+    }
+
+    /** Opens for business on {@code db}: rounds sample with {@code sampler}, accounts follow {@code team}. */
+    public WebServer serve(Database db, SamplerConfig sampler, TeamConfig team) {
+        return serve(db, config.spoolDir(), sampler, team);
+    }
+
+    /** The same, spooling uploads in {@code spoolDir} (made after the port was bound). */
+    public synchronized WebServer serve(Database db, Path spoolDir, SamplerConfig sampler, TeamConfig team) {
+        if (services != null) {
+            throw new IllegalStateException("the server is serving already");
+        }
+        WebConfig config = this.config.withSpoolDir(spoolDir);
+        ImportJobs imports = new ImportJobs(db, config);
         Events events = new Events();
         RoundWorkers rounds = new RoundWorkers(db, sampler, events);
         // Rounds a killed server left running are marked interrupted, short queues refilled, new pools served.
@@ -68,35 +127,31 @@ public final class WebServer implements AutoCloseable {
         Accounts accounts = new Accounts(db, new SecureRandom(), team);
         Desk desk = new Desk(db, rounds, events);
         HttpHandler files = StaticFiles.handler();
-        Routes routes = new Routes(new TeamApi(accounts), new PoolsApi(db), new ImportsApi(imports), new DeskApi(desk),
-                new RoundsApi(db, rounds, desk), new ReviewApi(new Reviews(db)), events.handler(), files);
-        HttpHandler gate = new Gate(accounts, routes, files);
-        GracefulShutdownHandler graceful = Handlers.gracefulShutdown(config.trustProxy()
-                ? Handlers.proxyPeerAddress(gate) : gate);
-        Undertow.Builder builder = Undertow.builder().setHandler(graceful);
-        if (config.tls() != null) {
-            builder.addHttpsListener(config.port(), config.bind(), config.tls().context());
-        } else {
-            builder.addHttpListener(config.port(), config.bind());
-        }
-        Undertow undertow = builder.build();
-        undertow.start();
-        return new WebServer(undertow, graceful, imports, rounds, events, accounts, routes, config.tls() != null);
+        Routes routes = new Routes(new TeamApi(accounts), new PoolsApi(db), new ImportsApi(imports, config),
+                new DeskApi(desk), new RoundsApi(db, rounds, desk), new AdviceApi(new AdviceService(db)),
+                new ReviewApi(new Reviews(db)), events.handler(), files);
+        Door door = new Door(config.limits());
+        services = new Services(imports, rounds, events, accounts, routes, door);
+        front.open(new Gate(accounts, routes, files, door, config));
+        return this;
     }
 
     /** The route table the server was started with. */
     Routes routes() {
-        return routes;
+        return served().routes();
+    }
+
+    private Services served() {
+        Services s = services;
+        if (s == null) {
+            throw new IllegalStateException("the server listens but does not serve yet");
+        }
+        return s;
     }
 
     /** Asks for a round of the pool now, as {@code POST /api/v1/pools/{pool}/rounds} does. */
     public void requestRound(String pool) {
-        rounds.worker(pool).request();
-    }
-
-    /** The one-time code that creates the first admin, while the server has no account. */
-    public Optional<String> setupCode() {
-        return accounts.setupCode();
+        served().rounds().worker(pool).request();
     }
 
     public int port() {
@@ -106,14 +161,17 @@ public final class WebServer implements AutoCloseable {
     public String address() {
         InetSocketAddress a = (InetSocketAddress) undertow.getListenerInfo().get(0).getAddress();
         String host = a.getAddress().isAnyLocalAddress() ? "localhost" : a.getHostString();
-        return (tls ? "https://" : "http://") + host + ":" + a.getPort() + "/";
+        return (config.tls() != null ? "https://" : "http://") + host + ":" + a.getPort() + "/";
     }
 
     @Override
     public void close() {
         graceful.shutdown();
-        // Event streams never end by themselves; end them so that only real requests are waited for.
-        events.closeAll();
+        Services s = services;
+        if (s != null) {
+            // Event streams never end by themselves; end them so that only real requests are waited for.
+            s.events().closeAll();
+        }
         try {
             if (!graceful.awaitShutdown(SHUTDOWN_WAIT_MILLIS)) {
                 LOG.warn("requests still running after {} ms; stopping anyway", SHUTDOWN_WAIT_MILLIS);
@@ -121,9 +179,12 @@ public final class WebServer implements AutoCloseable {
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
         }
-        imports.close();
-        // A running round stops at its chains' next safe point and saves them; no new one starts.
-        rounds.close();
+        if (s != null) {
+            s.imports().close();
+            s.door().close();
+            // A running round stops at its chains' next safe point and saves them; no new one starts.
+            s.rounds().close();
+        }
         undertow.stop();
     }
 }

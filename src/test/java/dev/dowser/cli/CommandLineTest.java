@@ -1,12 +1,23 @@
 package dev.dowser.cli;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.dowser.json.Json;
 import dev.dowser.store.Database;
 import dev.dowser.team.Passwords;
+import dev.dowser.web.PortBusyException;
+import dev.dowser.web.WebConfig;
+import dev.dowser.web.WebServer;
+import java.io.ByteArrayOutputStream;
+import java.io.PrintStream;
 import java.io.PrintWriter;
 import java.io.StringWriter;
+import java.net.InetAddress;
+import java.net.ServerSocket;
+import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Clock;
@@ -63,10 +74,16 @@ class CommandLineTest {
         Path out = dir.resolve("out.csv");
         Run exported = run("export", "--data", data, "--pool", "p", "--out", out.toString());
         assertEquals(0, exported.exit(), exported.err());
-        assertEquals(List.of("id,x,label,resolution,labelled_by,labelled_at,note,labels_by_person",
-                        "a,1,up,single,import,carried in by the import,\"{\"\"import\"\":\"\"up\"\"}\"",
-                        "c,3,down,single,import,carried in by the import,\"{\"\"import\"\":\"\"down\"\"}\""),
+        // Labels carried in by the import were never queued: no round, spot check or model view.
+        assertEquals(List.of("id,x,label,resolution,labelled_by,labelled_at,note,labels_by_person,round,spot_check,"
+                                + "model_label,model_probability",
+                        "a,1,up,single,import,carried in by the import,\"{\"\"import\"\":\"\"up\"\"}\",,,,",
+                        "c,3,down,single,import,carried in by the import,\"{\"\"import\"\":\"\"down\"\"}\",,,,"),
                 Files.readAllLines(out).stream().map(l -> l.replaceAll(",20\\d\\d-[^,]*,", ",")).toList());
+        JsonNode meta = Json.tree(Files.readString(dir.resolve("out.csv.meta.json")));
+        assertEquals("[{\"name\":\"down\",\"key\":\"1\",\"labelled\":1},{\"name\":\"up\",\"key\":\"2\",\"labelled\":1}]",
+                meta.get("classes").toString());
+        assertTrue(exported.err().contains("metadata=" + dir.resolve("out.csv.meta.json")), exported.err());
     }
 
     @Test
@@ -120,5 +137,29 @@ class CommandLineTest {
             assertEquals(List.of("account-added", "account-disabled", "password-reset"),
                     db.history().of(null, "account:Ada Park").stream().map(c -> c.kind()).toList());
         }
+    }
+
+    /** The demo moves to a free port when its usual one is busy and says so; a port asked for is kept to. */
+    @Test
+    void theDemoTakesAFreePortWhenItsOwnIsBusy() throws Exception {
+        try (ServerSocket taken = new ServerSocket(0, 1, InetAddress.getLoopbackAddress())) {
+            ByteArrayOutputStream note = new ByteArrayOutputStream();
+            try (WebServer server = DemoCommand.listen(null, taken.getLocalPort(),
+                    new PrintStream(note, true, StandardCharsets.UTF_8))) {
+                assertTrue(server.port() != taken.getLocalPort());
+                assertEquals("dowser: port " + taken.getLocalPort() + " is busy, so the demo listens on port "
+                        + server.port() + " instead (choose one with --port)\n", note.toString(StandardCharsets.UTF_8));
+            }
+            PortBusyException busy = assertThrows(PortBusyException.class,
+                    () -> DemoCommand.listen(taken.getLocalPort(), WebConfig.DEFAULT_PORT, System.err));
+            assertEquals("cannot listen on 127.0.0.1 port " + taken.getLocalPort() + ": another program is using it",
+                    busy.getMessage());
+        }
+        Path data = dir.resolve("demo");
+        Files.createDirectories(data);
+        Files.writeString(data.resolve("keep.txt"), "mine");
+        Run full = run("demo", "--data", data.toString(), "--port", "0");
+        assertEquals(2, full.exit());
+        assertEquals("dowser: " + data + " is not empty; the demo needs a new or empty folder", full.err().strip());
     }
 }

@@ -37,17 +37,14 @@ class AccountsTest {
     }
 
     @Test
-    void theFirstAdminNeedsTheOneTimeCode() {
-        assertTrue(accounts.setupNeeded());
-        String code = accounts.setupCode().orElseThrow();
-        assertEquals(code, accounts.setupCode().orElseThrow(), "the same code until it is used");
-        AuthException wrong = assertThrows(AuthException.class, () -> accounts.setup("nope", "ada", "long enough pw"));
-        assertEquals("the setup code is wrong; use the one printed on the server's console", wrong.getMessage());
-        accounts.setup(code, "ada", "long enough pw");
-        assertEquals("admin", db.users().require("ada").role());
-        assertTrue(accounts.setupCode().isEmpty());
-        AuthException again = assertThrows(AuthException.class, () -> accounts.setup(code, "eve", "long enough pw"));
-        assertEquals("this server is already set up; sign in instead", again.getMessage());
+    void aServerHasAnAdminOnlyWhileOneIsEnabled() {
+        assertFalse(accounts.hasAdmin(), "a new database has no account");
+        accounts.add("ben", Role.REVIEWER, "long enough pw", "test");
+        assertFalse(accounts.hasAdmin(), "a reviewer is not an admin");
+        accounts.add("ada", Role.ADMIN, "long enough pw", "test");
+        assertTrue(accounts.hasAdmin());
+        accounts.setDisabled("ada", true, "test");
+        assertFalse(accounts.hasAdmin(), "a disabled admin manages nothing");
     }
 
     @Test

@@ -43,8 +43,6 @@ class AccessTest {
 
     /** method, path with its placeholders, a concrete path, and who may call it ("-" for anyone). */
     private static final String[][] API = {
-        {"GET", "/setup", "/setup", "-"},
-        {"POST", "/setup", "/setup", "-"},
         {"POST", "/session", "/session", "-"},
         {"GET", "/session", "/session", "labeller reviewer admin"},
         {"DELETE", "/session", "/session", "labeller reviewer admin"},
@@ -59,6 +57,7 @@ class AccessTest {
         {"GET", "/pools/{pool}", "/pools/p", "labeller reviewer admin"},
         {"GET", "/pools/{pool}/records", "/pools/p/records", "reviewer admin"},
         {"GET", "/pools/{pool}/export", "/pools/p/export", "admin"},
+        {"GET", "/pools/{pool}/export/metadata", "/pools/p/export/metadata", "admin"},
         {"POST", "/imports", "/imports?pool=q", "admin"},
         {"GET", "/imports/{id}", "/imports/99", "admin"},
         {"POST", "/previews", "/previews?file_name=x.csv", "admin"},
@@ -67,10 +66,12 @@ class AccessTest {
         {"POST", "/pools/{pool}/queue/release", "/pools/p/queue/release", "labeller reviewer admin"},
         {"POST", "/pools/{pool}/labels", "/pools/p/labels", "labeller reviewer admin"},
         {"POST", "/pools/{pool}/labels/undo", "/pools/p/labels/undo", "labeller reviewer admin"},
+        {"GET", "/pools/{pool}/labels/mine", "/pools/p/labels/mine", "labeller reviewer admin"},
         {"GET", "/pools/{pool}/rounds", "/pools/p/rounds", "labeller reviewer admin"},
         {"POST", "/pools/{pool}/rounds", "/pools/p/rounds", "reviewer admin"},
         {"GET", "/pools/{pool}/queue", "/pools/p/queue", "labeller reviewer admin"},
         {"GET", "/pools/{pool}/accuracy", "/pools/p/accuracy", "labeller reviewer admin"},
+        {"GET", "/pools/{pool}/advice", "/pools/p/advice", "labeller reviewer admin"},
         {"GET", "/pools/{pool}/settings", "/pools/p/settings", "labeller reviewer admin"},
         {"PUT", "/pools/{pool}/settings", "/pools/p/settings", "admin"},
         {"GET", "/pools/{pool}/settings/history", "/pools/p/settings/history", "reviewer admin"},
@@ -197,7 +198,7 @@ class AccessTest {
         HttpResponse<String> method = http.send(request("PATCH", "/api/v1/pools", null, false, false).build(),
                 HttpResponse.BodyHandlers.ofString());
         assertEquals(405, method.statusCode());
-        for (String path : List.of("/login.html", "/api/v1/setup", "/js/api.js", "/api/v1/pools")) {
+        for (String path : List.of("/login.html", "/api/v1/session", "/js/api.js", "/api/v1/pools")) {
             HttpResponse<String> r = http.send(request("GET", path, null, false, false).build(),
                     HttpResponse.BodyHandlers.ofString());
             // The policy is the common-practice strict set: our own scripts and styles only, no framing.
