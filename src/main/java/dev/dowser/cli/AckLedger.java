@@ -1,5 +1,6 @@
 package dev.dowser.cli;
 
+import dev.dowser.labels.Verdict;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.store.Database;
 import dev.dowser.store.HistoryStore;
@@ -78,7 +79,7 @@ final class AckLedger {
                 case LABEL -> labelled(history(db, pool, a.record(), histories), a) >= 0;
                 case WITHDRAWAL -> withdrawn(history(db, pool, a.record(), histories), a);
                 case REVIEW -> history(db, pool, a.record(), histories).stream()
-                        .anyMatch(e -> e.kind().equals(LabelStore.KIND_OVERRIDE) && a.mark().equals(e.note())
+                        .anyMatch(e -> e.kind().equals(Verdict.OVERRIDE.word()) && a.mark().equals(e.note())
                                 && e.by().equals(a.person()) && e.label().equals(a.value()));
                 case SETTINGS -> leaseMinutes.contains(Integer.parseInt(a.mark()));
                 case ACCOUNT -> account(db, a);

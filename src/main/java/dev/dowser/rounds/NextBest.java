@@ -41,6 +41,9 @@ final class NextBest {
      * random order when {@code score} is null.
      */
     static int[] ranked(double[] score, int n, int[] queued, int k, SplittableRandom rng) {
+        if (k <= 0) {
+            return new int[0];
+        }
         boolean[] taken = new boolean[n];
         for (int q : queued) {
             taken[q] = true;

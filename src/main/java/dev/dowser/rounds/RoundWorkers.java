@@ -71,8 +71,9 @@ public final class RoundWorkers implements AutoCloseable {
 
     /**
      * Recovers and starts watching. Rounds the last server left running (it was killed) are marked
-     * interrupted; every pool whose served batch is empty or nearly taken gets a round at once (a
-     * round stopped at shutdown left its queue short too); from then on, a pool with nothing served
+     * interrupted; every pool with nothing served, or whose served batch is short (half or more of
+     * it taken, or all but the low-water mark of one labeller) gets a round at once (a round stopped
+     * at shutdown left its queue short too); from then on, a pool with nothing served
      * gets its first round within {@link #WATCH_PERIOD} of appearing.
      */
     public void watch() {

@@ -76,9 +76,8 @@ public final class QueueStore {
 
     /** Reads an entry from the columns of {@link #COLUMNS}, held by {@code leasedTo} until {@code until}. */
     static QueueEntry entry(ResultSet rs, String leasedTo, Instant until) throws SQLException {
-        int order = rs.getInt(9);
         return new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getDouble(4), rs.getBoolean(5),
-                rs.getString(6), leasedTo, until, rs.getInt(7), Sql.nullableDouble(rs, 8), rs.wasNull() ? null : order,
+                rs.getString(6), leasedTo, until, rs.getInt(7), Sql.nullableDouble(rs, 8), Sql.nullableInt(rs, 9),
                 rs.getBoolean(10));
     }
 
@@ -171,7 +170,7 @@ public final class QueueStore {
     /**
      * Names of the pools that need a round to serve them, among those with records nobody has
      * labelled: every pool with no served queue, and (when {@code shortAt} is not negative) every
-     * pool whose served batch has at most {@code shortAt} open places.
+     * pool whose served batch is short: at most {@code shortAt} of its places open, or at most half.
      */
     public List<String> poolsToServe(int shortAt) {
         record Pool(long id, String name, long records, boolean served) {
@@ -182,11 +181,19 @@ public final class QueueStore {
                 rs -> new Pool(rs.getLong(1), rs.getString(2), rs.getLong(3), rs.getBoolean(4)));
         List<String> out = new ArrayList<>();
         for (Pool p : pools) {
-            if ((!p.served() || openInBatch(p.id()) <= shortAt) && labelledRecords(p.id()) < p.records()) {
+            if ((!p.served() || isShort(p.id(), shortAt)) && labelledRecords(p.id()) < p.records()) {
                 out.add(p.name());
             }
         }
         return out;
+    }
+
+    private boolean isShort(long poolId, int shortAt) {
+        int places = sql.first("count the batch of pool " + poolId, "SELECT COUNT(*) FROM queue_entries q"
+                + " JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+                + " WHERE q.pool_id = ? AND NOT q.reserve", rs -> rs.getInt(1), poolId).orElse(0);
+        int open = openInBatch(poolId);
+        return shortAt >= 0 && (open <= shortAt || 2 * open <= places);
     }
 
     /** Records of the pool that anyone has labelled or a reviewer decided, withdrawn labels included. */
@@ -208,9 +215,11 @@ public final class QueueStore {
                 + " WHERE q.pool_id = ? AND (NOT q.reserve OR q.done OR h.person IS NOT NULL"
                 + " OR (SELECT COUNT(*) " + LIVE_LABELS + ") > 0) ORDER BY q.position",
                 rs -> {
-                    QueueEntry e = entry(rs, rs.getString(10), Sql.instant(rs, 11));
-                    boolean done = rs.getBoolean(12);
-                    return new Served(e, done, e.copies() == 2 && !done && rs.getInt(13) == 1);
+                    // The entry's own columns come first (COLUMNS), then the lease, the flag and the live labels.
+                    int after = COLUMNS.split(",").length;
+                    QueueEntry e = entry(rs, rs.getString(after + 1), Sql.instant(rs, after + 2));
+                    boolean done = rs.getBoolean(after + 3);
+                    return new Served(e, done, e.copies() == 2 && !done && rs.getInt(after + 4) == 1);
                 }, now, poolId);
     }
 

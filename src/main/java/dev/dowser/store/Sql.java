@@ -132,6 +132,12 @@ final class Sql {
         return t == null ? null : t.toInstant();
     }
 
+    /** A nullable whole-number column. */
+    static Integer nullableInt(ResultSet rs, int column) throws SQLException {
+        int v = rs.getInt(column);
+        return rs.wasNull() ? null : v;
+    }
+
     /** A nullable number column. */
     static Double nullableDouble(ResultSet rs, int column) throws SQLException {
         double v = rs.getDouble(column);

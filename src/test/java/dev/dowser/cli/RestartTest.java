@@ -82,8 +82,13 @@ class RestartTest {
         }
 
         try (ServerProcess server = ServerProcess.start(launcher, data, log)) {
-            TestSupport.await(DEADLINE, () -> latest(server).get("round").asInt() > stopped
-                    && latest(server).get("status").asText().equals("published"), "a round at once for the short queue");
+            try {
+                TestSupport.await(DEADLINE, () -> latest(server).get("round").asInt() > stopped
+                        && latest(server).get("status").asText().equals("published"), "a round at once for the short queue");
+            } catch (AssertionError e) {
+                throw new AssertionError(e.getMessage() + "; rounds: " + get(server, "pools/p/rounds") + "; queue: "
+                        + get(server, "pools/p/queue") + "; server log:\n" + java.nio.file.Files.readString(log), e);
+            }
             assertEquals(200, http.send(request(server, lead, "pools/p/queue/next").POST(HttpRequest.BodyPublishers
                     .ofString("{}")).build(), HttpResponse.BodyHandlers.ofString()).statusCode());
         }
@@ -105,7 +110,7 @@ class RestartTest {
         }
         try (Database db = Database.open(data, Clock.systemUTC())) {
             TestSupport.importText(db, "p", csv.toString(), TestSupport.csv("p").withId("id").withLabel("label"));
-            lead = TestSupport.tokenFor(db, "lead", Role.REVIEWER);
+            lead = TestSupport.tokenFor(db, "lead", Role.ADMIN);
             ana = TestSupport.tokenFor(db, "ana", Role.LABELLER);
         }
     }
