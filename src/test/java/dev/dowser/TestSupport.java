@@ -1,10 +1,12 @@
 package dev.dowser;
 
+import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.FileFormat;
 import dev.dowser.data.ImportProgress;
 import dev.dowser.data.ImportResult;
 import dev.dowser.data.ImportSpec;
 import dev.dowser.data.Importer;
+import dev.dowser.data.LabelledSet;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import dev.dowser.team.Accounts;
@@ -92,6 +94,15 @@ public final class TestSupport {
             throw new AssertionError("interrupted while waiting for " + what, e);
         } catch (Exception e) {
             throw new AssertionError("failed while waiting for " + what + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** Deletes a folder and everything in it, deepest first. */
+    public static void deleteTree(Path dir) throws IOException {
+        try (java.util.stream.Stream<Path> paths = Files.walk(dir)) {
+            for (Path p : paths.sorted(java.util.Comparator.reverseOrder()).toList()) {
+                Files.deleteIfExists(p);
+            }
         }
     }
 
@@ -264,6 +275,28 @@ public final class TestSupport {
                 rows++;
             }
             return new OpenDataset(name, out, rows, features, classes);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /** Iris (Fisher 1936, sklearn's copy) imported as the pool "iris" with its four features and without its labels; row r's class is r / 50. */
+    public static void importIrisWithoutLabels(Database db, Path workDir) {
+        OpenDataset iris = openDataset("iris", workDir);
+        try (InputStream in = Files.newInputStream(iris.csv())) {
+            new Importer(db).run(in, "iris.csv", csv("iris").withFeatures(List.of("f0", "f1", "f2", "f3"))
+                    .withClasses(List.of("setosa", "versicolor", "virginica")), ImportProgress.NONE);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /** One of the open datasets with all its labels, as the model sees it (read through a throwaway database in {@code workDir}). */
+    public static LabelledSet labelledOpenDataset(String name, Path workDir) {
+        OpenDataset data = openDataset(name, workDir);
+        try (Database db = openDb(workDir.resolve(name + "-db")); InputStream in = Files.newInputStream(data.csv())) {
+            new Importer(db).run(in, name + ".csv", csv(name).withLabel("label"), ImportProgress.NONE);
+            return LabelledSet.of(db, name, FeatureMatrix.load(db, name));
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }

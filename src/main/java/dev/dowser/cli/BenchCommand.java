@@ -31,7 +31,8 @@ import picocli.CommandLine.Spec;
             "import: a generated CSV of N rows x 64 numeric features into a fresh pool, at N/10 and at N in"
                 + " the same run; rows per second, the peak heap (what the collector let the heap grow to) and"
                 + " the live heap (the most still in use just after a collection), so memory that grows with"
-                + " the file would show.",
+                + " the file would show. Then the same number of fields in 64, 2,000 and 20,000 columns:"
+                + " fields per second and each against 64 columns (1.0 when the cost is linear in the columns).",
             "sgemm: square single-precision products through the BLAS the model uses, one per core at once"
                 + " (the machine's throughput) and on one thread.",
             "score: BALD and friends over pools of shapes (a) 100k x 64-128-10 with 64 draws, (b) 1M x"
@@ -48,7 +49,11 @@ import picocli.CommandLine.Spec;
                 + " they can, killed with SIGKILL 25 times (5 with --quick) at random moments (after 250 to 750"
                 + " acknowledged writes, then up to 0.3 s) and restarted: every"
                 + " acknowledged label, withdrawal, review, settings and account change must be there afterwards;"
-                + " prints the counts acknowledged and lost."})
+                + " prints the counts acknowledged and lost.",
+            "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: files to import,"
+                + " heads of files to preview, every JSON body; jqwik properties of the test sources, run through"
+                + " Maven (a source folder is needed). Counts per status; any 500, partial write or Java message"
+                + " in a refusal fails it. About half an hour on 2 quiet cores."})
 final class BenchCommand implements Callable<Integer> {
 
     @Spec
@@ -70,7 +75,7 @@ final class BenchCommand implements Callable<Integer> {
     Path work;
 
     @Option(names = "--only", split = ",", paramLabel = "SUITE",
-            description = "Suites to run: sgemm, score, sampler, round, desk, durability, import (default: all).")
+            description = "Suites to run: sgemm, score, sampler, round, desk, durability, import, fuzz (default: all).")
     java.util.List<String> only;
 
     private boolean wants(String suite) {
@@ -95,6 +100,7 @@ final class BenchCommand implements Callable<Integer> {
                 double jsonl = importSuite(out, dir, n / 10, "small_jsonl", FileFormat.JSONL);
                 out.printf("import_jsonl_to_csv_speed=%.2f%n", jsonl / csv);
                 importSuite(out, dir, n, "full", FileFormat.CSV);
+                WideImportBench.run(out, dir, quick);
             } finally {
                 Folders.deleteTree(dir);
             }
@@ -115,6 +121,9 @@ final class BenchCommand implements Callable<Integer> {
         }
         if (wants("round")) {
             RoundBench.run(out, quick);
+        }
+        if (wants("fuzz")) {
+            FuzzBench.run(out, quick);
         }
         if (wants("desk")) {
             Path dir = work != null ? Files.createDirectories(work.resolve("desk")) : Files.createTempDirectory("dowser-desk-");

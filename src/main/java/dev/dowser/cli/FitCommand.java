@@ -1,8 +1,10 @@
 package dev.dowser.cli;
 
+import dev.dowser.advice.ChainAdvice;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.model.Activation;
 import dev.dowser.model.Prior;
+import dev.dowser.rounds.PoolSettings;
 import dev.dowser.sampler.ChainConfig;
 import dev.dowser.sampler.ChainSet;
 import dev.dowser.sampler.Health;
@@ -32,6 +34,9 @@ import picocli.CommandLine.Spec;
 final class FitCommand implements Callable<Integer> {
 
     static final int PROBE_ROWS = 8;
+    /** The option that sets what chain advice names. */
+    static final java.util.Map<String, String> OPTIONS = java.util.Map.of("draws", "--draws", "chains", "--chains",
+            "reburn_in_steps", "--burn-in");
 
     @Spec
     CommandSpec command;
@@ -114,8 +119,13 @@ final class FitCommand implements Callable<Integer> {
                 Metrics.nll(p, test.labels(), classes), Metrics.ece(p, test.labels(), classes),
                 h.rhatMax(), Math.min(h.essBulkMin(), h.essTailMin()), sample.choice().kernel().word(),
                 sample.choice().why(), sample.draws().size(), h.divergences(), h.acceptance(), sample.seconds());
-        for (String a : h.advice()) {
-            out.println("advice=" + a);
+        ChainAdvice advice = ChainAdvice.of(h.rhatMax(), h.essBulkMin(), h.essTailMin(), chains, draws,
+                new ChainAdvice.Knobs(chains, draws, burnIn, PoolSettings.Sampling.MAX_CHAINS,
+                        PoolSettings.Sampling.MAX_DRAWS, PoolSettings.Sampling.MAX_REBURN_IN_STEPS));
+        out.println("advice=" + advice.summary());
+        for (ChainAdvice.Point a : advice.points()) {
+            out.println("advice=" + a.text() + (a.setting() == null ? ""
+                    : " (try " + OPTIONS.get(a.setting()) + " " + a.suggest() + ")"));
         }
         out.flush();
         return 0;

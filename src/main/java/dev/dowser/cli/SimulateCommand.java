@@ -6,6 +6,7 @@ import dev.dowser.rounds.Simulation;
 import dev.dowser.rounds.SimulationReport;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.sampler.SamplerConfig;
+import dev.dowser.stats.StabilisingPredictions;
 import java.io.IOException;
 import java.io.PrintWriter;
 import java.nio.file.Path;
@@ -22,7 +23,10 @@ import picocli.CommandLine.Spec;
         description = {"Shows, on your own labelled data, how many labels picking saves over labelling at random.",
             "Runs the whole loop offline with the file's labels acting as the labeller, chains continued"
                 + " between rounds as the app does; writes DIR/curves.csv, curves.svg and curves.png, and prints"
-                + " a table and labels_to_<target>_<strategy>=N lines."})
+                + " a table and labels_to_<target>_<strategy>=N lines; then, per seed, where the stopping rule"
+                + " fired beside where the test curve levelled off, and stop_at_<strategy>=N,"
+                + " accuracy_at_stop_<strategy>=A, accuracy_at_budget_<strategy>=B and"
+                + " estimate_covers_<strategy>=F lines."})
 final class SimulateCommand implements Callable<Integer> {
 
     @Spec
@@ -65,6 +69,11 @@ final class SimulateCommand implements Callable<Integer> {
             description = "Steps each chain takes before drawing, each round (default: ${DEFAULT-VALUE}).")
     int reburnIn;
 
+    @Option(names = "--stop-agreement", defaultValue = "" + StabilisingPredictions.DEFAULT_THRESHOLD, paramLabel = "K",
+            description = "Mean agreement (Cohen's kappa) of the last 3 rounds' predictions on the stop set at which"
+                    + " they count as settled (default: ${DEFAULT-VALUE}).")
+    double stopAgreement;
+
     @Option(names = "--out", required = true, paramLabel = "DIR", description = "Folder for curves.csv, .svg and .png.")
     Path out;
 
@@ -74,7 +83,8 @@ final class SimulateCommand implements Callable<Integer> {
         SamplerConfig sampler = SamplerConfig.defaults(1).withChains(SamplerConfig.DEFAULT_CHAINS, draws)
                 .withSteps(Math.max(reburnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS), reburnIn, 10);
         PoolSettings settings = PoolSettings.defaults().withBatchSize(batch)
-                .withSampling(new PoolSettings.Sampling(SamplerConfig.DEFAULT_CHAINS, draws, reburnIn));
+                .withSampling(new PoolSettings.Sampling(SamplerConfig.DEFAULT_CHAINS, draws, reburnIn))
+                .withStopAgreement(stopAgreement);
         Simulation.Plan plan = new Simulation.Plan(chosen, seeds, seedLabels, budget, testFraction, settings, sampler,
                 1);
         LabelledSet all = input.read();
