@@ -51,7 +51,8 @@ public final class TestSupport {
 
     /** A sampler small enough for a round in well under a second: 16 hidden units, 2 chains, 8 draws. */
     public static SamplerConfig quickSampler() {
-        return SamplerConfig.defaults(3).withHidden(List.of(16)).withChains(2, 8).withSteps(100, 50, 5);
+        return SamplerConfig.builder().hidden(List.of(16)).chains(2, 8).burnInSteps(100).reburnInSteps(50)
+                .thinSteps(5).build();
     }
 
     /** Accounts as the server keeps them, with few PBKDF2 iterations so tests that sign in stay quick. */

@@ -3,8 +3,6 @@ package dev.dowser.cli;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.model.Activation;
 import dev.dowser.model.Prior;
-import dev.dowser.sampler.ChainConfig;
-import dev.dowser.sampler.ChainSet;
 import dev.dowser.sampler.Health;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.PosteriorSampler;
@@ -54,10 +52,10 @@ final class FitCommand implements Callable<Integer> {
             description = "Hidden nonlinearity (default: ${DEFAULT-VALUE}).")
     String activation;
 
-    @Option(names = "--chains", defaultValue = "4", paramLabel = "K", description = "Chains (default: ${DEFAULT-VALUE}).")
+    @Option(names = "--chains", defaultValue = "" + SamplerConfig.DEFAULT_CHAINS, paramLabel = "K", description = "Chains (default: ${DEFAULT-VALUE}).")
     int chains;
 
-    @Option(names = "--draws", defaultValue = "64", paramLabel = "S",
+    @Option(names = "--draws", defaultValue = "" + SamplerConfig.DEFAULT_DRAWS, paramLabel = "S",
             description = "Draws kept over all chains (default: ${DEFAULT-VALUE}).")
     int draws;
 
@@ -96,11 +94,11 @@ final class FitCommand implements Callable<Integer> {
         Splits.Split split = Splits.stratified(all.labels(), classes, testFraction, seed);
         LabelledSet train = all.subset(split.train());
         LabelledSet test = all.subset(split.test());
-        SamplerConfig config = new SamplerConfig(KernelChoice.parse(kernel), SamplerConfig.DEFAULT_MALA_MAX_ROWS,
-                hidden, Activation.valueOf(activation.toUpperCase(java.util.Locale.ROOT)),
-                new Prior(priorScale, Prior.DEFAULT_BIAS_SCALE, hierarchical, Prior.DEFAULT_HYPER_SHAPE), chains,
-                draws, burnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS, thin, ChainConfig.DEFAULT_BATCH_ROWS, learningRate, 0,
-                temperature, seed, ChainSet.defaultThreads(chains));
+        SamplerConfig config = SamplerConfig.builder().kernel(KernelChoice.parse(kernel)).hidden(hidden)
+                .activation(Activation.valueOf(activation.toUpperCase(java.util.Locale.ROOT)))
+                .prior(new Prior(priorScale, Prior.DEFAULT_BIAS_SCALE, hierarchical, Prior.DEFAULT_HYPER_SHAPE))
+                .chains(chains, draws).burnInSteps(burnIn).thinSteps(thin).learningRate(learningRate)
+                .temperature(temperature).build();
         float[] probe = Arrays.copyOf(test.x(), Math.min(PROBE_ROWS, test.rows()) * test.cols());
         RoundDraws sample = new PosteriorSampler(config).sample(train.x(), train.labels(), classes, null, probe,
                 SeedTree.of(seed));

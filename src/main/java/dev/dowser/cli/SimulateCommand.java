@@ -71,8 +71,9 @@ final class SimulateCommand implements Callable<Integer> {
     @Override
     public Integer call() throws IOException {
         List<Strategy> chosen = strategies.stream().map(Strategy::parse).toList();
-        SamplerConfig sampler = SamplerConfig.defaults(1).withChains(SamplerConfig.DEFAULT_CHAINS, draws)
-                .withSteps(Math.max(reburnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS), reburnIn, 10);
+        SamplerConfig sampler = SamplerConfig.builder().chains(SamplerConfig.DEFAULT_CHAINS, draws)
+                .burnInSteps(Math.max(reburnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS)).reburnInSteps(reburnIn)
+                .thinSteps(10).build();
         PoolSettings settings = PoolSettings.defaults().withBatchSize(batch);
         Simulation.Plan plan = new Simulation.Plan(chosen, seeds, seedLabels, budget, testFraction, settings, sampler,
                 1);

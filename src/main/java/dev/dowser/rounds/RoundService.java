@@ -46,20 +46,25 @@ public final class RoundService {
     public static final String FAILED = "failed";
     public static final String STOPPED = "stopped";
 
+    /** The root of the server's seed tree; each pool has its own branch below it (its id). */
+    public static final long DEFAULT_SEED = 1;
+
     private final Database db;
     private final SamplerConfig config;
+    private final long seed;
     private final PoolScorer scorer;
     private final RoundEvents events;
     /** Pools never change after import, so their feature matrices are loaded once. */
     private final ConcurrentHashMap<String, FeatureMatrix> matrices = new ConcurrentHashMap<>();
 
     public RoundService(Database db, SamplerConfig config, PoolScorer scorer) {
-        this(db, config, scorer, RoundEvents.NONE);
+        this(db, config, DEFAULT_SEED, scorer, RoundEvents.NONE);
     }
 
-    public RoundService(Database db, SamplerConfig config, PoolScorer scorer, RoundEvents events) {
+    public RoundService(Database db, SamplerConfig config, long seed, PoolScorer scorer, RoundEvents events) {
         this.db = db;
         this.config = config;
+        this.seed = seed;
         this.scorer = scorer;
         this.events = events;
     }
@@ -88,7 +93,7 @@ public final class RoundService {
         Labels labels = Labels.read(db, pool, lastLabel);
         List<SavedChain> saved = db.chains().load(pool.id());
         int round = db.rounds().next(pool.id());
-        SeedTree seeds = seedsOf(config.seed(), pool.id()).child(round);
+        SeedTree seeds = seedsOf(seed, pool.id()).child(round);
         RoundStore.Inputs inputs = new RoundStore.Inputs(seeds.seed(), Json.write(config), settings.toJson(), lastLabel,
                 saved.isEmpty() ? null : saved.get(0).round());
         db.rounds().start(pool.id(), round, labels.finalRows().length, inputs);
@@ -141,7 +146,7 @@ public final class RoundService {
         FeatureMatrix m = matrices.computeIfAbsent(pool.name(), name -> FeatureMatrix.load(db, name));
         int classes = pool.classes().size();
         Architecture arch = new PosteriorSampler(sampler).layout(m.cols(), classes).architecture();
-        List<State> chains = ChainStates.continuable(saved, arch, sampler.chains());
+        List<State> chains = ChainStates.continuable(saved, arch, sampler.chains().count());
         int[] candidates = labels.unlabelled(m.rows());
         int[] judged = labels.judgedRows();
         LabelledSet known = LabelledSet.of(m, labels.finalRows(), labels.finalClasses(), pool.classes());

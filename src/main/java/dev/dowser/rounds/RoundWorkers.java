@@ -20,7 +20,7 @@ public final class RoundWorkers implements AutoCloseable {
     public RoundWorkers(Database db, SamplerConfig config, RoundEvents events) {
         this.db = db;
         this.scorer = PoolScorer.withAllCores();
-        this.service = new RoundService(db, config, scorer, events);
+        this.service = new RoundService(db, config, RoundService.DEFAULT_SEED, scorer, events);
     }
 
     /**

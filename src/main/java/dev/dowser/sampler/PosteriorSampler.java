@@ -30,21 +30,21 @@ public final class PosteriorSampler {
     }
 
     public static Choice choose(SamplerConfig config, int rows) {
-        if (config.kernel() != KernelChoice.AUTO) {
-            return new Choice(config.kernel(), config.kernel().word() + " was asked for");
+        if (config.kernel().choice() != KernelChoice.AUTO) {
+            return new Choice(config.kernel().choice(), config.kernel().choice().word() + " was asked for");
         }
-        if (rows <= config.malaMaxRows()) {
+        if (rows <= config.kernel().malaMaxRows()) {
             return new Choice(KernelChoice.MALA, rows + " labelled rows are few enough (at most "
-                    + config.malaMaxRows() + ") for full-batch gradients, so MALA's accept-reject test"
+                    + config.kernel().malaMaxRows() + ") for full-batch gradients, so MALA's accept-reject test"
                     + " makes the draws exact in the limit");
         }
-        return new Choice(KernelChoice.PSGLD, rows + " labelled rows are more than " + config.malaMaxRows()
-                + ", so mini-batches of " + config.batchRows() + " keep steps cheap; preconditioned SGLD adapts"
+        return new Choice(KernelChoice.PSGLD, rows + " labelled rows are more than " + config.kernel().malaMaxRows()
+                + ", so mini-batches of " + config.steps().batchRows() + " keep steps cheap; preconditioned SGLD adapts"
                 + " each weight's step to its gradient's scale");
     }
 
     public Layout layout(int inputs, int classes) {
-        return new Layout(new Architecture(inputs, config.hidden(), classes, config.activation()));
+        return new Layout(new Architecture(inputs, config.network().hidden(), classes, config.network().activation()));
     }
 
     /**
@@ -74,24 +74,25 @@ public final class PosteriorSampler {
         Layout layout = layout(inputs, classes);
         Choice choice = choose(config, rows);
         boolean warm = previous != null && !previous.isEmpty();
-        if (warm && previous.size() != config.chains()) {
-            throw new IllegalArgumentException(previous.size() + " saved chains but " + config.chains() + " asked for");
+        if (warm && previous.size() != config.chains().count()) {
+            throw new IllegalArgumentException(previous.size() + " saved chains but " + config.chains().count() + " asked for");
         }
-        int perChain = config.draws() / config.chains();
-        StepSchedule schedule = config.cycles() > 0 ? StepSchedule.cyclical(config.cycles()) : StepSchedule.CONSTANT;
-        ChainConfig chainConfig = new ChainConfig(warm ? config.reburnInSteps() : config.burnInSteps(), perChain,
-                config.thinSteps(), config.batchRows(), schedule, true, ChainConfig.DEFAULT_GIBBS_EVERY);
-        double stepSize = 2 * config.learningRate() / rows;
+        int perChain = config.chains().perChain();
+        StepSchedule schedule = config.steps().cycles() > 0 ? StepSchedule.cyclical(config.steps().cycles())
+                : StepSchedule.CONSTANT;
+        ChainConfig chainConfig = new ChainConfig(warm ? config.steps().reburnInSteps() : config.steps().burnInSteps(),
+                perChain, config.steps().thinSteps(), config.steps().batchRows(), schedule, true, ChainConfig.DEFAULT_GIBBS_EVERY);
+        double stepSize = 2 * config.steps().learningRate() / rows;
         List<ChainSet.Job> jobs = new ArrayList<>();
         List<MlpPosterior> targets = new ArrayList<>();
-        int workRows = Math.min(rows, Math.max(config.batchRows(), 256));
-        for (int c = 0; c < config.chains(); c++) {
+        int workRows = Math.min(rows, Math.max(config.steps().batchRows(), 256));
+        for (int c = 0; c < config.chains().count(); c++) {
             MlpPosterior target = new MlpPosterior(layout, config.prior(), x, labels, workRows);
             targets.add(target);
             Kernel kernel = kernel(choice.kernel(), target);
             SplittableRandom rng = seeds.child(c).rng();
             State start;
-            Batch first = kernel.fullBatch() ? Batch.full(rows) : Batch.full(Math.min(rows, config.batchRows()));
+            Batch first = kernel.fullBatch() ? Batch.full(rows) : Batch.full(Math.min(rows, config.steps().batchRows()));
             if (warm) {
                 State p = previous.get(c);
                 if (p.position().length != layout.dimension()) {
@@ -109,7 +110,7 @@ public final class PosteriorSampler {
             jobs.add(new ChainSet.Job(new Chain(c, kernel, target, rng), start));
         }
         List<ChainRun> runs;
-        try (ChainSet set = new ChainSet(config.threads())) {
+        try (ChainSet set = new ChainSet(ChainSet.defaultThreads(config.chains().count()))) {
             runs = set.run(jobs, chainConfig, stop);
         }
         if (stop.requested()) {
@@ -117,7 +118,7 @@ public final class PosteriorSampler {
         }
         Health health = Health.of(runs, targets.get(0), layout, probe);
         return new RoundDraws(choice, layout, runs, health, warm, (System.nanoTime() - begun) / 1e9,
-                chainConfig.totalSteps() * config.chains());
+                chainConfig.totalSteps() * config.chains().count());
     }
 
     private Kernel kernel(KernelChoice k, Target target) {

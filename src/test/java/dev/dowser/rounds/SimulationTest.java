@@ -38,7 +38,8 @@ class SimulationTest {
                 new Importer(db).run(in, "digits", TestSupport.csv("digits").withLabel("label"), ImportProgress.NONE);
             }
             LabelledSet all = LabelledSet.of(db, "digits", FeatureMatrix.load(db, "digits"));
-            SamplerConfig sampler = SamplerConfig.defaults(1).withChains(4, 32).withSteps(300, 200, 10);
+            SamplerConfig sampler = SamplerConfig.builder().chains(4, 32).burnInSteps(300).reburnInSteps(200)
+                    .thinSteps(10).build();
             Simulation.Plan plan = new Simulation.Plan(List.of(Strategy.BALD, Strategy.RANDOM), 3, 20, 300, 0.3,
                     PoolSettings.defaults(), sampler, 1);
             List<Simulation.Point> points = Simulation.run(all, plan, k -> { });
