@@ -51,6 +51,11 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
         return new PoolSettings(size, spotCheckShare, leaseMinutes, strategy, doubleLabelShare);
     }
 
+    /** The same settings with another share of spot checks. */
+    public PoolSettings withSpotCheckShare(double share) {
+        return new PoolSettings(batchSize, share, leaseMinutes, strategy, doubleLabelShare);
+    }
+
     /** The same settings with another strategy. */
     public PoolSettings withStrategy(Strategy s) {
         return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, s, doubleLabelShare);

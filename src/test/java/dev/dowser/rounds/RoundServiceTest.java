@@ -10,6 +10,7 @@ import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.ImportProgress;
 import dev.dowser.data.Importer;
 import dev.dowser.data.LabelledSet;
+import dev.dowser.simulate.Simulation;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;

@@ -1,6 +1,9 @@
-package dev.dowser.rounds;
+package dev.dowser.simulate;
 
 import dev.dowser.acquire.PoolScorer;
+import dev.dowser.rounds.PoolSettings;
+import dev.dowser.rounds.RoundStep;
+import dev.dowser.rounds.Strategy;
 import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.sampler.Predictive;
@@ -186,30 +189,5 @@ public final class Simulation {
                 }
             }
         }
-    }
-
-    /**
-     * The median over seeds of the first label count at which test accuracy reached the target;
-     * -1 (never) when more than half the seeds never reach it.
-     */
-    public static int labelsToReach(List<Point> points, Strategy strategy, int seeds, double target) {
-        List<Integer> firsts = new ArrayList<>();
-        for (int seed = 0; seed < seeds; seed++) {
-            int first = Integer.MAX_VALUE;
-            for (Point p : points) {
-                if (p.strategy() == strategy && p.seed() == seed && p.accuracy() >= target) {
-                    first = Math.min(first, p.labels());
-                }
-            }
-            firsts.add(first);
-        }
-        firsts.sort(null);
-        int median = firsts.get((firsts.size() - 1) / 2);
-        if (firsts.size() % 2 == 0) {
-            int upper = firsts.get(firsts.size() / 2);
-            median = median == Integer.MAX_VALUE || upper == Integer.MAX_VALUE ? Math.max(median, upper)
-                    : (median + upper) / 2;
-        }
-        return median == Integer.MAX_VALUE ? -1 : median;
     }
 }
