@@ -60,12 +60,12 @@ final class FitCommand implements Callable<Integer> {
         float[] p = Predictive.meanProbabilities(draws.layout(), draws.draws(), test.x(), test.rows());
         Health h = draws.health();
         PrintWriter out = command.commandLine().getOut();
-        out.printf("train_rows=%d%ntest_rows=%d%naccuracy=%.4f%nnll=%.4f%nece=%.4f%nrhat_max=%.3f%n"
-                        + "ess_min=%.1f%nkernel=%s%nkernel_why=%s%ndraws=%d%ndivergences=%d%n",
+        out.printf("train_rows=%d%ntest_rows=%d%naccuracy=%.4f%nnll=%.4f%nece=%.4f%nrhat_max=%s%n"
+                        + "ess_min=%s%nkernel=%s%nkernel_why=%s%ndraws=%d%ndivergences=%d%n",
                 train.rows(), test.rows(), Metrics.accuracy(p, test.labels(), classes),
                 Metrics.nll(p, test.labels(), classes), Metrics.ece(p, test.labels(), classes),
-                h.rhatMax(), Math.min(h.essBulkMin(), h.essTailMin()), draws.choice().kernel().word(),
-                draws.choice().why(), draws.draws().size(), h.divergences());
+                figure(h.rhatMax(), "%.3f"), figure(Math.min(h.essBulkMin(), h.essTailMin()), "%.1f"),
+                draws.choice().kernel().word(), draws.choice().why(), draws.draws().size(), h.divergences());
         // Only an accept-reject kernel has an acceptance rate; the others have none to print.
         if (!Double.isNaN(h.acceptance())) {
             out.printf("acceptance=%.3f%n", h.acceptance());
@@ -76,5 +76,10 @@ final class FitCommand implements Callable<Integer> {
         }
         out.flush();
         return 0;
+    }
+
+    /** A diagnostic figure, or {@code none} where the draws were too few to judge it: never NaN. */
+    static String figure(double v, String format) {
+        return Double.isFinite(v) ? String.format(java.util.Locale.ROOT, format, v) : "none";
     }
 }

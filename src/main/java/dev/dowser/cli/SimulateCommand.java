@@ -1,5 +1,6 @@
 package dev.dowser.cli;
 
+import dev.dowser.acquire.ColdStart;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.Strategy;
@@ -46,6 +47,10 @@ final class SimulateCommand implements Callable<Integer> {
             description = "Size of the first batch, picked with no labels (default: ${DEFAULT-VALUE}).")
     int seedLabels;
 
+    @Option(names = "--cold-start", defaultValue = "kmeans++", paramLabel = "kmeans++|typiclust",
+            description = "How the first batch is spread over the pool (default: ${DEFAULT-VALUE}).")
+    String coldStart;
+
     @Option(names = "--batch", defaultValue = "" + PoolSettings.DEFAULT_BATCH_SIZE, paramLabel = "B",
             description = "Labels per round (default: ${DEFAULT-VALUE}).")
     int batch;
@@ -79,7 +84,8 @@ final class SimulateCommand implements Callable<Integer> {
     @Override
     public Integer call() throws IOException {
         List<Strategy> chosen = strategies.stream().map(Strategy::parse).distinct().toList();
-        PoolSettings settings = PoolSettings.defaults().withBatchSize(batch).withSpotCheckShare(spotCheckShare);
+        PoolSettings settings = PoolSettings.defaults().withBatchSize(batch).withSpotCheckShare(spotCheckShare)
+                .withColdStart(ColdStart.Method.parse(coldStart));
         Simulation.Plan plan = new Simulation.Plan(chosen, seeds, seedLabels, budget, testFraction, settings,
                 sampler.config(), seed);
         LabelledSet all = input.read();
@@ -88,7 +94,7 @@ final class SimulateCommand implements Callable<Integer> {
         AtomicInteger done = new AtomicInteger();
         List<Simulation.Point> points = Simulation.run(all, plan, k -> bar.show(done.addAndGet(k), total, done.get()));
         bar.finish();
-        SimulationReport.write(out, input.file.getFileName().toString(), points, plan);
+        SimulationReport.write(out, input.fileName(), points, plan);
         PrintWriter w = command.commandLine().getOut();
         SimulationReport.summary(w, points, plan, targets);
         w.printf("curves=%s%n", out.resolve(SimulationReport.CSV));

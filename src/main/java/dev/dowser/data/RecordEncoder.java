@@ -33,7 +33,7 @@ final class RecordEncoder {
         this.spec = spec;
         this.classSet = new LinkedHashSet<>(spec.classes());
         for (String f : plan.roles().features()) {
-            stats.add(new ColumnStats(f, spec.categorical().contains(f), spec.maxLevels()));
+            stats.add(new ColumnStats(f, spec.categorical().contains(f), spec.maxLevels(), spec.missingTokens()));
         }
     }
 
