@@ -2,7 +2,7 @@
 import { getJson, postJson } from './api.js';
 import { showAccount } from './account.js';
 import { recordBody, scalesOf } from './fields.js';
-import { showMessage } from './dom.js';
+import { el, showMessage } from './dom.js';
 
 const $ = (id) => document.getElementById(id);
 const BELIEF_KEY = 'dowser.showBelief';
@@ -12,8 +12,9 @@ const state = {
   person: null,
   classes: [],
   scales: {},
-  current: null, // the assignment being shown: {round, position, spot_check, record, belief}
-  last: null, // the last label given: {assignment, label}
+  current: null, // the assignment being shown: {round, position, spot_check, record, belief, reason}
+  recent: [], // the person's labels that still stand, newest first: {record, label, at}
+  relabel: [], // records taken back and not yet labelled again, newest last (shown before new ones)
   labelledThisSession: 0,
   showBelief: localStorage.getItem(BELIEF_KEY) === 'true',
   beliefOpen: false,
@@ -105,7 +106,9 @@ function renderBelief() {
 function show(assignment) {
   state.current = assignment;
   const card = $('card');
-  if (!assignment || !assignment.record) {
+  const shown = Boolean(assignment && assignment.record);
+  $('skip').disabled = !shown;
+  if (!shown) {
     card.hidden = true;
     $('choices').hidden = true;
     $('belief').hidden = true;
@@ -116,10 +119,7 @@ function show(assignment) {
   $('choices').hidden = false;
   $('card-id').textContent = r.id;
   $('card-spot').hidden = !assignment.spot_check;
-  // Before any label there is no model: the first batch is spread over the pool, not scored.
-  const scored = assignment.belief && assignment.score !== undefined;
-  $('card-score').textContent = assignment.spot_check ? ''
-    : scored ? `information ${Number(assignment.score).toFixed(3)} nats` : 'first batch: spread over the pool';
+  $('card-why').textContent = assignment.reason || '';
   $('card-body').replaceChildren(recordBody(r.fields, state.scales));
   $('note').value = '';
   state.beliefOpen = assignment.spot_check ? false : state.showBelief;
@@ -153,6 +153,36 @@ async function guarded(work) {
   }
 }
 
+function renderRecent() {
+  const list = $('mine-list');
+  list.replaceChildren();
+  $('mine').hidden = state.recent.length === 0;
+  $('undo').disabled = state.recent.length === 0;
+  for (const given of state.recent) {
+    const li = el('li');
+    li.dataset.record = given.record;
+    li.append(el('span', 'mono', given.record), el('span', 'given', given.label));
+    const back = el('button', 'take-back', 'Take back');
+    back.type = 'button';
+    back.title = `take back your label ${given.label} of ${given.record} and label it again`;
+    back.addEventListener('click', () => undo(given.record));
+    li.append(back);
+    list.append(li);
+  }
+}
+
+async function loadRecent() {
+  const reply = await getJson(`pools/${encodeURIComponent(state.pool)}/labels/mine`);
+  state.recent = reply.labels;
+  renderRecent();
+}
+
+/** After a label or a skip: a record taken back earlier comes first, else the next of the queue. */
+async function advance() {
+  if (state.relabel.length) show(state.relabel.pop());
+  else await next();
+}
+
 function label(name) {
   guarded(async () => {
     const a = state.current;
@@ -162,11 +192,12 @@ function label(name) {
     if (note) body.note = note;
     const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/labels`, body);
     state.labelledThisSession += 1;
-    state.last = { assignment: a, label: name };
-    $('undo').disabled = false;
+    state.recent = [{ record: a.record.id, label: name, at: reply.labelled_at }, ...state.recent
+      .filter((g) => g.record !== a.record.id)].slice(0, 10);
+    renderRecent();
     say(`${a.record.id} labelled ${name}.`);
     showProgress(reply.progress);
-    await next();
+    await advance();
   });
 }
 
@@ -174,31 +205,49 @@ function skip() {
   guarded(async () => {
     const a = state.current;
     if (!a || !a.record) return;
-    await postJson(`pools/${encodeURIComponent(state.pool)}/queue/skip`,
-      { round: a.round, position: a.position });
-    say(`${a.record.id} skipped; it goes back to the queue.`);
-    await next();
+    if (a.round !== undefined) {
+      await postJson(`pools/${encodeURIComponent(state.pool)}/queue/skip`,
+        { round: a.round, position: a.position });
+    }
+    say(a.relabel ? `${a.record.id} stays without your label; it goes back to the queue.`
+      : `${a.record.id} skipped; it goes back to the queue for someone else.`);
+    await advance();
   });
 }
 
-function undo() {
+/**
+ * Takes back one of the person's labels (the newest when no record is named: a stack, one label
+ * per press) and shows that record again to be labelled anew. A record taken back before and not
+ * yet labelled again waits its turn; a fresh record on the desk goes back to the queue.
+ */
+function undo(recordId) {
   guarded(async () => {
-    const last = state.last;
-    if (!last) return;
-    const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/labels/undo`,
-      { record: last.assignment.record.id });
+    const target = recordId || (state.recent[0] && state.recent[0].record);
+    if (!target) return;
+    const enc = encodeURIComponent(state.pool);
+    const reply = await postJson(`pools/${enc}/labels/undo`, { record: target });
     state.labelledThisSession = Math.max(0, state.labelledThisSession - 1);
-    state.last = null;
-    $('undo').disabled = true;
     const current = state.current;
-    if (current && current.record && current.record.id !== last.assignment.record.id) {
-      // The record we moved on to goes back to the queue; the one taken back is shown again.
-      await postJson(`pools/${encodeURIComponent(state.pool)}/queue/skip`,
-        { round: current.round, position: current.position });
+    if (current && current.record && current.record.id !== target) {
+      if (current.relabel) state.relabel.push(current);
+      else if (current.round !== undefined) {
+        await postJson(`pools/${enc}/queue/skip`, { round: current.round, position: current.position });
+      }
     }
-    show(last.assignment);
+    // The server hands a taken-back record to its labeller first while the served queue holds it.
+    const again = await postJson(`pools/${enc}/queue/next`, {});
+    let shown;
+    if (again.record && again.record.id === target) {
+      shown = { ...again, relabel: true };
+    } else {
+      const { label: _l, labelled_by: _b, labelled_at: _t, note: _n, ...record } = reply.record;
+      shown = { record, relabel: true, reason: 'The served queue no longer holds it; label it again here.' };
+    }
+    shown.reason = `Taken back (your label was ${reply.withdrawn}). ${shown.reason || ''}`.trim();
+    show(shown);
     showProgress(reply.progress);
-    say(`Took back ${reply.withdrawn} for ${last.assignment.record.id}; label it again.`);
+    await loadRecent();
+    say(`Took back ${reply.withdrawn} for ${target}; label it again.`);
   });
 }
 
@@ -227,7 +276,7 @@ function onKey(event) {
     skip();
   } else if (event.key === 'Backspace') {
     event.preventDefault();
-    undo();
+    undo(null);
   } else if (event.key === '.') {
     toggleBelief();
   } else if (event.key === '/') {
@@ -273,7 +322,7 @@ async function begin() {
   renderChoices();
   showProgress();
   listen();
-  await next();
+  await Promise.all([next(), loadRecent()]);
 }
 
 function start() {
@@ -286,7 +335,7 @@ function start() {
   $('desk-pool').textContent = `labelling ${state.pool}`;
   $('to-overview').href = `overview.html?pool=${encodeURIComponent(state.pool)}`;
   $('skip').addEventListener('click', skip);
-  $('undo').addEventListener('click', undo);
+  $('undo').addEventListener('click', () => undo(null));
   $('belief-toggle').addEventListener('click', toggleBelief);
   document.addEventListener('keydown', onKey);
   showAccount()

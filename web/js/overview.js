@@ -53,7 +53,7 @@ function showHealth(round) {
   const h = round.health;
   const facts = [
     ['Round', String(round.round)],
-    ['Kernel', round.kernel || '—'],
+    ['Kernel', round.kernel ? `${round.kernel}${round.message ? ` — ${round.message}` : ''}` : '—'],
     ['R-hat (worst)', fixed(h.rhatMax, 3)],
     ['ESS bulk / tail (smallest)', `${fixed(h.essBulkMin, 0)} / ${fixed(h.essTailMin, 0)}`],
     ['Acceptance', h.acceptance === null || Number.isNaN(h.acceptance) ? 'not an accept-reject kernel' : fixed(h.acceptance, 2)],
@@ -74,11 +74,25 @@ function showHealth(round) {
   }
 }
 
+const ROUNDS_PAGE = 15;
+let roundsOffset = 0;
+
+/** A round's note when it says something new: its failure or stop, or a reason unlike the older round's. */
+function roundNote(round, older) {
+  if (!round.message) return '';
+  if (round.status !== 'published' || !older || older.message !== round.message || older.kernel !== round.kernel) {
+    return round.message;
+  }
+  return '';
+}
+
 async function showRounds() {
-  const r = await getJson(`pools/${encodeURIComponent(pool)}/rounds`);
+  const enc = encodeURIComponent(pool);
+  const r = await getJson(`pools/${enc}/rounds?offset=${roundsOffset}&limit=${ROUNDS_PAGE + 1}`);
   const body = $('rounds').querySelector('tbody');
   body.replaceChildren();
-  for (const round of r.rounds) {
+  const shown = r.rounds.slice(0, ROUNDS_PAGE);
+  shown.forEach((round, i) => {
     const row = document.createElement('tr');
     row.className = `status-${round.status}`;
     const h = round.health || {};
@@ -93,17 +107,23 @@ async function showRounds() {
     cell(row, round.health ? (Number.isNaN(h.acceptance) || h.acceptance === null
       ? Number(h.meanStepSize).toExponential(2) : fixed(h.acceptance, 2)) : '—');
     cell(row, round.health ? String(h.divergences) : '—');
-    cell(row, round.message || '', 'note-cell');
+    cell(row, roundNote(round, r.rounds[i + 1]), 'note-cell');
     body.append(row);
-  }
-  const failed = r.rounds.find((x) => x.status === 'failed');
-  if (failed && failed.round === r.rounds[0].round) {
+  });
+  $('rounds-facts').textContent = r.total === 0 ? 'No round yet.'
+    : `${roundsOffset + 1}–${roundsOffset + shown.length} of ${r.total}`;
+  $('rounds-newer').disabled = roundsOffset === 0;
+  $('rounds-older').disabled = roundsOffset + ROUNDS_PAGE >= r.total;
+  // The newest rounds say how the pool stands, whichever page is shown.
+  const latest = roundsOffset === 0 ? r : await getJson(`pools/${enc}/rounds?limit=${ROUNDS_PAGE}`);
+  const failed = latest.rounds.find((x) => x.status === 'failed');
+  if (failed && failed.round === latest.rounds[0].round) {
     showMessage('overview-message', `Round ${failed.round} failed: ${failed.message}. `
       + 'The previous queue stays in service.', true);
   } else {
     $('overview-message').textContent = '';
   }
-  showHealth(r.rounds.find((x) => x.health));
+  showHealth(latest.rounds.find((x) => x.health));
 }
 
 async function showQueue() {
@@ -114,10 +134,15 @@ async function showQueue() {
   for (const e of q.entries) {
     const row = document.createElement('tr');
     if (e.labelled) row.className = 'done';
+    else if (e.waiting_for_second) row.className = 'waiting';
     cell(row, String(e.position + 1));
     cell(row, e.record, 'mono');
-    cell(row, e.spot_check ? '—' : fixed(e.score, 4));
-    cell(row, e.spot_check ? 'spot check' : 'picked');
+    // A spot check is drawn at random and the first batch before any model: neither has a score.
+    cell(row, e.spot_check || !e.scored ? '—' : fixed(e.score, 4), 'number');
+    const kind = e.spot_check ? 'spot check' : e.scored ? 'picked' : 'first batch';
+    const second = e.copies < 2 ? '' : e.labelled ? ' · labelled twice'
+      : e.waiting_for_second ? ' · waits for a second label' : ' · two labels wanted';
+    cell(row, kind + second);
     cell(row, e.leased_to && !e.labelled && new Date(e.lease_until) > new Date() ? e.leased_to : '');
     cell(row, e.label || '');
     body.append(row);
@@ -174,6 +199,15 @@ async function start() {
   });
   set('export-csv', (a) => { a.href = apiUrl(`pools/${enc}/export?format=csv`); });
   set('export-jsonl', (a) => { a.href = apiUrl(`pools/${enc}/export?format=jsonl`); });
+  set('export-meta', (a) => { a.href = apiUrl(`pools/${enc}/export/metadata`); });
+  $('rounds-newer').addEventListener('click', () => {
+    roundsOffset = Math.max(0, roundsOffset - ROUNDS_PAGE);
+    showRounds().catch((e) => showMessage('overview-message', e.message, true));
+  });
+  $('rounds-older').addEventListener('click', () => {
+    roundsOffset += ROUNDS_PAGE;
+    showRounds().catch((e) => showMessage('overview-message', e.message, true));
+  });
   set('round-now', (b) => b.addEventListener('click', async () => {
     await postJson(`pools/${enc}/rounds`, {});
     refreshSoon();
@@ -188,6 +222,23 @@ start();
 
 const SETTINGS = ['batch_size', 'spot_check_share', 'double_label_share', 'lease_minutes', 'strategy'];
 
+/** A setting's name as the settings form says it ("labels per round"), so the history reads like the form. */
+function settingWords(form, field) {
+  const label = form.elements[field].closest('label');
+  const words = label ? label.firstChild.textContent.trim() : field.replaceAll('_', ' ');
+  return words.charAt(0).toLowerCase() + words.slice(1);
+}
+
+/** A setting's value as the form shows it: a choice by its words ("BatchBALD"), a number as it is. */
+function settingValue(form, field, value) {
+  const input = form.elements[field];
+  if (input.tagName === 'SELECT') {
+    const option = [...input.options].find((o) => o.value === String(value));
+    if (option) return option.textContent;
+  }
+  return String(value);
+}
+
 async function showSettings() {
   const form = $('settings');
   if (!form) return;
@@ -200,7 +251,8 @@ async function showSettings() {
   list.replaceChildren();
   for (const c of changes.slice().reverse()) {
     const changed = SETTINGS.filter((f) => !c.before || String(c.before[f]) !== String(c.after[f]))
-      .map((f) => `${f.replaceAll('_', ' ')} ${c.before ? `${c.before[f]} → ` : ''}${c.after[f]}`);
+      .map((f) => `${settingWords(form, f)} ${c.before ? `${settingValue(form, f, c.before[f])} → ` : ''}`
+        + `${settingValue(form, f, c.after[f])}`);
     const li = document.createElement('li');
     li.textContent = `${new Date(c.at).toLocaleString()} · ${c.by} · ${changed.join(', ') || 'saved unchanged'}`;
     list.append(li);

@@ -52,6 +52,7 @@ async function showPool(name, offset) {
   if ($('export-csv')) {
     $('export-csv').href = apiUrl(`pools/${encodeURIComponent(name)}/export?format=csv`);
     $('export-jsonl').href = apiUrl(`pools/${encodeURIComponent(name)}/export?format=jsonl`);
+    $('export-meta').href = apiUrl(`pools/${encodeURIComponent(name)}/export/metadata`);
   }
 
   const page = await getJson(`pools/${encodeURIComponent(name)}/records?offset=${offset}&limit=${PAGE}`);
@@ -304,6 +305,7 @@ async function importFile(event) {
     message.textContent = `Uploading ${chosen.file.name}…`;
     bar.hidden = false;
     bar.value = 0;
+    bar.scrollIntoView({ block: 'center' });
     $('import-button').disabled = true;
     const job = await postBody(`imports?${params}`, chosen.file, 'application/octet-stream');
     let status = job;
@@ -311,7 +313,9 @@ async function importFile(event) {
       await new Promise((resolve) => setTimeout(resolve, 250));
       status = await getJson(`imports/${job.id}`);
       bar.value = status.total_bytes ? status.bytes_read / status.total_bytes : 0;
-      message.textContent = `${status.records.toLocaleString()} records read`;
+      const mib = (n) => (n / 1048576).toFixed(1);
+      message.textContent = `${status.records.toLocaleString()} records read`
+        + (status.total_bytes ? ` · ${mib(status.bytes_read)} of ${mib(status.total_bytes)} MiB` : '');
     }
     if (status.state === 'failed') throw new Error(status.error);
     bar.value = 1;

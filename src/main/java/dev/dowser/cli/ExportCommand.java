@@ -2,6 +2,7 @@ package dev.dowser.cli;
 
 import dev.dowser.data.Exporter;
 import dev.dowser.data.FileFormat;
+import dev.dowser.json.Json;
 import dev.dowser.store.Database;
 import java.io.IOException;
 import java.io.OutputStream;
@@ -32,7 +33,7 @@ final class ExportCommand implements Callable<Integer> {
             description = "Output format (default: ${DEFAULT-VALUE}).")
     String format;
 
-    @Option(names = "--out", paramLabel = "F", description = "Output file (default: standard output).")
+    @Option(names = "--out", paramLabel = "F", description = "Output file (default: standard output); F.meta.json beside it holds the classes with their keys and what each field means.")
     Path out;
 
     @Override
@@ -46,7 +47,9 @@ final class ExportCommand implements Callable<Integer> {
                 try (OutputStream o = Files.newOutputStream(out)) {
                     n = new Exporter(db).export(pool, fileFormat, o);
                 }
-                spec.commandLine().getErr().printf("exported=%d%nfile=%s%n", n, out);
+                Path meta = out.resolveSibling(out.getFileName() + ".meta.json");
+                Files.writeString(meta, Json.write(new Exporter(db).metadata(pool)) + "\n");
+                spec.commandLine().getErr().printf("exported=%d%nfile=%s%nmetadata=%s%n", n, out, meta);
             }
             return 0;
         } catch (IOException e) {

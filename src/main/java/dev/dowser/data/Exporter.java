@@ -5,6 +5,7 @@ import dev.dowser.json.Json;
 import dev.dowser.labels.Resolution;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
+import dev.dowser.store.QueueEntry;
 import java.io.BufferedWriter;
 import java.io.IOException;
 import java.io.OutputStream;
@@ -13,15 +14,21 @@ import java.io.UncheckedIOException;
 import java.io.Writer;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.List;
+import java.util.Map;
 import java.util.Set;
+import java.util.regex.Pattern;
 
 /**
  * Writes a pool's labelled records with their provenance: id, display fields, the final label, how
- * it was resolved (single, agreed, reviewed, unresolved) and by whom, when, the note, and every
- * person's own label (a JSON object, person to label). Unresolved records are written with no
- * final label. CSV (RFC 4180) or JSON Lines with the same flat field names, so an export imports
- * back with {@code --id id --label label}.
+ * it was resolved (single, agreed, reviewed, unresolved) and by whom, when, the note, every
+ * person's own label (person to label), and where the record came from: the round whose queue
+ * first held it, whether it was a spot check, the class the model then found most probable and the
+ * probability it then gave the final label. Unresolved records are written with no final label.
+ * CSV (RFC 4180) or JSON Lines with the same flat field names, so an export imports back with
+ * {@code --id id --label label}; JSON Lines writes numbers as numbers, lists of numbers as arrays,
+ * flags as true or false and each person's label as an object.
  */
 public final class Exporter {
 
@@ -32,10 +39,20 @@ public final class Exporter {
     public static final String NOTE = "note";
     public static final String RESOLUTION = "resolution";
     public static final String LABELS = "labels_by_person";
+    public static final String ROUND = "round";
+    public static final String SPOT_CHECK = "spot_check";
+    public static final String MODEL_LABEL = "model_label";
+    public static final String MODEL_PROBABILITY = "model_probability";
     /** Prefix given to a display column whose name is one of the export's own. */
     public static final String RENAMED_PREFIX = "field.";
-    private static final Set<String> OWN = Set.of(ID, LABEL, RESOLUTION, LABELLED_BY, LABELLED_AT, NOTE,
-            LABELS);
+    static final List<String> OWN_TAIL = List.of(LABEL, RESOLUTION, LABELLED_BY, LABELLED_AT, NOTE, LABELS, ROUND,
+            SPOT_CHECK, MODEL_LABEL, MODEL_PROBABILITY);
+    private static final Set<String> OWN = Set.copyOf(concat(List.of(ID), OWN_TAIL));
+    /** JSON's own number syntax (RFC 8259, section 6): such text is written as a number, anything else as text. */
+    private static final Pattern JSON_NUMBER = Pattern.compile("-?(0|[1-9][0-9]*)(\\.[0-9]+)?([eE][+-]?[0-9]+)?");
+
+    /** How a cell is written in JSON Lines; CSV writes every cell as text. */
+    enum Kind { TEXT, NUMBER, RAW }
 
     private final Database db;
 
@@ -48,6 +65,7 @@ public final class Exporter {
         PoolRow pool = db.pools().require(poolName);
         ColumnRoles roles = ColumnRoles.parse(pool.columnRolesJson());
         List<String> header = header(roles.display());
+        Map<Long, QueueEntry> queued = db.queues().firstQueued(pool.id());
         Writer w = new BufferedWriter(new OutputStreamWriter(out, StandardCharsets.UTF_8), 1 << 16);
         long[] count = {0};
         try {
@@ -55,24 +73,36 @@ public final class Exporter {
                 writeCsvRow(w, header);
             }
             List<String> cells = new ArrayList<>(header.size());
+            List<Kind> kinds = new ArrayList<>(header.size());
             db.records().forEachLabelled(pool.id(), (r, resolution) -> {
                 cells.clear();
-                cells.add(r.key());
-                cells.addAll(r.display());
-                cells.add(r.label());
-                cells.add(resolution.status());
-                cells.add(r.labelledBy());
-                cells.add((r.labelled() ? r.labelledAt() : resolution.lastAt()).toString());
-                cells.add(r.labelled() ? r.note() : resolution.notes());
-                cells.add(byPerson(resolution));
+                kinds.clear();
+                add(cells, kinds, r.key(), Kind.TEXT);
+                for (String v : r.display()) {
+                    add(cells, kinds, v, kindOf(v));
+                }
+                add(cells, kinds, r.label(), Kind.TEXT);
+                add(cells, kinds, resolution.status(), Kind.TEXT);
+                add(cells, kinds, r.labelledBy(), Kind.TEXT);
+                add(cells, kinds, (r.labelled() ? r.labelledAt() : resolution.lastAt()).toString(), Kind.TEXT);
+                add(cells, kinds, r.labelled() ? r.note() : resolution.notes(), Kind.TEXT);
+                add(cells, kinds, byPerson(resolution), Kind.RAW);
+                QueueEntry e = queued.get(r.row());
+                add(cells, kinds, e == null ? null : Integer.toString(e.round()), Kind.NUMBER);
+                add(cells, kinds, e == null ? null : Boolean.toString(e.spotCheck()), Kind.RAW);
+                QueuedBelief b = e == null || e.predictionJson() == null ? null : QueuedBelief.parse(e.predictionJson());
+                boolean known = b != null && b.mean().length == pool.classes().size();
+                add(cells, kinds, known ? pool.classes().get(b.top()) : null, Kind.TEXT);
+                int labelAt = r.labelled() ? pool.classes().indexOf(r.label()) : -1;
+                add(cells, kinds, known && labelAt >= 0 ? probability(b.mean()[labelAt]) : null, Kind.NUMBER);
                 try {
                     if (format == FileFormat.CSV) {
                         writeCsvRow(w, cells);
                     } else {
-                        writeJsonLine(w, header, cells);
+                        writeJsonLine(w, header, cells, kinds);
                     }
-                } catch (IOException e) {
-                    throw new UncheckedIOException(e);
+                } catch (IOException ex) {
+                    throw new UncheckedIOException(ex);
                 }
                 count[0]++;
             });
@@ -83,19 +113,45 @@ public final class Exporter {
         return count[0];
     }
 
+    /** The export's fields in order: the id, the display columns (renamed where they clash), then our own. */
     static List<String> header(List<String> display) {
         List<String> h = new ArrayList<>();
         h.add(ID);
         for (String d : display) {
             h.add(OWN.contains(d) || d.startsWith(RENAMED_PREFIX) ? RENAMED_PREFIX + d : d);
         }
-        h.add(LABEL);
-        h.add(RESOLUTION);
-        h.add(LABELLED_BY);
-        h.add(LABELLED_AT);
-        h.add(NOTE);
-        h.add(LABELS);
+        h.addAll(OWN_TAIL);
         return h;
+    }
+
+    private static void add(List<String> cells, List<Kind> kinds, String value, Kind kind) {
+        cells.add(value);
+        kinds.add(kind);
+    }
+
+    /** A probability to four decimals, enough to read and to sort by. */
+    private static String probability(double p) {
+        return Double.toString(Math.round(p * 10_000) / 10_000.0);
+    }
+
+    /** A display value in JSON Lines: a number as a number, a list of numbers as an array, else text. */
+    static Kind kindOf(String v) {
+        if (v == null) {
+            return Kind.TEXT;
+        }
+        if (JSON_NUMBER.matcher(v).matches()) {
+            return Kind.NUMBER;
+        }
+        String t = v.strip();
+        if (t.length() > 2 && t.charAt(0) == '[' && t.charAt(t.length() - 1) == ']') {
+            for (String part : t.substring(1, t.length() - 1).split(",", -1)) {
+                if (!JSON_NUMBER.matcher(part.strip()).matches()) {
+                    return Kind.TEXT;
+                }
+            }
+            return Kind.RAW;
+        }
+        return Kind.TEXT;
     }
 
     /** Each person's own label as a JSON object, in the order they were given. */
@@ -134,7 +190,8 @@ public final class Exporter {
         w.write("\r\n");
     }
 
-    private static void writeJsonLine(Writer w, List<String> header, List<String> cells) throws IOException {
+    private static void writeJsonLine(Writer w, List<String> header, List<String> cells, List<Kind> kinds)
+            throws IOException {
         StringBuilder s = new StringBuilder(256).append('{');
         for (int i = 0; i < header.size(); i++) {
             if (i > 0) {
@@ -145,10 +202,55 @@ public final class Exporter {
             String c = cells.get(i);
             if (c == null) {
                 s.append("null");
-            } else {
+            } else if (kinds.get(i) == Kind.TEXT) {
                 Json.appendString(s, c);
+            } else {
+                s.append(kinds.get(i) == Kind.RAW ? c.strip() : c);
             }
         }
         w.write(s.append("}\n").toString());
+    }
+
+    private static List<String> concat(List<String> a, List<String> b) {
+        List<String> out = new ArrayList<>(a);
+        out.addAll(b);
+        return out;
+    }
+
+    /**
+     * What an export holds besides its records: the pool, its classes with their desk keys and counts,
+     * and the meaning of each field, as one JSON document.
+     */
+    public ObjectNode metadata(String poolName) {
+        PoolRow pool = db.pools().require(poolName);
+        ColumnRoles roles = ColumnRoles.parse(pool.columnRolesJson());
+        Map<String, Long> counts = new HashMap<>(db.pools().labelCounts(pool));
+        ObjectNode n = Json.object().put("pool", pool.name()).put("records", pool.recordCount())
+                .put("exported_at", db.clock().instant().toString());
+        var classes = n.putArray("classes");
+        List<String> keys = LabelKeys.keysFor(pool.classes());
+        for (int i = 0; i < pool.classes().size(); i++) {
+            classes.addObject().put("name", pool.classes().get(i)).put("key", keys.get(i))
+                    .put("labelled", counts.getOrDefault(pool.classes().get(i), 0L));
+        }
+        ObjectNode fields = n.putObject("fields");
+        List<String> header = header(roles.display());
+        for (int i = 0; i < roles.display().size(); i++) {
+            fields.put(header.get(i + 1), "display column '" + roles.display().get(i) + "' of the imported file");
+        }
+        fields.put(ID, "the record's id" + (roles.id() == null ? " (its line in the imported file)"
+                : " (column '" + roles.id() + "' of the imported file)"));
+        fields.put(LABEL, "the final label; empty while people disagree and no reviewer has decided");
+        fields.put(RESOLUTION, "single, agreed, reviewed or unresolved");
+        fields.put(LABELLED_BY, "who decided: the labeller, both labellers joined by ' & ', or the reviewer");
+        fields.put(LABELLED_AT, "when, in UTC (ISO 8601)");
+        fields.put(NOTE, "the reviewer's reason, or the labellers' notes");
+        fields.put(LABELS, "each person's own label, person to label");
+        fields.put(ROUND, "the round whose queue first held the record; empty for labels given outside a queue");
+        fields.put(SPOT_CHECK, "whether the record was a spot check, picked at random to measure accuracy");
+        fields.put(MODEL_LABEL, "the class the model found most probable when the record was queued");
+        fields.put(MODEL_PROBABILITY, "the probability the model then gave the final label (mean over the"
+                + " posterior draws)");
+        return n;
     }
 }

@@ -68,10 +68,12 @@ public record ImportSpec(
         classes = classes == null ? List.of() : List.copyOf(classes);
         categorical = categorical == null ? List.of() : List.copyOf(categorical);
         if (maxLevels < 2) {
-            throw new IllegalArgumentException("maxLevels is " + maxLevels + "; it must be at least 2");
+            throw new IllegalArgumentException("the most categories of a feature (max_levels; --max-levels on the command line) must be at least 2,"
+                    + " got " + maxLevels);
         }
         if (maxFieldChars < 16) {
-            throw new IllegalArgumentException("maxFieldChars is " + maxFieldChars + "; it must be at least 16");
+            throw new IllegalArgumentException("the longest field (max_field_chars; --max-field-chars on the command line) must be at least 16"
+                    + " characters, got " + maxFieldChars);
         }
         if (maxBytes < 1) {
             throw new IllegalArgumentException("maxBytes is " + maxBytes + "; it must be positive");

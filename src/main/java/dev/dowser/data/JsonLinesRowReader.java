@@ -206,8 +206,9 @@ final class JsonLinesRowReader implements RowReader {
             }
             case VALUE_NUMBER_INT, VALUE_NUMBER_FLOAT, VALUE_TRUE, VALUE_FALSE -> p.getText();
             case START_ARRAY -> numberArray(p, name);
-            case START_OBJECT -> throw new ImportException(recordLine, name,
-                    "nested objects are not supported; give each value its own field");
+            // An object is kept as its JSON text (shown to people, or one category as a feature), so
+            // that an export's labels_by_person imports back.
+            case START_OBJECT -> Json.write(Json.treeAt(p));
             default -> throw new ImportException(recordLine, name, "unexpected " + t);
         };
         if (text != null && text.length() > maxFieldChars) {

@@ -1,5 +1,6 @@
 package dev.dowser.desk;
 
+import dev.dowser.data.QueuedBelief;
 import dev.dowser.data.ColumnRoles;
 import dev.dowser.labels.LabelRow;
 import dev.dowser.rounds.PoolSettings;
@@ -12,9 +13,12 @@ import dev.dowser.store.QueueEntry;
 import dev.dowser.store.QueueStore;
 import dev.dowser.store.RecordRow;
 import java.time.Duration;
+import java.time.Instant;
 import java.util.ArrayList;
+import java.util.HashSet;
 import java.util.List;
 import java.util.Optional;
+import java.util.Set;
 
 /**
  * The labelling desk: the next record under a lease, a label, a skip, and taking a label back, each
@@ -24,6 +28,13 @@ import java.util.Optional;
 public final class Desk {
 
     static final String NOTHING_LEFT = "nothing to label in the served queue; the next round will bring more";
+
+    /** One of a person's own labels that still stands: the record's id, the label, when. */
+    public record Given(String record, String label, Instant at) {
+    }
+
+    /** How many of a person's labels the desk lists, newest first, for taking back. */
+    public static final int RECENT = 10;
 
     /** A label given: the record with its final label now, and the progress line. */
     public record Labelled(RecordView record, Progress progress) {
@@ -54,9 +65,11 @@ public final class Desk {
         // Another person's label is not shown: a second labeller must judge on their own.
         RecordView record = view(pool, e.row()).unlabelled();
         // Sent for spot checks too; the desk keeps it hidden there unless asked, so they stay an honest test.
-        Belief belief = e.predictionJson() == null ? null : Belief.parse(e.predictionJson());
+        boolean secondOpinion = e.copies() > 1 && !db.labels().resolution(pool.id(), e.row()).opinions().isEmpty();
+        String reason = Reasons.why(e, PoolSettings.parse(pool.settingsJson()).strategy(), pool.classes(), secondOpinion);
+        QueuedBelief belief = e.predictionJson() == null ? null : QueuedBelief.parse(e.predictionJson());
         return new Offer(e.round(), e.position(), e.copies(), e.spotCheck(), e.score(), e.leaseUntil(), record, belief,
-                progress(pool), null);
+                reason, secondOpinion, progress(pool), null);
     }
 
     /** Gives {@code person}'s lease on a queue place back at once, for the next person. */
@@ -96,6 +109,21 @@ public final class Desk {
         return new Withdrawn(withdrawn.label(), view(pool, row), progress(pool));
     }
 
+    /**
+     * {@code person}'s latest labels in the pool that still stand, newest first, at most
+     * {@link #RECENT}: the desk's "my last labels", any of which can be taken back.
+     */
+    public List<Given> recent(String poolName, String person) {
+        PoolRow pool = db.pools().require(poolName);
+        List<LabelRow> mine = db.labels().latestBy(pool.id(), person, RECENT);
+        List<RecordRow> records = db.records().rows(pool.id(), mine.stream().mapToLong(LabelRow::row).toArray());
+        List<Given> out = new ArrayList<>(mine.size());
+        for (int i = 0; i < mine.size(); i++) {
+            out.add(new Given(records.get(i).key(), mine.get(i).label(), mine.get(i).labelledAt()));
+        }
+        return out;
+    }
+
     /** The progress line of a pool's desk. */
     public Progress progress(String poolName) {
         return progress(db.pools().require(poolName));
@@ -109,11 +137,14 @@ public final class Desk {
         PoolRow pool = db.pools().require(poolName);
         List<QueueStore.Served> served = db.queues().served(pool.id());
         List<RecordRow> records = db.records().rows(pool.id(), served.stream().mapToLong(s -> s.entry().row()).toArray());
+        Set<Long> waiting = new HashSet<>();
+        db.queues().awaitingSecondLabel(pool.id()).forEach(e -> waiting.add(e.row()));
         List<QueuePlace> out = new ArrayList<>(served.size());
         for (int i = 0; i < served.size(); i++) {
             QueueStore.Served s = served.get(i);
             RecordRow r = records.get(i);
-            out.add(new QueuePlace(s.entry(), r.key(), s.labelled(), withLabels ? r.label() : null));
+            out.add(new QueuePlace(s.entry(), r.key(), s.labelled(), waiting.contains(s.entry().row()),
+                    withLabels ? r.label() : null));
         }
         return out;
     }

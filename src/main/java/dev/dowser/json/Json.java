@@ -62,6 +62,11 @@ public final class Json {
         }
     }
 
+    /** The value at a parser's current token (an object or array read to its end), leaving the parser after it. */
+    public static JsonNode treeAt(com.fasterxml.jackson.core.JsonParser p) throws java.io.IOException {
+        return MAPPER.readerFor(JsonNode.class).without(DeserializationFeature.FAIL_ON_TRAILING_TOKENS).readValue(p);
+    }
+
     public static ObjectNode object() {
         return MAPPER.createObjectNode();
     }

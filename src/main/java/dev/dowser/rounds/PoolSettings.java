@@ -34,13 +34,13 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
 
     public PoolSettings {
         if (batchSize < 1 || batchSize > 1_000) {
-            throw new IllegalArgumentException("batchSize must be 1 to 1000, got " + batchSize);
+            throw new IllegalArgumentException("batch_size (labels per round) must be 1 to 1000, got " + batchSize);
         }
         if (!(spotCheckShare >= 0 && spotCheckShare <= 1)) {
-            throw new IllegalArgumentException("spotCheckShare must lie between 0 and 1, got " + spotCheckShare);
+            throw new IllegalArgumentException("spot_check_share must lie between 0 and 1, got " + spotCheckShare);
         }
         if (leaseMinutes < 1) {
-            throw new IllegalArgumentException("leaseMinutes must be at least 1, got " + leaseMinutes);
+            throw new IllegalArgumentException("lease_minutes must be at least 1, got " + leaseMinutes);
         }
         if (strategy == null) {
             throw new IllegalArgumentException("a strategy is required");
@@ -54,7 +54,7 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
                     + "; lower the batch size or choose power, which scales to any batch");
         }
         if (!(doubleLabelShare >= 0 && doubleLabelShare <= 1)) {
-            throw new IllegalArgumentException("doubleLabelShare must lie between 0 and 1, got " + doubleLabelShare);
+            throw new IllegalArgumentException("double_label_share (the share sent to two people) must lie between 0 and 1, got " + doubleLabelShare);
         }
     }
 

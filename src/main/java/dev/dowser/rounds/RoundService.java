@@ -1,5 +1,6 @@
 package dev.dowser.rounds;
 
+import dev.dowser.data.QueuedBelief;
 import dev.dowser.acquire.PoolScorer;
 import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.LabelledSet;

@@ -1,5 +1,6 @@
 package dev.dowser.rounds;
 
+import dev.dowser.data.QueuedBelief;
 import dev.dowser.labels.LabelRow;
 import dev.dowser.stats.Metrics;
 import dev.dowser.stats.Wilson;

@@ -10,9 +10,11 @@ import java.sql.Timestamp;
 import java.time.Clock;
 import java.time.Instant;
 import java.util.ArrayList;
+import java.util.HashSet;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.Set;
 import java.util.function.Consumer;
 import javax.sql.DataSource;
 
@@ -114,6 +116,35 @@ public final class LabelStore {
             });
         } catch (SQLException e) {
             throw new StoreException("cannot store the review of row " + row + ": " + e.getMessage(), e);
+        }
+    }
+
+    /**
+     * The newest labels of {@code person} in the pool that still stand (not taken back, not replaced
+     * by their own later label), newest first, at most {@code limit}.
+     */
+    public List<LabelRow> latestBy(long poolId, String person, int limit) {
+        List<LabelRow> out = new ArrayList<>();
+        Set<Long> seen = new HashSet<>();
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT row_no, label, labelled_at, note, withdrawn FROM labels"
+                     + " WHERE pool_id = ? AND labelled_by = ? AND kind = '" + KIND_LABEL + "'"
+                     + " ORDER BY pool_id DESC, labelled_by DESC, id DESC")) {
+            q.setFetchSize(64);
+            q.setLong(1, poolId);
+            q.setString(2, person);
+            try (ResultSet rs = q.executeQuery()) {
+                while (out.size() < limit && rs.next()) {
+                    long row = rs.getLong(1);
+                    if (seen.add(row) && !rs.getBoolean(5)) {
+                        out.add(new LabelRow(row, rs.getString(2), person, rs.getTimestamp(3).toInstant(),
+                                rs.getString(4)));
+                    }
+                }
+            }
+            return out;
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the labels of " + person + ": " + e.getMessage(), e);
         }
     }
 

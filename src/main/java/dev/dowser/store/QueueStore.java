@@ -9,7 +9,9 @@ import java.time.Clock;
 import java.time.Duration;
 import java.time.Instant;
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.List;
+import java.util.Map;
 import java.util.Optional;
 import javax.sql.DataSource;
 
@@ -278,6 +280,29 @@ public final class QueueStore {
             }
         } catch (SQLException e) {
             throw new StoreException("cannot read the spot checks of pool " + poolId + ": " + e.getMessage(), e);
+        }
+        return out;
+    }
+
+    /**
+     * Each record ever queued in the pool, by row, with its entry in the first round that queued it:
+     * the round, whether it was a spot check, and the model's belief before anyone labelled it.
+     */
+    public Map<Long, QueueEntry> firstQueued(long poolId) {
+        Map<Long, QueueEntry> out = new HashMap<>();
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT round_no, position, row_no, score, spot_check, prediction,"
+                     + " copies FROM queue_entries WHERE pool_id = ? ORDER BY round_no, position")) {
+            q.setFetchSize(4_096);
+            q.setLong(1, poolId);
+            try (ResultSet rs = q.executeQuery()) {
+                while (rs.next()) {
+                    out.putIfAbsent(rs.getLong(3), new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3),
+                            rs.getDouble(4), rs.getBoolean(5), rs.getString(6), null, null, rs.getInt(7)));
+                }
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the queues of pool " + poolId + ": " + e.getMessage(), e);
         }
         return out;
     }

@@ -1,5 +1,6 @@
 package dev.dowser.web;
 
+import dev.dowser.data.QueuedBelief;
 import static dev.dowser.web.Requests.jsonBody;
 import static dev.dowser.web.Requests.optionalText;
 import static dev.dowser.web.Requests.param;
@@ -9,7 +10,6 @@ import static dev.dowser.web.Requests.requiredText;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
-import dev.dowser.desk.Belief;
 import dev.dowser.desk.Desk;
 import dev.dowser.desk.Offer;
 import dev.dowser.json.Json;
@@ -34,7 +34,8 @@ final class DeskApi {
         } else {
             body.put("round", o.round()).put("position", o.position()).put("copies", o.copies())
                     .put("spot_check", o.spotCheck()).put("score", o.score())
-                    .put("lease_until", Views.time(o.leaseUntil()));
+                    .put("lease_until", Views.time(o.leaseUntil())).put("reason", o.reason())
+                    .put("second_opinion", o.secondOpinion());
             body.set("record", Views.unlabelledRecord(o.record()));
             if (o.belief() != null) {
                 body.set("belief", belief(o.belief()));
@@ -67,13 +68,26 @@ final class DeskApi {
         Responses.ok(ex, Views.progress(out, w.progress()));
     }
 
-    private static ObjectNode belief(Belief b) {
+    /** The signed-in person's latest labels that still stand, newest first. */
+    void mine(HttpServerExchange ex) {
+        ArrayNode list = Json.array();
+        for (Desk.Given g : desk.recent(param(ex, "pool"), Gate.caller(ex, true).name())) {
+            list.addObject().put("record", g.record()).put("label", g.label()).put("at", Views.time(g.at()));
+        }
+        Responses.ok(ex, Json.object().set("labels", list));
+    }
+
+    private static ObjectNode belief(QueuedBelief b) {
         ObjectNode n = Json.object();
         ArrayNode mean = n.putArray("mean");
-        b.mean().forEach(mean::add);
-        if (!b.sd().isEmpty()) {
+        for (double v : b.mean()) {
+            mean.add(v);
+        }
+        if (b.sd().length > 0) {
             ArrayNode sd = n.putArray("sd");
-            b.sd().forEach(sd::add);
+            for (double v : b.sd()) {
+                sd.add(v);
+            }
         }
         return n;
     }

@@ -83,9 +83,7 @@ final class Gate implements HttpHandler {
                         "/login.html?next=" + URLEncoder.encode(back, StandardCharsets.UTF_8));
                 ex.endExchange();
             } else {
-                ex.setStatusCode(403);
-                ex.getResponseHeaders().put(Headers.CONTENT_TYPE, "text/plain; charset=utf-8");
-                ex.getResponseSender().send(e.getMessage(), StandardCharsets.UTF_8);
+                Pages.send(ex, 403, "Not for your role", e.getMessage());
             }
         }
     }
@@ -160,9 +158,7 @@ final class Gate implements HttpHandler {
         String method = ex.getRequestMethod().toString();
         Optional<Routes.Match> match = routes.page(method, path);
         if (match.isEmpty()) {
-            ex.setStatusCode(404);
-            ex.getResponseHeaders().put(Headers.CONTENT_TYPE, "text/plain; charset=utf-8");
-            ex.getResponseSender().send("no page at " + path, StandardCharsets.UTF_8);
+            Pages.send(ex, 404, "No such page", "There is no page at " + path + ".");
             return;
         }
         admit(ex, match.get().route(), method);

@@ -91,6 +91,11 @@ final class PoolsApi {
         Responses.ok(ex, body);
     }
 
+    /** The export's metadata: the pool, its classes with their keys and counts, and what each field means. */
+    void exportMetadata(HttpServerExchange ex) {
+        Responses.ok(ex, new Exporter(db).metadata(param(ex, "pool")));
+    }
+
     void export(HttpServerExchange ex) {
         String name = param(ex, "pool");
         db.pools().require(name);

@@ -32,6 +32,9 @@ final class RoundsApi {
     static final List<String> SETTINGS = List.of("batch_size", "spot_check_share", "lease_minutes", "strategy",
             "double_label_share");
 
+    /** Most rounds in one answer; older ones are paged. */
+    static final int MAX_ROUNDS_PAGE = 200;
+
     private final Database db;
     private final RoundWorkers rounds;
     private final Desk desk;
@@ -42,10 +45,17 @@ final class RoundsApi {
         this.desk = desk;
     }
 
+    /** The rounds, newest first, {@code limit} from {@code offset}, with how many there are. */
     void list(HttpServerExchange ex) {
         PoolRow pool = db.pools().require(param(ex, "pool"));
+        int offset = (int) Requests.longQuery(ex, "offset", 0);
+        int limit = (int) Requests.longQuery(ex, "limit", MAX_ROUNDS_PAGE);
+        if (offset < 0 || limit < 1 || limit > MAX_ROUNDS_PAGE) {
+            throw new ApiException(400, "offset must be 0 or more and limit 1 to " + MAX_ROUNDS_PAGE);
+        }
+        List<RoundStore.RoundRow> all = db.rounds().list(pool.id());
         ArrayNode out = Json.array();
-        for (RoundStore.RoundRow r : db.rounds().list(pool.id())) {
+        for (RoundStore.RoundRow r : all.subList(Math.min(offset, all.size()), Math.min(all.size(), offset + limit))) {
             ObjectNode n = out.addObject().put("round", r.round()).put("status", r.status())
                     .put("started_at", r.startedAt().toString()).put("finished_at", Views.time(r.finishedAt()))
                     .put("labels_at_start", r.labelsAtStart()).put("kernel", r.kernel()).put("message", r.message());
@@ -56,7 +66,7 @@ final class RoundsApi {
                 n.set("health", Json.tree(r.healthJson()));
             }
         }
-        ObjectNode body = Json.object();
+        ObjectNode body = Json.object().put("total", all.size()).put("offset", offset).put("limit", limit);
         body.set("rounds", out);
         Progress p = desk.progress(pool.name());
         if (p.servedRound() != null) {
@@ -79,7 +89,8 @@ final class RoundsApi {
         for (QueuePlace place : served) {
             QueueEntry e = place.entry();
             entries.addObject().put("position", e.position()).put("record", place.record()).put("score", e.score())
-                    .put("spot_check", e.spotCheck()).put("copies", e.copies()).put("labelled", place.done())
+                    .put("scored", place.scored()).put("spot_check", e.spotCheck()).put("copies", e.copies())
+                    .put("labelled", place.done()).put("waiting_for_second", place.waitingForSecond())
                     .put("label", place.label()).put("leased_to", e.leasedTo())
                     .put("lease_until", Views.time(e.leaseUntil()));
         }

@@ -4,6 +4,8 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.dowser.json.Json;
 import dev.dowser.store.Database;
 import dev.dowser.team.Passwords;
 import dev.dowser.web.PortBusyException;
@@ -72,10 +74,16 @@ class CommandLineTest {
         Path out = dir.resolve("out.csv");
         Run exported = run("export", "--data", data, "--pool", "p", "--out", out.toString());
         assertEquals(0, exported.exit(), exported.err());
-        assertEquals(List.of("id,x,label,resolution,labelled_by,labelled_at,note,labels_by_person",
-                        "a,1,up,single,import,carried in by the import,\"{\"\"import\"\":\"\"up\"\"}\"",
-                        "c,3,down,single,import,carried in by the import,\"{\"\"import\"\":\"\"down\"\"}\""),
+        // Labels carried in by the import were never queued: no round, spot check or model view.
+        assertEquals(List.of("id,x,label,resolution,labelled_by,labelled_at,note,labels_by_person,round,spot_check,"
+                                + "model_label,model_probability",
+                        "a,1,up,single,import,carried in by the import,\"{\"\"import\"\":\"\"up\"\"}\",,,,",
+                        "c,3,down,single,import,carried in by the import,\"{\"\"import\"\":\"\"down\"\"}\",,,,"),
                 Files.readAllLines(out).stream().map(l -> l.replaceAll(",20\\d\\d-[^,]*,", ",")).toList());
+        JsonNode meta = Json.tree(Files.readString(dir.resolve("out.csv.meta.json")));
+        assertEquals("[{\"name\":\"down\",\"key\":\"1\",\"labelled\":1},{\"name\":\"up\",\"key\":\"2\",\"labelled\":1}]",
+                meta.get("classes").toString());
+        assertTrue(exported.err().contains("metadata=" + dir.resolve("out.csv.meta.json")), exported.err());
     }
 
     @Test

@@ -231,8 +231,27 @@ class ImporterTest {
         Map<String, Long> before = TestSupport.tableCounts(dir);
         ImportException e = assertThrows(ImportException.class,
                 () -> TestSupport.importBytes(db, bad, TestSupport.csv("p")));
-        assertTrue(e.getMessage().contains("not valid UTF-8"), e.getMessage());
+        assertEquals("line 3: the file is not valid UTF-8 text (byte 0xC3 at byte 5); save it as UTF-8 and try again",
+                e.getMessage());
         assertEquals(before, TestSupport.tableCounts(dir));
+        // Far into a file, past the decoder's buffer, the line named is still the bad byte's.
+        StringBuilder text = new StringBuilder("a\n");
+        for (int i = 0; i < 30_000; i++) {
+            text.append(i).append('\n');
+        }
+        byte[] head = text.toString().getBytes(java.nio.charset.StandardCharsets.UTF_8);
+        byte[] far = java.util.Arrays.copyOf(head, head.length + 3);
+        far[head.length] = (byte) 0xFF;
+        far[head.length + 1] = '7';
+        far[head.length + 2] = '\n';
+        ImportException late = assertThrows(ImportException.class, () -> TestSupport.importBytes(db, far,
+                TestSupport.csv("p").withClasses(List.of("x", "y"))));
+        assertTrue(late.getMessage().startsWith("line 30002: the file is not valid UTF-8 text (byte 0xFF at byte "
+                + (head.length + 1) + ")"), late.getMessage());
+        // Text split anywhere across the buffer's edge decodes whole.
+        String wide = "a\n" + "é✓😀\n".repeat(20_000);
+        TestSupport.importText(db, "wide", wide, TestSupport.csv("wide").withClasses(List.of("x", "y")));
+        assertEquals("é✓😀", db.records().page(db.pools().require("wide").id(), 19_999, 1).get(0).display().get(0));
     }
 
     @Test
@@ -265,7 +284,12 @@ class ImporterTest {
         assertEquals("line 2, column 'z': this field is not among the fields of the first line (a)",
                 fails("{\"a\":1}\n{\"z\":2}\n", TestSupport.jsonl("p")).getMessage());
         assertTrue(fails("{\"a\":1}\n{\"a\":\n", TestSupport.jsonl("p")).getMessage().startsWith("line 2: malformed JSON"));
-        assertEquals("line 2, column 'a': nested objects are not supported; give each value its own field",
-                fails("{\"a\":1}\n{\"a\":{\"b\":1}}\n", TestSupport.jsonl("p")).getMessage());
+        assertEquals("line 2, column 'a': an embedding must be an array of numbers only",
+                fails("{\"a\":1}\n{\"a\":[\"x\"]}\n", TestSupport.jsonl("p")).getMessage());
+        // An object is kept as its JSON text, shown as it is.
+        TestSupport.importText(db, "objects", "{\"id\":\"r1\",\"who\":{\"ana\":\"ok\"}}\n",
+                TestSupport.jsonl("objects").withId("id").withClasses(List.of("ok", "bad")).withDisplay(List.of("who")));
+        assertEquals("{\"ana\":\"ok\"}", db.records().find(db.pools().require("objects").id(), "r1").orElseThrow()
+                .display().get(0));
     }
 }

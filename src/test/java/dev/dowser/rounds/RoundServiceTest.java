@@ -1,5 +1,6 @@
 package dev.dowser.rounds;
 
+import dev.dowser.data.QueuedBelief;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;

@@ -88,7 +88,7 @@ class ApiTest {
         assertTrue(csv.headers().firstValue("content-disposition").orElse("").contains("pumps-labels.csv"));
         assertEquals(4, csv.body().split("\r\n").length, csv.body());
         assertTrue(csv.body().contains("u2,2.5,ok,single,ana,"), csv.body());
-        assertTrue(csv.body().contains(",by ear,\"{\"\"ana\"\":\"\"ok\"\"}\"\r\n"), csv.body());
+        assertTrue(csv.body().contains(",by ear,\"{\"\"ana\"\":\"\"ok\"\"}\",,,,\r\n"), csv.body());
     }
 
     @Test

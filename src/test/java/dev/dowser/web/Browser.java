@@ -50,8 +50,13 @@ final class Browser implements AutoCloseable {
      * element drawn again while being read (pages redraw lists after each change) just means: look again.
      */
     <T> T await(Function<WebDriver, T> condition, String what) {
+        return await(condition, what, WAIT);
+    }
+
+    /** The same with its own deadline, for the few steps that take long (a large upload). */
+    <T> T await(Function<WebDriver, T> condition, String what, Duration deadline) {
         try {
-            return new WebDriverWait(driver, WAIT).withMessage(what).ignoring(StaleElementReferenceException.class)
+            return new WebDriverWait(driver, deadline).withMessage(what).ignoring(StaleElementReferenceException.class)
                     .until(condition);
         } catch (TimeoutException e) {
             screenshot("timeout-" + what.replaceAll("[^A-Za-z0-9]+", "-"));

@@ -1,5 +1,6 @@
 package dev.dowser.web;
 
+import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -10,11 +11,14 @@ import dev.dowser.team.Accounts;
 import dev.dowser.team.Role;
 import java.nio.file.Path;
 import java.security.SecureRandom;
+import java.util.List;
+import java.util.Map;
 import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.openqa.selenium.By;
+import org.openqa.selenium.Dimension;
 import org.openqa.selenium.Keys;
 import org.openqa.selenium.WebElement;
 import org.openqa.selenium.interactions.Actions;
@@ -71,11 +75,38 @@ class DemoBrowserTest {
         assertFalse(poolScale.equals(trace.findElement(By.className("trace-y")).getText()), "the axis follows the scale");
         trace.findElement(By.className("scale-toggle")).click();
         assertTrue(browser.byId("choices").getText().contains("cavitation"), browser.byId("choices").getText());
-        assertTrue(browser.byId("card-score").getText().isEmpty() || browser.byId("card-score").getText().equals(
-                "first batch: spread over the pool"), "round 1 has no scores to show: " + browser.byId("card-score").getText());
+        String why = browser.byId("card-why").getText();
+        assertTrue(why.startsWith("First batch: picked to cover the pool") || why.startsWith("Spot check")
+                || why.startsWith("Second opinion"), "round 1 has no scores to show: " + why);
         browser.screenshot("17-demo-desk");
         new Actions(browser.driver).sendKeys("1").perform();
         browser.await(d -> !browser.byId("card-id").getText().equals(first), "the next record");
         assertTrue(browser.byId("progress").getText().contains("1 labelled this session"), browser.byId("progress").getText());
+
+        // A phone in the night shift: nothing scrolls sideways, the classes are in reach, the theme is dark.
+        browser.driver.executeCdpCommand("Emulation.setEmulatedMedia", Map.of("features",
+                List.of(Map.of("name", "prefers-color-scheme", "value", "dark"))));
+        browser.driver.manage().window().setSize(new Dimension(390, 844));
+        browser.await(d -> ((Number) browser.driver.executeScript("return window.innerWidth;")).intValue() <= 400,
+                "the phone-sized window");
+        long overflow = ((Number) browser.driver.executeScript(
+                "return document.documentElement.scrollWidth - window.innerWidth;")).longValue();
+        assertTrue(overflow <= 0, "the desk scrolls sideways by " + overflow + " px at phone width");
+        String background = (String) browser.driver.executeScript(
+                "return getComputedStyle(document.documentElement).backgroundColor;");
+        assertEquals("rgb(16, 21, 31)", background, "the dark theme follows prefers-color-scheme");
+        for (WebElement link : browser.driver.findElements(By.tagName("a"))) {
+            String colour = link.getCssValue("color");
+            assertTrue(!colour.equals("rgba(0, 0, 238, 1)") && !colour.equals("rgba(85, 26, 139, 1)"),
+                    "a link in the browser's own blue: " + link.getText());
+        }
+        browser.screenshot("17b-demo-desk-phone-dark");
+        browser.driver.manage().window().setSize(new Dimension(820, 1180));
+        browser.driver.executeCdpCommand("Emulation.setEmulatedMedia", Map.of("features",
+                List.of(Map.of("name", "prefers-color-scheme", "value", "light"))));
+        overflow = ((Number) browser.driver.executeScript(
+                "return document.documentElement.scrollWidth - window.innerWidth;")).longValue();
+        assertTrue(overflow <= 0, "the desk scrolls sideways by " + overflow + " px at tablet width");
+        browser.screenshot("17c-demo-desk-tablet");
     }
 }

@@ -146,7 +146,8 @@ class DeskApiTest {
     void settingsAreValidatedAndNamed() throws Exception {
         HttpResponse<String> zero = send("PUT", "/api/v1/pools/iris/settings", "{\"batch_size\":0}");
         assertEquals(400, zero.statusCode());
-        assertTrue(zero.body().contains("batchSize must be 1 to 1000, got 0"), zero.body());
+        assertEquals("batch_size (labels per round) must be 1 to 1000, got 0", Json.tree(zero.body()).get("error").asText(),
+                "the API's own field names, not the code's");
         HttpResponse<String> unknown = send("PUT", "/api/v1/pools/iris/settings", "{\"colour\":\"red\"}");
         assertEquals(400, unknown.statusCode());
         assertTrue(unknown.body().contains("unknown setting 'colour'"), unknown.body());

@@ -189,17 +189,30 @@ class PagesBrowserTest {
         assertEquals(Boolean.TRUE, browser.driver.executeScript("return window.__sameDocument === true;"));
         assertTrue(browser.byId("progress").getText().contains("20 labelled this session"), browser.byId("progress").getText());
 
-        // Undo the last label: that record comes back; label it again, differently.
-        String last = previous;
+        // Undo is a stack: two presses take back the last two labels, newest first; both records are
+        // labelled again, differently, the older first, then the newer one comes back by itself.
+        List<String> order = new ArrayList<>(given.keySet());
+        String last = order.get(order.size() - 1);
+        String before = order.get(order.size() - 2);
         browser.await(d -> !cardId().isEmpty() && !cardId().equals(last), "the record after the last");
+        browser.await(d -> browser.byId("mine-list").getText().startsWith(last), "my last labels, newest first");
         press(Keys.BACK_SPACE);
         browser.await(d -> cardId().equals(last), "the taken-back record shown again");
         assertTrue(browser.byId("desk-message").getText().contains("Took back"), browser.byId("desk-message").getText());
+        press(Keys.BACK_SPACE);
+        browser.await(d -> cardId().equals(before), "the label before it taken back too");
+        assertTrue(browser.byId("card-why").getText().startsWith("Taken back (your label was " + given.get(before)),
+                browser.byId("card-why").getText());
         browser.screenshot("5-desk-after-undo");
-        String changed = classes.get((classes.indexOf(given.get(last)) + 1) % classes.size());
-        press(String.valueOf(classes.indexOf(changed) + 1));
-        given.put(last, changed);
+        for (String id : List.of(before, last)) {
+            browser.await(d -> cardId().equals(id), id + " to label again");
+            String changed = classes.get((classes.indexOf(given.get(id)) + 1) % classes.size());
+            press(String.valueOf(classes.indexOf(changed) + 1));
+            given.put(id, changed);
+        }
         browser.await(d -> !cardId().isEmpty() && !cardId().equals(last), "the desk moving on");
+        browser.await(d -> browser.byId("mine-list").getText().startsWith(last + "\n" + given.get(last)),
+                "the new labels listed: " + browser.byId("mine-list").getText());
         if (browser.byId("belief-toggle").isEnabled()) {
             press(".");
             browser.await(d -> browser.byId("belief").isDisplayed(), "the model's belief");

@@ -116,7 +116,11 @@ class TeamBrowserTest {
             browser.driver.get(base() + page);
             String text = browser.driver.findElement(By.tagName("body")).getText();
             assertTrue(text.contains("an account with the role labeller may not do this"), page + ": " + text);
+            // In the frame of every page, with the way back.
+            assertTrue(browser.driver.findElement(By.className("masthead")).isDisplayed(), page);
+            assertEquals(base(), browser.driver.findElement(By.linkText("Back to the pools")).getAttribute("href"));
         }
+        browser.screenshot("10b-forbidden-page");
         browser.driver.get(base() + "?pool=gauges");
         browser.await(d -> !browser.byId("pool-title").getText().isEmpty(), "the pool page");
         assertTrue(browser.driver.findElements(By.id("export-csv")).isEmpty());
@@ -236,16 +240,16 @@ class TeamBrowserTest {
         batch.clear();
         batch.sendKeys("7");
         browser.byId("settings-save").click();
-        browser.await(d -> browser.byId("settings-history").getText().contains("lead · batch size 6 → 7"), "the change listed");
+        browser.await(d -> browser.byId("settings-history").getText().contains("lead · labels per round 6 → 7"), "the change listed");
         // The setting made through the API before is listed too, with its before and after.
-        assertTrue(browser.byId("settings-history").getText().contains("double label share 0.1 → 1"),
+        assertTrue(browser.byId("settings-history").getText().contains("share sent to two people 0.1 → 1"),
                 browser.byId("settings-history").getText());
         assertEquals(2, db.history().of(db.pools().require("gauges").id(), "settings").size());
         browser.screenshot("16-overview-settings");
 
         signIn("rey");
         browser.driver.get(base() + "overview.html?pool=gauges");
-        browser.await(d -> browser.byId("settings-history").getText().contains("batch size 6 → 7"), "the history for a reviewer");
+        browser.await(d -> browser.byId("settings-history").getText().contains("labels per round 6 → 7"), "the history for a reviewer");
         assertTrue(browser.driver.findElements(By.id("settings-save")).isEmpty(), "a reviewer cannot save settings");
         assertTrue(browser.byId("settings").findElement(By.name("batch_size")).getAttribute("disabled") != null);
     }

@@ -1,4 +1,4 @@
-package dev.dowser.rounds;
+package dev.dowser.data;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.json.Json;
@@ -15,6 +15,17 @@ public record QueuedBelief(double[] mean, double[] sd) {
     /** The JSON kept with a queue entry, from the model's float32 probabilities. */
     public static String write(float[] mean, float[] sd) {
         return Json.write(Map.of("mean", mean, "sd", sd));
+    }
+
+    /** The class the model found most probable (the first of equals). */
+    public int top() {
+        int top = 0;
+        for (int c = 1; c < mean.length; c++) {
+            if (mean[c] > mean[top]) {
+                top = c;
+            }
+        }
+        return top;
     }
 
     public static QueuedBelief parse(String json) {
