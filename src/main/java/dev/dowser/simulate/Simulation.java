@@ -77,18 +77,30 @@ public final class Simulation {
 
     /** Runs every strategy with every seed on the labelled set; {@code tick} is told after each round. */
     public static List<Point> run(LabelledSet all, Plan plan, IntConsumer tick) {
+        return run(all, null, plan, tick);
+    }
+
+    /**
+     * As above; with a fixed {@code test} set (not null), every seed works the whole of {@code pool}
+     * and is scored on {@code test}, else each seed holds out its own stratified share of the pool.
+     */
+    public static List<Point> run(LabelledSet pool, LabelledSet test, Plan plan, IntConsumer tick) {
         List<Point> out = new ArrayList<>();
-        int classes = all.classes().size();
+        int classes = pool.classes().size();
         SeedTree root = SeedTree.of(plan.seed());
         try (PoolScorer scorer = PoolScorer.withAllCores()) {
             for (int seed = 0; seed < plan.seeds(); seed++) {
                 SeedTree node = root.child(seed);
-                Splits.Split split = Splits.stratified(all.labels(), classes, plan.testFraction(),
-                        node.child(SPLIT).rng());
-                LabelledSet train = all.subset(split.train());
-                LabelledSet test = all.subset(split.test());
+                LabelledSet train = pool;
+                LabelledSet held = test;
+                if (test == null) {
+                    Splits.Split split = Splits.stratified(pool.labels(), classes, plan.testFraction(),
+                            node.child(SPLIT).rng());
+                    train = pool.subset(split.train());
+                    held = pool.subset(split.test());
+                }
                 for (Strategy strategy : plan.strategies()) {
-                    out.addAll(curve(strategy, seed, train, test, plan, node.child(LOOP), scorer, tick));
+                    out.addAll(curve(strategy, seed, train, held, plan, node.child(LOOP), scorer, tick));
                 }
             }
         }
