@@ -291,12 +291,23 @@ function onKey(event) {
   }
 }
 
+/** The overview's keep-labelling headline, in one line under the progress line. */
+async function showKeep() {
+  try {
+    const k = await getJson(`pools/${encodeURIComponent(state.pool)}/advice`);
+    $('keep-line').textContent = k.headline;
+  } catch (e) {
+    $('keep-line').textContent = '';
+  }
+}
+
 function listen() {
   const events = new EventSource(`api/v1/events?pool=${encodeURIComponent(state.pool)}`);
   events.addEventListener('round', (e) => {
     const data = JSON.parse(e.data);
     if (data.status === 'published') {
       showProgress({ ...state.progress, served_round: data.round });
+      showKeep();
       say(`Round ${data.round} is ready: ${data.queued} records picked.`);
       if (state.busy) {
         state.wantNext = true;
@@ -321,6 +332,7 @@ async function begin() {
   state.scales = scalesOf(pool);
   renderChoices();
   showProgress();
+  showKeep();
   listen();
   await Promise.all([next(), loadRecent()]);
 }

@@ -1,4 +1,4 @@
-// The pool overview: labels, spot-check accuracy, chain health, rounds and the served queue, live.
+// The pool overview: whether to keep labelling, labels, accuracy, chain health, rounds and the served queue, live.
 import { showAccount } from './account.js';
 import { getJson, postJson, putJson, apiUrl } from './api.js';
 import { bandChart, barList } from './charts.js';
@@ -25,19 +25,81 @@ async function showPool() {
   $('counts').replaceChildren(barList(p.classes.map((c) => ({ name: c.name, value: c.labelled }))));
 }
 
+/** An accuracy as two decimals with its interval: 0.93 (0.90–0.95). */
+function interval(e) {
+  return `${fixed(e.accuracy, 2)} (${fixed(e.lower, 2)}–${fixed(e.upper, 2)})`;
+}
+
+function listItem(list, text) {
+  const li = document.createElement('li');
+  li.textContent = text;
+  list.append(li);
+  return li;
+}
+
 async function showAccuracy() {
   const a = await getJson(`pools/${encodeURIComponent(pool)}/accuracy`);
-  if (!a.checked) {
-    $('accuracy-facts').textContent = 'No spot check labelled yet. A share of every queue is drawn at random;'
-      + ' once people label those, the model\'s accuracy shows here with its 95% Wilson interval.';
+  const facts = $('accuracy-facts');
+  facts.replaceChildren();
+  if (!a.model) {
+    $('accuracy-model').textContent = 'Nothing to tell yet: once a model has queued records and people have labelled'
+      + ' them, its accuracy on the records not yet labelled shows here, with a 95% interval.';
   } else {
-    $('accuracy-facts').textContent = `${(100 * a.accuracy).toFixed(1)}% right on ${a.checked} spot checks `
-      + `(95% interval ${(100 * a.lower).toFixed(1)}–${(100 * a.upper).toFixed(1)}%); `
-      + `calibration error ${fixed(a.ece, 3)}.`;
+    const from = a.window.from_round === a.window.to_round ? `round ${a.window.to_round}`
+      : `rounds ${a.window.from_round}–${a.window.to_round}`;
+    $('accuracy-model').textContent = `The models of ${from} (the newest learnt from ${a.model.labels} labels), `
+      + 'judged by labels given after they made their predictions, on the records not yet labelled.';
+    if (a.picked.labels > 0) {
+      listItem(facts, `From every picked record, weighted by how likely it was to be picked: ${interval(a.picked)},`
+        + ` ${a.picked.labels} labels.`);
+    } else {
+      const li = listItem(facts, 'Picked records cannot tell: this pool picks the best scores outright, and such picks'
+        + ' cannot be weighted back to the whole pool; picking by power sampling would let every label count. ');
+      const link = document.createElement('a');
+      link.href = '#settings';
+      link.textContent = 'Picking';
+      li.append(link);
+    }
+    const s = a.spot_checks;
+    if (s.labels > 0) {
+      const right = Math.round(s.accuracy * s.labels);
+      listItem(facts, `From spot checks (drawn at random): ${right} of ${s.labels} right, ${interval(s)}.`
+        + (s.more_for_5_points > 0 ? ` About ${s.more_for_5_points} more would narrow it to ±5 points.`
+          : ' That is within ±5 points.'));
+    } else {
+      listItem(facts, `No spot check in these rounds is labelled yet; about ${s.more_for_5_points} would give`
+        + ' ±5 points.');
+    }
+    if (a.ece !== null && a.ece !== undefined) {
+      listItem(facts, `Calibration error on all spot checks: ${fixed(a.ece, 3)} (0 when the model's confidence`
+        + ' matches how often it is right).');
+    }
   }
-  const points = a.points.map((p) => ({ x: p.labels, y: p.accuracy, low: p.lower, high: p.upper }));
-  $('accuracy-chart').replaceChildren(bandChart(points, { xTitle: 'labels', yTitle: 'accuracy' }));
+  const points = a.rounds.map((p) => ({ x: p.labels, y: p.accuracy, low: p.lower, high: p.upper }));
+  $('accuracy-chart').replaceChildren(bandChart(points, { xTitle: 'labels the model learnt from', yTitle: 'accuracy' }));
+  $('accuracy-chart-note').textContent = points.length
+    ? 'Each round\'s own estimate from its labels, with its 95% interval; each rests on few labels, so they scatter.'
+    : '';
 }
+
+async function showKeep() {
+  const k = await getJson(`pools/${encodeURIComponent(pool)}/advice`);
+  $('keep').className = `panel keep keep-${k.state}`;
+  $('keep-headline').textContent = k.headline;
+  const list = $('keep-details');
+  list.replaceChildren();
+  for (const d of k.details) listItem(list, d);
+  const info = k.information;
+  if (info.length >= 2 && info[0].total > 0) {
+    const first = info[0];
+    const last = info[info.length - 1];
+    listItem(list, `Information left in the unlabelled records: ${Math.round((100 * last.total) / first.total)}% of`
+      + ` what it was at round ${first.round}.`);
+  }
+}
+
+/** A setting's name as the settings panel shows it. */
+const SETTING_NAMES = { draws: 'Draws kept', chains: 'Chains', reburn_in_steps: 'Warm-up steps each round' };
 
 function showHealth(round) {
   const dl = $('health');
@@ -45,20 +107,37 @@ function showHealth(round) {
   const advice = $('advice');
   advice.replaceChildren();
   if (!round || !round.health) {
-    const li = document.createElement('li');
-    li.textContent = 'No sampled round yet: the first batch is spread over the pool; the chains start after it is labelled.';
-    advice.append(li);
+    $('chain-summary').textContent = 'No sampled round yet: the first batch is spread over the pool; the chains'
+      + ' start after it is labelled.';
     return;
   }
   const h = round.health;
+  const a = round.advice;
+  $('chain-summary').textContent = `Round ${round.round}: ${a.summary}`;
+  $('chain-summary').className = `chain-summary chain-${a.level}`;
+  for (const p of a.points) {
+    const li = listItem(advice, p.text);
+    if (p.setting) {
+      li.append(' ');
+      const link = document.createElement('a');
+      link.href = `#setting-${p.setting}`;
+      link.textContent = `Set ${SETTING_NAMES[p.setting]} to ${p.suggest}`;
+      link.addEventListener('click', () => {
+        const input = $(`setting-${p.setting}`);
+        if (input && !input.disabled) input.value = p.suggest;
+      });
+      li.append(link);
+    }
+  }
   const facts = [
-    ['Round', String(round.round)],
     ['Kernel', round.kernel ? `${round.kernel}${round.message ? ` — ${round.message}` : ''}` : '—'],
-    ['R-hat (worst)', fixed(h.rhatMax, 3)],
-    ['ESS bulk / tail (smallest)', `${fixed(h.essBulkMin, 0)} / ${fixed(h.essTailMin, 0)}`],
-    ['Acceptance', h.acceptance === null || Number.isNaN(h.acceptance) ? 'not an accept-reject kernel' : fixed(h.acceptance, 2)],
-    ['Mean step size', Number(h.meanStepSize).toExponential(2)],
-    ['Divergences', String(h.divergences)],
+    ['How far the chains agree (R-hat; 1 is full agreement)',
+      `${fixed(h.rhatMax, 2)}; fine up to ${fixed(a.rhat_ceiling, 2)} for these draws`],
+    ['Independent draws (effective sample size)',
+      `${fixed(Math.min(h.essBulkMin, h.essTailMin), 0)}; fine from ${fixed(a.ess_floor, 1)}`],
+    ['Acceptance', h.acceptance === null || Number.isNaN(h.acceptance) ? 'not an accept-reject kernel'
+      : fixed(h.acceptance, 2)],
+    ['Steps undone and retried smaller', String(h.divergences)],
   ];
   for (const [k, v] of facts) {
     const dt = document.createElement('dt');
@@ -66,11 +145,6 @@ function showHealth(round) {
     const dd = document.createElement('dd');
     dd.textContent = v;
     dl.append(dt, dd);
-  }
-  for (const line of h.advice.length ? h.advice : ['The chains agree and mix well enough for picking.']) {
-    const li = document.createElement('li');
-    li.textContent = line;
-    advice.append(li);
   }
 }
 
@@ -151,7 +225,7 @@ async function showQueue() {
 
 async function refresh() {
   try {
-    await Promise.all([showPool(), showAccuracy(), showRounds(), showQueue(),
+    await Promise.all([showPool(), showAccuracy(), showKeep(), showRounds(), showQueue(),
       getJson(`pools/${encodeURIComponent(pool)}/agreement`).then(showAgreement), showSettings()]);
   } catch (error) {
     showMessage('overview-message', error.message, true);
@@ -220,7 +294,8 @@ async function start() {
 
 start();
 
-const SETTINGS = ['batch_size', 'spot_check_share', 'double_label_share', 'lease_minutes', 'strategy'];
+const SETTINGS = ['batch_size', 'spot_check_share', 'double_label_share', 'lease_minutes', 'strategy', 'chains',
+  'draws', 'reburn_in_steps', 'stop_agreement'];
 
 /** A setting's name as the settings form says it ("labels per round"), so the history reads like the form. */
 function settingWords(form, field) {

@@ -1,6 +1,5 @@
 package dev.dowser.acquire;
 
-import dev.dowser.stats.Wilson;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
@@ -9,8 +8,8 @@ import java.util.SplittableRandom;
 
 /**
  * Spot checks: a share of each queue drawn uniformly at random from the unlabelled pool, not by
- * score, and flagged. Accuracy is estimated from spot-check labels alone, since records picked for
- * being hard give a biased estimate; the interval is Wilson's (1927).
+ * score, and flagged. Their labels give an estimate of accuracy that needs no weighting, since
+ * records picked for being hard would make the model look worse than it is.
  */
 public final class SpotChecks {
 
@@ -20,11 +19,13 @@ public final class SpotChecks {
     }
 
     /**
-     * One place in a queue: a candidate's position, whether it is a spot check, and the probability
+     * One place in a queue: a candidate's position, whether it is a spot check, the probability
      * with which it was picked given the places picked before it (a spot check: 1 / the candidates
-     * still free when it was drawn).
+     * still free when it was drawn), and its place m in that sequence of picks (1 first; the picks
+     * by score come first, then the spot checks in the order drawn), which an importance-weighted
+     * estimate needs alongside the probability.
      */
-    public record Entry(int candidate, boolean spotCheck, double probability) {
+    public record Entry(int candidate, boolean spotCheck, double probability, int order) {
     }
 
     /**
@@ -41,7 +42,7 @@ public final class SpotChecks {
         for (int i = 0; i < picked.size(); i++) {
             int p = picked.positions()[i];
             if (byScore.size() < size - checks && taken.add(p)) {
-                byScore.add(new Entry(p, false, picked.probabilities()[i]));
+                byScore.add(new Entry(p, false, picked.probabilities()[i], byScore.size() + 1));
             }
         }
         List<Entry> spot = new ArrayList<>();
@@ -50,7 +51,7 @@ public final class SpotChecks {
             int free = candidates - taken.size();
             int c = rng.nextInt(candidates);
             if (taken.add(c)) {
-                spot.add(new Entry(c, true, 1.0 / free));
+                spot.add(new Entry(c, true, 1.0 / free, taken.size()));
             }
         }
         // Spot checks at evenly spaced places, floor((j + 1/2) total / checks), so an early stop still leaves some.
@@ -66,24 +67,5 @@ public final class SpotChecks {
             queue.add(spotAt[i] ? spot.get(s++) : byScore.get(b++));
         }
         return queue;
-    }
-
-    /** Accuracy on spot checks with its 95% Wilson interval. */
-    public record Estimate(long correct, long checked, double accuracy, Wilson interval) {
-    }
-
-    /** From the model's predicted class at queue time and the label given, for spot-checked records only. */
-    public static Estimate accuracy(int[] predicted, int[] given) {
-        if (predicted.length != given.length) {
-            throw new IllegalArgumentException(predicted.length + " predictions for " + given.length + " labels");
-        }
-        if (given.length == 0) {
-            return new Estimate(0, 0, Double.NaN, null);
-        }
-        long correct = 0;
-        for (int i = 0; i < given.length; i++) {
-            correct += predicted[i] == given[i] ? 1 : 0;
-        }
-        return new Estimate(correct, given.length, (double) correct / given.length, Wilson.of95(correct, given.length));
     }
 }

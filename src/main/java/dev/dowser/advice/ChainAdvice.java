@@ -21,8 +21,10 @@ import java.util.Locale;
  * @param level    {@code good}, {@code note} (worth knowing, nothing wrong) or {@code act} (a setting would help)
  * @param summary  one sentence for the overview
  * @param points   the points in plain words, each with the setting it names
+ * @param rhatCeiling the R-hat above which the chains count as disagreeing, for the draws kept
+ * @param essFloor    the effective sample size below which the draws count as too few, for the draws kept
  */
-public record ChainAdvice(String level, String summary, List<Point> points) {
+public record ChainAdvice(String level, String summary, List<Point> points, double rhatCeiling, double essFloor) {
 
     public static final String GOOD = "good";
     public static final String NOTE = "note";
@@ -75,13 +77,15 @@ public record ChainAdvice(String level, String summary, List<Point> points) {
 
     /**
      * Advice from a round's health: the largest function-space R-hat and the smallest bulk and
-     * tail ESS (NaN when too few draws to judge), for the draws and chains that round kept.
+     * tail ESS (NaN when too few draws to judge), for the {@code chains} and {@code draws} that
+     * round kept; suggestions start from the settings as they are now ({@code knobs}).
      */
-    public static ChainAdvice of(double rhat, double essBulk, double essTail, Knobs knobs) {
-        int m = knobs.chains();
-        int s = knobs.draws();
+    public static ChainAdvice of(double rhat, double essBulk, double essTail, int chains, int draws, Knobs knobs) {
+        int m = chains;
+        int s = draws;
         if (!Double.isFinite(rhat) || !Double.isFinite(essBulk)) {
-            return new ChainAdvice(GOOD, "Too few draws per chain to judge the chains; nothing to do.", List.of());
+            return new ChainAdvice(GOOD, "Too few draws per chain to judge the chains; nothing to do.", List.of(),
+                    rhatCeiling(m, s), essFloor(s));
         }
         double ess = Double.isFinite(essTail) ? Math.min(essBulk, essTail) : essBulk;
         List<Point> points = new ArrayList<>();
@@ -90,7 +94,10 @@ public record ChainAdvice(String level, String summary, List<Point> points) {
         if (correlated) {
             String worth = String.format(Locale.ROOT, "The %d draws behave like about %d independent ones.", s,
                     Math.max(1, Math.round(ess)));
-            if (knobs.draws() < knobs.maxDraws()) {
+            if (knobs.draws() > draws || knobs.chains() > chains) {
+                points.add(new Point(worth + " More draws or chains have been set since; the next round uses them.",
+                        null, 0));
+            } else if (knobs.draws() < knobs.maxDraws()) {
                 int more = Math.min(knobs.maxDraws(), 2 * knobs.draws());
                 points.add(new Point(worth + " Keeping more draws each round (" + more + ") makes predictions"
                         + " and scores steadier, at the cost of a longer round.", "draws", more));
@@ -116,14 +123,14 @@ public record ChainAdvice(String level, String summary, List<Point> points) {
         }
         if (points.isEmpty()) {
             return new ChainAdvice(GOOD, "The chains agree and their draws are varied enough; nothing to do.",
-                    List.of());
+                    List.of(), rhatCeiling(m, s), essFloor(s));
         }
-        boolean act = correlated && points.get(0).setting() != null;
+        boolean act = points.stream().anyMatch(p -> p.setting() != null && correlated);
         // A note says what is so; only a point a setting can help is a call to act.
         String summary = act ? "Predictions rest on few independent draws; a setting below would help."
                 : disagree ? "The chains tell somewhat different stories, which is usual for a neural network;"
                         + " nothing needs doing." : "The draws lean on few independent ones; nothing more can be"
                         + " set to help.";
-        return new ChainAdvice(act ? ACT : NOTE, summary, points);
+        return new ChainAdvice(act ? ACT : NOTE, summary, points, rhatCeiling(m, s), essFloor(s));
     }
 }

@@ -4,19 +4,26 @@ import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.acquire.BatchBald;
 import dev.dowser.acquire.ColdStart;
 import dev.dowser.json.Json;
+import dev.dowser.sampler.SamplerConfig;
+import dev.dowser.stats.StabilisingPredictions;
 
 /**
- * A pool's picking settings, kept as JSON with the pool; a missing field takes its default.
+ * A pool's settings, kept as JSON with the pool; a missing field takes its default.
  *
- * @param batchSize       records a round picks, and labels that start the next round
- * @param spotCheckShare  share of each queue drawn at random for honest accuracy estimates
- * @param leaseMinutes    how long a person holds a record before it returns to the queue
- * @param strategy        how a round picks
+ * @param batchSize        records a round picks, and labels that start the next round
+ * @param spotCheckShare   share of each queue drawn at random for honest accuracy estimates
+ * @param leaseMinutes     how long a person holds a record before it returns to the queue
+ * @param strategy         how a round picks
  * @param doubleLabelShare share of each queue sent to two different people, to measure their agreement
- * @param coldStart       how the first batch, picked with no labels, is spread over the pool
+ * @param sampling         how many chains and draws each round keeps, and how long they warm up; null
+ *                         while the pool follows the server's sampler
+ * @param stopAgreement    the mean agreement (Cohen's kappa) of successive rounds' predictions on the
+ *                         stop set at which they count as settled
+ * @param coldStart        how the first batch, picked with no labels, is spread over the pool
  */
 public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinutes, Strategy strategy,
-                           double doubleLabelShare, ColdStart.Method coldStart) {
+                           double doubleLabelShare, Sampling sampling, double stopAgreement,
+                           ColdStart.Method coldStart) {
 
     public static final int DEFAULT_BATCH_SIZE = 10;
     public static final double DEFAULT_SPOT_CHECK_SHARE = 0.10;
@@ -25,11 +32,45 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
     /** What a new pool picks by; {@code default} names it in settings and on the command line. */
     public static final Strategy DEFAULT_STRATEGY = Strategy.BALD;
     public static final ColdStart.Method DEFAULT_COLD_START = ColdStart.Method.KMEANS_PLUS_PLUS;
+    /** Agreement below this would call predictions settled while a tenth of them still change. */
+    public static final double MIN_STOP_AGREEMENT = 0.9;
 
-    /** Settings with the default cold start. */
-    public PoolSettings(int batchSize, double spotCheckShare, int leaseMinutes, Strategy strategy,
-                        double doubleLabelShare) {
-        this(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, DEFAULT_COLD_START);
+    /**
+     * The pool's share of the sampler's settings: what an admin may change, each with its limits.
+     *
+     * @param chains        chains run side by side (each a thread while the round runs)
+     * @param draws         draws kept in all, a multiple of the chains
+     * @param reburnInSteps steps each chain takes from where the last round left it before drawing
+     */
+    public record Sampling(int chains, int draws, int reburnInSteps) {
+
+        public static final int MAX_CHAINS = 16;
+        public static final int MAX_DRAWS = 512;
+        public static final int MAX_REBURN_IN_STEPS = 10_000;
+
+        public Sampling {
+            if (chains < 1 || chains > MAX_CHAINS) {
+                throw new IllegalArgumentException("chains must be 1 to " + MAX_CHAINS + ", got " + chains);
+            }
+            if (draws < chains || draws > MAX_DRAWS || draws % chains != 0) {
+                throw new IllegalArgumentException("draws must be a multiple of the chains (" + chains + ") from "
+                        + chains + " to " + MAX_DRAWS + ", so every chain keeps as many; got " + draws);
+            }
+            if (reburnInSteps < 0 || reburnInSteps > MAX_REBURN_IN_STEPS) {
+                throw new IllegalArgumentException("re-burn-in steps must be 0 to " + MAX_REBURN_IN_STEPS + ", got "
+                        + reburnInSteps);
+            }
+        }
+
+        /** The chains, draws and re-burn-in of a sampler. */
+        public static Sampling of(SamplerConfig config) {
+            return new Sampling(config.chains().count(), config.chains().draws(), config.steps().reburnInSteps());
+        }
+
+        /** The server's sampler with this pool's chains, draws and re-burn-in. */
+        public SamplerConfig applyTo(SamplerConfig base) {
+            return base.toBuilder().chains(chains, draws).reburnInSteps(reburnInSteps).build();
+        }
     }
 
     public PoolSettings {
@@ -45,9 +86,6 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
         if (strategy == null) {
             throw new IllegalArgumentException("a strategy is required");
         }
-        if (coldStart == null) {
-            throw new IllegalArgumentException("a cold start is required: kmeans++ or typiclust");
-        }
         if (strategy == Strategy.BATCHBALD && batchSize > BatchBald.MAX_BATCH) {
             throw new IllegalArgumentException("batchbald picks at most " + BatchBald.MAX_BATCH
                     + " records a round (its joint entropy grows with the batch), got a batch size of " + batchSize
@@ -56,26 +94,72 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
         if (!(doubleLabelShare >= 0 && doubleLabelShare <= 1)) {
             throw new IllegalArgumentException("double_label_share (the share sent to two people) must lie between 0 and 1, got " + doubleLabelShare);
         }
+        if (coldStart == null) {
+            throw new IllegalArgumentException("a cold start is required: kmeans++ or typiclust");
+        }
+        if (!(stopAgreement >= MIN_STOP_AGREEMENT && stopAgreement <= 1)) {
+            throw new IllegalArgumentException("the agreement at which predictions count as settled must lie between "
+                    + MIN_STOP_AGREEMENT + " and 1, got " + stopAgreement);
+        }
+    }
+
+    /** Settings that follow the server's sampler, with the default stopping rule. */
+    public PoolSettings(int batchSize, double spotCheckShare, int leaseMinutes, Strategy strategy,
+                        double doubleLabelShare) {
+        this(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, null,
+                StabilisingPredictions.DEFAULT_THRESHOLD);
+    }
+
+    /** Settings with the default cold start. */
+    public PoolSettings(int batchSize, double spotCheckShare, int leaseMinutes, Strategy strategy,
+                        double doubleLabelShare, Sampling sampling, double stopAgreement) {
+        this(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, sampling, stopAgreement,
+                DEFAULT_COLD_START);
+    }
+
+    /** The sampler a round of this pool runs: the server's, with the pool's own sampling where it has one. */
+    public SamplerConfig sampler(SamplerConfig server) {
+        return sampling == null ? server : sampling.applyTo(server);
+    }
+
+    /** The chains, draws and re-burn-in in force: the pool's own, else the server's. */
+    public Sampling sampling(SamplerConfig server) {
+        return sampling == null ? Sampling.of(server) : sampling;
     }
 
     /** The same settings with another batch size. */
     public PoolSettings withBatchSize(int size) {
-        return new PoolSettings(size, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, coldStart);
+        return new PoolSettings(size, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, sampling,
+                stopAgreement, coldStart);
     }
 
     /** The same settings with another share of spot checks. */
     public PoolSettings withSpotCheckShare(double share) {
-        return new PoolSettings(batchSize, share, leaseMinutes, strategy, doubleLabelShare, coldStart);
-    }
-
-    /** The same settings with another strategy. */
-    public PoolSettings withStrategy(Strategy s) {
-        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, s, doubleLabelShare, coldStart);
+        return new PoolSettings(batchSize, share, leaseMinutes, strategy, doubleLabelShare, sampling, stopAgreement,
+                coldStart);
     }
 
     /** The same settings with another cold start. */
     public PoolSettings withColdStart(ColdStart.Method m) {
-        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, m);
+        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, sampling,
+                stopAgreement, m);
+    }
+
+    /** The same settings with another strategy. */
+    public PoolSettings withStrategy(Strategy s) {
+        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, s, doubleLabelShare, sampling, stopAgreement,
+                coldStart);
+    }
+
+    /** The same settings with other sampling. */
+    public PoolSettings withSampling(Sampling s) {
+        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, s, stopAgreement,
+                coldStart);
+    }
+
+    /** The stopping rule of stabilising predictions with this pool's threshold. */
+    public StabilisingPredictions stopRule() {
+        return new StabilisingPredictions(StabilisingPredictions.DEFAULT_WINDOW, stopAgreement);
     }
 
     public static PoolSettings defaults() {
@@ -86,17 +170,27 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
     public static PoolSettings parse(String json) {
         JsonNode n = Json.tree(json == null || json.isBlank() ? "{}" : json);
         PoolSettings d = defaults();
+        // The pool's own sampling is kept whole or not at all.
+        Sampling sampling = n.has("draws") ? new Sampling(n.path("chains").asInt(), n.path("draws").asInt(),
+                n.path("reburnInSteps").asInt()) : null;
         return new PoolSettings(n.path("batchSize").asInt(d.batchSize()),
                 n.path("spotCheckShare").asDouble(d.spotCheckShare()), n.path("leaseMinutes").asInt(d.leaseMinutes()),
                 n.has("strategy") ? Strategy.parse(n.get("strategy").asText()) : d.strategy(),
-                n.path("doubleLabelShare").asDouble(d.doubleLabelShare()),
+                n.path("doubleLabelShare").asDouble(d.doubleLabelShare()), sampling,
+                n.path("stopAgreement").asDouble(d.stopAgreement()),
                 n.has("coldStart") ? ColdStart.Method.parse(n.get("coldStart").asText()) : d.coldStart());
     }
 
     /** The document kept with the pool, read back by {@link #parse}. */
     public String toJson() {
-        return Json.write(Json.object().put("batchSize", batchSize).put("spotCheckShare", spotCheckShare)
+        var n = Json.object().put("batchSize", batchSize).put("spotCheckShare", spotCheckShare)
                 .put("leaseMinutes", leaseMinutes).put("strategy", strategy.word())
-                .put("doubleLabelShare", doubleLabelShare).put("coldStart", coldStart.word()));
+                .put("doubleLabelShare", doubleLabelShare).put("stopAgreement", stopAgreement)
+                .put("coldStart", coldStart.word());
+        if (sampling != null) {
+            n.put("chains", sampling.chains()).put("draws", sampling.draws())
+                    .put("reburnInSteps", sampling.reburnInSteps());
+        }
+        return Json.write(n);
     }
 }

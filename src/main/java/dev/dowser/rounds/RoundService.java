@@ -13,6 +13,7 @@ import dev.dowser.sampler.SamplingStopped;
 import dev.dowser.sampler.State;
 import dev.dowser.sampler.StopSignal;
 import dev.dowser.stats.SeedTree;
+import dev.dowser.stats.StabilisingPredictions;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.PredictionStore;
@@ -49,6 +50,8 @@ public final class RoundService {
 
     /** The root of the server's seed tree; each pool has its own branch below it (its id). */
     public static final long DEFAULT_SEED = 1;
+    /** The branch of a pool's seed node that draws its stop set, fixed for the pool's life. */
+    public static final int STOP_SET = 0;
 
     private final Database db;
     private final SamplerConfig config;
@@ -72,7 +75,7 @@ public final class RoundService {
 
     /**
      * The pool's node of the seed tree: the server's seed, then the pool's id. Round r of the pool
-     * draws from its child r.
+     * draws from its child r; rounds count from 1, so child {@link #STOP_SET} is the pool's own.
      */
     public static SeedTree seedsOf(long serverSeed, long poolId) {
         return SeedTree.of(serverSeed).child(poolId);
@@ -95,13 +98,14 @@ public final class RoundService {
         List<SavedChain> saved = db.chains().load(pool.id());
         int round = db.rounds().next(pool.id());
         SeedTree seeds = seedsOf(seed, pool.id()).child(round);
-        RoundStore.Inputs inputs = new RoundStore.Inputs(seeds.seed(), Json.write(config), settings.toJson(), lastLabel,
+        SamplerConfig sampler = settings.sampler(config);
+        RoundStore.Inputs inputs = new RoundStore.Inputs(seeds.seed(), Json.write(sampler), settings.toJson(), lastLabel,
                 saved.isEmpty() ? null : saved.get(0).round());
         db.rounds().start(pool.id(), round, labels.finalRows().length, inputs);
         events.roundStarted(poolName, round);
         Outcome outcome;
         try {
-            RoundStep.Input input = input(pool, settings, labels, saved, seeds, round, config);
+            RoundStep.Input input = input(pool, settings, labels, saved, seeds, round, sampler);
             RoundStep.Result result = RoundStep.run(input, scorer, stop);
             outcome = persist(pool, input, result, begun);
         } catch (SamplingStopped e) {
@@ -151,7 +155,27 @@ public final class RoundService {
         int[] candidates = labels.unlabelled(m.rows());
         int[] judged = labels.judgedRows();
         LabelledSet known = LabelledSet.of(m, labels.finalRows(), labels.finalClasses(), pool.classes());
-        return new RoundStep.Input(known, rows(m, candidates), rows(m, judged), chains, settings, sampler, seeds, round);
+        return new RoundStep.Input(known, rows(m, candidates), rows(m, judged), chains, stopSet(pool, m), settings,
+                sampler, seeds, round);
+    }
+
+    /**
+     * The pool's stop set (Bloodgood & Vijay-Shanker 2009): a fixed uniform sample of its records,
+     * with the class the latest round predicted for each (-1 where it predicted none).
+     */
+    private Settling.StopSet stopSet(PoolRow pool, FeatureMatrix m) {
+        long[] rows = StabilisingPredictions.stopSet(m.rows(), StabilisingPredictions.STOP_SET_RECORDS,
+                seedsOf(seed, pool.id()).child(STOP_SET).rng());
+        RoundStep.Rows stop = rows(m, Arrays.stream(rows).mapToInt(r -> (int) r).toArray());
+        int[] previous = new int[rows.length];
+        Arrays.fill(previous, -1);
+        db.predictions().latestStopSet(pool.id()).ifPresent(p -> {
+            for (int i = 0; i < rows.length; i++) {
+                int at = Arrays.binarySearch(p.rows(), rows[i]);
+                previous[i] = at >= 0 ? p.classes()[at] : -1;
+            }
+        });
+        return new Settling.StopSet(stop, previous);
     }
 
     private static RoundStep.Rows rows(FeatureMatrix m, int[] which) {
@@ -168,6 +192,11 @@ public final class RoundService {
             db.predictions().replace(pool.id(), new PredictionStore.Predictions(round, input.judged().rows(),
                     result.judgedMean(), pool.classes().size()));
             health = Json.write(draws.health());
+            Settling settling = result.settling();
+            db.predictions().replaceStopSet(pool.id(), new PredictionStore.StopSetClasses(round, settling.stopRows(),
+                    settling.stopClasses()));
+            db.rounds().settled(pool.id(), round, new RoundStore.Settled(settling.candidates(),
+                    settling.agreement(), settling.compared(), settling.information(), settling.informationTop()));
         }
         List<QueueEntry> entries = carryOver(db.queues().awaitingSecondLabel(pool.id()), round, entries(result));
         db.records().warm(pool.id(), entries.stream().mapToLong(QueueEntry::row).toArray());
@@ -181,14 +210,15 @@ public final class RoundService {
         for (RoundStep.Pick p : result.queue()) {
             String belief = p.mean() == null ? null : QueuedBelief.write(p.mean(), p.sd());
             out.add(new QueueEntry(result.round(), out.size(), p.row(), p.score(), p.spotCheck(), belief, null, null,
-                    p.copies(), p.probability()));
+                    p.copies(), p.probability(), p.order()));
         }
         return out;
     }
 
     /**
      * The new queue: records still waiting for their second label first (they are work in
-     * progress, picked by an earlier round), then this round's picks, numbered in that order.
+     * progress, picked by an earlier round, whose entry keeps their place among its picks), then
+     * this round's picks, numbered in that order.
      */
     static List<QueueEntry> carryOver(List<QueueEntry> waiting, int round, List<QueueEntry> picked) {
         List<QueueEntry> in = new ArrayList<>(waiting);
@@ -196,7 +226,7 @@ public final class RoundService {
         List<QueueEntry> out = new ArrayList<>(in.size());
         for (QueueEntry e : in) {
             out.add(new QueueEntry(round, out.size(), e.row(), e.score(), e.spotCheck(), e.predictionJson(), null, null,
-                    e.copies(), e.pickProbability()));
+                    e.copies(), e.pickProbability(), e.round() == round ? e.pickOrder() : null));
         }
         return out;
     }

@@ -66,13 +66,15 @@ public final class RoundStep {
      * @param judged     the records anyone has labelled, resolved or not, whose predictions the
      *                   round reports (the review page compares them with people's labels)
      * @param chains     where each chain stopped in the round before, or null to start them afresh
+     * @param stopSet    the pool's fixed stop set, with the round before's predictions for it
      * @param settings   the pool's picking settings
      * @param sampler    how the posterior is sampled
      * @param seeds      this round's node of the seed tree
      * @param round      the round's number (1 for a pool's first)
      */
-    public record Input(LabelledSet labelled, Rows candidates, Rows judged, List<State> chains, PoolSettings settings,
-                        SamplerConfig sampler, SeedTree seeds, int round) {
+    public record Input(LabelledSet labelled, Rows candidates, Rows judged, List<State> chains,
+                        Settling.StopSet stopSet, PoolSettings settings, SamplerConfig sampler, SeedTree seeds,
+                        int round) {
 
         public Input {
             if (labelled.cols() != candidates.cols()) {
@@ -96,12 +98,14 @@ public final class RoundStep {
      * @param probability the probability with which it was picked, given the places picked before
      *                    it: Plackett-Luce for power sampling, 1 / (candidates left) for random
      *                    picks and spot checks, 1 for greedy strategies and the cold start
+     * @param order       its place in the round's sequence of picks, 1 first (the picks by score,
+     *                    then the spot checks): with {@code probability}, what importance weighting needs
      * @param copies      how many different people label it (2 to measure their agreement)
      * @param mean        the serving model's mean class probabilities (null in a cold start)
      * @param sd          their spread across the draws (null in a cold start)
      */
-    public record Pick(long row, int candidate, double score, boolean spotCheck, double probability, int copies,
-                       float[] mean, float[] sd) {
+    public record Pick(long row, int candidate, double score, boolean spotCheck, double probability, int order,
+                       int copies, float[] mean, float[] sd) {
     }
 
     /**
@@ -112,9 +116,10 @@ public final class RoundStep {
      * @param kernel       the kernel's word, or {@code none} in a cold start
      * @param why          why this kernel (or the cold start), in words for the person who runs the pool
      * @param judgedMean   the posterior predictive of each judged record (rows x classes); empty in a cold start
+     * @param settling     the stop set's predictions and the information left in the pool; null in a cold start
      */
     public record Result(int round, List<Pick> queue, RoundDraws draws, String kernel, String why,
-                         float[] judgedMean) {
+                         float[] judgedMean, Settling settling) {
 
         public Result {
             queue = List.copyOf(queue);
@@ -140,12 +145,12 @@ public final class RoundStep {
             List<SpotChecks.Entry> mixed = SpotChecks.mix(picks, cand.count(), b, settings.spotCheckShare(), spotRng);
             List<Pick> queue = new ArrayList<>();
             for (SpotChecks.Entry e : mixed) {
-                queue.add(new Pick(cand.rows()[e.candidate()], e.candidate(), 0, e.spotCheck(), e.probability(), 1,
-                        null, null));
+                queue.add(new Pick(cand.rows()[e.candidate()], e.candidate(), 0, e.spotCheck(), e.probability(),
+                        e.order(), 1, null, null));
             }
             return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), null, NO_KERNEL,
                     "no labels yet: the first batch is spread over the pool by " + settings.coldStart().word(),
-                    new float[0]);
+                    new float[0], null);
         }
         LabelledSet known = in.labelled();
         int classes = known.classes().size();
@@ -163,13 +168,14 @@ public final class RoundStep {
         for (int i = 0; i < mixed.size(); i++) {
             SpotChecks.Entry e = mixed.get(i);
             queue.add(new Pick(cand.rows()[e.candidate()], e.candidate(), scores.bald()[e.candidate()], e.spotCheck(),
-                    e.probability(), 1, Arrays.copyOfRange(belief.mean(), i * classes, (i + 1) * classes),
+                    e.probability(), e.order(), 1, Arrays.copyOfRange(belief.mean(), i * classes, (i + 1) * classes),
                     Arrays.copyOfRange(belief.sd(), i * classes, (i + 1) * classes)));
         }
         float[] judgedMean = Predictive.meanProbabilities(draws.layout(), draws.draws(), in.judged().x(),
                 in.judged().count());
+        Settling settling = Settling.of(draws, in.stopSet(), cand, scores.bald(), b, classes);
         return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), draws,
-                draws.choice().kernel().word(), draws.choice().why(), judgedMean);
+                draws.choice().kernel().word(), draws.choice().why(), judgedMean, settling);
     }
 
     /**
@@ -181,8 +187,8 @@ public final class RoundStep {
         List<Pick> out = new ArrayList<>(queue.size());
         for (int i = 0; i < queue.size(); i++) {
             Pick p = queue.get(i);
-            out.add(twice[i] ? new Pick(p.row(), p.candidate(), p.score(), p.spotCheck(), p.probability(), 2,
-                    p.mean(), p.sd()) : p);
+            out.add(twice[i] ? new Pick(p.row(), p.candidate(), p.score(), p.spotCheck(), p.probability(), p.order(),
+                    2, p.mean(), p.sd()) : p);
         }
         return out;
     }

@@ -9,6 +9,7 @@ import java.util.concurrent.ConcurrentHashMap;
 public final class RoundWorkers implements AutoCloseable {
 
     private final Database db;
+    private final SamplerConfig config;
     private final RoundService service;
     private final PoolScorer scorer;
     private final ConcurrentHashMap<String, RoundWorker> workers = new ConcurrentHashMap<>();
@@ -19,8 +20,14 @@ public final class RoundWorkers implements AutoCloseable {
 
     public RoundWorkers(Database db, SamplerConfig config, RoundEvents events) {
         this.db = db;
+        this.config = config;
         this.scorer = PoolScorer.withAllCores();
         this.service = new RoundService(db, config, RoundService.DEFAULT_SEED, scorer, events);
+    }
+
+    /** The server's sampler: what a pool's rounds run unless its settings have their own sampling. */
+    public SamplerConfig sampler() {
+        return config;
     }
 
     /**

@@ -1,8 +1,11 @@
 package dev.dowser.simulate;
 
 import dev.dowser.acquire.PoolScorer;
+import dev.dowser.advice.AccuracyReport;
 import dev.dowser.rounds.PoolSettings;
+import dev.dowser.rounds.RoundService;
 import dev.dowser.rounds.RoundStep;
+import dev.dowser.rounds.Settling;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.LabelledSet;
@@ -11,8 +14,10 @@ import dev.dowser.sampler.RoundDraws;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.sampler.State;
 import dev.dowser.sampler.StopSignal;
+import dev.dowser.stats.AccuracyEstimate;
 import dev.dowser.stats.Metrics;
 import dev.dowser.stats.SeedTree;
+import dev.dowser.stats.StabilisingPredictions;
 import dev.dowser.stats.Splits;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -32,9 +37,19 @@ public final class Simulation {
     static final int SPLIT = 0;
     static final int LOOP = 1;
 
-    /** One point of a learning curve: the model trained on {@code labels} labels, scored on the test split. */
+    /**
+     * One point of a learning curve: the model trained on {@code labels} labels, scored on the test
+     * split, and what the app would have said of it: the agreement of its stop-set predictions
+     * with the round before's, whether the stopping rule said stop ({@code settled}), and the
+     * accuracy the labels of its window's picks estimate ({@code estimate}; null for the last
+     * round, whose picks are never labelled).
+     */
     public record Point(Strategy strategy, int seed, int labels, double accuracy, double nll, double ece,
-                        double seconds) {
+                        double seconds, double agreement, boolean settled, AccuracyEstimate estimate) {
+
+        public Point(Strategy strategy, int seed, int labels, double accuracy, double nll, double ece, double seconds) {
+            this(strategy, seed, labels, accuracy, nll, ece, seconds, Double.NaN, false, null);
+        }
     }
 
     /**
@@ -113,19 +128,35 @@ public final class Simulation {
         List<Point> curve = new ArrayList<>();
         long begun = System.nanoTime();
         Labeller run = new Labeller(train, plan.settings().withStrategy(strategy), plan.sampler(), seeds);
+        StabilisingPredictions rule = plan.settings().stopRule();
+        List<AccuracyReport.Round> rounds = new ArrayList<>();
+        List<AccuracyReport.Scored> scored = new ArrayList<>();
         while (true) {
             int labels = run.labelled();
             int batch = labels == 0 ? plan.seedLabels() : Math.min(plan.settings().batchSize(), plan.budget() - labels);
             RoundStep.Result r = run.round(Math.max(1, batch), scorer);
             tick.accept(1);
+            boolean last = labels >= plan.budget() || r.queue().isEmpty();
             if (!r.cold()) {
                 RoundDraws draws = r.draws();
                 float[] p = Predictive.meanProbabilities(draws.layout(), draws.draws(), test.x(), test.rows());
+                rounds.add(new AccuracyReport.Round(r.round(), labels, r.settling().candidates(),
+                        r.settling().agreement()));
+                if (!last) {
+                    // Every queued record is labelled next, as the desk would: scored against the round's prediction.
+                    for (RoundStep.Pick pick : r.queue()) {
+                        boolean right = Metrics.argmax(pick.mean(), 0, classes) == train.labels()[(int) pick.row()];
+                        scored.add(new AccuracyReport.Scored(r.round(), pick.order(), pick.probability(),
+                                pick.spotCheck(), right));
+                    }
+                }
+                AccuracyReport report = AccuracyReport.of(rounds, scored, labels, rule);
                 curve.add(new Point(strategy, seed, labels, Metrics.accuracy(p, test.labels(), classes),
                         Metrics.nll(p, test.labels(), classes), Metrics.ece(p, test.labels(), classes),
-                        (System.nanoTime() - begun) / 1e9));
+                        (System.nanoTime() - begun) / 1e9, r.settling().agreement(), rule.stable(report.agreements()),
+                        last ? null : report.picked()));
             }
-            if (labels >= plan.budget() || r.queue().isEmpty()) {
+            if (last) {
                 return curve;
             }
             run.reveal(r);
@@ -144,21 +175,28 @@ public final class Simulation {
         private final SamplerConfig sampler;
         private final SeedTree seeds;
         private final boolean[] labelled;
+        private Settling.StopSet stopSet;
         private List<State> chains;
         private int round;
         private int count;
 
         /**
          * @param pool     every record with the label a person would give it, in pool order
-         * @param settings the pool's settings
+         * @param settings the pool's settings (their chains, draws and re-burn-in apply to the sampler)
          * @param seeds    the pool's node of the seed tree: round r draws from its child r
          */
         public Labeller(LabelledSet pool, PoolSettings settings, SamplerConfig sampler, SeedTree seeds) {
             this.pool = pool;
             this.settings = settings;
-            this.sampler = sampler;
+            this.sampler = settings.sampler(sampler);
             this.seeds = seeds;
             this.labelled = new boolean[pool.rows()];
+            // The pool's stop set, fixed for the run, from the branch rounds never use (they count from 1).
+            long[] stop = StabilisingPredictions.stopSet(pool.rows(), StabilisingPredictions.STOP_SET_RECORDS,
+                    seeds.child(RoundService.STOP_SET).rng());
+            int[] at = Arrays.stream(stop).mapToInt(r -> (int) r).toArray();
+            this.stopSet = Settling.StopSet.fresh(new RoundStep.Rows(FeatureMatrix.gather(pool.x(), pool.cols(), at),
+                    stop, pool.cols()));
         }
 
         /** Labels revealed so far. */
@@ -183,11 +221,12 @@ public final class Simulation {
             RoundStep.Rows cand = new RoundStep.Rows(FeatureMatrix.gather(pool.x(), pool.cols(), candidates),
                     Arrays.stream(candidates).asLongStream().toArray(), pool.cols());
             RoundStep.Rows none = new RoundStep.Rows(new float[0], new long[0], pool.cols());
-            RoundStep.Input in = new RoundStep.Input(pool.subset(known), cand, none, chains,
+            RoundStep.Input in = new RoundStep.Input(pool.subset(known), cand, none, chains, stopSet,
                     settings.withBatchSize(batch), sampler, seeds.child(round), round);
             RoundStep.Result r = RoundStep.run(in, scorer, StopSignal.never());
             if (!r.cold()) {
                 chains = r.draws().lastStates();
+                stopSet = stopSet.after(r.settling());
             }
             return r;
         }

@@ -1,6 +1,7 @@
 package dev.dowser.simulate;
 
 import dev.dowser.rounds.Strategy;
+import dev.dowser.stats.AccuracyEstimate;
 import dev.dowser.stats.Bootstrap;
 import java.io.IOException;
 import java.io.PrintWriter;
@@ -31,10 +32,14 @@ public final class SimulationReport {
             throws IOException {
         Files.createDirectories(dir);
         try (Writer w = Files.newBufferedWriter(dir.resolve(CSV))) {
-            w.write("strategy,seed,labels,accuracy,nll,ece,seconds\n");
+            w.write("strategy,seed,labels,accuracy,nll,ece,seconds,agreement,settled,estimate,estimate_lower,"
+                    + "estimate_upper\n");
             for (Simulation.Point p : points) {
-                w.write(String.format(Locale.ROOT, "%s,%d,%d,%.5f,%.5f,%.5f,%.3f%n", p.strategy().word(), p.seed(),
-                        p.labels(), p.accuracy(), p.nll(), p.ece(), p.seconds()));
+                AccuracyEstimate e = p.estimate() != null && p.estimate().known() ? p.estimate() : null;
+                w.write(String.format(Locale.ROOT, "%s,%d,%d,%.5f,%.5f,%.5f,%.3f,%s,%b,%s,%s,%s%n", p.strategy().word(),
+                        p.seed(), p.labels(), p.accuracy(), p.nll(), p.ece(), p.seconds(), cell(p.agreement()),
+                        p.settled(), e == null ? "" : cell(e.accuracy()), e == null ? "" : cell(e.lower()),
+                        e == null ? "" : cell(e.upper())));
             }
         }
         CurvePlot.Figure figure = new CurvePlot.Figure(title + ": test accuracy, median of " + plan.seeds()
@@ -101,7 +106,13 @@ public final class SimulationReport {
                 out.printf(Locale.ROOT, "nll_at_%d_%s=%.4f (%.4f..%.4f)%n", n, s.word(), l.mean(), l.q25(), l.q75());
             }
         }
+        StopSummary.print(out, StopSummary.seeds(points, plan.strategies(), plan.seeds()), plan.strategies());
         out.flush();
+    }
+
+    /** A number for the CSV: empty when there is none. */
+    private static String cell(double v) {
+        return Double.isNaN(v) ? "" : String.format(Locale.ROOT, "%.5f", v);
     }
 
     private static String count(int labels) {

@@ -50,17 +50,4 @@ public final class Lure {
         }
         return s / losses.length;
     }
-
-    /**
-     * How many equally weighted picks the weighted ones are worth for a 0-1 loss: M^2 / sum v_m^2,
-     * since with losses independent of the weights Var(R_LURE) = p (1 - p) sum v_m^2 / M^2 (Kish's
-     * 1965 effective sample size, for this unnormalised mean). Equals M when every v_m = 1.
-     */
-    public static double effectivePicks(double[] v) {
-        double s2 = 0;
-        for (double w : v) {
-            s2 += w * w;
-        }
-        return s2 == 0 ? 0 : (double) v.length * v.length / s2;
-    }
 }

@@ -1,6 +1,10 @@
 package dev.dowser.stats;
 
+import java.util.Arrays;
+import java.util.HashSet;
 import java.util.List;
+import java.util.Set;
+import java.util.SplittableRandom;
 
 /**
  * The stopping rule of stabilising predictions (Bloodgood & Vijay-Shanker 2009, "A Method for
@@ -31,6 +35,24 @@ public record StabilisingPredictions(int window, double threshold) {
 
     public static StabilisingPredictions defaults() {
         return new StabilisingPredictions(DEFAULT_WINDOW, DEFAULT_THRESHOLD);
+    }
+
+    /**
+     * The stop set of a pool of {@code records}: {@code min(size, records)} distinct rows drawn
+     * uniformly, in ascending order. Floyd's algorithm (Bentley & Floyd 1987, "A sample of
+     * brilliance", CACM 30(9)): for j = n - k .. n - 1 draw t in [0, j]; take t unless taken, else j.
+     * The same generator state gives the same set, so a pool's stop set never changes.
+     */
+    public static long[] stopSet(long records, int size, SplittableRandom rng) {
+        int k = (int) Math.min(size, records);
+        Set<Long> chosen = new HashSet<>(2 * k);
+        for (long j = records - k; j < records; j++) {
+            long t = rng.nextLong(j + 1);
+            chosen.add(chosen.contains(t) ? j : t);
+        }
+        long[] rows = chosen.stream().mapToLong(Long::longValue).toArray();
+        Arrays.sort(rows);
+        return rows;
     }
 
     /**

@@ -42,6 +42,16 @@ public final class PredictionStore {
         }
     }
 
+    /** A round's predicted class for each record of the pool's stop set ({@code rows} ascending). */
+    public record StopSetClasses(int round, long[] rows, int[] classes) {
+
+        public StopSetClasses {
+            if (rows.length != classes.length) {
+                throw new IllegalArgumentException(rows.length + " stop-set rows with " + classes.length + " classes");
+            }
+        }
+    }
+
     private final DataSource ds;
 
     PredictionStore(DataSource ds) {
@@ -88,6 +98,49 @@ public final class PredictionStore {
             }
         } catch (SQLException e) {
             throw new StoreException("cannot read the predictions of pool " + poolId + ": " + e.getMessage(), e);
+        }
+    }
+
+    /** Replaces the pool's stop-set predictions with those of round {@code p.round()}. */
+    public void replaceStopSet(long poolId, StopSetClasses p) {
+        ByteBuffer rows = ByteBuffer.allocate(p.rows().length * Long.BYTES).order(ByteOrder.LITTLE_ENDIAN);
+        rows.asLongBuffer().put(p.rows());
+        ByteBuffer classes = ByteBuffer.allocate(p.classes().length * Integer.BYTES).order(ByteOrder.LITTLE_ENDIAN);
+        classes.asIntBuffer().put(p.classes());
+        try (Connection c = ds.getConnection();
+             PreparedStatement m = c.prepareStatement("MERGE INTO stop_set_predictions (pool_id, round_no, row_nos,"
+                     + " classes) KEY (pool_id) VALUES (?, ?, ?, ?)")) {
+            m.setLong(1, poolId);
+            m.setInt(2, p.round());
+            m.setBytes(3, rows.array());
+            m.setBytes(4, classes.array());
+            m.executeUpdate();
+        } catch (SQLException e) {
+            throw new StoreException("cannot store the stop-set predictions of round " + p.round() + ": "
+                    + e.getMessage(), e);
+        }
+    }
+
+    /** The latest round's stop-set predictions, if a round has made any. */
+    public Optional<StopSetClasses> latestStopSet(long poolId) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT round_no, row_nos, classes FROM stop_set_predictions"
+                     + " WHERE pool_id = ?")) {
+            q.setLong(1, poolId);
+            try (ResultSet rs = q.executeQuery()) {
+                if (!rs.next()) {
+                    return Optional.empty();
+                }
+                ByteBuffer rowBytes = ByteBuffer.wrap(rs.getBytes(2)).order(ByteOrder.LITTLE_ENDIAN);
+                long[] rows = new long[rowBytes.remaining() / Long.BYTES];
+                rowBytes.asLongBuffer().get(rows);
+                ByteBuffer classBytes = ByteBuffer.wrap(rs.getBytes(3)).order(ByteOrder.LITTLE_ENDIAN);
+                int[] classes = new int[classBytes.remaining() / Integer.BYTES];
+                classBytes.asIntBuffer().get(classes);
+                return Optional.of(new StopSetClasses(rs.getInt(1), rows, classes));
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the stop-set predictions of pool " + poolId + ": " + e.getMessage(), e);
         }
     }
 }

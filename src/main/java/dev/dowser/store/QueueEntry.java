@@ -4,12 +4,14 @@ import java.time.Instant;
 
 /**
  * One place in a served queue: the record, why it was picked, who holds it until when, how many
- * different people must label it ({@code copies}: 1, or 2 when agreement is measured on it), and
- * the probability with which it was picked given the places picked before it
- * ({@code pickProbability}; null for queues written before it was kept).
+ * different people must label it ({@code copies}: 1, or 2 when agreement is measured on it), the
+ * probability with which it was picked given the places picked before it
+ * ({@code pickProbability}; null for queues written before it was kept), and its place in its
+ * round's sequence of picks ({@code pickOrder}, 1 first; null when carried over from an earlier
+ * round, whose own entry keeps its place, and for queues written before it was kept).
  */
 public record QueueEntry(int round, int position, long row, double score, boolean spotCheck, String predictionJson,
-                         String leasedTo, Instant leaseUntil, int copies, Double pickProbability) {
+                         String leasedTo, Instant leaseUntil, int copies, Double pickProbability, Integer pickOrder) {
 
     public QueueEntry {
         if (copies < 1 || copies > 2) {
@@ -18,21 +20,31 @@ public record QueueEntry(int round, int position, long row, double score, boolea
         if (pickProbability != null && !(pickProbability > 0 && pickProbability <= 1)) {
             throw new IllegalArgumentException("a pick's probability lies in (0, 1], not " + pickProbability);
         }
+        if (pickOrder != null && pickOrder < 1) {
+            throw new IllegalArgumentException("a pick's place in its round counts from 1, not " + pickOrder);
+        }
+    }
+
+    /** An entry read back where its place among its round's picks is not needed. */
+    public QueueEntry(int round, int position, long row, double score, boolean spotCheck, String predictionJson,
+                      String leasedTo, Instant leaseUntil, int copies, Double pickProbability) {
+        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, copies, pickProbability,
+                null);
     }
 
     public QueueEntry(int round, int position, long row, double score, boolean spotCheck, String predictionJson,
                       String leasedTo, Instant leaseUntil, int copies) {
-        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, copies, null);
+        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, copies, null, null);
     }
 
     /** An entry that one person labels. */
     public QueueEntry(int round, int position, long row, double score, boolean spotCheck, String predictionJson,
                       String leasedTo, Instant leaseUntil) {
-        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, 1, null);
+        this(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, 1, null, null);
     }
 
     public QueueEntry withCopies(int n) {
         return new QueueEntry(round, position, row, score, spotCheck, predictionJson, leasedTo, leaseUntil, n,
-                pickProbability);
+                pickProbability, pickOrder);
     }
 }

@@ -62,8 +62,8 @@ public final class QueueStore {
         try {
             Transactions.run(ds, c -> {
                 try (PreparedStatement ins = c.prepareStatement("INSERT INTO queue_entries (pool_id, round_no, position,"
-                        + " row_no, score, spot_check, prediction, copies, pick_probability)"
-                        + " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)");
+                        + " row_no, score, spot_check, prediction, copies, pick_probability, pick_order)"
+                        + " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)");
                      PreparedStatement del = c.prepareStatement("DELETE FROM served_queues WHERE pool_id = ?");
                      PreparedStatement serve = c.prepareStatement(
                              "INSERT INTO served_queues (pool_id, round_no) VALUES (?, ?)")) {
@@ -80,6 +80,11 @@ public final class QueueStore {
                             ins.setNull(9, java.sql.Types.DOUBLE);
                         } else {
                             ins.setDouble(9, e.pickProbability());
+                        }
+                        if (e.pickOrder() == null) {
+                            ins.setNull(10, java.sql.Types.INTEGER);
+                        } else {
+                            ins.setInt(10, e.pickOrder());
                         }
                         ins.addBatch();
                     }
@@ -280,6 +285,36 @@ public final class QueueStore {
             }
         } catch (SQLException e) {
             throw new StoreException("cannot read the spot checks of pool " + poolId + ": " + e.getMessage(), e);
+        }
+        return out;
+    }
+
+    /**
+     * One record as its round picked it: its place and probability in the round's sequence of
+     * picks, whether it was a spot check, and the serving model's belief when it was queued.
+     */
+    public record Picked(int round, int order, long row, boolean spotCheck, Double probability, String predictionJson) {
+    }
+
+    /**
+     * Every record a round picked itself (not those carried over), oldest round first and in pick
+     * order within a round: what the accuracy estimates weigh the labels by.
+     */
+    public List<Picked> picks(long poolId) {
+        List<Picked> out = new ArrayList<>();
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT round_no, pick_order, row_no, spot_check,"
+                     + " pick_probability, prediction FROM queue_entries WHERE pool_id = ? AND pick_order IS NOT NULL"
+                     + " ORDER BY round_no, pick_order")) {
+            q.setLong(1, poolId);
+            try (ResultSet rs = q.executeQuery()) {
+                while (rs.next()) {
+                    out.add(new Picked(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getBoolean(4), probability(rs, 5),
+                            rs.getString(6)));
+                }
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the picks of pool " + poolId + ": " + e.getMessage(), e);
         }
         return out;
     }

@@ -15,7 +15,7 @@ public final class RoundStore {
 
     /** One round as stored. */
     public record RoundRow(int round, String status, java.time.Instant startedAt, java.time.Instant finishedAt,
-                           long labelsAtStart, String kernel, String message, String healthJson) {
+                           long labelsAtStart, String kernel, String message, String healthJson, String samplerJson) {
     }
 
     /**
@@ -130,19 +130,82 @@ public final class RoundStore {
         }
     }
 
+    /**
+     * What a round told about whether more labels pay (see {@code Settling} in the rounds).
+     *
+     * @param candidates     the unlabelled records it picked from
+     * @param agreement      Cohen's kappa of its stop-set predictions with the round before's (NaN: nothing to compare)
+     * @param compared       the stop-set records compared
+     * @param information    BALD summed over every candidate (nats)
+     * @param informationTop BALD summed over the batch's best candidates (nats)
+     */
+    public record Settled(long candidates, double agreement, int compared, double information, double informationTop) {
+    }
+
+    /** A published round with a model, as the accuracy and stopping advice read it. */
+    public record Evidence(int round, long labelsAtStart, Settled settled, String samplerJson, String healthJson) {
+    }
+
+    /** Keeps what round {@code round} told about whether more labels pay. */
+    public void settled(long poolId, int round, Settled s) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement u = c.prepareStatement("UPDATE rounds SET candidates = ?, agreement = ?,"
+                     + " agreement_records = ?, information = ?, information_top = ? WHERE pool_id = ? AND round_no = ?")) {
+            u.setLong(1, s.candidates());
+            if (Double.isNaN(s.agreement())) {
+                u.setNull(2, java.sql.Types.DOUBLE);
+            } else {
+                u.setDouble(2, s.agreement());
+            }
+            u.setInt(3, s.compared());
+            u.setDouble(4, s.information());
+            u.setDouble(5, s.informationTop());
+            u.setLong(6, poolId);
+            u.setInt(7, round);
+            u.executeUpdate();
+        } catch (SQLException e) {
+            throw new StoreException("cannot record what round " + round + " told: " + e.getMessage(), e);
+        }
+    }
+
+    /** The pool's published rounds that had a model and kept what they told, oldest first. */
+    public List<Evidence> evidence(long poolId) {
+        List<Evidence> out = new ArrayList<>();
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT round_no, labels_at_start, candidates, agreement,"
+                     + " agreement_records, information, information_top, sampler, health FROM rounds"
+                     + " WHERE pool_id = ? AND status = 'published' AND candidates IS NOT NULL ORDER BY round_no")) {
+            q.setLong(1, poolId);
+            try (ResultSet rs = q.executeQuery()) {
+                while (rs.next()) {
+                    double agreement = rs.getDouble(4);
+                    if (rs.wasNull()) {
+                        agreement = Double.NaN;
+                    }
+                    out.add(new Evidence(rs.getInt(1), rs.getLong(2), new Settled(rs.getLong(3), agreement, rs.getInt(5),
+                            rs.getDouble(6), rs.getDouble(7)), rs.getString(8), rs.getString(9)));
+                }
+            }
+        } catch (SQLException e) {
+            throw new StoreException("cannot read the rounds of pool " + poolId + ": " + e.getMessage(), e);
+        }
+        return out;
+    }
+
     /** The pool's rounds, newest first. */
     public List<RoundRow> list(long poolId) {
         List<RoundRow> out = new ArrayList<>();
         try (Connection c = ds.getConnection();
              PreparedStatement q = c.prepareStatement("SELECT round_no, status, started_at, finished_at,"
-                     + " labels_at_start, kernel, message, health FROM rounds WHERE pool_id = ? ORDER BY round_no DESC")) {
+                     + " labels_at_start, kernel, message, health, sampler FROM rounds WHERE pool_id = ?"
+                     + " ORDER BY round_no DESC")) {
             q.setLong(1, poolId);
             try (ResultSet rs = q.executeQuery()) {
                 while (rs.next()) {
                     Timestamp done = rs.getTimestamp(4);
                     out.add(new RoundRow(rs.getInt(1), rs.getString(2), rs.getTimestamp(3).toInstant(),
                             done == null ? null : done.toInstant(), rs.getLong(5), rs.getString(6), rs.getString(7),
-                            rs.getString(8)));
+                            rs.getString(8), rs.getString(9)));
                 }
             }
         } catch (SQLException e) {

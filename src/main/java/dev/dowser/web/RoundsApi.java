@@ -12,7 +12,6 @@ import dev.dowser.desk.QueuePlace;
 import dev.dowser.json.Json;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.RoundWorkers;
-import dev.dowser.rounds.SpotCheckAccuracy;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.store.Database;
 import dev.dowser.store.HistoryStore;
@@ -26,11 +25,11 @@ import java.util.Iterator;
 import java.util.List;
 import java.util.Map;
 
-/** What the overview shows of a pool's rounds: their list and health, the served queue, spot-check accuracy, settings. */
+/** What the overview shows of a pool's rounds: their list and chain health, the served queue, settings. */
 final class RoundsApi {
 
     static final List<String> SETTINGS = List.of("batch_size", "spot_check_share", "lease_minutes", "strategy",
-            "double_label_share");
+            "double_label_share", "chains", "draws", "reburn_in_steps", "stop_agreement");
 
     /** Most rounds in one answer; older ones are paged. */
     static final int MAX_ROUNDS_PAGE = 200;
@@ -48,6 +47,7 @@ final class RoundsApi {
     /** The rounds, newest first, {@code limit} from {@code offset}, with how many there are. */
     void list(HttpServerExchange ex) {
         PoolRow pool = db.pools().require(param(ex, "pool"));
+        PoolSettings settings = PoolSettings.parse(pool.settingsJson());
         int offset = (int) Requests.longQuery(ex, "offset", 0);
         int limit = (int) Requests.longQuery(ex, "limit", MAX_ROUNDS_PAGE);
         if (offset < 0 || limit < 1 || limit > MAX_ROUNDS_PAGE) {
@@ -64,6 +64,8 @@ final class RoundsApi {
             }
             if (r.healthJson() != null) {
                 n.set("health", Json.tree(r.healthJson()));
+                AdviceApi.chains(n.putObject("advice"), r.healthJson(), r.samplerJson(),
+                        settings.sampling(rounds.sampler()));
             }
         }
         ObjectNode body = Json.object().put("total", all.size()).put("offset", offset).put("limit", limit);
@@ -102,25 +104,6 @@ final class RoundsApi {
         Responses.ok(ex, body);
     }
 
-    void accuracy(HttpServerExchange ex) {
-        SpotCheckAccuracy.Report report = SpotCheckAccuracy.of(db, db.pools().require(param(ex, "pool")));
-        ArrayNode points = Json.array();
-        for (SpotCheckAccuracy.Point p : report.points()) {
-            points.addObject().put("labels", p.labels()).put("checked", p.checked()).put("correct", p.correct())
-                    .put("accuracy", p.accuracy()).put("lower", p.lower()).put("upper", p.upper());
-        }
-        ObjectNode body = Json.object();
-        body.set("points", points);
-        SpotCheckAccuracy.Point last = report.last();
-        if (last != null) {
-            body.put("checked", last.checked()).put("accuracy", last.accuracy()).put("lower", last.lower())
-                    .put("upper", last.upper()).put("ece", report.ece());
-        } else {
-            body.put("checked", 0);
-        }
-        Responses.ok(ex, body);
-    }
-
     void settings(HttpServerExchange ex) {
         Responses.ok(ex, settingsJson(PoolSettings.parse(db.pools().require(param(ex, "pool")).settingsJson())));
     }
@@ -137,11 +120,17 @@ final class RoundsApi {
             }
         }
         PoolSettings now = PoolSettings.parse(pool.settingsJson());
+        PoolSettings.Sampling sampling = now.sampling(rounds.sampler());
+        boolean ownSampling = body.has("chains") || body.has("draws") || body.has("reburn_in_steps");
         PoolSettings next = new PoolSettings(Requests.optionalInt(body, "batch_size", now.batchSize()),
                 Requests.optionalNumber(body, "spot_check_share", now.spotCheckShare()),
                 Requests.optionalInt(body, "lease_minutes", now.leaseMinutes()),
                 body.has("strategy") ? Strategy.parse(body.get("strategy").asText()) : now.strategy(),
-                Requests.optionalNumber(body, "double_label_share", now.doubleLabelShare()));
+                Requests.optionalNumber(body, "double_label_share", now.doubleLabelShare()),
+                ownSampling ? new PoolSettings.Sampling(Requests.optionalInt(body, "chains", sampling.chains()),
+                        Requests.optionalInt(body, "draws", sampling.draws()),
+                        Requests.optionalInt(body, "reburn_in_steps", sampling.reburnInSteps())) : now.sampling(),
+                Requests.optionalNumber(body, "stop_agreement", now.stopAgreement()));
         Responses.ok(ex, settingsJson(rounds.changeSettings(pool.name(), next, Gate.caller(ex, true).name())));
     }
 
@@ -157,9 +146,13 @@ final class RoundsApi {
         Responses.ok(ex, Json.object().set("changes", changes));
     }
 
-    private static ObjectNode settingsJson(PoolSettings s) {
+    /** The settings as the API names them; chains, draws and re-burn-in as in force (the pool's own or the server's). */
+    private ObjectNode settingsJson(PoolSettings s) {
+        PoolSettings.Sampling sampling = s.sampling(rounds.sampler());
         return Json.object().put("batch_size", s.batchSize()).put("spot_check_share", s.spotCheckShare())
                 .put("lease_minutes", s.leaseMinutes()).put("strategy", s.strategy().word())
-                .put("double_label_share", s.doubleLabelShare());
+                .put("double_label_share", s.doubleLabelShare()).put("chains", sampling.chains())
+                .put("draws", sampling.draws()).put("reburn_in_steps", sampling.reburnInSteps())
+                .put("stop_agreement", s.stopAgreement());
     }
 }

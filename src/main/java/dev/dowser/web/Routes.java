@@ -31,8 +31,8 @@ final class Routes {
     private final List<Route> api;
     private final List<Route> pages;
 
-    Routes(TeamApi team, PoolsApi pools, ImportsApi imports, DeskApi desk, RoundsApi rounds, ReviewApi review,
-           HttpHandler events, HttpHandler files) {
+    Routes(TeamApi team, PoolsApi pools, ImportsApi imports, DeskApi desk, RoundsApi rounds, AdviceApi advice,
+           ReviewApi review, HttpHandler events, HttpHandler files) {
         // Paths relative to API_PREFIX.
         this.api = List.of(
                 call("POST", "/session", PUBLIC, team::login),
@@ -61,7 +61,8 @@ final class Routes {
                 call("GET", "/pools/{pool}/rounds", ANYONE_SIGNED_IN, rounds::list),
                 call("POST", "/pools/{pool}/rounds", REVIEWERS, rounds::request),
                 call("GET", "/pools/{pool}/queue", ANYONE_SIGNED_IN, rounds::queue),
-                call("GET", "/pools/{pool}/accuracy", ANYONE_SIGNED_IN, rounds::accuracy),
+                call("GET", "/pools/{pool}/accuracy", ANYONE_SIGNED_IN, advice::accuracy),
+                call("GET", "/pools/{pool}/advice", ANYONE_SIGNED_IN, advice::advice),
                 call("GET", "/pools/{pool}/settings", ANYONE_SIGNED_IN, rounds::settings),
                 call("PUT", "/pools/{pool}/settings", ADMINS, rounds::changeSettings),
                 call("GET", "/pools/{pool}/settings/history", REVIEWERS, rounds::settingsHistory),

@@ -1,6 +1,7 @@
 package dev.dowser.web;
 
 import dev.dowser.desk.Desk;
+import dev.dowser.rounds.AdviceService;
 import dev.dowser.rounds.RoundWorkers;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
@@ -123,8 +124,8 @@ public final class WebServer implements AutoCloseable {
         Desk desk = new Desk(db, rounds, events);
         HttpHandler files = StaticFiles.handler();
         Routes routes = new Routes(new TeamApi(accounts), new PoolsApi(db), new ImportsApi(imports, config),
-                new DeskApi(desk), new RoundsApi(db, rounds, desk), new ReviewApi(new Reviews(db)), events.handler(),
-                files);
+                new DeskApi(desk), new RoundsApi(db, rounds, desk), new AdviceApi(new AdviceService(db)),
+                new ReviewApi(new Reviews(db)), events.handler(), files);
         Door door = new Door(config.limits());
         services = new Services(imports, rounds, events, accounts, routes, door);
         front.open(new Gate(accounts, routes, files, door, config));

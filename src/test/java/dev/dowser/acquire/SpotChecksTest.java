@@ -9,7 +9,7 @@ import java.util.Set;
 import java.util.SplittableRandom;
 import org.junit.jupiter.api.Test;
 
-/** Spot checks: their share of the queue, their uniformity over the pool, and the accuracy they estimate. */
+/** Spot checks: their share of the queue, their uniformity over the pool, and their place among the picks. */
 class SpotChecksTest {
 
     @Test
@@ -48,16 +48,21 @@ class SpotChecksTest {
     }
 
     @Test
-    void accuracyComesWithItsWilsonInterval() {
-        // 81 of 263 right: Newcombe (1998), Table I, method 3 gives 0.2553 to 0.3662.
-        int[] predicted = new int[263];
-        int[] given = new int[263];
-        for (int i = 0; i < 263; i++) {
-            given[i] = i < 81 ? 0 : 1;
+    void eachPlaceKnowsItsTurnInThePicks() {
+        // Picks by score come first, in their order, then the spot checks in the order drawn; each
+        // spot check had 1 / (candidates still free) of being drawn.
+        double[] q = {0.5, 0.25, 0.125, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1};
+        List<SpotChecks.Entry> queue = SpotChecks.mix(new Picks(new int[] {4, 8, 15, 16, 23, 42, 7, 9, 11, 13}, q),
+                50, 10, 0.2, new SplittableRandom(3));
+        List<SpotChecks.Entry> byScore = queue.stream().filter(e -> !e.spotCheck()).toList();
+        List<SpotChecks.Entry> spots = queue.stream().filter(SpotChecks.Entry::spotCheck).toList();
+        for (int i = 0; i < byScore.size(); i++) {
+            assertEquals(i + 1, byScore.get(i).order());
+            assertEquals(q[i], byScore.get(i).probability());
         }
-        SpotChecks.Estimate e = SpotChecks.accuracy(predicted, given);
-        assertEquals(81, e.correct());
-        assertEquals(0.2553, e.interval().lower(), 5e-5);
-        assertEquals(0.3662, e.interval().upper(), 5e-5);
+        assertEquals(9, spots.get(0).order());
+        assertEquals(1.0 / 42, spots.get(0).probability(), 1e-15);
+        assertEquals(10, spots.get(1).order());
+        assertEquals(1.0 / 41, spots.get(1).probability(), 1e-15);
     }
 }

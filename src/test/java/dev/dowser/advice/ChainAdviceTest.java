@@ -40,7 +40,7 @@ class ChainAdviceTest {
             bulk = Math.min(bulk, Diagnostics.essBulk(c));
             tail = Math.min(tail, Diagnostics.essTail(c));
         }
-        return ChainAdvice.of(rhat, bulk, tail, KNOBS);
+        return ChainAdvice.of(rhat, bulk, tail, 4, 64, KNOBS);
     }
 
     @Test
@@ -78,7 +78,7 @@ class ChainAdviceTest {
     @Test
     void nothingIsAskedThatNoSettingAllows() {
         ChainAdvice.Knobs maxed = new ChainAdvice.Knobs(16, 512, 5_000, 16, 512, 5_000);
-        ChainAdvice a = ChainAdvice.of(2.0, 3, 3, maxed);
+        ChainAdvice a = ChainAdvice.of(2.0, 3, 3, 16, 512, maxed);
         assertEquals(ChainAdvice.NOTE, a.level());
         assertTrue(a.points().stream().allMatch(p -> p.setting() == null), a.toString());
     }

@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.List;
+import java.util.SplittableRandom;
 import org.junit.jupiter.api.Test;
 
 /**
@@ -58,5 +59,33 @@ class StabilisingPredictionsTest {
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
                 () -> new StabilisingPredictions(3, 1.5));
         assertEquals("the kappa threshold must lie in (0, 1], got 1.5", e.getMessage());
+    }
+
+    @Test
+    void theStopSetIsAUniformSampleThatNeverChanges() {
+        // Every row of a pool of 10 is in a set of 3 with probability 3/10: over 30,000 sets each
+        // count has sd sqrt(30000 * 0.3 * 0.7) = 79; a chi-square with 9 degrees of freedom
+        // stays under 27.88 (its 0.1% point, any table).
+        SplittableRandom rng = new SplittableRandom(41);
+        int trials = 30_000;
+        long[] count = new long[10];
+        for (int t = 0; t < trials; t++) {
+            long[] set = StabilisingPredictions.stopSet(10, 3, rng);
+            assertEquals(3, set.length);
+            assertTrue(set[0] < set[1] && set[1] < set[2], java.util.Arrays.toString(set));
+            for (long r : set) {
+                count[(int) r]++;
+            }
+        }
+        double expected = trials * 0.3;
+        double chi2 = 0;
+        for (long c : count) {
+            chi2 += (c - expected) * (c - expected) / expected;
+        }
+        assertTrue(chi2 < 27.88, "chi-square " + chi2);
+        // The same seed gives the same set; a small pool is taken whole.
+        assertEquals(java.util.Arrays.toString(StabilisingPredictions.stopSet(1_000_000, 2000, new SplittableRandom(5))),
+                java.util.Arrays.toString(StabilisingPredictions.stopSet(1_000_000, 2000, new SplittableRandom(5))));
+        assertEquals("[0, 1, 2, 3]", java.util.Arrays.toString(StabilisingPredictions.stopSet(4, 2000, rng)));
     }
 }

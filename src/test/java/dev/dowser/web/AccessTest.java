@@ -70,6 +70,7 @@ class AccessTest {
         {"POST", "/pools/{pool}/rounds", "/pools/p/rounds", "reviewer admin"},
         {"GET", "/pools/{pool}/queue", "/pools/p/queue", "labeller reviewer admin"},
         {"GET", "/pools/{pool}/accuracy", "/pools/p/accuracy", "labeller reviewer admin"},
+        {"GET", "/pools/{pool}/advice", "/pools/p/advice", "labeller reviewer admin"},
         {"GET", "/pools/{pool}/settings", "/pools/p/settings", "labeller reviewer admin"},
         {"PUT", "/pools/{pool}/settings", "/pools/p/settings", "admin"},
         {"GET", "/pools/{pool}/settings/history", "/pools/p/settings/history", "reviewer admin"},
