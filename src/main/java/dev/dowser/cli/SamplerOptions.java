@@ -60,11 +60,20 @@ final class SamplerOptions {
             description = "Posterior temperature; 1 is the true posterior (default: ${DEFAULT-VALUE}).")
     double temperature;
 
+    @Option(names = "--map-steps", defaultValue = "0", paramLabel = "N",
+            description = "Adam steps that carry each new chain to a mode before it samples (default: ${DEFAULT-VALUE}).")
+    int mapSteps;
+
+    @Option(names = "--cyclical", description = "A cyclical step schedule, one cycle per draw of a chain (Zhang et al."
+            + " 2020), instead of a constant step.")
+    boolean cyclical;
+
     SamplerConfig config() {
         return SamplerConfig.builder().kernel(KernelChoice.parse(kernel)).hidden(hidden)
                 .activation(Activation.valueOf(activation.trim().toUpperCase(Locale.ROOT)))
                 .prior(new Prior(priorScale, Prior.DEFAULT_BIAS_SCALE, hierarchical, Prior.DEFAULT_HYPER_SHAPE))
                 .chains(chains, draws).burnInSteps(burnIn).reburnInSteps(reburnIn).thinSteps(thin)
-                .learningRate(learningRate).temperature(temperature).build();
+                .learningRate(learningRate).temperature(temperature).mapSteps(mapSteps)
+                .cycles(cyclical ? draws / chains : 0).build();
     }
 }

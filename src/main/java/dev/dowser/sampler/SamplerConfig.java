@@ -102,9 +102,10 @@ public record SamplerConfig(KernelRule kernel, Network network, Prior prior, Cha
      * @param learningRate  eta; the step size is eps = 2 eta / N for N labelled rows, so a step
      *                      moves about eta times a per-row gradient (MALA adapts its step from there)
      * @param cycles        0 for a constant step, else cycles of the cyclical schedule (one per draw of a chain)
+     * @param mapSteps      Adam steps that carry a new chain's random start to a mode before it samples (0: none)
      */
     public record Steps(int burnInSteps, int reburnInSteps, int thinSteps, int batchRows, double learningRate,
-                        int cycles) {
+                        int cycles, int mapSteps) {
 
         public Steps {
             if (burnInSteps < 0 || reburnInSteps < 0) {
@@ -121,6 +122,9 @@ public record SamplerConfig(KernelRule kernel, Network network, Prior prior, Cha
             }
             if (cycles < 0) {
                 throw new IllegalArgumentException("cycles must be 0 (constant step) or more, got " + cycles);
+            }
+            if (mapSteps < 0) {
+                throw new IllegalArgumentException("mapSteps must be 0 (no climb to a mode) or more, got " + mapSteps);
             }
         }
     }
@@ -164,6 +168,7 @@ public record SamplerConfig(KernelRule kernel, Network network, Prior prior, Cha
         b.batchRows = steps.batchRows();
         b.learningRate = steps.learningRate();
         b.cycles = steps.cycles();
+        b.mapSteps = steps.mapSteps();
         b.temperature = temperature;
         return b;
     }
@@ -184,6 +189,7 @@ public record SamplerConfig(KernelRule kernel, Network network, Prior prior, Cha
         private int batchRows = DEFAULT_BATCH_ROWS;
         private double learningRate = DEFAULT_LEARNING_RATE;
         private int cycles;
+        private int mapSteps;
         private double temperature = DEFAULT_TEMPERATURE;
 
         private Builder() {
@@ -251,6 +257,11 @@ public record SamplerConfig(KernelRule kernel, Network network, Prior prior, Cha
             return this;
         }
 
+        public Builder mapSteps(int n) {
+            mapSteps = n;
+            return this;
+        }
+
         public Builder temperature(double t) {
             temperature = t;
             return this;
@@ -259,7 +270,7 @@ public record SamplerConfig(KernelRule kernel, Network network, Prior prior, Cha
         public SamplerConfig build() {
             return new SamplerConfig(new KernelRule(kernel, malaMaxRows), new Network(hidden, activation), prior,
                     new Chains(chains, draws), new Steps(burnInSteps, reburnInSteps, thinSteps, batchRows,
-                    learningRate, cycles), temperature);
+                    learningRate, cycles, mapSteps), temperature);
         }
     }
 }
