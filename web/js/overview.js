@@ -75,7 +75,7 @@ async function showAccuracy() {
         + ' matches how often it is right).');
     }
   }
-  const points = a.rounds.map((p) => ({ x: p.labels, y: p.accuracy, low: p.lower, high: p.upper }));
+  const points = a.rounds.map((p) => ({ x: p.model_labels, y: p.accuracy, low: p.lower, high: p.upper }));
   $('accuracy-chart').replaceChildren(bandChart(points, { xTitle: 'labels the model learnt from', yTitle: 'accuracy' }));
   $('accuracy-chart-note').textContent = points.length
     ? 'Each round\'s own estimate from its labels, with its 95% interval; each rests on few labels, so they scatter.'
@@ -348,7 +348,8 @@ async function saveSettings(event) {
     await putJson(`pools/${encodeURIComponent(pool)}/settings`, body);
     showMessage('settings-message', 'Saved; the next round uses them.');
     if (document.activeElement) document.activeElement.blur();
-    await showSettings();
+    // Chain advice and the card read the settings too.
+    await refresh();
   } catch (e) {
     showMessage('settings-message', e.message, true);
   }

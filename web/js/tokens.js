@@ -7,29 +7,29 @@ const $ = (id) => document.getElementById(id);
 
 const say = (text, isError = false) => showMessage('tokens-message', text, isError);
 
+/** Your live tokens; a revoked one leaves the list at once. */
 async function showTokens() {
   const { tokens } = await getJson('tokens');
   const body = $('tokens').tBodies[0];
   body.replaceChildren();
+  $('tokens-none').hidden = tokens.length > 0;
   for (const t of tokens) {
     const row = document.createElement('tr');
-    for (const v of [t.name, new Date(t.created_at).toLocaleString(), t.revoked_at ? 'revoked' : 'live']) cell(row, v);
-    const td = cell(row, '');
-    if (!t.revoked_at) {
-      const revoke = document.createElement('button');
-      revoke.type = 'button';
-      revoke.textContent = 'Revoke';
-      revoke.addEventListener('click', async () => {
-        try {
-          await deleteJson(`tokens/${t.id}`);
-          say(`token for ${t.name} revoked`);
-          await showTokens();
-        } catch (e) {
-          say(e.message, true);
-        }
-      });
-      td.append(revoke);
-    }
+    row.dataset.token = t.id;
+    for (const v of [t.name, new Date(t.created_at).toLocaleString()]) cell(row, v);
+    const revoke = document.createElement('button');
+    revoke.type = 'button';
+    revoke.textContent = 'Revoke';
+    revoke.addEventListener('click', async () => {
+      try {
+        await deleteJson(`tokens/${t.id}`);
+        say(`Revoked the token “${t.name}”: it no longer signs anything in.`);
+        await showTokens();
+      } catch (e) {
+        say(e.message, true);
+      }
+    });
+    cell(row, revoke);
     body.append(row);
   }
 }

@@ -1,5 +1,6 @@
-// The accounts page (admins): list, add, change role, disable or enable, set a new password.
-import { getJson, postJson, putJson } from './api.js';
+// The accounts page (admins): list, add, change role, disable or enable, set a new password, see
+// and revoke anyone's API tokens.
+import { getJson, postJson, putJson, deleteJson } from './api.js';
 import { showAccount } from './account.js';
 import { cell, showMessage } from './dom.js';
 
@@ -35,6 +36,7 @@ async function showUsers() {
     cell(row, role);
     cell(row, u.disabled ? 'disabled' : 'active');
     cell(row, new Date(u.created_at).toLocaleDateString());
+    cell(row, tokensCell(u, row));
     const actions = document.createElement('div');
     actions.className = 'inline-actions';
     if (u.name !== me.name) {
@@ -67,6 +69,54 @@ async function showUsers() {
     cell(row, actions);
     body.append(row);
   }
+}
+
+/** The count of an account's live tokens, and a button that lists them under its row, each to revoke. */
+function tokensCell(u, row) {
+  const live = u.live_tokens || 0;
+  if (!live) return 'none';
+  const show = document.createElement('button');
+  show.type = 'button';
+  show.className = 'tokens-of';
+  show.textContent = `${live} live`;
+  show.setAttribute('aria-label', `API tokens of ${u.name}`);
+  show.addEventListener('click', () => toggleTokens(u.name, row).catch((e) => say(e.message, true)));
+  return show;
+}
+
+async function toggleTokens(name, row) {
+  const open = row.nextElementSibling;
+  if (open && open.classList.contains('token-list')) {
+    open.remove();
+    return;
+  }
+  const { tokens } = await getJson(`users/${encodeURIComponent(name)}/tokens`);
+  const sub = document.createElement('tr');
+  sub.className = 'token-list';
+  const td = document.createElement('td');
+  td.colSpan = row.children.length;
+  const list = document.createElement('ul');
+  for (const t of tokens) {
+    const li = document.createElement('li');
+    li.append(document.createTextNode(`“${t.name}”, made ${new Date(t.created_at).toLocaleString()} `));
+    const revoke = document.createElement('button');
+    revoke.type = 'button';
+    revoke.textContent = 'Revoke';
+    revoke.addEventListener('click', async () => {
+      try {
+        await deleteJson(`users/${encodeURIComponent(name)}/tokens/${t.id}`);
+        say(`Revoked ${name}'s token “${t.name}”.`);
+        await showUsers();
+      } catch (e) {
+        say(e.message, true);
+      }
+    });
+    li.append(revoke);
+    list.append(li);
+  }
+  td.append(list);
+  sub.append(td);
+  row.after(sub);
 }
 
 $('add-user').addEventListener('submit', async (event) => {

@@ -90,6 +90,15 @@ public final class TestSupport {
         }
     }
 
+    /** Deletes a folder and everything in it, deepest first. */
+    public static void deleteTree(Path dir) throws IOException {
+        try (java.util.stream.Stream<Path> paths = Files.walk(dir)) {
+            for (Path p : paths.sorted(java.util.Comparator.reverseOrder()).toList()) {
+                Files.deleteIfExists(p);
+            }
+        }
+    }
+
     public static Database openDb(Path dir) {
         return Database.open(dir, CLOCK);
     }

@@ -91,21 +91,30 @@ public record ChainAdvice(String level, String summary, List<Point> points, doub
         List<Point> points = new ArrayList<>();
         boolean disagree = rhat > rhatCeiling(m, s);
         boolean correlated = ess < essFloor(s);
+        String summary = null;
+        String level = NOTE;
         if (correlated) {
             String worth = String.format(Locale.ROOT, "The %d draws behave like about %d independent ones.", s,
                     Math.max(1, Math.round(ess)));
             if (knobs.draws() > draws || knobs.chains() > chains) {
                 points.add(new Point(worth + " More draws or chains have been set since; the next round uses them.",
                         null, 0));
+                summary = "Predictions rested on few independent draws; the settings have been raised since.";
             } else if (knobs.draws() < knobs.maxDraws()) {
                 int more = Math.min(knobs.maxDraws(), 2 * knobs.draws());
                 points.add(new Point(worth + " Keeping more draws each round (" + more + ") makes predictions"
                         + " and scores steadier, at the cost of a longer round.", "draws", more));
+                level = ACT;
             } else if (knobs.chains() < knobs.maxChains()) {
                 int more = Math.min(knobs.maxChains(), 2 * knobs.chains());
                 points.add(new Point(worth + " More chains (" + more + ") add independent draws.", "chains", more));
+                level = ACT;
             } else {
                 points.add(new Point(worth + " Draws and chains are at their largest already.", null, 0));
+                summary = "The draws lean on few independent ones; nothing more can be set to help.";
+            }
+            if (level.equals(ACT)) {
+                summary = "Predictions rest on few independent draws; a setting below would help.";
             }
         }
         if (disagree) {
@@ -114,23 +123,22 @@ public record ChainAdvice(String level, String summary, List<Point> points, doub
                 int more = Math.min(knobs.maxChains(), 2 * knobs.chains());
                 points.add(new Point(text + " More chains (" + more + ") take in more of them.", "chains", more));
             } else if (knobs.reburnInSteps() < knobs.maxReburnIn()) {
-                int more = Math.min(knobs.maxReburnIn(), 2 * knobs.reburnInSteps());
+                int more = Math.min(knobs.maxReburnIn(), Math.max(100, 2 * knobs.reburnInSteps()));
                 points.add(new Point(text + " A longer warm-up each round (" + more + " steps) lets each chain"
                         + " settle further.", "reburn_in_steps", more));
             } else {
                 points.add(new Point(text, null, 0));
+            }
+            if (summary == null) {
+                summary = "The chains tell somewhat different stories, which is usual for a neural network;"
+                        + " nothing needs doing.";
             }
         }
         if (points.isEmpty()) {
             return new ChainAdvice(GOOD, "The chains agree and their draws are varied enough; nothing to do.",
                     List.of(), rhatCeiling(m, s), essFloor(s));
         }
-        boolean act = points.stream().anyMatch(p -> p.setting() != null && correlated);
         // A note says what is so; only a point a setting can help is a call to act.
-        String summary = act ? "Predictions rest on few independent draws; a setting below would help."
-                : disagree ? "The chains tell somewhat different stories, which is usual for a neural network;"
-                        + " nothing needs doing." : "The draws lean on few independent ones; nothing more can be"
-                        + " set to help.";
-        return new ChainAdvice(act ? ACT : NOTE, summary, points, rhatCeiling(m, s), essFloor(s));
+        return new ChainAdvice(level, summary, points, rhatCeiling(m, s), essFloor(s));
     }
 }

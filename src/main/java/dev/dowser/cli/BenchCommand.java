@@ -31,7 +31,8 @@ import picocli.CommandLine.Spec;
             "import: a generated CSV of N rows x 64 numeric features into a fresh pool, at N/10 and at N in"
                 + " the same run; rows per second, the peak heap (what the collector let the heap grow to) and"
                 + " the live heap (the most still in use just after a collection), so memory that grows with"
-                + " the file would show.",
+                + " the file would show. Then the same number of fields in 64, 2,000 and 20,000 columns:"
+                + " fields per second and each against 64 columns (1.0 when the cost is linear in the columns).",
             "sgemm: square single-precision products through the BLAS the model uses, one per core at once"
                 + " (the machine's throughput) and on one thread.",
             "score: BALD and friends over pools of shapes (a) 100k x 64-128-10 with 64 draws, (b) 1M x"
@@ -47,7 +48,11 @@ import picocli.CommandLine.Spec;
             "labels (only when named): the label-savings benchmark, simulate on digits, breast cancer, wine, iris,"
                 + " the demo's pumps and Fashion-MNIST (pool 60,000, test 10,000, 50 principal components) with"
                 + " paired seeds: labels to each target, random's labels over the strategy's with 90% bootstrap"
-                + " intervals, area-under-the-curve gains; curves and a table (labels.md) in --labels-out. Hours."})
+                + " intervals, area-under-the-curve gains; curves and a table (labels.md) in --labels-out. Hours.",
+            "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: files to import,"
+                + " heads of files to preview, every JSON body; jqwik properties of the test sources, run through"
+                + " Maven (a source folder is needed). Counts per status; any 500, partial write or Java message"
+                + " in a refusal fails it. About half an hour on 2 quiet cores."})
 final class BenchCommand implements Callable<Integer> {
 
     @Spec
@@ -69,7 +74,8 @@ final class BenchCommand implements Callable<Integer> {
     Path work;
 
     @Option(names = "--only", split = ",", paramLabel = "SUITE",
-            description = "Suites to run: sgemm, score, sampler, round, desk, import, labels (default: all but labels).")
+            description = "Suites to run: sgemm, score, sampler, round, desk, import, fuzz, labels (default: all but"
+                    + " labels).")
     java.util.List<String> only;
 
     @Option(names = "--datasets", split = ",", paramLabel = "NAME",
@@ -117,6 +123,7 @@ final class BenchCommand implements Callable<Integer> {
                 double jsonl = importSuite(out, dir, n / 10, "small_jsonl", FileFormat.JSONL);
                 out.printf("import_jsonl_to_csv_speed=%.2f%n", jsonl / csv);
                 importSuite(out, dir, n, "full", FileFormat.CSV);
+                WideImportBench.run(out, dir, quick);
             } finally {
                 Folders.deleteTree(dir);
             }
@@ -137,6 +144,9 @@ final class BenchCommand implements Callable<Integer> {
         }
         if (wants("round")) {
             RoundBench.run(out, quick);
+        }
+        if (wants("fuzz")) {
+            FuzzBench.run(out, quick);
         }
         if (wants("labels")) {
             LabelsBench.run(out, datasetsDir, datasets, strategies.stream().map(dev.dowser.rounds.Strategy::parse)

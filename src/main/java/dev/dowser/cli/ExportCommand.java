@@ -36,16 +36,23 @@ final class ExportCommand implements Callable<Integer> {
     @Option(names = "--out", paramLabel = "F", description = "Output file (default: standard output); F.meta.json beside it holds the classes with their keys and what each field means.")
     Path out;
 
+    @Option(names = "--formulas", defaultValue = "escape", paramLabel = "escape|keep",
+            description = "CSV fields a spreadsheet would run as formulas (starting with = + - @, a tab or a carriage"
+                    + " return, and not a plain number): escape writes them with a ' in front, keep writes them"
+                    + " as they are (default: ${DEFAULT-VALUE}).")
+    String formulas;
+
     @Override
     public Integer call() {
         FileFormat fileFormat = FileFormat.parse(format);
+        Exporter.Formulas guard = Exporter.Formulas.parse(formulas);
         try (Database db = data.open()) {
             long n;
             if (out == null) {
-                n = new Exporter(db).export(pool, fileFormat, System.out);
+                n = new Exporter(db).export(pool, fileFormat, guard, System.out);
             } else {
                 try (OutputStream o = Files.newOutputStream(out)) {
-                    n = new Exporter(db).export(pool, fileFormat, o);
+                    n = new Exporter(db).export(pool, fileFormat, guard, o);
                 }
                 Path meta = out.resolveSibling(out.getFileName() + ".meta.json");
                 Files.writeString(meta, Json.write(new Exporter(db).metadata(pool)) + "\n");

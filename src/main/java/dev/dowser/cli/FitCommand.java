@@ -1,6 +1,8 @@
 package dev.dowser.cli;
 
+import dev.dowser.advice.ChainAdvice;
 import dev.dowser.data.LabelledSet;
+import dev.dowser.rounds.PoolSettings;
 import dev.dowser.sampler.Health;
 import dev.dowser.sampler.PosteriorSampler;
 import dev.dowser.sampler.Predictive;
@@ -29,6 +31,9 @@ final class FitCommand implements Callable<Integer> {
     /** Branches of the seed's tree. */
     static final int SPLIT = 0;
     static final int CHAINS = 1;
+    /** The option that sets what chain advice names. */
+    static final java.util.Map<String, String> OPTIONS = java.util.Map.of("draws", "--draws", "chains", "--chains",
+            "reburn_in_steps", "--burn-in");
 
     @Spec
     CommandSpec command;
@@ -71,8 +76,14 @@ final class FitCommand implements Callable<Integer> {
             out.printf("acceptance=%.3f%n", h.acceptance());
         }
         out.printf("seconds=%.2f%n", draws.seconds());
-        for (String a : h.advice()) {
-            out.println("advice=" + a);
+        ChainAdvice advice = ChainAdvice.of(h.rhatMax(), h.essBulkMin(), h.essTailMin(), sampler.chains,
+                sampler.draws, new ChainAdvice.Knobs(sampler.chains, sampler.draws, sampler.burnIn,
+                        PoolSettings.Sampling.MAX_CHAINS, PoolSettings.Sampling.MAX_DRAWS,
+                        PoolSettings.Sampling.MAX_REBURN_IN_STEPS));
+        out.println("advice=" + advice.summary());
+        for (ChainAdvice.Point a : advice.points()) {
+            out.println("advice=" + a.text() + (a.setting() == null ? ""
+                    : " (try " + OPTIONS.get(a.setting()) + " " + a.suggest() + ")"));
         }
         out.flush();
         return 0;

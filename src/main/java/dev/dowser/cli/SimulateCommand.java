@@ -6,6 +6,7 @@ import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.simulate.Simulation;
 import dev.dowser.simulate.SimulationReport;
+import dev.dowser.stats.StabilisingPredictions;
 import java.io.IOException;
 import java.io.PrintWriter;
 import java.nio.file.Path;
@@ -26,7 +27,10 @@ import picocli.CommandLine.Spec;
                 + " DIR/curves.csv, curves.svg and curves.png, and prints a table and key=value lines: labels to"
                 + " each target from the mean curve with a 90% bootstrap interval over seeds, the seeds that"
                 + " reached it, the median of the seeds' first counts, random's labels over each strategy's,"
-                + " the area under the curve, and accuracy and NLL at fixed label counts."})
+                + " the area under the curve, accuracy and NLL at fixed label counts; then, per seed, where the stopping rule"
+                + " fired beside where the test curve levelled off, and stop_at_<strategy>=N,"
+                + " accuracy_at_stop_<strategy>=A, accuracy_at_budget_<strategy>=B and"
+                + " estimate_covers_<strategy>=F lines."})
 final class SimulateCommand implements Callable<Integer> {
 
     @Spec
@@ -78,6 +82,11 @@ final class SimulateCommand implements Callable<Integer> {
             description = "Test accuracies to report the labels needed for (default: ${DEFAULT-VALUE}).")
     List<Double> targets;
 
+    @Option(names = "--stop-agreement", defaultValue = "" + StabilisingPredictions.DEFAULT_THRESHOLD, paramLabel = "K",
+            description = "Mean agreement (Cohen's kappa) of the last 3 rounds' predictions on the stop set at which"
+                    + " they count as settled (default: ${DEFAULT-VALUE}).")
+    double stopAgreement;
+
     @Option(names = "--out", required = true, paramLabel = "DIR", description = "Folder for curves.csv, .svg and .png.")
     Path out;
 
@@ -85,7 +94,7 @@ final class SimulateCommand implements Callable<Integer> {
     public Integer call() throws IOException {
         List<Strategy> chosen = strategies.stream().map(Strategy::parse).distinct().toList();
         PoolSettings settings = PoolSettings.defaults().withBatchSize(batch).withSpotCheckShare(spotCheckShare)
-                .withColdStart(ColdStart.Method.parse(coldStart));
+                .withColdStart(ColdStart.Method.parse(coldStart)).withStopAgreement(stopAgreement);
         Simulation.Plan plan = new Simulation.Plan(chosen, seeds, seedLabels, budget, testFraction, settings,
                 sampler.config(), seed);
         LabelledSet all = input.read();

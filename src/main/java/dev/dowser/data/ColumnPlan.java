@@ -1,17 +1,24 @@
 package dev.dowser.data;
 
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.HashSet;
 import java.util.LinkedHashSet;
 import java.util.List;
+import java.util.Map;
 import java.util.Set;
 
 /** The column roles of a spec resolved against a file's header: names checked, defaults filled in. */
 record ColumnPlan(ColumnRoles roles, int idIndex, int labelIndex, int[] featureIndex, int[] displayIndex) {
 
     static ColumnPlan resolve(List<String> header, ImportSpec spec) {
-        int id = spec.idColumn() == null ? -1 : indexOf(header, spec.idColumn(), "id");
-        int label = spec.labelColumn() == null ? -1 : indexOf(header, spec.labelColumn(), "label");
+        // Names are looked up in a map, once each: a file may have tens of thousands of columns.
+        Map<String, Integer> at = new HashMap<>(header.size() * 2);
+        for (int i = 0; i < header.size(); i++) {
+            at.putIfAbsent(header.get(i), i);
+        }
+        int id = spec.idColumn() == null ? -1 : indexOf(header, at, spec.idColumn(), "id");
+        int label = spec.labelColumn() == null ? -1 : indexOf(header, at, spec.labelColumn(), "label");
         if (id >= 0 && id == label) {
             throw ImportException.of("column '" + spec.idColumn() + "' cannot be both the id and the label column");
         }
@@ -20,9 +27,9 @@ record ColumnPlan(ColumnRoles roles, int idIndex, int labelIndex, int[] featureI
             features.addAll(allBut(header, id, label));
         } else {
             for (String f : distinct(spec.featureColumns(), "feature")) {
-                int at = indexOf(header, f, "feature");
-                if (at == id || at == label) {
-                    throw ImportException.of("column '" + f + "' is the " + (at == id ? "id" : "label")
+                int c = indexOf(header, at, f, "feature");
+                if (c == id || c == label) {
+                    throw ImportException.of("column '" + f + "' is the " + (c == id ? "id" : "label")
                             + " column and cannot also be a feature");
                 }
                 features.add(f);
@@ -36,7 +43,7 @@ record ColumnPlan(ColumnRoles roles, int idIndex, int labelIndex, int[] featureI
             display.addAll(allBut(header, id, label));
         } else {
             for (String d : distinct(spec.displayColumns(), "display")) {
-                indexOf(header, d, "display");
+                indexOf(header, at, d, "display");
                 display.add(d);
             }
         }
@@ -48,7 +55,7 @@ record ColumnPlan(ColumnRoles roles, int idIndex, int labelIndex, int[] featureI
         }
         ColumnRoles roles = new ColumnRoles(spec.idColumn(), features, display, spec.labelColumn(),
                 spec.categorical());
-        return new ColumnPlan(roles, id, label, indices(header, features), indices(header, display));
+        return new ColumnPlan(roles, id, label, indices(at, features), indices(at, display));
     }
 
     /** Every column of the header except those at the two indices (-1 for none). */
@@ -72,19 +79,21 @@ record ColumnPlan(ColumnRoles roles, int idIndex, int labelIndex, int[] featureI
         return new ArrayList<>(seen);
     }
 
-    private static int indexOf(List<String> header, String name, String role) {
-        int at = header.indexOf(name);
-        if (at < 0) {
+    private static int indexOf(List<String> header, Map<String, Integer> at, String name, String role) {
+        Integer i = at.get(name);
+        if (i == null) {
+            String columns = header.size() <= 50 ? String.join(", ", header)
+                    : String.join(", ", header.subList(0, 50)) + " and " + (header.size() - 50) + " more";
             throw ImportException.of("the " + role + " column '" + name + "' is not in the file; its columns are: "
-                    + String.join(", ", header));
+                    + columns);
         }
-        return at;
+        return i;
     }
 
-    private static int[] indices(List<String> header, List<String> names) {
+    private static int[] indices(Map<String, Integer> at, List<String> names) {
         int[] out = new int[names.size()];
         for (int i = 0; i < out.length; i++) {
-            out[i] = header.indexOf(names.get(i));
+            out[i] = at.get(names.get(i));
         }
         return out;
     }

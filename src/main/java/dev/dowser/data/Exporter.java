@@ -29,6 +29,12 @@ import java.util.regex.Pattern;
  * CSV (RFC 4180) or JSON Lines with the same flat field names, so an export imports back with
  * {@code --id id --label label}; JSON Lines writes numbers as numbers, lists of numbers as arrays,
  * flags as true or false and each person's label as an object.
+ *
+ * <p>A CSV file is often opened in a spreadsheet, which runs a cell starting with {@code =}, {@code +},
+ * {@code -}, {@code @}, a tab or a carriage return as a formula: a display value can carry one (CSV
+ * injection, OWASP). By default such a field is written with a {@code '} in front, which spreadsheets
+ * show as text; plain numbers such as {@code -3.5} are left as they are, since a spreadsheet reads
+ * them as numbers. {@link Formulas#KEEP} writes every field exactly. JSON Lines is never changed.
  */
 public final class Exporter {
 
@@ -53,6 +59,26 @@ public final class Exporter {
 
     /** How a cell is written in JSON Lines; CSV writes every cell as text. */
     enum Kind { TEXT, NUMBER, RAW }
+    /** What a spreadsheet reads as a number: such a field is data, not a formula, whatever its first character. */
+    private static final Pattern PLAIN_NUMBER = Pattern.compile("[+-]?(\\d+\\.?\\d*|\\.\\d+)([eE][+-]?\\d+)?");
+
+    /** What to do with CSV fields a spreadsheet would run as formulas. */
+    public enum Formulas {
+        /** Write them with a {@code '} in front, so that a spreadsheet shows them as text (the default). */
+        ESCAPE,
+        /** Write every field exactly as stored. */
+        KEEP;
+
+        /** {@code escape} or {@code keep}, as the command line and the API spell them. */
+        public static Formulas parse(String word) {
+            for (Formulas f : values()) {
+                if (f.name().equalsIgnoreCase(word)) {
+                    return f;
+                }
+            }
+            throw new IllegalArgumentException("formulas must be escape or keep, got '" + word + "'");
+        }
+    }
 
     private final Database db;
 
@@ -60,8 +86,13 @@ public final class Exporter {
         this.db = db;
     }
 
-    /** Writes every labelled record of {@code poolName}; returns how many. */
+    /** Writes every labelled record of {@code poolName}, formula-like CSV fields escaped; returns how many. */
     public long export(String poolName, FileFormat format, OutputStream out) {
+        return export(poolName, format, Formulas.ESCAPE, out);
+    }
+
+    /** Writes every labelled record of {@code poolName}; returns how many. */
+    public long export(String poolName, FileFormat format, Formulas formulas, OutputStream out) {
         PoolRow pool = db.pools().require(poolName);
         ColumnRoles roles = ColumnRoles.parse(pool.columnRolesJson());
         List<String> header = header(roles.display());
@@ -70,7 +101,7 @@ public final class Exporter {
         long[] count = {0};
         try {
             if (format == FileFormat.CSV) {
-                writeCsvRow(w, header);
+                writeCsvRow(w, header, formulas);
             }
             List<String> cells = new ArrayList<>(header.size());
             List<Kind> kinds = new ArrayList<>(header.size());
@@ -97,7 +128,7 @@ public final class Exporter {
                 add(cells, kinds, known && labelAt >= 0 ? probability(b.mean()[labelAt]) : null, Kind.NUMBER);
                 try {
                     if (format == FileFormat.CSV) {
-                        writeCsvRow(w, cells);
+                        writeCsvRow(w, cells, formulas);
                     } else {
                         writeJsonLine(w, header, cells, kinds);
                     }
@@ -165,7 +196,7 @@ public final class Exporter {
 
     // RFC 4180: a field with a comma, quote or line break is quoted and its quotes doubled. We also
     // quote leading or trailing spaces so that no reader trims them away.
-    static void writeCsvRow(Writer w, List<String> cells) throws IOException {
+    static void writeCsvRow(Writer w, List<String> cells, Formulas formulas) throws IOException {
         for (int i = 0; i < cells.size(); i++) {
             if (i > 0) {
                 w.write(',');
@@ -173,6 +204,9 @@ public final class Exporter {
             String c = cells.get(i);
             if (c == null) {
                 continue;
+            }
+            if (formulas == Formulas.ESCAPE && runsAsFormula(c)) {
+                c = "'" + c;
             }
             boolean quote = c.isEmpty() ? false : c.charAt(0) == ' ' || c.charAt(c.length() - 1) == ' ';
             for (int k = 0; k < c.length() && !quote; k++) {
@@ -188,6 +222,16 @@ public final class Exporter {
             }
         }
         w.write("\r\n");
+    }
+
+    /** True when a spreadsheet would take the field for a formula: it starts with = + - @ tab or CR and is no plain number. */
+    static boolean runsAsFormula(String field) {
+        if (field.isEmpty()) {
+            return false;
+        }
+        char first = field.charAt(0);
+        boolean trigger = first == '=' || first == '+' || first == '-' || first == '@' || first == '\t' || first == '\r';
+        return trigger && !PLAIN_NUMBER.matcher(field).matches();
     }
 
     private static void writeJsonLine(Writer w, List<String> header, List<String> cells, List<Kind> kinds)

@@ -169,7 +169,7 @@ final class JsonLinesRowReader implements RowReader {
                 p.nextToken();
                 String value = valueText(p, name);
                 if (first) {
-                    if (names.contains(name)) {
+                    if (index.putIfAbsent(name, names.size()) != null) {
                         throw new ImportException(recordLine, name, "the object names this field twice");
                     }
                     names.add(name);

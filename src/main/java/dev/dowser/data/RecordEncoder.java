@@ -32,8 +32,9 @@ final class RecordEncoder {
         this.plan = plan;
         this.spec = spec;
         this.classSet = new LinkedHashSet<>(spec.classes());
+        Set<String> categorical = new java.util.HashSet<>(spec.categorical());
         for (String f : plan.roles().features()) {
-            stats.add(new ColumnStats(f, spec.categorical().contains(f), spec.maxLevels(), spec.missingTokens()));
+            stats.add(new ColumnStats(f, categorical.contains(f), spec.maxLevels(), spec.missingTokens()));
         }
     }
 

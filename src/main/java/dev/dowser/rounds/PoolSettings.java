@@ -157,6 +157,11 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
                 coldStart);
     }
 
+    /** The same settings with another agreement at which predictions count as settled. */
+    public PoolSettings withStopAgreement(double k) {
+        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, sampling, k);
+    }
+
     /** The stopping rule of stabilising predictions with this pool's threshold. */
     public StabilisingPredictions stopRule() {
         return new StabilisingPredictions(StabilisingPredictions.DEFAULT_WINDOW, stopAgreement);

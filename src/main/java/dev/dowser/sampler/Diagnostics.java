@@ -10,11 +10,6 @@ import java.util.Arrays;
  */
 public final class Diagnostics {
 
-    /** The paper's advice: R-hat below 1.01 ... */
-    public static final double RHAT_ADVICE = 1.01;
-    /** ... and an effective sample size above 100 per chain, 400 for four chains. */
-    public static final double ESS_PER_CHAIN_ADVICE = 100;
-
     private Diagnostics() {
     }
 

@@ -8,9 +8,8 @@ import java.util.List;
 /**
  * How usable the chains are, judged on function-space summaries (weights themselves are not
  * identifiable: hidden units can be permuted): the labelled-set log-likelihood of each draw, and
- * the predictive probability each draw gives a few probe rows. Reported against the thresholds
- * Vehtari et al. (2021) recommend, as advice: a network's posterior is multimodal, and chains that
- * settle in different modes will show it.
+ * the predictive probability each draw gives a few probe rows. The numbers only: what they mean for
+ * the draws kept, in plain words, is {@code dev.dowser.advice.ChainAdvice}'s to say.
  *
  * @param rhatMax        largest rank-normalised split R-hat over the summaries
  * @param essBulkMin     smallest bulk effective sample size
@@ -18,14 +17,9 @@ import java.util.List;
  * @param acceptance     mean MH acceptance rate (MALA), NaN otherwise
  * @param meanStepSize   mean base step size over chains at the end
  * @param divergences    divergences recovered from
- * @param advice         plain-language advice
  */
 public record Health(double rhatMax, double essBulkMin, double essTailMin, double acceptance, double meanStepSize,
-                     int divergences, List<String> advice) {
-
-    public Health {
-        advice = List.copyOf(advice);
-    }
+                     int divergences) {
 
     static Health of(List<ChainRun> runs, MlpPosterior target, Layout layout, float[] probe) {
         int chains = runs.size();
@@ -86,8 +80,7 @@ public record Health(double rhatMax, double essBulkMin, double essTailMin, doubl
             divergences += r.divergences().size();
         }
         double acceptance = withMh > 0 ? acc / withMh : Double.NaN;
-        return new Health(rhat, bulk, tail, acceptance, step / chains, divergences,
-                advice(rhat, bulk, tail, chains, divergences, draws));
+        return new Health(rhat, bulk, tail, acceptance, step / chains, divergences);
     }
 
     /** A summary whose indicator never varies (every draw on one side of a quantile) says nothing: skip it. */
@@ -109,33 +102,5 @@ public record Health(double rhatMax, double essBulkMin, double essTailMin, doubl
             }
         }
         return true;
-    }
-
-    static List<String> advice(double rhat, double bulk, double tail, int chains, int divergences, int draws) {
-        List<String> out = new ArrayList<>();
-        double essAdvice = Diagnostics.ESS_PER_CHAIN_ADVICE * chains;
-        if (draws < 4) {
-            out.add("too few draws per chain to judge the chains; keep at least 4 per chain");
-            return out;
-        }
-        if (rhat >= Diagnostics.RHAT_ADVICE) {
-            out.add(String.format("R-hat is %.3f (advice: below %.2f): the chains disagree. A network's posterior"
-                    + " has many modes, so some disagreement is expected; averaging over the chains still helps."
-                    + " Longer burn-in or more steps between draws will bring them closer.", rhat,
-                    Diagnostics.RHAT_ADVICE));
-        }
-        if (bulk < essAdvice || tail < essAdvice) {
-            out.add(String.format("effective sample size is %.0f in the bulk and %.0f in the tails (advice: above"
-                    + " %.0f for %d chains): the draws are strongly correlated; more steps between draws help.",
-                    bulk, tail, essAdvice, chains));
-        }
-        if (divergences > 0) {
-            out.add(divergences + " steps diverged and were undone with a halved step size; if this recurs,"
-                    + " lower the learning rate.");
-        }
-        if (out.isEmpty()) {
-            out.add("the chains agree and mix well by the usual thresholds.");
-        }
-        return out;
     }
 }

@@ -68,11 +68,9 @@ public final class LabelStore {
                 Resolution.Opinion mine = now.opinions().stream().filter(o -> o.person().equals(person))
                         .findFirst().orElse(null);
                 if (mine == null) {
-                    if (now.opinions().isEmpty()) {
-                        throw new ConflictException("the record has no label to take back");
-                    }
-                    throw new ConflictException("the record's label '" + now.opinions().get(0).label() + "' was given by "
-                            + now.opinions().get(0).person() + "; only they can take it back");
+                    // The same words whether or not someone else labelled it: blind double labelling
+                    // must not learn another person's label, nor that there is one, from a refusal.
+                    throw new ConflictException("you have no label on this record to take back");
                 }
                 insert(c, poolId, row, mine.label(), person, null, KIND_LABEL, true);
                 return new LabelRow(row, mine.label(), person, mine.at(), mine.note());

@@ -31,6 +31,12 @@ public final class PoolWriter implements AutoCloseable {
     public static final Pattern POOL_NAME = Pattern.compile("[A-Za-z0-9][A-Za-z0-9._-]{0,99}");
     static final int BLOCK_MAX_ROWS = 4_096;
     static final int BATCHES = 6;
+    /**
+     * Most fields a batch holds: a wide file gets fewer rows a batch, so that its offsets (two ints a
+     * field) stay about 8 MiB a batch whatever the column count. At 64 columns a batch is still
+     * {@value #BLOCK_MAX_ROWS} rows; at 20,000 it is 52 (it was 4,096, 650 MiB a batch).
+     */
+    static final int BATCH_MAX_FIELDS = 1 << 20;
     static final String UNIQUE_VIOLATION = "23505";
 
     private static final RecordBatch END = new RecordBatch(0, new int[0], 0);
@@ -59,8 +65,9 @@ public final class PoolWriter implements AutoCloseable {
         this.importedBy = importedBy;
         this.block = new RecordBlock.Builder(displayIndex.length);
         this.keyCheck = checkKeys ? new KeyCheck() : null;
+        int rowsPerBatch = Math.max(1, Math.min(BLOCK_MAX_ROWS, BATCH_MAX_FIELDS / Math.max(1, cols)));
         for (int i = 0; i < BATCHES; i++) {
-            free.add(new RecordBatch(cols, displayIndex, BLOCK_MAX_ROWS));
+            free.add(new RecordBatch(cols, displayIndex, rowsPerBatch));
         }
         this.writer = new Thread(this::writeBlocks, "dowser-pool-writer");
         this.writer.setDaemon(true);

@@ -8,7 +8,9 @@ import java.sql.Timestamp;
 import java.time.Clock;
 import java.time.Instant;
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.List;
+import java.util.Map;
 import java.util.Optional;
 import javax.sql.DataSource;
 
@@ -180,8 +182,38 @@ public final class UserStore {
         return tokens("t.token_hash = ?", tokenHash).stream().findFirst();
     }
 
+    /** The live (not revoked) tokens of {@code userName}, oldest first. */
     public List<TokenRow> tokensOf(String userName) {
-        return tokens("u.name = ?", userName);
+        return tokens("u.name = ? AND t.revoked_at IS NULL", userName);
+    }
+
+    /** Live tokens per account name (accounts without any are left out). */
+    public Map<String, Long> liveTokenCounts() {
+        Map<String, Long> out = new HashMap<>();
+        try (Connection c = ds.getConnection();
+             PreparedStatement q = c.prepareStatement("SELECT u.name, COUNT(*) FROM api_tokens t JOIN users u"
+                     + " ON u.id = t.user_id WHERE t.revoked_at IS NULL GROUP BY u.name");
+             ResultSet rs = q.executeQuery()) {
+            while (rs.next()) {
+                out.put(rs.getString(1), rs.getLong(2));
+            }
+            return out;
+        } catch (SQLException e) {
+            throw new StoreException("cannot count API tokens: " + e.getMessage(), e);
+        }
+    }
+
+    /** Revokes every live token of the account; returns how many. */
+    public int revokeTokensOf(long userId) {
+        try (Connection c = ds.getConnection();
+             PreparedStatement u = c.prepareStatement("UPDATE api_tokens SET revoked_at = ? WHERE user_id = ?"
+                     + " AND revoked_at IS NULL")) {
+            u.setTimestamp(1, Timestamp.from(clock.instant()));
+            u.setLong(2, userId);
+            return u.executeUpdate();
+        } catch (SQLException e) {
+            throw new StoreException("cannot revoke the API tokens of account " + userId + ": " + e.getMessage(), e);
+        }
     }
 
     /** Revokes token {@code id} of {@code userName}; false when that account has no such live token. */

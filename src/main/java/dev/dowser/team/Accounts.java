@@ -10,6 +10,7 @@ import java.time.Clock;
 import java.time.Duration;
 import java.time.Instant;
 import java.util.List;
+import java.util.Map;
 import java.util.Optional;
 import java.util.regex.Pattern;
 
@@ -20,8 +21,6 @@ import java.util.regex.Pattern;
  */
 public final class Accounts {
 
-    /** API tokens start with this, so a leaked one is easy to recognise in logs and scans. */
-    public static final String TOKEN_PREFIX = "dwt_";
     static final Duration TOUCH_EVERY = Duration.ofMinutes(1);
     private static final Pattern NAME = Pattern.compile("[\\p{L}\\p{N}._@-][\\p{L}\\p{N}._@ -]{0,99}");
 
@@ -100,17 +99,32 @@ public final class Accounts {
         db.history().append(null, "account:" + name, "role-changed", actor, before.role(), role.word());
     }
 
-    /** Disables or enables an account; a disabled one's sessions and tokens stop at the next request. */
+    /**
+     * Disables or enables an account. A disabled one's sessions stop at the next request and its API
+     * tokens are revoked, so that enabling it again brings back no credential made before.
+     */
     public void setDisabled(String name, boolean disabled, String actor) {
         UserRow before = db.users().require(name);
         db.users().update(name, null, null, disabled);
         db.history().append(null, "account:" + name, disabled ? "account-disabled" : "account-enabled", actor,
                 Boolean.toString(before.disabled()), Boolean.toString(disabled));
+        if (disabled) {
+            revokeAll(before, actor);
+        }
     }
 
-    /** An admin's new password for someone: their sessions end, as after a suspected leak. */
+    /** An admin's new password for someone: their sessions end and their API tokens are revoked, as after a leak. */
     public void resetPassword(String name, String password, String actor) {
-        setPassword(db.users().require(name), password, null, "password-reset", actor);
+        UserRow u = db.users().require(name);
+        setPassword(u, password, null, "password-reset", actor);
+        revokeAll(u, actor);
+    }
+
+    private void revokeAll(UserRow u, String actor) {
+        int revoked = db.users().revokeTokensOf(u.id());
+        if (revoked > 0) {
+            db.history().append(null, "account:" + u.name(), "tokens-revoked", actor, revoked + " live", "0 live");
+        }
     }
 
     /**
@@ -119,13 +133,18 @@ public final class Accounts {
      */
     public void changeOwnPassword(Caller caller, String current, String next, String address) {
         Passwords.check(next);
-        limiter.check(caller.name(), address);
-        UserRow u = db.users().require(caller.name());
-        if (!Passwords.matches(current, u.passwordHash())) {
-            limiter.failed(caller.name(), address);
-            throw new AuthException(AuthException.Kind.FORBIDDEN, "the current password is wrong");
+        LoginLimiter.Attempt attempt = limiter.begin(caller.name(), address);
+        boolean ok = false;
+        try {
+            UserRow u = db.users().require(caller.name());
+            ok = Passwords.matches(current, u.passwordHash());
+            if (!ok) {
+                throw new AuthException(AuthException.Kind.FORBIDDEN, "the current password is wrong");
+            }
+            setPassword(u, next, caller.sessionHash(), "password-changed", u.name());
+        } finally {
+            attempt.end(ok);
         }
-        setPassword(u, next, caller.sessionHash(), "password-changed", u.name());
     }
 
     /** Stores a new password, ends the account's sessions but {@code keepSession} (may be null), records it. */
@@ -135,19 +154,23 @@ public final class Accounts {
         db.history().append(null, "account:" + u.name(), kind, actor, null, null);
     }
 
-    /** Checks a password and starts a session; failures are counted per account and per address. */
+    /** Checks a password and starts a session; failures are held back by account and address ({@link LoginLimiter}). */
     public SignIn login(String name, String password, String address) {
-        limiter.check(name, address);
-        Optional<UserRow> user = db.users().find(name);
-        // Hash even for an unknown name, so the reply's timing does not tell which names exist.
-        boolean ok = user.isPresent() ? Passwords.matches(password, user.get().passwordHash())
-                : Passwords.matches(password, decoy());
-        if (!ok || user.get().disabled()) {
-            limiter.failed(name, address);
+        LoginLimiter.Attempt attempt = limiter.begin(name, address);
+        boolean ok = false;
+        Optional<UserRow> user;
+        try {
+            user = db.users().find(name);
+            // Hash even for an unknown name, so the reply's timing does not tell which names exist.
+            ok = (user.isPresent() ? Passwords.matches(password, user.get().passwordHash())
+                    : Passwords.matches(password, decoy())) && !user.get().disabled();
+        } finally {
+            attempt.end(ok);
+        }
+        if (!ok) {
             throw new AuthException(AuthException.Kind.NOT_SIGNED_IN, "the name or password is wrong,"
                     + " or the account is disabled");
         }
-        limiter.succeeded(name);
         UserRow u = user.get();
         if (passwords.needsRehash(u.passwordHash())) {
             db.users().update(u.name(), null, passwords.hash(password), null);
@@ -185,9 +208,9 @@ public final class Accounts {
         }
     }
 
-    /** Who an API token signs in, if it is live and its account enabled. */
+    /** Who an API token signs in, if it is well formed, live, and its account enabled. */
     public Optional<Caller> token(String token) {
-        if (!token.startsWith(TOKEN_PREFIX)) {
+        if (!ApiTokens.wellFormed(token)) {
             return Optional.empty();
         }
         return db.users().token(Secrets.hash(token))
@@ -195,22 +218,48 @@ public final class Accounts {
                 .map(t -> new Caller(t.user().name(), Role.parse(t.user().role()), null, null));
     }
 
+    /** True when {@code token} has the shape and check characters of a token this server makes. */
+    public static boolean wellFormedToken(String token) {
+        return ApiTokens.wellFormed(token);
+    }
+
     /** Makes an API token for the caller; the returned text is the only copy. */
     public String newToken(Caller caller, String name) {
         if (name == null || name.isBlank() || name.length() > 100) {
             throw new IllegalArgumentException("a token needs a name of 1 to 100 characters, to tell it apart later");
         }
-        String token = TOKEN_PREFIX + Secrets.token(random);
+        String token = ApiTokens.make(random);
         db.users().addToken(Secrets.hash(token), db.users().require(caller.name()).id(), name.strip());
         return token;
     }
 
+    /** The caller's live tokens. */
     public List<TokenRow> tokens(Caller caller) {
         return db.users().tokensOf(caller.name());
     }
 
+    /** Any account's live tokens, for an admin. */
+    public List<TokenRow> tokensOf(String account) {
+        return db.users().tokensOf(db.users().require(account).name());
+    }
+
+    /** Live tokens per account name. */
+    public Map<String, Long> liveTokenCounts() {
+        return db.users().liveTokenCounts();
+    }
+
     public boolean revokeToken(Caller caller, long id) {
         return db.users().revokeToken(id, caller.name());
+    }
+
+    /** An admin revokes a token of any account; recorded in the account's history. */
+    public boolean revokeTokenOf(String account, long id, String actor) {
+        UserRow u = db.users().require(account);
+        boolean revoked = db.users().revokeToken(id, u.name());
+        if (revoked && !u.name().equals(actor)) {
+            db.history().append(null, "account:" + u.name(), "token-revoked", actor, "token " + id, null);
+        }
+        return revoked;
     }
 
     static void checkName(String name) {

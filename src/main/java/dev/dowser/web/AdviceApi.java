@@ -40,7 +40,7 @@ final class AdviceApi {
                 .put("more_for_5_points", a.checked().moreChecksFor(AccuracyEstimate.TARGET_HALF_WIDTH));
         ArrayNode rounds = body.putArray("rounds");
         for (AccuracyReport.RoundEstimate e : a.perRound()) {
-            estimate(rounds.addObject().put("round", e.round()).put("labels", e.labels())
+            estimate(rounds.addObject().put("round", e.round()).put("model_labels", e.labels())
                     .put("from", e.weighted() ? "picks" : "spot_checks"), e.accuracy());
         }
         LearningCurve curve = a.curve();

@@ -199,7 +199,12 @@ final class Gate implements HttpHandler {
                 throw new AuthException(AuthException.Kind.NOT_SIGNED_IN,
                         "the Authorization header must be 'Bearer' and an API token");
             }
-            return Optional.of(accounts.token(authorization.substring(7).strip()).orElseThrow(() ->
+            String token = authorization.substring(7).strip();
+            if (!Accounts.wellFormedToken(token)) {
+                throw new AuthException(AuthException.Kind.NOT_SIGNED_IN, "the Authorization header holds no whole"
+                        + " Dowser API token (dowser., 52 letters and digits, a dot, 7 check characters); copy it again");
+            }
+            return Optional.of(accounts.token(token).orElseThrow(() ->
                     new AuthException(AuthException.Kind.NOT_SIGNED_IN,
                             "the API token is unknown, revoked, or its account is disabled")));
         }

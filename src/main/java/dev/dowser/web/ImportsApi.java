@@ -1,7 +1,7 @@
 package dev.dowser.web;
 
+import static dev.dowser.web.Requests.intQuery;
 import static dev.dowser.web.Requests.listQuery;
-import static dev.dowser.web.Requests.longQuery;
 import static dev.dowser.web.Requests.param;
 import static dev.dowser.web.Requests.query;
 import static dev.dowser.web.Requests.requiredQuery;
@@ -39,8 +39,8 @@ final class ImportsApi {
         FileFormat format = formatWord == null ? FileFormat.fromFileName(fileName) : FileFormat.parse(formatWord);
         ImportSpec spec = new ImportSpec(pool, format, query(ex, "id", null), listQuery(ex, "features"),
                 listQuery(ex, "display"), query(ex, "label", null), listQuery(ex, "classes"),
-                listQuery(ex, "categorical"), (int) longQuery(ex, "max_levels", ImportSpec.DEFAULT_MAX_LEVELS),
-                (int) longQuery(ex, "max_field_chars", ImportSpec.DEFAULT_MAX_FIELD_CHARS),
+                listQuery(ex, "categorical"), intQuery(ex, "max_levels", ImportSpec.DEFAULT_MAX_LEVELS, 2, 1_000_000),
+                intQuery(ex, "max_field_chars", ImportSpec.DEFAULT_MAX_FIELD_CHARS, 16, Json.MAX_STRING_CHARS),
                 ImportSpec.UNLIMITED_BYTES, "import");
         if (!spec.namesLabelSet()) {
             throw new ApiException(400, "a pool needs classes for people to choose from: add classes=a,b,c to"

@@ -100,11 +100,14 @@ final class PoolsApi {
         String name = param(ex, "pool");
         db.pools().require(name);
         FileFormat format = FileFormat.parse(query(ex, "format", "csv"));
+        Exporter.Formulas formulas = Exporter.Formulas.parse(query(ex, "formulas", "escape"));
         ex.startBlocking();
         ex.getResponseHeaders().put(Headers.CONTENT_TYPE,
                 format == FileFormat.CSV ? "text/csv; charset=utf-8" : "application/x-ndjson; charset=utf-8");
         ex.getResponseHeaders().put(Headers.CONTENT_DISPOSITION,
                 "attachment; filename=\"" + name + "-labels." + format.word() + "\"");
-        new Exporter(db).export(name, format, ex.getOutputStream());
+        // Labels and the people who gave them: no copy kept by browsers or proxies.
+        ex.getResponseHeaders().put(Headers.CACHE_CONTROL, "no-store");
+        new Exporter(db).export(name, format, formulas, ex.getOutputStream());
     }
 }

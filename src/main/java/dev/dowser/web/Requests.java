@@ -55,6 +55,15 @@ final class Requests {
         }
     }
 
+    /** A whole number from {@code min} to {@code max} in query parameter {@code name}, or {@code fallback}. */
+    static int intQuery(HttpServerExchange ex, String name, int fallback, int min, int max) {
+        long v = longQuery(ex, name, fallback);
+        if (v < min || v > max) {
+            throw new ApiException(400, "query parameter '" + name + "' must be " + min + " to " + max + ", got " + v);
+        }
+        return (int) v;
+    }
+
     /**
      * The request's JSON body, a JSON object (the gate has read it, refusing it past
      * {@value #MAX_JSON_BODY_BYTES} bytes); {@code what} names it in the error.

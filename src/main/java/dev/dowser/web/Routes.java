@@ -45,6 +45,8 @@ final class Routes {
                 call("GET", "/users", ADMINS, team::users),
                 call("POST", "/users", ADMINS, team::addUser),
                 call("PUT", "/users/{name}", ADMINS, team::changeUser),
+                call("GET", "/users/{name}/tokens", ADMINS, team::tokensOf),
+                call("DELETE", "/users/{name}/tokens/{id}", ADMINS, team::revokeTokenOf),
                 call("GET", "/pools", ANYONE_SIGNED_IN, pools::listPools),
                 call("GET", "/pools/{pool}", ANYONE_SIGNED_IN, pools::pool),
                 call("GET", "/pools/{pool}/records", REVIEWERS, pools::records),

@@ -59,13 +59,23 @@ final class TeamApi {
         return ((InetSocketAddress) ex.getSourceAddress()).getAddress().getHostAddress();
     }
 
+    /** The caller's live tokens. */
     void tokens(HttpServerExchange ex) {
+        Responses.ok(ex, Json.object().set("tokens", tokensJson(accounts.tokens(Gate.caller(ex, true)))));
+    }
+
+    /** An account's live tokens, for an admin. */
+    void tokensOf(HttpServerExchange ex) {
+        Responses.ok(ex, Json.object().put("name", param(ex, "name"))
+                .set("tokens", tokensJson(accounts.tokensOf(param(ex, "name")))));
+    }
+
+    private static ArrayNode tokensJson(java.util.List<TokenRow> tokens) {
         ArrayNode list = Json.array();
-        for (TokenRow t : accounts.tokens(Gate.caller(ex, true))) {
-            list.addObject().put("id", t.id()).put("name", t.name()).put("created_at", t.createdAt().toString())
-                    .put("revoked_at", t.revokedAt() == null ? null : t.revokedAt().toString());
+        for (TokenRow t : tokens) {
+            list.addObject().put("id", t.id()).put("name", t.name()).put("created_at", t.createdAt().toString());
         }
-        Responses.ok(ex, Json.object().set("tokens", list));
+        return list;
     }
 
     void newToken(HttpServerExchange ex) throws IOException {
@@ -76,21 +86,35 @@ final class TeamApi {
     }
 
     void revokeToken(HttpServerExchange ex) {
-        long id;
-        try {
-            id = Long.parseLong(param(ex, "id"));
-        } catch (NumberFormatException e) {
-            throw new ApiException(400, "a token id is a whole number, got '" + param(ex, "id") + "'");
-        }
+        long id = tokenId(ex);
         if (!accounts.revokeToken(Gate.caller(ex, true), id)) {
             throw new ApiException(404, "you have no live token with id " + id);
         }
         Responses.ok(ex, Json.object().put("revoked", id));
     }
 
+    /** An admin revokes any account's token. */
+    void revokeTokenOf(HttpServerExchange ex) {
+        long id = tokenId(ex);
+        String name = param(ex, "name");
+        if (!accounts.revokeTokenOf(name, id, Gate.caller(ex, true).name())) {
+            throw new ApiException(404, "the account '" + name + "' has no live token with id " + id);
+        }
+        Responses.ok(ex, Json.object().put("revoked", id).put("name", name));
+    }
+
+    private static long tokenId(HttpServerExchange ex) {
+        try {
+            return Long.parseLong(param(ex, "id"));
+        } catch (NumberFormatException e) {
+            throw new ApiException(400, "a token id is a whole number, got '" + param(ex, "id") + "'");
+        }
+    }
+
     void users(HttpServerExchange ex) {
         ArrayNode list = Json.array();
-        accounts.list().forEach(u -> list.add(userJson(u)));
+        java.util.Map<String, Long> live = accounts.liveTokenCounts();
+        accounts.list().forEach(u -> list.add(userJson(u).put("live_tokens", live.getOrDefault(u.name(), 0L))));
         Responses.ok(ex, Json.object().set("users", list));
     }
 

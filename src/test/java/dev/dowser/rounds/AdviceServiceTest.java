@@ -179,5 +179,8 @@ class AdviceServiceTest {
         ChainAdvice raised = AdviceService.chains(health, "{\"chains\":4,\"draws\":64}", new PoolSettings.Sampling(4, 128,
                 300));
         assertTrue(raised.points().get(0).text().contains("the next round uses them"), raised.toString());
+        assertEquals(ChainAdvice.NOTE, raised.level());
+        assertEquals("Predictions rested on few independent draws; the settings have been raised since.",
+                raised.summary());
     }
 }

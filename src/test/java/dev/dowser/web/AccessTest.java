@@ -53,6 +53,8 @@ class AccessTest {
         {"GET", "/users", "/users", "admin"},
         {"POST", "/users", "/users", "admin"},
         {"PUT", "/users/{name}", "/users/nobody", "admin"},
+        {"GET", "/users/{name}/tokens", "/users/nobody/tokens", "admin"},
+        {"DELETE", "/users/{name}/tokens/{id}", "/users/nobody/tokens/99", "admin"},
         {"GET", "/pools", "/pools", "labeller reviewer admin"},
         {"GET", "/pools/{pool}", "/pools/p", "labeller reviewer admin"},
         {"GET", "/pools/{pool}/records", "/pools/p/records", "reviewer admin"},
@@ -228,7 +230,7 @@ class AccessTest {
                 "the cookie still in hand no longer signs in");
 
         HttpResponse<String> held = null;
-        for (int i = 0; i <= TeamConfig.DEFAULT_FAILURES_PER_ACCOUNT; i++) {
+        for (int i = 0; i <= TeamConfig.DEFAULT_FREE_FAILURES; i++) {
             held = http.send(request("POST", "/api/v1/session", null, false, false)
                     .POST(HttpRequest.BodyPublishers.ofString("{\"name\":\"admin-1\",\"password\":\"not it at all\"}"))
                     .build(), HttpResponse.BodyHandlers.ofString());

@@ -122,7 +122,9 @@ class DeskApiTest {
         HttpResponse<String> notTheirs = as("p1", "POST", "/api/v1/pools/iris/labels/undo",
                 "{\"record\":\"" + recordA + "\"}");
         assertEquals(409, notTheirs.statusCode());
-        assertTrue(notTheirs.body().contains("was given by p3; only they can take it back"), notTheirs.body());
+        // Issue 11: the refusal named p3's label, which defeats blind double labelling.
+        assertEquals("{\"error\":\"you have no label on this record to take back\"}", notTheirs.body());
+        assertFalse(notTheirs.body().contains("setosa") || notTheirs.body().contains("p3"), notTheirs.body());
 
         JsonNode undone = ok(as("p3", "POST", "/api/v1/pools/iris/labels/undo",
                 "{\"record\":\"" + recordA + "\"}"), 200);
@@ -135,7 +137,8 @@ class DeskApiTest {
         HttpResponse<String> twice = as("p3", "POST", "/api/v1/pools/iris/labels/undo",
                 "{\"record\":\"" + recordA + "\"}");
         assertEquals(409, twice.statusCode());
-        assertTrue(twice.body().contains("no label to take back"), twice.body());
+        assertEquals("{\"error\":\"you have no label on this record to take back\"}", twice.body(),
+                "the same words when nobody has a label on it");
         String export = send("GET", "/api/v1/pools/iris/export?format=csv", "").body();
         assertFalse(export.contains("p3"), "a withdrawn label was exported");
         assertEquals(3, ok(send("GET", "/api/v1/pools/iris", ""), 200).get("classes").findValues("labelled").stream()

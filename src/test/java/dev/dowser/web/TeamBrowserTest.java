@@ -217,7 +217,7 @@ class TeamBrowserTest {
         browser.byId("new-token").findElement(By.name("purpose")).sendKeys("nightly script", Keys.ENTER);
         String token = browser.await(d -> browser.byId("token-shown").isDisplayed() ? browser.byId("token-text").getText() : null,
                 "the new token");
-        assertTrue(token.startsWith("dwt_"), token);
+        assertTrue(token.matches("dowser\\.[0-9a-z]{52}\\.[0-9a-z]{7}"), token);
         tokens.put("script", token);
         assertEquals(200, call("script", "GET", "api/v1/pools", "").statusCode());
         browser.screenshot("15-account-token");
@@ -225,7 +225,11 @@ class TeamBrowserTest {
                 "two live tokens: the test's and the new one");
         WebElement row = browser.driver.findElement(By.xpath("//table[@id='tokens']//tr[td[text()='nightly script']]"));
         row.findElement(By.tagName("button")).click();
-        browser.await(d -> browser.byId("tokens-message").getText().contains("revoked"), "the revocation");
+        browser.await(d -> browser.byId("tokens-message").getText()
+                .equals("Revoked the token “nightly script”: it no longer signs anything in."), "the revocation");
+        browser.await(d -> d.findElements(By.xpath("//table[@id='tokens']//tr[td[text()='nightly script']]")).isEmpty(),
+                "the revoked token gone from the list");
+        assertEquals(1, browser.driver.findElements(By.xpath("//table[@id='tokens']//button[text()='Revoke']")).size());
         assertEquals(401, call("script", "GET", "api/v1/pools", "").statusCode(), "a revoked token stops at once");
     }
 

@@ -1,0 +1,224 @@
+package dev.dowser.web;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.dowser.TestSupport;
+import dev.dowser.store.Database;
+import dev.dowser.team.Role;
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.io.Writer;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.List;
+import java.util.Map;
+import java.util.TreeMap;
+import java.util.concurrent.ConcurrentHashMap;
+import java.util.concurrent.atomic.AtomicLong;
+import net.jqwik.api.Arbitrary;
+import net.jqwik.api.EdgeCasesMode;
+import net.jqwik.api.ForAll;
+import net.jqwik.api.Property;
+import net.jqwik.api.Provide;
+import net.jqwik.api.Tag;
+import net.jqwik.api.lifecycle.AfterContainer;
+import net.jqwik.api.lifecycle.BeforeContainer;
+
+/**
+ * Generated input against the real server on a loopback port and its H2 file database: files to
+ * import and to preview, and every JSON body of the API, from every kind of caller (jqwik's
+ * property-based testing; the generators are in {@link FuzzInputs}). No input may get a 500, and
+ * an input refused (any 4xx) must leave the stored data exactly as it was: no partial write.
+ *
+ * <p>{@code ./dowser test} runs the properties without the {@code bench} tag: a fixed seed and a
+ * few hundred tries each, the same inputs every run. {@code dowser bench --only fuzz} runs the
+ * tagged ones, on fresh random seeds, with {@code jqwik.tries.default} tries each (100,000 in all)
+ * and writes its counts to the file named by {@code dowser.fuzz.report} (with
+ * {@code -Ddowser.fuzz.messages=1}, also how often each kind of refusal came, to tune the generators).
+ */
+class EdgeFuzzTest {
+
+    static final String SUITE_SEED = "20261203";
+    static final int SUITE_TRIES = 300;
+
+    private static Path dir;
+    private static Database db;
+    private static WebServer server;
+    private static Fingerprint fingerprint;
+    private static final HttpClient HTTP = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(10)).build();
+    private static final Map<String, String> TOKENS = new ConcurrentHashMap<>();
+    private static final Map<String, AtomicLong> COUNTS = new ConcurrentHashMap<>();
+
+    @BeforeContainer
+    static void start() throws IOException {
+        dir = Files.createTempDirectory("dowser-fuzz-");
+        db = TestSupport.openDb(dir.resolve("db"));
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads"))
+                .withLimits(ClientLimits.defaults().withBodyTimeouts(10_000, 10_000)), TestSupport.quickSampler(),
+                TestSupport.FAST_TEAM);
+        TOKENS.put("admin", TestSupport.tokenFor(db, "ana", Role.ADMIN));
+        TOKENS.put("labeller", TestSupport.tokenFor(db, "leo", Role.LABELLER));
+        TestSupport.importText(db, "p", "id,flow,site,label\na1,1.5,north,ok\na2,2.5,south,\na3,0.5,north,fault\n",
+                TestSupport.csv("p").withId("id").withLabel("label").withFeatures(List.of("flow", "site")));
+        fingerprint = new Fingerprint(dir.resolve("db"));
+    }
+
+    @AfterContainer
+    static void stop() throws IOException {
+        String report = System.getProperty("dowser.fuzz.report");
+        if (report != null) {
+            try (Writer w = Files.newBufferedWriter(Path.of(report))) {
+                for (var e : new TreeMap<>(COUNTS).entrySet()) {
+                    w.write("fuzz_" + e.getKey() + "=" + e.getValue().get() + "\n");
+                }
+            }
+        }
+        fingerprint.close();
+        server.close();
+        db.close();
+        TestSupport.deleteTree(dir);
+    }
+
+    // ---- the suite: fixed seeds, a few hundred tries each --------------------------------------
+
+    @Property(tries = SUITE_TRIES, seed = SUITE_SEED, edgeCases = EdgeCasesMode.NONE)
+    void importsNeverFailOrWriteHalf(@ForAll("uploads") FuzzInputs.Upload u) {
+        checkImport(u);
+    }
+
+    @Property(tries = SUITE_TRIES, seed = SUITE_SEED, edgeCases = EdgeCasesMode.NONE)
+    void previewsNeverFail(@ForAll("heads") FuzzInputs.Upload u) {
+        checkPreview(u);
+    }
+
+    @Property(tries = SUITE_TRIES, seed = SUITE_SEED, edgeCases = EdgeCasesMode.NONE)
+    void jsonBodiesNeverFailOrWriteHalf(@ForAll("calls") FuzzInputs.Call c) {
+        checkCall(c);
+    }
+
+    // ---- the bench: random seeds, as many tries as asked ---------------------------------------
+
+    @Property
+    @Tag("bench")
+    void importsNeverFailOrWriteHalfAtLength(@ForAll("uploads") FuzzInputs.Upload u) {
+        checkImport(u);
+    }
+
+    @Property
+    @Tag("bench")
+    void previewsNeverFailAtLength(@ForAll("heads") FuzzInputs.Upload u) {
+        checkPreview(u);
+    }
+
+    @Property
+    @Tag("bench")
+    void jsonBodiesNeverFailOrWriteHalfAtLength(@ForAll("calls") FuzzInputs.Call c) {
+        checkCall(c);
+    }
+
+    @Provide
+    Arbitrary<FuzzInputs.Upload> uploads() {
+        return FuzzInputs.uploads();
+    }
+
+    @Provide
+    Arbitrary<FuzzInputs.Upload> heads() {
+        return FuzzInputs.heads();
+    }
+
+    @Provide
+    Arbitrary<FuzzInputs.Call> calls() {
+        return FuzzInputs.calls();
+    }
+
+    // ---- the checks ----------------------------------------------------------------------------
+
+    private static void checkImport(FuzzInputs.Upload u) {
+        Map<String, String> before = fingerprint.take();
+        HttpResponse<String> r = send("admin", "POST", "/api/v1/imports?" + u.query() + "&wait=true", u.body());
+        count("import", r.statusCode());
+        assertTrue(r.statusCode() == 201 || r.statusCode() == 400 || r.statusCode() == 413,
+                "import answered " + r.statusCode() + ": " + r.body() + "\nfor " + u);
+        Map<String, String> after = fingerprint.take();
+        if (r.statusCode() != 201) {
+            assertEquals(before, after, "a refused import changed the database: " + r.body() + "\nfor " + u);
+        } else {
+            COUNTS.computeIfAbsent("import_pools_made", k -> new AtomicLong()).incrementAndGet();
+            assertEquals(Long.parseLong(before.get("count:pools")) + 1, Long.parseLong(after.get("count:pools")));
+        }
+        assertError(r, "import");
+    }
+
+    private static void checkPreview(FuzzInputs.Upload u) {
+        Map<String, String> before = fingerprint.take();
+        HttpResponse<String> r = send("admin", "POST", "/api/v1/previews?" + u.query(), u.body());
+        count("preview", r.statusCode());
+        assertTrue(r.statusCode() == 200 || r.statusCode() == 400 || r.statusCode() == 413,
+                "preview answered " + r.statusCode() + ": " + r.body() + "\nfor " + u);
+        assertEquals(before, fingerprint.take(), "a preview changed the database");
+        assertError(r, "preview");
+    }
+
+    private static void checkCall(FuzzInputs.Call c) {
+        Map<String, String> before = fingerprint.take();
+        HttpResponse<String> r = send(c.caller(), c.method(), c.path(), c.body());
+        count("json", r.statusCode());
+        assertTrue(r.statusCode() < 500, c.method() + " " + c.path() + " answered " + r.statusCode() + ": " + r.body()
+                + "\nfor " + c);
+        if (r.statusCode() >= 400) {
+            assertEquals(before, fingerprint.take(), "a refused call changed the database: " + r.body() + "\nfor " + c);
+        } else if (c.path().startsWith("/api/v1/users/leo")) {
+            // The admin disabled leo or set his password, which revokes his token: give him a new one.
+            var accounts = new dev.dowser.team.Accounts(db, new java.security.SecureRandom(), TestSupport.FAST_TEAM);
+            accounts.setDisabled("leo", false, "fuzz");
+            TOKENS.put("labeller", accounts.newToken(new dev.dowser.team.Caller("leo", Role.LABELLER, null, null), "fuzz"));
+        }
+        assertError(r, "json");
+    }
+
+    /** A refusal is one JSON object with a message a person can read. */
+    private static void assertError(HttpResponse<String> r, String target) {
+        if (r.statusCode() >= 400) {
+            String error = dev.dowser.json.Json.tree(r.body()).path("error").asText("");
+            if (System.getProperty("dowser.fuzz.messages") != null) {
+                String kind = error.replaceAll("'[^']*'", "'…'").replaceAll("\\d+", "N");
+                COUNTS.computeIfAbsent("msg " + target + " " + kind.substring(0, Math.min(70, kind.length())), k -> new AtomicLong())
+                        .incrementAndGet();
+            }
+            assertTrue(!error.isBlank() && !error.contains("Exception"), "no message, or a Java one: " + r.body());
+        }
+    }
+
+    private static void count(String target, int status) {
+        COUNTS.computeIfAbsent(target + "_inputs", k -> new AtomicLong()).incrementAndGet();
+        COUNTS.computeIfAbsent(target + "_status_" + status, k -> new AtomicLong()).incrementAndGet();
+        COUNTS.computeIfAbsent("inputs", k -> new AtomicLong()).incrementAndGet();
+        COUNTS.computeIfAbsent("status_500", k -> new AtomicLong());
+        if (status >= 500) {
+            COUNTS.get("status_500").incrementAndGet();
+        }
+    }
+
+    private static HttpResponse<String> send(String caller, String method, String path, byte[] body) {
+        HttpRequest.Builder b = HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + server.port() + path))
+                .timeout(Duration.ofSeconds(60))
+                .method(method, body == null ? HttpRequest.BodyPublishers.noBody() : HttpRequest.BodyPublishers.ofByteArray(body));
+        if (TOKENS.containsKey(caller)) {
+            b.header("Authorization", "Bearer " + TOKENS.get(caller));
+        }
+        try {
+            return HTTP.send(b.build(), HttpResponse.BodyHandlers.ofString());
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            throw new IllegalStateException(e);
+        }
+    }
+}

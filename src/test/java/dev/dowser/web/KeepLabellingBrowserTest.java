@@ -1,0 +1,257 @@
+package dev.dowser.web;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.dowser.TestSupport;
+import dev.dowser.data.ImportProgress;
+import dev.dowser.data.Importer;
+import dev.dowser.json.Json;
+import dev.dowser.store.Database;
+import dev.dowser.store.PoolRow;
+import dev.dowser.store.QueueEntry;
+import dev.dowser.store.RoundStore;
+import dev.dowser.team.Role;
+import java.io.InputStream;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.function.DoubleUnaryOperator;
+import java.util.function.IntToDoubleFunction;
+import org.junit.jupiter.api.AfterEach;
+import org.junit.jupiter.api.BeforeEach;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.openqa.selenium.By;
+import org.openqa.selenium.Keys;
+import org.openqa.selenium.WebElement;
+
+/**
+ * The keep-labelling card in a real headless Chromium against the real server and H2 file
+ * database, in three states. At the start: iris (Fisher 1936, as shipped by Debian's
+ * python3-sklearn) without its labels, labelled through the desk's calls by a labeller who knows
+ * the true class, rounds running by themselves; the card and the desk's line say it is too early
+ * to tell. Midway and at a plateau: pools whose history of rounds is written to the store as the
+ * server keeps it, with accuracy following a known learning curve, so that what the card must say
+ * is known: labels still paying, then predictions settled.
+ */
+class KeepLabellingBrowserTest {
+
+    static final String LEAD = "lead";
+    static final String PERSON = "labeller-a";
+
+    @TempDir
+    Path dir;
+    Database db;
+    WebServer server;
+    Browser browser;
+    String lead;
+    String person;
+    final HttpClient http = HttpClient.newHttpClient();
+
+    @BeforeEach
+    void start() {
+        db = TestSupport.openDb(dir.resolve("db"));
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 24, dir.resolve("uploads")),
+                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        lead = TestSupport.tokenFor(db, LEAD, Role.ADMIN);
+        person = TestSupport.tokenFor(db, PERSON, Role.LABELLER);
+        browser = new Browser(dir.resolve("profile"));
+    }
+
+    @AfterEach
+    void stop() {
+        if (browser != null) {
+            browser.close();
+        }
+        server.close();
+        db.close();
+    }
+
+    private String base() {
+        return "http://127.0.0.1:" + server.port() + "/";
+    }
+
+    private JsonNode call(String token, String method, String path, String body) throws Exception {
+        HttpRequest.Builder b = HttpRequest.newBuilder(URI.create(base() + "api/v1/" + path))
+                .header("Authorization", "Bearer " + token).header("Content-Type", "application/json");
+        HttpResponse<String> r = http.send(b.method(method, body == null ? HttpRequest.BodyPublishers.noBody()
+                : HttpRequest.BodyPublishers.ofString(body)).build(), HttpResponse.BodyHandlers.ofString());
+        assertTrue(r.statusCode() < 300, method + " " + path + ": " + r.statusCode() + " " + r.body());
+        return Json.tree(r.body());
+    }
+
+    private void signIn(String name) {
+        browser.driver.get(base() + "login.html");
+        WebElement form = browser.await(d -> browser.byId("sign-in").isDisplayed() ? browser.byId("sign-in") : null,
+                "the sign-in form");
+        form.findElement(By.name("account")).sendKeys(name);
+        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
+        browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signing in as " + name);
+    }
+
+    /** The overview of {@code pool} once its card reads something that {@code reads} accepts. */
+    private String card(String pool, String what, java.util.function.Predicate<String> reads) {
+        browser.driver.get(base() + "overview.html?pool=" + pool);
+        return browser.await(d -> {
+            String h = browser.byId("keep-headline").getText();
+            return reads.test(h) ? h : null;
+        }, what);
+    }
+
+    /** Iris is in class order, 50 each: the row gives the true class. */
+    private static String truth(long row) {
+        return row < 50 ? "setosa" : row < 100 ? "versicolor" : "virginica";
+    }
+
+    /** Labels what the desk hands out until the served queue has nothing left for this person. */
+    private int labelQueue() throws Exception {
+        int n = 0;
+        while (true) {
+            JsonNode offer = call(person, "POST", "pools/iris/queue/next", null);
+            if (offer.path("record").isNull() || offer.path("record").isMissingNode()) {
+                return n;
+            }
+            JsonNode record = offer.get("record");
+            call(person, "POST", "pools/iris/labels", Json.write(Json.object().put("record", record.get("id").asText())
+                    .put("label", truth(record.get("row").asLong()))));
+            n++;
+        }
+    }
+
+    private int published() throws Exception {
+        int n = 0;
+        for (JsonNode r : call(lead, "GET", "pools/iris/rounds", null).get("rounds")) {
+            n += "published".equals(r.get("status").asText()) ? 1 : 0;
+        }
+        return n;
+    }
+
+    @Test
+    void atTheStartItIsTooEarlyToTell() throws Exception {
+        TestSupport.OpenDataset iris = TestSupport.openDataset("iris", dir);
+        try (InputStream in = Files.newInputStream(iris.csv())) {
+            new Importer(db).run(in, "iris.csv", TestSupport.csv("iris").withFeatures(List.of("f0", "f1", "f2", "f3"))
+                    .withClasses(List.of("setosa", "versicolor", "virginica")), ImportProgress.NONE);
+        }
+        call(lead, "PUT", "pools/iris/settings", "{\"strategy\":\"power\",\"double_label_share\":0}");
+        signIn(LEAD);
+        String start = card("iris", "the card before any label", h -> h.startsWith("No model yet"));
+        assertEquals("No model yet: the first labels teach it. Dowser can tell whether more labels pay after a few"
+                + " rounds.", start);
+        browser.screenshot("keep-1-start");
+        // The first batch, then two rounds with a model, each started by the labels of the one before.
+        call(lead, "POST", "pools/iris/rounds", "{}");
+        for (int round = 1; round <= 3; round++) {
+            int r = round;
+            TestSupport.await(Duration.ofSeconds(60), () -> published() >= r, "round " + r + " published");
+            assertEquals(10, labelQueue(), "round " + round + "'s queue");
+        }
+        TestSupport.await(Duration.ofSeconds(60), () -> published() >= 4, "round 4 published");
+        String early = card("iris", "the card after 30 labels", h -> h.startsWith("Too early"));
+        assertEquals("Too early to tell: 30 labels so far. After a few more rounds Dowser can say whether labels are"
+                + " still paying.", early);
+        String facts = browser.byId("accuracy-facts").getText();
+        assertTrue(facts.contains("From every picked record, weighted by how likely it was to be picked:"), facts);
+        assertTrue(facts.contains("From spot checks (drawn at random):"), facts);
+        assertTrue(browser.byId("keep-details").getText().contains("Agreement of"), browser.byId("keep-details").getText());
+        browser.screenshot("keep-2-early");
+        JsonNode accuracy = call(lead, "GET", "pools/iris/accuracy", null);
+        assertEquals(List.of(10, 20), List.of(accuracy.at("/rounds/0/model_labels").asInt(),
+                accuracy.at("/rounds/1/model_labels").asInt()), accuracy.toString());
+        // The desk says the same in one line.
+        browser.driver.get(base() + "desk.html?pool=iris");
+        browser.await(d -> browser.byId("keep-line").getText().startsWith("Too early to tell: 30 labels"),
+                "the desk's line");
+        browser.screenshot("keep-3-desk");
+    }
+
+    @Test
+    void midwayLabelsPayAndAtAPlateauPredictionsHaveSettled() throws Exception {
+        // Accuracy 0.98 - 2.5 n^-0.6 over 12 rounds of 20 labels (20 to 240): from 240 to 340
+        // labels the curve gains 100 * 2.5 (240^-0.6 - 340^-0.6) = 1.8 points.
+        String good = "{\"rhatMax\":1.08,\"essBulkMin\":30,\"essTailMin\":24,\"divergences\":0}";
+        history("midway", 12, n -> 0.98 - 2.5 * Math.pow(n, -0.6), r -> 0.6 + 0.03 * r, good);
+        signIn(LEAD);
+        String midway = card("midway", "the card midway", h -> h.startsWith("Labels are still paying"));
+        assertTrue(midway.matches("Labels are still paying: about \\+[0-9.]+ points per 100 labels\\."), midway);
+        String details = browser.byId("keep-details").getText();
+        assertTrue(details.contains("Projected accuracy from the learning curve:"), details);
+        assertTrue(browser.byId("chain-summary").getText().contains("nothing to do"),
+                browser.byId("chain-summary").getText());
+        browser.screenshot("keep-4-midway");
+
+        // 40 rounds to 800 labels on a curve that has levelled off, the last three rounds'
+        // predictions agreeing at 0.995, and chains whose draws lean on few independent ones; the
+        // pool samples with its own 4 chains and 64 draws.
+        String few = "{\"rhatMax\":1.6,\"essBulkMin\":5,\"essTailMin\":4,\"divergences\":0}";
+        history("plateau", 40, n -> 0.95 - 0.5 * Math.pow(n, -1.2), r -> r >= 38 ? 0.995 : 0.95, few);
+        call(lead, "PUT", "pools/plateau/settings", "{\"chains\":4,\"draws\":64,\"reburn_in_steps\":300}");
+        String plateau = card("plateau", "the card at a plateau", h -> h.startsWith("Predictions have settled"));
+        assertTrue(plateau.matches("Predictions have settled: they barely changed over the last 3 rounds; accuracy"
+                + " 0\\.9\\d \\(0\\.\\d\\d-\\d\\.\\d\\d\\)\\. More labels are unlikely to change it much\\."), plateau);
+        String advice = browser.byId("advice").getText();
+        assertTrue(advice.contains("Set Draws kept to 128"), advice);
+        assertTrue(advice.contains("different good explanation"), advice);
+        browser.screenshot("keep-5-plateau");
+        browser.driver.executeScript("arguments[0].scrollIntoView()", browser.byId("health-title"));
+        browser.screenshot("keep-6-plateau-chains");
+        // The advice's link fills in the setting it names, for the admin to save.
+        browser.driver.findElement(By.linkText("Set Draws kept to 128")).click();
+        assertEquals("128", browser.byId("setting-draws").getAttribute("value"));
+        browser.byId("settings-save").click();
+        browser.await(d -> browser.byId("settings-message").getText().startsWith("Saved"), "the settings saved");
+        assertEquals(128, call(lead, "GET", "pools/plateau/settings", null).get("draws").asInt());
+        browser.await(d -> browser.byId("advice").getText().contains("the next round uses them"),
+                "the advice after the change");
+        browser.driver.executeScript("arguments[0].scrollIntoView()", browser.byId("health-title"));
+        browser.screenshot("keep-7-plateau-draws-raised");
+    }
+
+    /**
+     * A pool of 3,000 records with {@code rounds} rounds written as the server keeps them: round r's
+     * model learnt from 20 r labels, picked 20 records uniformly (the last two spot checks), and
+     * got round(20 accuracy(20 r)) of them right, spread over its picks; its stop-set agreement with the round before is
+     * {@code agreement(r)}.
+     */
+    private void history(String name, int rounds, DoubleUnaryOperator accuracy, IntToDoubleFunction agreement,
+                         String health) {
+        StringBuilder csv = new StringBuilder("id,x\n");
+        for (int i = 0; i < 3000; i++) {
+            csv.append("r").append(i).append(',').append(i % 97).append('\n');
+        }
+        TestSupport.importText(db, name, csv.toString(), TestSupport.csv(name).withId("id")
+                .withClasses(List.of("a", "b")));
+        PoolRow pool = db.pools().require(name);
+        long row = 0;
+        int picks = 20;
+        for (int r = 1; r <= rounds; r++) {
+            long labels = (long) picks * r;
+            long candidates = 3000 - row;
+            db.rounds().start(pool.id(), r, labels, new RoundStore.Inputs(r, "{\"chains\":4,\"draws\":64}", null, 0,
+                    null));
+            db.rounds().finish(pool.id(), r, "mala", "a history written by the test", health);
+            db.rounds().settled(pool.id(), r, new RoundStore.Settled(candidates, r == 1 ? Double.NaN
+                    : agreement.applyAsDouble(r), 2000, 100.0 / r, 10.0 / r));
+            long right = Math.round(picks * accuracy.applyAsDouble(labels));
+            List<QueueEntry> queue = new ArrayList<>();
+            for (int m = 1; m <= picks; m++) {
+                queue.add(new QueueEntry(r, m - 1, row + m - 1, 0.1, m > picks - 2, "{\"mean\":[0.9,0.1],\"sd\":[0,0]}",
+                        null, null, 1, 1.0 / (candidates + 1 - m), m));
+            }
+            db.queues().publish(pool.id(), r, queue);
+            for (int m = 1; m <= picks; m++) {
+                // (7 m + 3 r) mod 20 runs over 0..19 as m does: the wrong picks fall in a different place each round.
+                boolean wrong = (7 * m + 3 * r) % picks < picks - right;
+                db.labels().add(pool.id(), row++, wrong ? "b" : "a", "history", null);
+            }
+        }
+    }
+}
