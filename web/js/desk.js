@@ -42,6 +42,11 @@ function showProgress(progress) {
   $('progress').textContent = parts.join(' · ');
 }
 
+/** Whether a class's key is its own name, as the digit classes 0-9 are. */
+function ownKey(c) {
+  return Boolean(c.key) && c.key === c.name;
+}
+
 function renderChoices() {
   const box = $('choices');
   box.replaceChildren();
@@ -55,7 +60,9 @@ function renderChoices() {
       k.textContent = c.key;
       b.append(k);
     }
-    b.append(document.createTextNode(c.name));
+    // A class that is its own key (the digit 3) shows once, as its key.
+    if (!ownKey(c)) b.append(document.createTextNode(c.name));
+    b.setAttribute('aria-label', `${c.name}${c.key ? ` (key ${c.key})` : ''}`);
     b.addEventListener('click', () => label(c.name));
     box.append(b);
   }

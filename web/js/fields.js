@@ -1,4 +1,6 @@
 // Renders display fields as text, never as markup: every value goes through textContent.
+import { el } from './dom.js';
+
 const SVG = 'http://www.w3.org/2000/svg';
 
 /** A list of numbers written as a JSON array, such as a sensor trace; null if the text is anything else. */
@@ -61,28 +63,18 @@ export function seriesChart(values, { scale = null, unit = null, name = 'series'
   const own = { low: Math.min(...values), high: Math.max(...values) };
   const shared = scale && Number.isFinite(scale.low) && Number.isFinite(scale.high) && scale.high > scale.low
     ? { low: Math.min(scale.low, own.low), high: Math.max(scale.high, own.high) } : null;
-  const figure = document.createElement('figure');
-  figure.className = 'trace';
-  const plot = document.createElement('div');
-  plot.className = 'trace-plot';
-  const axis = document.createElement('div');
-  axis.className = 'trace-y';
+  const figure = el('figure', 'trace');
+  const plot = el('div', 'trace-plot');
+  const axis = el('div', 'trace-y');
   const svg = document.createElementNS(SVG, 'svg');
   svg.setAttribute('preserveAspectRatio', 'none');
   svg.setAttribute('role', 'img');
   plot.append(axis, svg);
-  const foot = document.createElement('figcaption');
-  foot.className = 'trace-foot';
-  const xAxis = document.createElement('div');
-  xAxis.className = 'trace-x';
-  const first = document.createElement('span');
-  first.textContent = '0';
-  const middle = document.createElement('span');
-  middle.textContent = `sample${unit ? ` · values in ${unit}` : ''}`;
-  const last = document.createElement('span');
-  last.textContent = String(values.length - 1);
-  xAxis.append(first, middle, last);
-  plot.append(document.createElement('span'), xAxis);
+  const foot = el('figcaption', 'trace-foot');
+  const xAxis = el('div', 'trace-x');
+  xAxis.append(el('span', null, '0'), el('span', null, `sample${unit ? ` · values in ${unit}` : ''}`),
+    el('span', null, String(values.length - 1)));
+  plot.append(el('span'), xAxis);
   figure.append(plot, foot);
 
   const width = 600;
@@ -95,33 +87,20 @@ export function seriesChart(values, { scale = null, unit = null, name = 'series'
     svg.setAttribute('aria-label', `${name}: ${values.length} values from ${tick(own.low)} to ${tick(own.high)}`
       + `${unit ? ` ${unit}` : ''}, drawn on ${which}`);
     svg.replaceChildren();
-    for (const at of [range.low, (range.low + range.high) / 2, range.high]) {
-      const grid = document.createElementNS(SVG, 'line');
-      grid.setAttribute('class', 'grid');
-      grid.setAttribute('x1', '0');
-      grid.setAttribute('x2', String(width));
-      grid.setAttribute('y1', y(at));
-      grid.setAttribute('y2', y(at));
-      svg.append(grid);
-    }
-    if (range.low < 0 && range.high > 0) {
-      const zero = document.createElementNS(SVG, 'line');
-      zero.setAttribute('class', 'zero');
-      zero.setAttribute('x1', '0');
-      zero.setAttribute('x2', String(width));
-      zero.setAttribute('y1', y(0));
-      zero.setAttribute('y2', y(0));
-      svg.append(zero);
-    }
+    const across = (cls, at) => {
+      const rule = document.createElementNS(SVG, 'line');
+      for (const [k, v] of [['class', cls], ['x1', '0'], ['x2', String(width)], ['y1', y(at)], ['y2', y(at)]]) {
+        rule.setAttribute(k, v);
+      }
+      svg.append(rule);
+    };
+    for (const at of [range.low, (range.low + range.high) / 2, range.high]) across('grid', at);
+    if (range.low < 0 && range.high > 0) across('zero', 0);
     const line = document.createElementNS(SVG, 'polyline');
     const step = width / Math.max(1, values.length - 1);
     line.setAttribute('points', values.map((v, i) => `${(i * step).toFixed(1)},${y(v)}`).join(' '));
     svg.append(line);
-    axis.replaceChildren(...[range.high, (range.low + range.high) / 2, range.low].map((v) => {
-      const label = document.createElement('span');
-      label.textContent = tick(v);
-      return label;
-    }));
+    axis.replaceChildren(...[range.high, (range.low + range.high) / 2, range.low].map((v) => el('span', null, tick(v))));
     if (unit) axis.firstChild.textContent += ` ${unit}`;
   };
   let onShared = shared !== null;

@@ -5,6 +5,7 @@ import dev.dowser.data.ImportProgress;
 import dev.dowser.data.ImportResult;
 import dev.dowser.data.ImportSpec;
 import dev.dowser.data.Importer;
+import dev.dowser.data.LabelledSet;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import dev.dowser.team.Accounts;
@@ -13,6 +14,7 @@ import dev.dowser.team.Role;
 import dev.dowser.team.TeamConfig;
 import java.io.ByteArrayInputStream;
 import java.io.IOException;
+import java.io.InputStream;
 import java.io.UncheckedIOException;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
@@ -245,6 +247,22 @@ public final class TestSupport {
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
+    }
+
+    /** Iris (Fisher 1936, sklearn's copy) imported as the pool "iris" with its four features and without its labels; row r's class is r / 50. */
+    public static void importIrisWithoutLabels(Database db, Path workDir) {
+        OpenDataset iris = openDataset("iris", workDir);
+        try (InputStream in = Files.newInputStream(iris.csv())) {
+            new Importer(db).run(in, "iris.csv", csv("iris").withFeatures(List.of("f0", "f1", "f2", "f3"))
+                    .withClasses(List.of("setosa", "versicolor", "virginica")), ImportProgress.NONE);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /** One of the open datasets with all its labels, as the model sees it (read as a pool would be, in memory). */
+    public static LabelledSet labelledOpenDataset(String name, Path workDir) {
+        return dev.dowser.simulate.BenchmarkData.load(name, datasetsDir()).pool();
     }
 
 }

@@ -14,7 +14,6 @@ import java.io.UncheckedIOException;
 import java.io.Writer;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
-import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Set;
@@ -266,16 +265,13 @@ public final class Exporter {
      * and the meaning of each field, as one JSON document.
      */
     public ObjectNode metadata(String poolName) {
-        PoolRow pool = db.pools().require(poolName);
-        ColumnRoles roles = ColumnRoles.parse(pool.columnRolesJson());
-        Map<String, Long> counts = new HashMap<>(db.pools().labelCounts(pool));
-        ObjectNode n = Json.object().put("pool", pool.name()).put("records", pool.recordCount())
+        PoolDescription pool = PoolDescription.of(db, poolName);
+        ColumnRoles roles = pool.roles();
+        ObjectNode n = Json.object().put("pool", pool.name()).put("records", pool.records())
                 .put("exported_at", db.clock().instant().toString());
         var classes = n.putArray("classes");
-        List<String> keys = LabelKeys.keysFor(pool.classes());
-        for (int i = 0; i < pool.classes().size(); i++) {
-            classes.addObject().put("name", pool.classes().get(i)).put("key", keys.get(i))
-                    .put("labelled", counts.getOrDefault(pool.classes().get(i), 0L));
+        for (PoolDescription.LabelClass c : pool.classes()) {
+            classes.addObject().put("name", c.name()).put("key", c.key()).put("labelled", c.labelled());
         }
         ObjectNode fields = n.putObject("fields");
         List<String> header = header(roles.display());

@@ -60,8 +60,6 @@ public final class PredictionStore {
 
     /** Replaces the pool's predictions with {@code p}. */
     public void replace(long poolId, Predictions p) {
-        ByteBuffer rows = ByteBuffer.allocate(p.rows().length * Long.BYTES).order(ByteOrder.LITTLE_ENDIAN);
-        rows.asLongBuffer().put(p.rows());
         ByteBuffer probs = ByteBuffer.allocate(p.probabilities().length * Float.BYTES).order(ByteOrder.LITTLE_ENDIAN);
         probs.asFloatBuffer().put(p.probabilities());
         try (Connection c = ds.getConnection();
@@ -70,7 +68,7 @@ public final class PredictionStore {
             m.setLong(1, poolId);
             m.setInt(2, p.round());
             m.setInt(3, p.classes());
-            m.setBytes(4, rows.array());
+            m.setBytes(4, packRows(p.rows()));
             m.setBytes(5, probs.array());
             m.executeUpdate();
         } catch (SQLException e) {
@@ -88,9 +86,7 @@ public final class PredictionStore {
                 if (!rs.next()) {
                     return Optional.empty();
                 }
-                ByteBuffer rowBytes = ByteBuffer.wrap(rs.getBytes(3)).order(ByteOrder.LITTLE_ENDIAN);
-                long[] rows = new long[rowBytes.remaining() / Long.BYTES];
-                rowBytes.asLongBuffer().get(rows);
+                long[] rows = unpackRows(rs.getBytes(3));
                 ByteBuffer probBytes = ByteBuffer.wrap(rs.getBytes(4)).order(ByteOrder.LITTLE_ENDIAN);
                 float[] probs = new float[probBytes.remaining() / Float.BYTES];
                 probBytes.asFloatBuffer().get(probs);
@@ -103,8 +99,6 @@ public final class PredictionStore {
 
     /** Replaces the pool's stop-set predictions with those of round {@code p.round()}. */
     public void replaceStopSet(long poolId, StopSetClasses p) {
-        ByteBuffer rows = ByteBuffer.allocate(p.rows().length * Long.BYTES).order(ByteOrder.LITTLE_ENDIAN);
-        rows.asLongBuffer().put(p.rows());
         ByteBuffer classes = ByteBuffer.allocate(p.classes().length * Integer.BYTES).order(ByteOrder.LITTLE_ENDIAN);
         classes.asIntBuffer().put(p.classes());
         try (Connection c = ds.getConnection();
@@ -112,7 +106,7 @@ public final class PredictionStore {
                      + " classes) KEY (pool_id) VALUES (?, ?, ?, ?)")) {
             m.setLong(1, poolId);
             m.setInt(2, p.round());
-            m.setBytes(3, rows.array());
+            m.setBytes(3, packRows(p.rows()));
             m.setBytes(4, classes.array());
             m.executeUpdate();
         } catch (SQLException e) {
@@ -131,9 +125,7 @@ public final class PredictionStore {
                 if (!rs.next()) {
                     return Optional.empty();
                 }
-                ByteBuffer rowBytes = ByteBuffer.wrap(rs.getBytes(2)).order(ByteOrder.LITTLE_ENDIAN);
-                long[] rows = new long[rowBytes.remaining() / Long.BYTES];
-                rowBytes.asLongBuffer().get(rows);
+                long[] rows = unpackRows(rs.getBytes(2));
                 ByteBuffer classBytes = ByteBuffer.wrap(rs.getBytes(3)).order(ByteOrder.LITTLE_ENDIAN);
                 int[] classes = new int[classBytes.remaining() / Integer.BYTES];
                 classBytes.asIntBuffer().get(classes);
@@ -142,5 +134,19 @@ public final class PredictionStore {
         } catch (SQLException e) {
             throw new StoreException("cannot read the stop-set predictions of pool " + poolId + ": " + e.getMessage(), e);
         }
+    }
+
+    /** Row numbers as int64 little-endian, as both tables keep them. */
+    private static byte[] packRows(long[] rows) {
+        ByteBuffer b = ByteBuffer.allocate(rows.length * Long.BYTES).order(ByteOrder.LITTLE_ENDIAN);
+        b.asLongBuffer().put(rows);
+        return b.array();
+    }
+
+    private static long[] unpackRows(byte[] bytes) {
+        ByteBuffer b = ByteBuffer.wrap(bytes).order(ByteOrder.LITTLE_ENDIAN);
+        long[] rows = new long[b.remaining() / Long.BYTES];
+        b.asLongBuffer().get(rows);
+        return rows;
     }
 }

@@ -10,9 +10,8 @@ import dev.dowser.data.ColumnRoles;
 import dev.dowser.data.Exporter;
 import dev.dowser.data.FeatureColumn;
 import dev.dowser.data.FeatureKind;
-import dev.dowser.data.FeatureSchema;
 import dev.dowser.data.FileFormat;
-import dev.dowser.data.LabelKeys;
+import dev.dowser.data.PoolDescription;
 import dev.dowser.desk.RecordView;
 import dev.dowser.json.Json;
 import dev.dowser.store.Database;
@@ -22,7 +21,6 @@ import dev.dowser.store.RecordRow;
 import io.undertow.server.HttpServerExchange;
 import io.undertow.util.Headers;
 import java.util.List;
-import java.util.Map;
 
 /** The pools: the list, one pool's classes, columns and features, its records page by page, and its export. */
 final class PoolsApi {
@@ -47,22 +45,18 @@ final class PoolsApi {
     }
 
     void pool(HttpServerExchange ex) {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
-        Map<String, Long> counts = db.pools().labelCounts(pool);
+        PoolDescription pool = PoolDescription.of(db, param(ex, "pool"));
         ObjectNode body = Json.object()
                 .put("name", pool.name())
-                .put("records", pool.recordCount())
+                .put("records", pool.records())
                 .put("created_at", pool.createdAt().toString());
         ArrayNode classes = body.putArray("classes");
-        List<String> keys = LabelKeys.keysFor(pool.classes());
-        for (int i = 0; i < pool.classes().size(); i++) {
-            classes.addObject().put("name", pool.classes().get(i)).put("key", keys.get(i))
-                    .put("labelled", counts.getOrDefault(pool.classes().get(i), 0L));
+        for (PoolDescription.LabelClass c : pool.classes()) {
+            classes.addObject().put("name", c.name()).put("key", c.key()).put("labelled", c.labelled());
         }
-        body.set("roles", Json.mapper().valueToTree(ColumnRoles.parse(pool.columnRolesJson())));
-        FeatureSchema schema = Json.read(pool.featureSchemaJson(), FeatureSchema.class);
+        body.set("roles", Json.mapper().valueToTree(pool.roles()));
         ArrayNode features = body.putArray("features");
-        for (FeatureColumn c : schema.columns()) {
+        for (FeatureColumn c : pool.schema().columns()) {
             ObjectNode f = features.addObject().put("name", c.name()).put("kind", c.kind().name().toLowerCase())
                     .put("width", c.encodedWidth()).put("missing", c.missing());
             if (c.kind() == FeatureKind.CATEGORICAL) {
@@ -73,7 +67,7 @@ final class PoolsApi {
                 f.put("low", c.low()).put("high", c.high());
             }
         }
-        body.put("feature_width", schema.encodedWidth());
+        body.put("feature_width", pool.schema().encodedWidth());
         Responses.ok(ex, body);
     }
 

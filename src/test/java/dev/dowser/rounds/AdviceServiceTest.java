@@ -10,9 +10,7 @@ import dev.dowser.acquire.PoolScorer;
 import dev.dowser.advice.AccuracyReport;
 import dev.dowser.advice.ChainAdvice;
 import dev.dowser.advice.StopAdvice;
-import dev.dowser.data.ImportProgress;
 import dev.dowser.data.QueuedBelief;
-import dev.dowser.data.Importer;
 import dev.dowser.stats.Lure;
 import dev.dowser.stats.Wilson;
 import dev.dowser.store.Database;
@@ -20,9 +18,6 @@ import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
 import dev.dowser.store.QueueStore;
 import dev.dowser.store.RoundStore;
-import java.io.IOException;
-import java.io.InputStream;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.ArrayList;
@@ -43,14 +38,9 @@ class AdviceServiceTest {
     @TempDir
     Path dir;
 
-    private Database iris() throws IOException {
-        TestSupport.OpenDataset iris = TestSupport.openDataset("iris", dir);
+    private Database iris() {
         Database db = TestSupport.openDb(dir.resolve("db"));
-        try (InputStream in = Files.newInputStream(iris.csv())) {
-            new Importer(db).run(in, "iris.csv", TestSupport.csv("iris")
-                    .withFeatures(List.of("f0", "f1", "f2", "f3"))
-                    .withClasses(List.of("setosa", "versicolor", "virginica")), ImportProgress.NONE);
-        }
+        TestSupport.importIrisWithoutLabels(db, dir);
         return db;
     }
 
@@ -70,7 +60,7 @@ class AdviceServiceTest {
     }
 
     @Test
-    void roundsKeepWhatTheEstimatesNeedAndTheReportReadsIt() throws IOException {
+    void roundsKeepWhatTheEstimatesNeedAndTheReportReadsIt() {
         try (Database db = iris(); PoolScorer scorer = new PoolScorer(2, 64)) {
             PoolRow pool = db.pools().require("iris");
             db.pools().updateSettings(pool.id(), PoolSettings.defaults().withStrategy(Strategy.POWER).toJson(), "test");
@@ -135,7 +125,7 @@ class AdviceServiceTest {
     }
 
     @Test
-    void spotChecksCountInTheWindowAgainstTheBeliefAtQueueTime() throws IOException {
+    void spotChecksCountInTheWindowAgainstTheBeliefAtQueueTime() {
         // A hand-made round: 148 spot checks believed "setosa" (0.8), 15 of them labelled setosa,
         // and one pick by score. 15 of 148 gives Newcombe's (1998, Table I) 0.0624 to 0.1605.
         try (Database db = iris()) {

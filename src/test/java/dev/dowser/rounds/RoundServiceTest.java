@@ -8,8 +8,6 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import dev.dowser.TestSupport;
 import dev.dowser.acquire.PoolScorer;
 import dev.dowser.data.FeatureMatrix;
-import dev.dowser.data.ImportProgress;
-import dev.dowser.data.Importer;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.simulate.Simulation;
 import dev.dowser.sampler.KernelChoice;
@@ -21,8 +19,6 @@ import dev.dowser.store.QueueEntry;
 import dev.dowser.store.RoundStore;
 import dev.dowser.store.SavedChain;
 import java.io.IOException;
-import java.io.InputStream;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.ArrayList;
@@ -46,13 +42,8 @@ class RoundServiceTest {
 
     /** Iris (Fisher 1936, as shipped by Debian's python3-sklearn), imported without its labels. */
     private Database irisWithoutLabels() throws IOException {
-        TestSupport.OpenDataset iris = TestSupport.openDataset("iris", dir);
         Database db = TestSupport.openDb(dir.resolve("db"));
-        try (InputStream in = Files.newInputStream(iris.csv())) {
-            new Importer(db).run(in, "iris.csv", TestSupport.csv("iris")
-                    .withFeatures(List.of("f0", "f1", "f2", "f3"))
-                    .withClasses(List.of("setosa", "versicolor", "virginica")), ImportProgress.NONE);
-        }
+        TestSupport.importIrisWithoutLabels(db, dir);
         return db;
     }
 

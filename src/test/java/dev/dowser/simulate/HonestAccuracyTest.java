@@ -4,19 +4,12 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.dowser.TestSupport;
-import dev.dowser.data.FeatureMatrix;
-import dev.dowser.data.ImportProgress;
-import dev.dowser.data.Importer;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.sampler.SamplerConfig;
-import dev.dowser.store.Database;
-import java.io.IOException;
-import java.io.InputStream;
 import java.io.PrintWriter;
 import java.io.StringWriter;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.List;
 import org.junit.jupiter.api.Test;
@@ -35,26 +28,20 @@ class HonestAccuracyTest {
     Path dir;
 
     @Test
-    void theEstimateHoldsTheTestAccuracyInNineRoundsOfTen() throws IOException {
-        TestSupport.OpenDataset data = TestSupport.openDataset("breast_cancer", dir);
-        try (Database db = TestSupport.openDb(dir.resolve("db"))) {
-            try (InputStream in = Files.newInputStream(data.csv())) {
-                new Importer(db).run(in, "bc", TestSupport.csv("bc").withLabel("label"), ImportProgress.NONE);
-            }
-            LabelledSet all = LabelledSet.of(db, "bc", FeatureMatrix.load(db, "bc"));
-            SamplerConfig sampler = SamplerConfig.builder().hidden(List.of(32)).chains(4, 32).burnInSteps(300)
-                    .reburnInSteps(100).thinSteps(5).build();
-            Simulation.Plan plan = new Simulation.Plan(List.of(Strategy.POWER), 3, 20, 150, 0.3,
-                    PoolSettings.defaults(), sampler, 7);
-            List<Simulation.Point> points = Simulation.run(all, plan, k -> { });
-            List<StopSummary.Seed> seeds = StopSummary.seeds(points, plan.strategies(), plan.seeds());
-            StringWriter out = new StringWriter();
-            StopSummary.print(new PrintWriter(out), seeds, plan.strategies());
-            System.out.println("Honest accuracy on breast cancer, power sampling, 3 seeds:\n" + out);
-            int covered = seeds.stream().mapToInt(StopSummary.Seed::covered).sum();
-            int estimated = seeds.stream().mapToInt(StopSummary.Seed::estimated).sum();
-            assertEquals(3 * 13, estimated, "every round but the last of each seed has an estimate\n" + out);
-            assertTrue(covered >= 0.9 * estimated, covered + " of " + estimated + " rounds covered\n" + out);
-        }
+    void theEstimateHoldsTheTestAccuracyInNineRoundsOfTen() {
+        LabelledSet all = TestSupport.labelledOpenDataset("breast_cancer", dir);
+        SamplerConfig sampler = SamplerConfig.builder().hidden(List.of(32)).chains(4, 32).burnInSteps(300)
+                .reburnInSteps(100).thinSteps(5).build();
+        Simulation.Plan plan = new Simulation.Plan(List.of(Strategy.POWER), 3, 20, 150, 0.3, PoolSettings.defaults(),
+                sampler, 7);
+        List<Simulation.Point> points = Simulation.run(all, plan, k -> { });
+        List<StopSummary.Seed> seeds = StopSummary.seeds(points, plan.strategies(), plan.seeds());
+        StringWriter out = new StringWriter();
+        StopSummary.print(new PrintWriter(out), seeds, plan.strategies());
+        System.out.println("Honest accuracy on breast cancer, power sampling, 3 seeds:\n" + out);
+        int covered = seeds.stream().mapToInt(StopSummary.Seed::covered).sum();
+        int estimated = seeds.stream().mapToInt(StopSummary.Seed::estimated).sum();
+        assertEquals(3 * 13, estimated, "every round but the last of each seed has an estimate\n" + out);
+        assertTrue(covered >= 0.9 * estimated, covered + " of " + estimated + " rounds covered\n" + out);
     }
 }
