@@ -57,7 +57,7 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
                         + chains + " to " + MAX_DRAWS + ", so every chain keeps as many; got " + draws);
             }
             if (reburnInSteps < 0 || reburnInSteps > MAX_REBURN_IN_STEPS) {
-                throw new IllegalArgumentException("re-burn-in steps must be 0 to " + MAX_REBURN_IN_STEPS + ", got "
+                throw new IllegalArgumentException("reburn_in_steps (warm-up steps each round) must be 0 to " + MAX_REBURN_IN_STEPS + ", got "
                         + reburnInSteps);
             }
         }
@@ -98,7 +98,8 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
             throw new IllegalArgumentException("a cold start is required: kmeans++ or typiclust");
         }
         if (!(stopAgreement >= MIN_STOP_AGREEMENT && stopAgreement <= 1)) {
-            throw new IllegalArgumentException("the agreement at which predictions count as settled must lie between "
+            throw new IllegalArgumentException("stop_agreement (the agreement at which predictions count as settled)"
+                    + " must lie between "
                     + MIN_STOP_AGREEMENT + " and 1, got " + stopAgreement);
         }
     }

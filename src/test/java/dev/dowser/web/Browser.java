@@ -5,8 +5,11 @@ import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
+import java.util.List;
+import java.util.Map;
 import java.util.function.Function;
 import org.openqa.selenium.By;
+import org.openqa.selenium.Dimension;
 import org.openqa.selenium.OutputType;
 import org.openqa.selenium.StaleElementReferenceException;
 import org.openqa.selenium.TimeoutException;
@@ -27,10 +30,38 @@ final class Browser implements AutoCloseable {
     static final Path CHROMEDRIVER = Path.of("/usr/bin/chromedriver");
     static final Path SCREENSHOTS = Path.of("target", "screenshots");
     static final Duration WAIT = Duration.ofSeconds(60);
+    static final int WIDTH = 1280;
+    static final int HEIGHT = 1100;
 
     final ChromeDriver driver;
+    private final boolean isShared;
+    private static Browser shared;
+
+    /**
+     * The one Chromium the browser tests share, started on first use and quit when the tests' JVM
+     * ends: starting a browser per test cost more than most tests. Each use begins on a blank page
+     * with no cookies, the default window size and no emulated media; {@link #close} only resets it.
+     */
+    static synchronized Browser shared() {
+        if (shared == null) {
+            try {
+                shared = new Browser(Files.createTempDirectory("dowser-chromium-"), true);
+            } catch (IOException e) {
+                throw new UncheckedIOException(e);
+            }
+            Browser b = shared;
+            Runtime.getRuntime().addShutdownHook(new Thread(b.driver::quit));
+        }
+        shared.reset();
+        return shared;
+    }
 
     Browser(Path profile) {
+        this(profile, false);
+    }
+
+    private Browser(Path profile, boolean isShared) {
+        this.isShared = isShared;
         if (!Files.isExecutable(CHROMIUM) || !Files.isExecutable(CHROMEDRIVER)) {
             throw new IllegalStateException("the page tests need Debian's chromium and chromium-driver"
                     + " (/usr/bin/chromium, /usr/bin/chromedriver); ./dowser test installs them");
@@ -39,7 +70,7 @@ final class Browser implements AutoCloseable {
         options.setBinary(CHROMIUM.toFile());
         options.addArguments("--headless", "--no-sandbox", "--disable-gpu", "--disable-background-networking",
                 "--disable-component-update", "--disable-sync", "--no-first-run", "--disable-dev-shm-usage",
-                "--window-size=1280,1100", "--user-data-dir=" + profile.toAbsolutePath());
+                "--window-size=" + WIDTH + "," + HEIGHT, "--user-data-dir=" + profile.toAbsolutePath());
         ChromeDriverService service = new ChromeDriverService.Builder()
                 .usingDriverExecutable(CHROMEDRIVER.toFile()).usingAnyFreePort().build();
         this.driver = new ChromeDriver(service, options);
@@ -79,8 +110,21 @@ final class Browser implements AutoCloseable {
         }
     }
 
+    /** A blank page, no cookies, the default window and media: as a fresh browser would be. */
+    private void reset() {
+        driver.get("about:blank");
+        driver.executeCdpCommand("Network.clearBrowserCookies", Map.of());
+        driver.executeCdpCommand("Emulation.setEmulatedMedia", Map.of("features", List.of()));
+        driver.manage().window().setSize(new Dimension(WIDTH, HEIGHT));
+    }
+
+    /** Quits a browser of its own; the shared one is only reset for the next test. */
     @Override
     public void close() {
-        driver.quit();
+        if (isShared) {
+            reset();
+        } else {
+            driver.quit();
+        }
     }
 }

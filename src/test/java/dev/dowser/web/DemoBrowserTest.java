@@ -41,7 +41,7 @@ class DemoBrowserTest {
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
                 TestSupport.quickSampler(), TestSupport.FAST_TEAM);
         server.requestRound(DemoPool.POOL);
-        browser = new Browser(dir.resolve("profile"));
+        browser = Browser.shared();
     }
 
     @AfterEach

@@ -161,6 +161,18 @@ class DeskApiTest {
         assertEquals("power", changed.get("strategy").asText());
         assertEquals(10, changed.get("lease_minutes").asInt());
         assertEquals(4, ok(send("GET", "/api/v1/pools/iris/rounds", ""), 200).get("labels_to_next_round").asInt());
+        // The sampler's settings follow the server's until set; draws must split evenly over the chains.
+        HttpResponse<String> uneven = send("PUT", "/api/v1/pools/iris/settings", "{\"chains\":4,\"draws\":30}");
+        assertEquals(400, uneven.statusCode());
+        assertEquals("draws must be a multiple of the chains (4) from 4 to 512, so every chain keeps as many; got 30",
+                Json.tree(uneven.body()).get("error").asText());
+        HttpResponse<String> lax = send("PUT", "/api/v1/pools/iris/settings", "{\"stop_agreement\":0.5}");
+        assertEquals("stop_agreement (the agreement at which predictions count as settled) must lie between 0.9 and 1,"
+                + " got 0.5", Json.tree(lax.body()).get("error").asText());
+        JsonNode sampling = ok(send("PUT", "/api/v1/pools/iris/settings", "{\"draws\":16,\"reburn_in_steps\":100}"), 200);
+        assertEquals(16, sampling.get("draws").asInt());
+        assertEquals(100, sampling.get("reburn_in_steps").asInt());
+        assertEquals(TestSupport.quickSampler().chains(), sampling.get("chains").asInt(), "the server's, kept");
     }
 
     @Test

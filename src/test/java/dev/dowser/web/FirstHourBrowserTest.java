@@ -87,7 +87,7 @@ class FirstHourBrowserTest {
         db = TestSupport.openDb(data);
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 200L << 20, dir.resolve("uploads")),
                 TestSupport.quickSampler(), TestSupport.FAST_TEAM);
-        admin = new Browser(dir.resolve("profile-admin"));
+        admin = Browser.shared();
         labeller = new Browser(dir.resolve("profile-labeller"));
     }
 

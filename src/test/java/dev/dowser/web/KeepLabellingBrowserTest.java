@@ -59,7 +59,7 @@ class KeepLabellingBrowserTest {
                 TestSupport.quickSampler(), TestSupport.FAST_TEAM);
         lead = TestSupport.tokenFor(db, LEAD, Role.ADMIN);
         person = TestSupport.tokenFor(db, PERSON, Role.LABELLER);
-        browser = new Browser(dir.resolve("profile"));
+        browser = Browser.shared();
     }
 
     @AfterEach
@@ -183,6 +183,8 @@ class KeepLabellingBrowserTest {
         assertTrue(browser.byId("chain-summary").getText().contains("nothing to do"),
                 browser.byId("chain-summary").getText());
         browser.screenshot("keep-4-midway");
+        browser.driver.executeScript("arguments[0].scrollIntoView()", browser.byId("accuracy-title"));
+        browser.screenshot("keep-4-midway-accuracy");
 
         // 40 rounds to 800 labels on a curve that has levelled off, the last three rounds'
         // predictions agreeing at 0.995, and chains whose draws lean on few independent ones; the

@@ -66,7 +66,7 @@ class PagesBrowserTest {
         lead = TestSupport.tokenFor(db, LEAD, Role.ADMIN);
         TestSupport.tokenFor(db, PERSON, Role.LABELLER);
         TestSupport.tokenFor(db, "labeller-b", Role.LABELLER);
-        browser = new Browser(dir.resolve("profile"));
+        browser = Browser.shared();
     }
 
     @AfterEach

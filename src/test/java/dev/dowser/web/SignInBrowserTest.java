@@ -38,7 +38,7 @@ class SignInBrowserTest {
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
                 TestSupport.quickSampler(), TestSupport.FAST_TEAM);
         TestSupport.tokenFor(db, "lead", Role.ADMIN);
-        browser = new Browser(dir.resolve("profile"));
+        browser = Browser.shared();
     }
 
     @AfterEach

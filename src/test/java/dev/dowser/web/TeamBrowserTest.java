@@ -49,7 +49,7 @@ class TeamBrowserTest {
         tokens.put("rey", TestSupport.tokenFor(db, "rey", Role.REVIEWER));
         tokens.put("ana", TestSupport.tokenFor(db, "ana", Role.LABELLER));
         tokens.put("ben", TestSupport.tokenFor(db, "ben", Role.LABELLER));
-        browser = new Browser(dir.resolve("profile"));
+        browser = Browser.shared();
 
         // A small pool whose every queued record goes to two people; ana and ben label all of them,
         // agreeing on some and not on others.
@@ -170,6 +170,15 @@ class TeamBrowserTest {
         String history = browser.driver.findElement(By.cssSelector("[data-record='g2'] .history")).getText();
         assertTrue(history.contains("ana · label fault") && history.contains("ben · label ok"), history);
         browser.screenshot("12-review-history");
+        // The review page on a phone: nothing scrolls sideways.
+        browser.driver.manage().window().setSize(new org.openqa.selenium.Dimension(390, 844));
+        browser.await(d -> ((Number) browser.driver.executeScript("return window.innerWidth;")).intValue() <= 400,
+                "the phone-sized window");
+        long overflow = ((Number) browser.driver.executeScript(
+                "return document.documentElement.scrollWidth - window.innerWidth;")).longValue();
+        browser.screenshot("12b-review-phone");
+        assertTrue(overflow <= 0, "the review page scrolls sideways by " + overflow + " px at phone width");
+        browser.driver.manage().window().setSize(new org.openqa.selenium.Dimension(Browser.WIDTH, Browser.HEIGHT));
 
         // A later review reverses this one; the history keeps both.
         WebElement again = browser.await(d -> d.findElement(By.cssSelector("[data-record='g2']")), "g2 again");
