@@ -160,7 +160,8 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
 
     /** The same settings with another agreement at which predictions count as settled. */
     public PoolSettings withStopAgreement(double k) {
-        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, sampling, k);
+        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, sampling, k,
+                coldStart);
     }
 
     /** The stopping rule of stabilising predictions with this pool's threshold. */
