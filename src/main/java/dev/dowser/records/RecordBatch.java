@@ -193,6 +193,11 @@ public final class RecordBatch {
         return labels[row];
     }
 
+    /** A copy of the raw feature bytes of encoded record {@code row}. */
+    public byte[] features(int row) {
+        return Arrays.copyOfRange(features, featureStart[row], featureStart[row] + featureLength[row]);
+    }
+
     int displayCols() {
         return displayIndex.length;
     }

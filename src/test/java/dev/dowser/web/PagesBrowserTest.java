@@ -369,7 +369,8 @@ class PagesBrowserTest {
         // served batch is nearly all labelled), and the queue served before stays in service.
         server.close();
         int served = db.queues().servedRound(poolId).orElseThrow();
-        SamplerConfig broken = TestSupport.quickSampler().withKernel(KernelChoice.SGLD).withLearningRate(1e30);
+        SamplerConfig broken = TestSupport.quickSampler().toBuilder().kernel(KernelChoice.SGLD).learningRate(1e30)
+                .build();
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")), broken,
                 TestSupport.FAST_TEAM);
         server.requestRound("gauges");
