@@ -45,6 +45,10 @@ import picocli.CommandLine.Spec;
             "desk: 20 simulated labellers on loopback submit a label and ask for the next record (200 ms"
                 + " apart) while rounds run on a 100,000-row pool (batch 100): p50 and p99 of submit-and-next,"
                 + " and the time from a batch's last label to its new queue being served. 60 s, 15 with --quick.",
+            "labels (only when named): the label-savings benchmark, simulate on digits, breast cancer, wine, iris,"
+                + " the demo's pumps and Fashion-MNIST (pool 60,000, test 10,000, 50 principal components) with"
+                + " paired seeds: labels to each target, random's labels over the strategy's with 90% bootstrap"
+                + " intervals, area-under-the-curve gains; curves and a table (labels.md) in --labels-out. Hours.",
             "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: files to import,"
                 + " heads of files to preview, every JSON body; jqwik properties of the test sources, run through"
                 + " Maven (a source folder is needed). Counts per status; any 500, partial write or Java message"
@@ -70,11 +74,35 @@ final class BenchCommand implements Callable<Integer> {
     Path work;
 
     @Option(names = "--only", split = ",", paramLabel = "SUITE",
-            description = "Suites to run: sgemm, score, sampler, round, desk, import, fuzz (default: all).")
+            description = "Suites to run: sgemm, score, sampler, round, desk, import, fuzz, labels (default: all but"
+                    + " labels).")
     java.util.List<String> only;
 
+    @Option(names = "--datasets", split = ",", paramLabel = "NAME",
+            description = "labels: datasets (default: digits,breast_cancer,wine,iris,pumps,fashion-mnist).")
+    java.util.List<String> datasets = java.util.List.of("digits", "breast_cancer", "wine", "iris", "pumps",
+            "fashion-mnist");
+
+    @Option(names = "--strategies", split = ",", paramLabel = "S",
+            description = "labels: strategies besides random, the first one in the table (default: default).")
+    java.util.List<String> strategies = java.util.List.of(dev.dowser.rounds.Strategy.DEFAULT_WORD);
+
+    @Option(names = "--seeds", defaultValue = "10", paramLabel = "N", description = "labels: paired seeds (default: ${DEFAULT-VALUE}).")
+    int seeds;
+
+    @Option(names = "--datasets-dir", defaultValue = "target/datasets", paramLabel = "DIR",
+            description = "labels: where ./dowser test unpacked the open datasets (default: ${DEFAULT-VALUE}).")
+    Path datasetsDir;
+
+    @Option(names = "--labels-out", defaultValue = "target/bench-labels", paramLabel = "DIR",
+            description = "labels: folder for each dataset's curves and the table (default: ${DEFAULT-VALUE}).")
+    Path labelsOut;
+
+    @picocli.CommandLine.Mixin
+    SamplerOptions sampler;
+
     private boolean wants(String suite) {
-        return only == null || only.contains(suite);
+        return only == null ? !suite.equals("labels") : only.contains(suite);
     }
 
     @Override
@@ -119,6 +147,10 @@ final class BenchCommand implements Callable<Integer> {
         }
         if (wants("fuzz")) {
             FuzzBench.run(out, quick);
+        }
+        if (wants("labels")) {
+            LabelsBench.run(out, datasetsDir, datasets, strategies.stream().map(dev.dowser.rounds.Strategy::parse)
+                    .distinct().toList(), seeds, sampler.config(), labelsOut);
         }
         if (wants("desk")) {
             Path dir = work != null ? Files.createDirectories(work.resolve("desk")) : Files.createTempDirectory("dowser-desk-");

@@ -83,7 +83,7 @@ public final class Importer {
         }
     }
 
-    private static RowReader open(InputStream in, ImportSpec spec) {
+    static RowReader open(InputStream in, ImportSpec spec) {
         return switch (spec.format()) {
             case CSV -> new CsvRowReader(in, spec.maxFieldChars());
             case JSONL -> new JsonLinesRowReader(in, spec.maxFieldChars());

@@ -48,23 +48,27 @@ public final class RoundService {
     public static final String FAILED = "failed";
     public static final String STOPPED = "stopped";
 
+    /** The root of the server's seed tree; each pool has its own branch below it (its id). */
+    public static final long DEFAULT_SEED = 1;
     /** The branch of a pool's seed node that draws its stop set, fixed for the pool's life. */
-    static final int STOP_SET = 0;
+    public static final int STOP_SET = 0;
 
     private final Database db;
     private final SamplerConfig config;
+    private final long seed;
     private final PoolScorer scorer;
     private final RoundEvents events;
     /** Pools never change after import, so their feature matrices are loaded once. */
     private final ConcurrentHashMap<String, FeatureMatrix> matrices = new ConcurrentHashMap<>();
 
     public RoundService(Database db, SamplerConfig config, PoolScorer scorer) {
-        this(db, config, scorer, RoundEvents.NONE);
+        this(db, config, DEFAULT_SEED, scorer, RoundEvents.NONE);
     }
 
-    public RoundService(Database db, SamplerConfig config, PoolScorer scorer, RoundEvents events) {
+    public RoundService(Database db, SamplerConfig config, long seed, PoolScorer scorer, RoundEvents events) {
         this.db = db;
         this.config = config;
+        this.seed = seed;
         this.scorer = scorer;
         this.events = events;
     }
@@ -93,7 +97,7 @@ public final class RoundService {
         Labels labels = Labels.read(db, pool, lastLabel);
         List<SavedChain> saved = db.chains().load(pool.id());
         int round = db.rounds().next(pool.id());
-        SeedTree seeds = seedsOf(config.seed(), pool.id()).child(round);
+        SeedTree seeds = seedsOf(seed, pool.id()).child(round);
         SamplerConfig sampler = settings.sampler(config);
         RoundStore.Inputs inputs = new RoundStore.Inputs(seeds.seed(), Json.write(sampler), settings.toJson(), lastLabel,
                 saved.isEmpty() ? null : saved.get(0).round());
@@ -147,7 +151,7 @@ public final class RoundService {
         FeatureMatrix m = matrices.computeIfAbsent(pool.name(), name -> FeatureMatrix.load(db, name));
         int classes = pool.classes().size();
         Architecture arch = new PosteriorSampler(sampler).layout(m.cols(), classes).architecture();
-        List<State> chains = ChainStates.continuable(saved, arch, sampler.chains());
+        List<State> chains = ChainStates.continuable(saved, arch, sampler.chains().count());
         int[] candidates = labels.unlabelled(m.rows());
         int[] judged = labels.judgedRows();
         LabelledSet known = LabelledSet.of(m, labels.finalRows(), labels.finalClasses(), pool.classes());
@@ -161,7 +165,7 @@ public final class RoundService {
      */
     private Settling.StopSet stopSet(PoolRow pool, FeatureMatrix m) {
         long[] rows = StabilisingPredictions.stopSet(m.rows(), StabilisingPredictions.STOP_SET_RECORDS,
-                seedsOf(config.seed(), pool.id()).child(STOP_SET).rng());
+                seedsOf(seed, pool.id()).child(STOP_SET).rng());
         RoundStep.Rows stop = rows(m, Arrays.stream(rows).mapToInt(r -> (int) r).toArray());
         int[] previous = new int[rows.length];
         Arrays.fill(previous, -1);

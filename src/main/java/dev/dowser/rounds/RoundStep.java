@@ -140,7 +140,8 @@ public final class RoundStep {
         SplittableRandom pickRng = in.seeds().child(PICK).rng();
         SplittableRandom spotRng = in.seeds().child(SPOT_CHECKS).rng();
         if (in.labelled().rows() == 0) {
-            Picks picks = Picks.greedy(ColdStart.kmeansPlusPlus(cand.x(), cand.count(), cand.cols(), b, pickRng));
+            Picks picks = Picks.greedy(ColdStart.pick(settings.coldStart(), cand.x(), cand.count(), cand.cols(), b,
+                    pickRng));
             List<SpotChecks.Entry> mixed = SpotChecks.mix(picks, cand.count(), b, settings.spotCheckShare(), spotRng);
             List<Pick> queue = new ArrayList<>();
             for (SpotChecks.Entry e : mixed) {
@@ -148,7 +149,8 @@ public final class RoundStep {
                         e.order(), 1, null, null));
             }
             return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), null, NO_KERNEL,
-                    "no labels yet: the first batch is spread over the pool by k-means++", new float[0], null);
+                    "no labels yet: the first batch is spread over the pool by " + settings.coldStart().word(),
+                    new float[0], null);
         }
         LabelledSet known = in.labelled();
         int classes = known.classes().size();

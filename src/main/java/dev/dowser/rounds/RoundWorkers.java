@@ -22,7 +22,7 @@ public final class RoundWorkers implements AutoCloseable {
         this.db = db;
         this.config = config;
         this.scorer = PoolScorer.withAllCores();
-        this.service = new RoundService(db, config, scorer, events);
+        this.service = new RoundService(db, config, RoundService.DEFAULT_SEED, scorer, events);
     }
 
     /** The server's sampler: what a pool's rounds run unless its settings have their own sampling. */

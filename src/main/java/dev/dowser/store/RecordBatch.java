@@ -176,6 +176,16 @@ public final class RecordBatch {
         featureUsed += rawLength;
     }
 
+    /** The carried label of encoded record {@code row}, or null. */
+    public String label(int row) {
+        return labels[row];
+    }
+
+    /** A copy of the raw feature bytes of encoded record {@code row}. */
+    public byte[] features(int row) {
+        return Arrays.copyOfRange(features, featureStart[row], featureStart[row] + featureLength[row]);
+    }
+
     int displayCols() {
         return displayIndex.length;
     }

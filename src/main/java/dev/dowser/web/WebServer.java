@@ -32,8 +32,6 @@ public final class WebServer implements AutoCloseable {
 
     private static final Logger LOG = LoggerFactory.getLogger(WebServer.class);
     static final long SHUTDOWN_WAIT_MILLIS = 20_000;
-    /** Rounds are reproducible: every random number of a round comes from this seed's tree (the pool, the round, its consumer). */
-    public static final long DEFAULT_SEED = 1;
 
     /** What a served server runs, made by {@link #serve}. */
     private record Services(ImportJobs imports, RoundWorkers rounds, Events events, Accounts accounts, Routes routes,
@@ -54,7 +52,7 @@ public final class WebServer implements AutoCloseable {
     }
 
     public static WebServer start(Database db, WebConfig config) {
-        return start(db, config, SamplerConfig.defaults(DEFAULT_SEED));
+        return start(db, config, SamplerConfig.defaults());
     }
 
     public static WebServer start(Database db, WebConfig config, SamplerConfig sampler) {

@@ -9,6 +9,7 @@ import dev.dowser.TestSupport;
 import dev.dowser.acquire.PoolScorer;
 import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.LabelledSet;
+import dev.dowser.simulate.Simulation;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
@@ -112,7 +113,7 @@ class RoundServiceTest {
             db.labels().add(pool.id(), 0, "setosa", "test", null);
             db.labels().add(pool.id(), 70, "versicolor", "test", null);
             // Plain SGLD with an absurd learning rate diverges at every step: the chain gives up.
-            SamplerConfig broken = small().withKernel(KernelChoice.SGLD).withLearningRate(1e30);
+            SamplerConfig broken = small().toBuilder().kernel(KernelChoice.SGLD).learningRate(1e30).build();
             RoundService.Outcome failed = new RoundService(db, broken, scorer).run("iris");
             assertFalse(failed.published());
             assertTrue(failed.message().contains("diverged"), failed.message());
@@ -151,7 +152,7 @@ class RoundServiceTest {
                     pool.classes());
             PoolSettings settings = PoolSettings.parse(pool.settingsJson());
             Simulation.Labeller offline = new Simulation.Labeller(truth, settings, config,
-                    RoundService.seedsOf(config.seed(), pool.id()));
+                    RoundService.seedsOf(RoundService.DEFAULT_SEED, pool.id()));
             for (int round = 1; round <= 3; round++) {
                 assertTrue(rounds.run("iris").published());
                 // Records carried over for a second label were queued before: compare this round's picks.
@@ -188,7 +189,7 @@ class RoundServiceTest {
                     .filter(e -> db.labels().resolution(pool.id(), e.row()).opinions().isEmpty()).toList();
             labelAsIris(db, pool, third.subList(0, 3));
             db.pools().updateSettings(pool.id(), PoolSettings.defaults().withStrategy(Strategy.RANDOM).toJson(), "test");
-            RoundStep.Result rebuilt = new RoundService(db, small().withSeed(99), scorer).rebuild("iris", 3);
+            RoundStep.Result rebuilt = new RoundService(db, small(), 99, scorer, RoundEvents.NONE).rebuild("iris", 3);
             assertEquals(third.stream().map(QueueEntry::row).toList(),
                     rebuilt.queue().stream().map(RoundStep.Pick::row).toList());
             assertEquals(third.stream().map(QueueEntry::predictionJson).toList(), rebuilt.queue().stream()
@@ -201,7 +202,7 @@ class RoundServiceTest {
     void aRestartContinuesWhereTheChainsStopped() throws IOException {
         Path data = dir.resolve("db");
         long stepsAfterFirst;
-        SamplerConfig config = small().withKernel(KernelChoice.PSGLD);
+        SamplerConfig config = small().toBuilder().kernel(KernelChoice.PSGLD).build();
         try (Database db = irisWithoutLabels(); PoolScorer scorer = new PoolScorer(2, 64)) {
             PoolRow pool = db.pools().require("iris");
             RoundService rounds = new RoundService(db, config, scorer);
@@ -219,8 +220,8 @@ class RoundServiceTest {
             assertTrue(new RoundService(db, config, scorer).run("iris").published());
             List<SavedChain> saved = db.chains().load(pool.id());
             assertEquals(3, saved.get(0).round());
-            assertEquals(stepsAfterFirst + config.reburnInSteps() + (long) config.draws() / config.chains()
-                    * config.thinSteps(), saved.get(0).step(), "the third round continued the second's chains");
+            assertEquals(stepsAfterFirst + config.steps().reburnInSteps() + (long) config.chains().perChain()
+                    * config.steps().thinSteps(), saved.get(0).step(), "the third round continued the second's chains");
             assertEquals(stepsAfterFirst, db.chains().load(pool.id(), 2).get(0).step(), "the round before is kept");
         }
     }
@@ -233,9 +234,9 @@ class RoundServiceTest {
             labelAsIris(db, pool, drain(db, pool));
             new RoundService(db, small(), scorer).run("iris");
             long steps = db.chains().load(pool.id()).get(0).step();
-            SamplerConfig wider = small().withHidden(List.of(32));
+            SamplerConfig wider = small().toBuilder().hidden(List.of(32)).build();
             assertTrue(new RoundService(db, wider, scorer).run("iris").published());
-            assertEquals(wider.burnInSteps() + (long) wider.draws() / wider.chains() * wider.thinSteps(),
+            assertEquals(wider.steps().burnInSteps() + (long) wider.chains().perChain() * wider.steps().thinSteps(),
                     db.chains().load(pool.id()).get(0).step(),
                     "chains of a 16-unit network cannot continue as a 32-unit one (they had " + steps + " steps)");
         }

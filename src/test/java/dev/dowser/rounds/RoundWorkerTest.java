@@ -74,7 +74,7 @@ class RoundWorkerTest {
             }
             PoolRow pool = db.pools().require("iris");
             // Far more steps than the test waits for: only the stop can end this round in time.
-            SamplerConfig endless = RoundServiceTest.small().withSteps(50_000_000, 50, 5);
+            SamplerConfig endless = RoundServiceTest.small().toBuilder().burnInSteps(50_000_000).build();
             RoundWorker worker = new RoundWorker(new RoundService(db, endless, scorer), "iris", 5);
             worker.request();
             await(() -> !db.rounds().list(pool.id()).isEmpty(), "the round to start");
@@ -88,7 +88,7 @@ class RoundWorkerTest {
             assertTrue(round.message().contains("safe point"), round.message());
             assertTrue(db.queues().servedRound(pool.id()).isEmpty(), "a stopped round must not publish");
             List<SavedChain> saved = db.chains().load(pool.id());
-            assertEquals(endless.chains(), saved.size(), "every chain's state is saved");
+            assertEquals(endless.chains().count(), saved.size(), "every chain's state is saved");
             for (SavedChain c : saved) {
                 assertTrue(c.step() > 0, "chain " + c.chain() + " saved before any step");
             }

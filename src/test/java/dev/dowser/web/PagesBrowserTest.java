@@ -367,7 +367,8 @@ class PagesBrowserTest {
         // The same database behind a server whose sampler diverges at every step (plain SGLD with an
         // absurd learning rate): its first sampled round, a cold start, fails.
         server.close();
-        SamplerConfig broken = TestSupport.quickSampler().withKernel(KernelChoice.SGLD).withLearningRate(1e30);
+        SamplerConfig broken = TestSupport.quickSampler().toBuilder().kernel(KernelChoice.SGLD).learningRate(1e30)
+                .build();
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")), broken,
                 TestSupport.FAST_TEAM);
         server.requestRound("gauges");
