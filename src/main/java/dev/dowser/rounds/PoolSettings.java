@@ -121,7 +121,7 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
                     or(doubleLabelShare, now.doubleLabelShare()),
                     ownSampling ? new Sampling(or(chains, sampling.chains()), or(draws, sampling.draws()),
                             or(reburnInSteps, sampling.reburnInSteps())) : now.sampling(),
-                    or(stopAgreement, now.stopAgreement()));
+                    or(stopAgreement, now.stopAgreement()), now.coldStart());
         }
 
         private static <T> T or(T value, T kept) {

@@ -94,7 +94,7 @@ class OverviewTest {
         // Draws alone: the chains and warm-up in force (the server's) come with them.
         Overview.Settings draws = overview.changeSettings("p",
                 new PoolSettings.Change(null, null, null, null, null, null, 16, null, null), "lead");
-        assertEquals(new PoolSettings.Sampling(server.chains(), 16, server.reburnInSteps()), draws.sampling());
+        assertEquals(new PoolSettings.Sampling(server.chains().count(), 16, server.steps().reburnInSteps()), draws.sampling());
 
         IllegalArgumentException uneven = assertThrows(IllegalArgumentException.class, () -> overview.changeSettings(
                 "p", new PoolSettings.Change(null, null, null, null, null, 4, 30, null, null), "lead"));
