@@ -94,7 +94,7 @@ final class DeskBench {
             tokens = labellerTokens(db);
             // One round here, so that each phase's rounds continue saved chains, as a server that has run a while does.
             try (PoolScorer scorer = PoolScorer.withAllCores()) {
-                RoundService.Outcome first = new RoundService(db, SamplerConfig.defaults(WebServer.DEFAULT_SEED), scorer)
+                RoundService.Outcome first = new RoundService(db, SamplerConfig.defaults(), scorer)
                         .run("desk");
                 if (!first.published()) {
                     throw new IllegalStateException("the desk benchmark's first round failed: " + first.message());

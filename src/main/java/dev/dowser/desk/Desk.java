@@ -154,11 +154,6 @@ public final class Desk {
         return out;
     }
 
-    /** The progress line of a pool's desk. */
-    public Progress progress(String poolName) {
-        return progress(db.pools().require(poolName));
-    }
-
     /**
      * The served queue in order, each place with its record; labels are left out unless
      * {@code withLabels} (a labeller sees none, so that a second labeller judges alone).
@@ -183,8 +178,7 @@ public final class Desk {
     }
 
     private Progress progress(PoolRow pool) {
-        return new Progress(db.queues().servedRound(pool.id()).orElse(null),
-                rounds.worker(pool.name()).labelsToNextRound());
+        return Progress.of(db, rounds, pool);
     }
 
     private RecordView view(PoolRow pool, long row) {
