@@ -1,6 +1,5 @@
 package dev.dowser;
 
-import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.FileFormat;
 import dev.dowser.data.ImportProgress;
 import dev.dowser.data.ImportResult;
@@ -13,13 +12,10 @@ import dev.dowser.team.Accounts;
 import dev.dowser.team.Caller;
 import dev.dowser.team.Role;
 import dev.dowser.team.TeamConfig;
-import java.io.BufferedReader;
 import java.io.ByteArrayInputStream;
 import java.io.IOException;
 import java.io.InputStream;
-import java.io.InputStreamReader;
 import java.io.UncheckedIOException;
-import java.io.Writer;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -33,11 +29,9 @@ import java.time.Duration;
 import java.time.Instant;
 import java.time.ZoneOffset;
 import java.util.ArrayList;
-import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
-import java.util.zip.GZIPInputStream;
 
 /** Shared helpers of the tests: databases, the open datasets, and files to import. */
 public final class TestSupport {
@@ -53,7 +47,8 @@ public final class TestSupport {
 
     /** A sampler small enough for a round in well under a second: 16 hidden units, 2 chains, 8 draws. */
     public static SamplerConfig quickSampler() {
-        return SamplerConfig.defaults(3).withHidden(List.of(16)).withChains(2, 8).withSteps(100, 50, 5);
+        return SamplerConfig.builder().hidden(List.of(16)).chains(2, 8).burnInSteps(100).reburnInSteps(50)
+                .thinSteps(5).build();
     }
 
     /** Accounts as the server keeps them, with few PBKDF2 iterations so tests that sign in stay quick. */
@@ -243,38 +238,12 @@ public final class TestSupport {
      * digits has no first line and 64 pixel columns then the digit.
      */
     public static OpenDataset openDataset(String name, Path workDir) {
-        Path dir = datasetsDir();
         Path out = workDir.resolve(name + ".csv");
-        try (BufferedReader in = reader(dir, name); Writer w = Files.newBufferedWriter(out)) {
-            List<String> classes;
-            int features;
-            String first = null;
-            if (name.equals("digits")) {
-                features = 64;
-                classes = List.of("0", "1", "2", "3", "4", "5", "6", "7", "8", "9");
-            } else {
-                String[] head = in.readLine().split(",");
-                features = Integer.parseInt(head[1]);
-                classes = Arrays.asList(Arrays.copyOfRange(head, 2, head.length));
-            }
-            StringBuilder header = new StringBuilder();
-            for (int f = 0; f < features; f++) {
-                header.append(name.equals("digits") ? "px" : "f").append(f).append(',');
-            }
-            w.write(header.append("label\n").toString());
-            int rows = 0;
-            String line;
-            while ((line = first != null ? first : in.readLine()) != null) {
-                first = null;
-                if (line.isBlank()) {
-                    continue;
-                }
-                String[] v = line.split(",");
-                int cls = (int) Double.parseDouble(v[features]);
-                w.write(String.join(",", Arrays.copyOfRange(v, 0, features)) + "," + classes.get(cls) + "\n");
-                rows++;
-            }
-            return new OpenDataset(name, out, rows, features, classes);
+        try {
+            dev.dowser.simulate.BenchmarkData.OpenCsv open = dev.dowser.simulate.BenchmarkData.sklearnCsv(name,
+                    datasetsDir());
+            Files.writeString(out, open.csv());
+            return new OpenDataset(name, out, (int) open.csv().lines().count() - 1, open.features(), open.classes());
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
@@ -291,29 +260,9 @@ public final class TestSupport {
         }
     }
 
-    /** One of the open datasets with all its labels, as the model sees it (read through a throwaway database in {@code workDir}). */
+    /** One of the open datasets with all its labels, as the model sees it (read as a pool would be, in memory). */
     public static LabelledSet labelledOpenDataset(String name, Path workDir) {
-        OpenDataset data = openDataset(name, workDir);
-        try (Database db = openDb(workDir.resolve(name + "-db")); InputStream in = Files.newInputStream(data.csv())) {
-            new Importer(db).run(in, name + ".csv", csv(name).withLabel("label"), ImportProgress.NONE);
-            return LabelledSet.of(db, name, FeatureMatrix.load(db, name));
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
-        }
+        return dev.dowser.simulate.BenchmarkData.load(name, datasetsDir()).pool();
     }
 
-    private static BufferedReader reader(Path dir, String name) throws IOException {
-        String file = switch (name) {
-            case "iris" -> "iris.csv";
-            case "wine" -> "wine_data.csv";
-            case "breast_cancer" -> "breast_cancer.csv";
-            case "digits" -> "digits.csv.gz";
-            default -> throw new IllegalArgumentException("no open dataset named " + name);
-        };
-        InputStream raw = Files.newInputStream(dir.resolve(file));
-        if (file.endsWith(".gz")) {
-            raw = new GZIPInputStream(raw);
-        }
-        return new BufferedReader(new InputStreamReader(raw, StandardCharsets.UTF_8));
-    }
 }

@@ -45,6 +45,15 @@ import picocli.CommandLine.Spec;
             "desk: 20 simulated labellers on loopback submit a label and ask for the next record (200 ms"
                 + " apart) while rounds run on a 100,000-row pool (batch 100): p50 and p99 of submit-and-next,"
                 + " and the time from a batch's last label to its new queue being served. 60 s, 15 with --quick.",
+            "durability: the server as its own process, 8 labellers, a reviewer and an admin writing as fast as"
+                + " they can, killed with SIGKILL 25 times (5 with --quick) at random moments (after 250 to 750"
+                + " acknowledged writes, then up to 0.3 s) and restarted: every"
+                + " acknowledged label, withdrawal, review, settings and account change must be there afterwards;"
+                + " prints the counts acknowledged and lost.",
+            "labels (only when named): the label-savings benchmark, simulate on digits, breast cancer, wine, iris,"
+                + " the demo's pumps and Fashion-MNIST (pool 60,000, test 10,000, 50 principal components) with"
+                + " paired seeds: labels to each target, random's labels over the strategy's with 90% bootstrap"
+                + " intervals, area-under-the-curve gains; curves and a table (labels.md) in --labels-out. Hours.",
             "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: files to import,"
                 + " heads of files to preview, every JSON body; jqwik properties of the test sources, run through"
                 + " Maven (a source folder is needed). Counts per status; any 500, partial write or Java message"
@@ -70,11 +79,35 @@ final class BenchCommand implements Callable<Integer> {
     Path work;
 
     @Option(names = "--only", split = ",", paramLabel = "SUITE",
-            description = "Suites to run: sgemm, score, sampler, round, desk, import, fuzz (default: all).")
+            description = "Suites to run: sgemm, score, sampler, round, desk, durability, import, fuzz, labels"
+                    + " (default: all but labels).")
     java.util.List<String> only;
 
+    @Option(names = "--datasets", split = ",", paramLabel = "NAME",
+            description = "labels: datasets (default: digits,breast_cancer,wine,iris,pumps,fashion-mnist).")
+    java.util.List<String> datasets = java.util.List.of("digits", "breast_cancer", "wine", "iris", "pumps",
+            "fashion-mnist");
+
+    @Option(names = "--strategies", split = ",", paramLabel = "S",
+            description = "labels: strategies besides random, the first one in the table (default: default).")
+    java.util.List<String> strategies = java.util.List.of(dev.dowser.rounds.Strategy.DEFAULT_WORD);
+
+    @Option(names = "--seeds", defaultValue = "10", paramLabel = "N", description = "labels: paired seeds (default: ${DEFAULT-VALUE}).")
+    int seeds;
+
+    @Option(names = "--datasets-dir", defaultValue = "target/datasets", paramLabel = "DIR",
+            description = "labels: where ./dowser test unpacked the open datasets (default: ${DEFAULT-VALUE}).")
+    Path datasetsDir;
+
+    @Option(names = "--labels-out", defaultValue = "target/bench-labels", paramLabel = "DIR",
+            description = "labels: folder for each dataset's curves and the table (default: ${DEFAULT-VALUE}).")
+    Path labelsOut;
+
+    @picocli.CommandLine.Mixin
+    SamplerOptions sampler;
+
     private boolean wants(String suite) {
-        return only == null || only.contains(suite);
+        return only == null ? !suite.equals("labels") : only.contains(suite);
     }
 
     @Override
@@ -120,6 +153,10 @@ final class BenchCommand implements Callable<Integer> {
         if (wants("fuzz")) {
             FuzzBench.run(out, quick);
         }
+        if (wants("labels")) {
+            LabelsBench.run(out, datasetsDir, datasets, strategies.stream().map(dev.dowser.rounds.Strategy::parse)
+                    .distinct().toList(), seeds, sampler.config(), labelsOut);
+        }
         if (wants("desk")) {
             Path dir = work != null ? Files.createDirectories(work.resolve("desk")) : Files.createTempDirectory("dowser-desk-");
             try {
@@ -128,7 +165,37 @@ final class BenchCommand implements Callable<Integer> {
                 Folders.deleteTree(dir);
             }
         }
+        if (wants("durability")) {
+            Path dir = work != null ? Files.createDirectories(work.resolve("durability"))
+                    : Files.createTempDirectory("dowser-durability-");
+            try {
+                durability(out, dir, quick);
+            } finally {
+                Folders.deleteTree(dir);
+            }
+        }
         return 0;
+    }
+
+    static final int DURABILITY_KILLS = 25;
+    static final int DURABILITY_QUICK_KILLS = 5;
+    static final int DURABILITY_LABELLERS = 8;
+    /** Writes acknowledged in one life of the server before it is killed: 25 kills give about 12,500. */
+    static final int DURABILITY_MIN_WRITES = 250;
+    static final int DURABILITY_MAX_WRITES = 750;
+
+    private static void durability(java.io.PrintWriter out, Path dir, boolean quick) throws Exception {
+        KillCampaign campaign = new KillCampaign(quick ? DURABILITY_QUICK_KILLS : DURABILITY_KILLS, DURABILITY_LABELLERS,
+                DURABILITY_MIN_WRITES, DURABILITY_MAX_WRITES, SEED);
+        KillCampaign.Report r = campaign.run(dir, ServerProcess.sameJava("-Xmx1g"), out);
+        out.printf("durability_kills=%d%ndurability_acknowledged=%d%ndurability_lost=%d%n", campaign.kills(),
+                r.check().acknowledged(), r.check().lost());
+        r.check().counts().forEach((kind, c) -> out.printf("durability_%s_acknowledged=%d%ndurability_%s_lost=%d%n",
+                kind.name().toLowerCase(java.util.Locale.ROOT), c[0], kind.name().toLowerCase(java.util.Locale.ROOT), c[1]));
+        out.printf("durability_server_errors=%d%ndurability_start_median_s=%.2f%n", r.serverErrors(),
+                r.startSeconds().stream().sorted().toList().get(r.startSeconds().size() / 2));
+        r.check().missing().stream().limit(10).forEach(a -> out.println("durability_missing=" + a));
+        out.flush();
     }
 
     /** Imports n generated rows in {@code format}; prints the figures under {@code tag}, returns rows per second. */

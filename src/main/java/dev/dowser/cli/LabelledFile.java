@@ -1,49 +1,33 @@
 package dev.dowser.cli;
 
-import dev.dowser.data.FeatureMatrix;
-import dev.dowser.data.FileFormat;
-import dev.dowser.data.ImportProgress;
-import dev.dowser.data.ImportSpec;
-import dev.dowser.data.Importer;
+import dev.dowser.data.LabelledFiles;
 import dev.dowser.data.LabelledSet;
-import dev.dowser.store.Database;
 import java.io.IOException;
 import java.io.InputStream;
 import java.nio.file.Files;
-import java.nio.file.Path;
-import java.time.Clock;
-import picocli.CommandLine.Option;
+import picocli.CommandLine.Mixin;
 
 /**
- * The labelled file that the offline commands ({@code fit}, {@code simulate}) work on, with its
- * options: read through the ordinary importer into a throwaway database, so it is checked and
- * encoded exactly as a pool would be.
+ * The labelled file the offline commands ({@code fit}, {@code simulate}) work on, read with the
+ * import's options and encoding but into memory, without a database.
  */
 final class LabelledFile {
 
-    static final String POOL = "offline";
-
-    @Option(names = "--csv", required = true, paramLabel = "F", description = "CSV (or JSON Lines) file with labels.")
-    Path file;
-
-    @Option(names = "--label", required = true, paramLabel = "COL", description = "The label column.")
-    String label;
-
-    @Option(names = "--id", paramLabel = "COL", description = "Id column, left out of the features.")
-    String id;
+    @Mixin
+    ColumnOptions columns;
 
     /** Every labelled record of the file, standardised as the model sees them. */
     LabelledSet read() throws IOException {
-        Path work = Files.createTempDirectory("dowser-offline-");
-        try (Database db = Database.open(work, Clock.systemUTC())) {
-            ImportSpec spec = ImportSpec.defaults(POOL, FileFormat.fromFileName(file.toString())).withLabel(label)
-                    .withId(id);
-            try (InputStream in = Files.newInputStream(file)) {
-                new Importer(db).run(in, file.getFileName().toString(), spec, ImportProgress.NONE);
-            }
-            return LabelledSet.of(db, POOL, FeatureMatrix.load(db, POOL));
-        } finally {
-            Folders.deleteTree(work);
+        if (columns.label == null) {
+            throw new IllegalArgumentException("name the column that holds the labels with --label COL");
         }
+        columns.checkFile();
+        try (InputStream in = Files.newInputStream(columns.file)) {
+            return LabelledFiles.read(in, columns.spec("offline", "file"));
+        }
+    }
+
+    String fileName() {
+        return columns.file.getFileName().toString();
     }
 }

@@ -41,7 +41,7 @@ final class RoundBench {
             }
         }
         float[] labelledX = Arrays.copyOf(x, LABELLED * INPUTS);
-        SamplerConfig config = SamplerConfig.defaults(5).withKernel(KernelChoice.PSGLD).withHidden(List.of(128));
+        SamplerConfig config = SamplerConfig.builder().kernel(KernelChoice.PSGLD).hidden(List.of(128)).build();
         PosteriorSampler sampler = new PosteriorSampler(config);
         RoundDraws previous = sampler.sample(labelledX, y, CLASSES, null, new float[0], SeedTree.of(0));
         try (PoolScorer scorer = PoolScorer.withAllCores()) {

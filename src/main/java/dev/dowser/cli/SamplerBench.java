@@ -65,8 +65,8 @@ final class SamplerBench {
             }
         }
         int steps = quick ? 500 : 3_000;
-        SamplerConfig config = SamplerConfig.defaults(3).withKernel(KernelChoice.PSGLD)
-                .withHidden(List.of(HIDDEN)).withChains(CHAINS, CHAINS * 10).withSteps(steps, 300, 20);
+        SamplerConfig config = SamplerConfig.builder().kernel(KernelChoice.PSGLD).hidden(List.of(HIDDEN))
+                .chains(CHAINS, CHAINS * 10).burnInSteps(steps).reburnInSteps(300).thinSteps(20).build();
         PosteriorSampler sampler = new PosteriorSampler(config);
         // A warm-up round for the JIT, then three measured cold rounds: the median is reported, with
         // the range, since other work on a shared machine moves single runs by about 10%.

@@ -28,7 +28,7 @@ final class ServerRunner {
     static void runUntilStopped(WebServer server, Database db, Path dataDir, String banner,
                                 Consumer<WebServer> onStart) {
         try {
-            server.serve(db, dataDir.resolve(UPLOADS), SamplerConfig.defaults(WebServer.DEFAULT_SEED),
+            server.serve(db, dataDir.resolve(UPLOADS), SamplerConfig.defaults(),
                     TeamConfig.defaults());
             onStart.accept(server);
         } catch (RuntimeException e) {

@@ -1,11 +1,11 @@
 package dev.dowser.cli;
 
+import dev.dowser.acquire.ColdStart;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.rounds.PoolSettings;
-import dev.dowser.rounds.Simulation;
-import dev.dowser.rounds.SimulationReport;
 import dev.dowser.rounds.Strategy;
-import dev.dowser.sampler.SamplerConfig;
+import dev.dowser.simulate.Simulation;
+import dev.dowser.simulate.SimulationReport;
 import dev.dowser.stats.StabilisingPredictions;
 import java.io.IOException;
 import java.io.PrintWriter;
@@ -21,9 +21,13 @@ import picocli.CommandLine.Spec;
 
 @Command(name = "simulate", mixinStandardHelpOptions = true,
         description = {"Shows, on your own labelled data, how many labels picking saves over labelling at random.",
-            "Runs the whole loop offline with the file's labels acting as the labeller, chains continued"
-                + " between rounds as the app does; writes DIR/curves.csv, curves.svg and curves.png, and prints"
-                + " a table and labels_to_<target>_<strategy>=N lines; then, per seed, where the stopping rule"
+            "Runs the server's own round step offline with the file's labels acting as the labellers: a cold"
+                + " start, then round after round the chains continued, the pool scored, a batch picked with spot"
+                + " checks mixed in. Every strategy sees the same splits and first batches (paired seeds). Writes"
+                + " DIR/curves.csv, curves.svg and curves.png, and prints a table and key=value lines: labels to"
+                + " each target from the mean curve with a 90% bootstrap interval over seeds, the seeds that"
+                + " reached it, the median of the seeds' first counts, random's labels over each strategy's,"
+                + " the area under the curve, accuracy and NLL at fixed label counts; then, per seed, where the stopping rule"
                 + " fired beside where the test curve levelled off, and stop_at_<strategy>=N,"
                 + " accuracy_at_stop_<strategy>=A, accuracy_at_budget_<strategy>=B and"
                 + " estimate_covers_<strategy>=F lines."})
@@ -35,16 +39,29 @@ final class SimulateCommand implements Callable<Integer> {
     @Mixin
     LabelledFile input;
 
-    @Option(names = "--strategies", split = ",", defaultValue = "bald,random", paramLabel = "S",
-            description = "Strategies: bald, power, batchbald, entropy, random (default: ${DEFAULT-VALUE}).")
+    @Mixin
+    SamplerOptions sampler;
+
+    @Option(names = "--strategies", split = ",", defaultValue = "default,random", paramLabel = "S",
+            description = "Strategies: bald, power, batchbald, entropy, margin, random, or default (what a new pool"
+                    + " uses) (default: ${DEFAULT-VALUE}).")
     List<String> strategies;
 
     @Option(names = "--seed-labels", defaultValue = "20", paramLabel = "N",
-            description = "Labels to start from, picked by k-means++ (default: ${DEFAULT-VALUE}).")
+            description = "Size of the first batch, picked with no labels (default: ${DEFAULT-VALUE}).")
     int seedLabels;
 
-    @Option(names = "--batch", defaultValue = "10", paramLabel = "B", description = "Labels per round (default: ${DEFAULT-VALUE}).")
+    @Option(names = "--cold-start", defaultValue = "kmeans++", paramLabel = "kmeans++|typiclust",
+            description = "How the first batch is spread over the pool (default: ${DEFAULT-VALUE}).")
+    String coldStart;
+
+    @Option(names = "--batch", defaultValue = "" + PoolSettings.DEFAULT_BATCH_SIZE, paramLabel = "B",
+            description = "Labels per round (default: ${DEFAULT-VALUE}).")
     int batch;
+
+    @Option(names = "--spot-check-share", defaultValue = "" + PoolSettings.DEFAULT_SPOT_CHECK_SHARE, paramLabel = "F",
+            description = "Share of each batch drawn at random as spot checks (default: ${DEFAULT-VALUE}).")
+    double spotCheckShare;
 
     @Option(names = "--budget", defaultValue = "300", paramLabel = "N",
             description = "Labels at which to stop (default: ${DEFAULT-VALUE}).")
@@ -54,20 +71,16 @@ final class SimulateCommand implements Callable<Integer> {
             description = "Share held out for testing, per class (default: ${DEFAULT-VALUE}).")
     double testFraction;
 
-    @Option(names = "--seeds", defaultValue = "3", paramLabel = "N", description = "Repeats with other seeds (default: ${DEFAULT-VALUE}).")
+    @Option(names = "--seeds", defaultValue = "10", paramLabel = "N",
+            description = "Paired repeats, each with its own split and first batch (default: ${DEFAULT-VALUE}).")
     int seeds;
+
+    @Option(names = "--seed", defaultValue = "1", paramLabel = "N", description = "Root of the seed tree (default: ${DEFAULT-VALUE}).")
+    long seed;
 
     @Option(names = "--targets", split = ",", defaultValue = "0.9,0.95", paramLabel = "A",
             description = "Test accuracies to report the labels needed for (default: ${DEFAULT-VALUE}).")
     List<Double> targets;
-
-    @Option(names = "--draws", defaultValue = "32", paramLabel = "S",
-            description = "Posterior draws per round, over all chains (default: ${DEFAULT-VALUE}).")
-    int draws;
-
-    @Option(names = "--reburn-in", defaultValue = "200", paramLabel = "N",
-            description = "Steps each chain takes before drawing, each round (default: ${DEFAULT-VALUE}).")
-    int reburnIn;
 
     @Option(names = "--stop-agreement", defaultValue = "" + StabilisingPredictions.DEFAULT_THRESHOLD, paramLabel = "K",
             description = "Mean agreement (Cohen's kappa) of the last 3 rounds' predictions on the stop set at which"
@@ -79,21 +92,18 @@ final class SimulateCommand implements Callable<Integer> {
 
     @Override
     public Integer call() throws IOException {
-        List<Strategy> chosen = strategies.stream().map(Strategy::parse).toList();
-        SamplerConfig sampler = SamplerConfig.defaults(1).withChains(SamplerConfig.DEFAULT_CHAINS, draws)
-                .withSteps(Math.max(reburnIn, SamplerConfig.DEFAULT_REBURN_IN_STEPS), reburnIn, 10);
-        PoolSettings settings = PoolSettings.defaults().withBatchSize(batch)
-                .withSampling(new PoolSettings.Sampling(SamplerConfig.DEFAULT_CHAINS, draws, reburnIn))
-                .withStopAgreement(stopAgreement);
-        Simulation.Plan plan = new Simulation.Plan(chosen, seeds, seedLabels, budget, testFraction, settings, sampler,
-                1);
+        List<Strategy> chosen = strategies.stream().map(Strategy::parse).distinct().toList();
+        PoolSettings settings = PoolSettings.defaults().withBatchSize(batch).withSpotCheckShare(spotCheckShare)
+                .withColdStart(ColdStart.Method.parse(coldStart)).withStopAgreement(stopAgreement);
+        Simulation.Plan plan = new Simulation.Plan(chosen, seeds, seedLabels, budget, testFraction, settings,
+                sampler.config(), seed);
         LabelledSet all = input.read();
         int total = plan.roundsEach() * chosen.size() * seeds;
         ProgressBar bar = new ProgressBar(System.err, "rounds");
         AtomicInteger done = new AtomicInteger();
         List<Simulation.Point> points = Simulation.run(all, plan, k -> bar.show(done.addAndGet(k), total, done.get()));
         bar.finish();
-        SimulationReport.write(out, points, plan);
+        SimulationReport.write(out, input.fileName(), points, plan);
         PrintWriter w = command.commandLine().getOut();
         SimulationReport.summary(w, points, plan, targets);
         w.printf("curves=%s%n", out.resolve(SimulationReport.CSV));

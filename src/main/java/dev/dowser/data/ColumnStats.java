@@ -1,6 +1,6 @@
 package dev.dowser.data;
 
-import dev.dowser.store.RecordBatch;
+import dev.dowser.records.RecordBatch;
 
 import java.nio.ByteBuffer;
 import java.util.ArrayList;
@@ -19,6 +19,7 @@ final class ColumnStats {
 
     private final String name;
     private final int maxLevels;
+    private final java.util.Set<String> missingTokens;
     private FeatureKind kind;
     private long kindLine;
     private int dims;
@@ -34,8 +35,13 @@ final class ColumnStats {
     private double high = Double.NEGATIVE_INFINITY;
 
     ColumnStats(String name, boolean categorical, int maxLevels) {
+        this(name, categorical, maxLevels, List.of());
+    }
+
+    ColumnStats(String name, boolean categorical, int maxLevels, List<String> missingTokens) {
         this.name = name;
         this.maxLevels = maxLevels;
+        this.missingTokens = java.util.Set.copyOf(missingTokens);
         if (categorical) {
             setKind(FeatureKind.CATEGORICAL, 1, 0);
         }
@@ -50,12 +56,15 @@ final class ColumnStats {
         sumSq = new double[d];
     }
 
-    /** Adds one field of a batch (missing or blank counts as missing) and writes its raw floats to {@code out}. */
+    /**
+     * Adds one field of a batch (absent, blank or a missing token counts as missing) and writes its
+     * raw floats to {@code out}.
+     */
     void accept(RecordBatch batch, int row, int col, ByteBuffer out) {
         int len = batch.length(row, col);
         char[] a = batch.chars();
         int from = batch.start(row, col);
-        if (len == RecordBatch.MISSING || isBlank(a, from, from + len)) {
+        if (len == RecordBatch.MISSING || isBlank(a, from, from + len) || isMissingToken(a, from, len)) {
             missing++;
             out.putFloat(Float.NaN);
             return;
@@ -74,6 +83,14 @@ final class ColumnStats {
             case EMBEDDING -> embedding(a, from, from + len, line, out);
         }
         count++;
+    }
+
+    /** Whether the field, trimmed, is one of the missing tokens; short fields only, so no string for most values. */
+    private boolean isMissingToken(char[] a, int from, int len) {
+        if (missingTokens.isEmpty() || len > 16) {
+            return false;
+        }
+        return missingTokens.contains(new String(a, from, len).strip());
     }
 
     private static boolean isBlank(char[] a, int from, int to) {

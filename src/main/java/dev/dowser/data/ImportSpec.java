@@ -20,6 +20,8 @@ import java.util.List;
  * @param maxFieldChars   longest field accepted, in characters
  * @param maxBytes        largest file accepted, in bytes
  * @param importedBy      who the labels carried in by the file are attributed to
+ * @param missingTokens   field values that mean "missing", beside an empty field: in a feature
+ *                        column they set its missing-value indicator rather than make a category
  */
 public record ImportSpec(
         String poolName,
@@ -33,7 +35,8 @@ public record ImportSpec(
         int maxLevels,
         int maxFieldChars,
         long maxBytes,
-        String importedBy) {
+        String importedBy,
+        List<String> missingTokens) {
 
     public static final int DEFAULT_MAX_LEVELS = 50;
     public static final int DEFAULT_MAX_FIELD_CHARS = 100_000;
@@ -41,6 +44,19 @@ public record ImportSpec(
     /** Most classes a label set may have; keys run out after 35, later classes are clicked. */
     public static final int MAX_CLASSES = 200;
     public static final int MAX_KEY_CHARS = 200;
+    /**
+     * What files commonly write for a missing value: R and many exports (NA, N/A), pandas and
+     * spreadsheets (NaN, NULL, null), and the UCI repository (?). Matched whole, after trimming.
+     */
+    public static final List<String> DEFAULT_MISSING_TOKENS = List.of("NA", "N/A", "NaN", "?", "null", "NULL");
+
+    /** A spec whose missing tokens are the defaults. */
+    public ImportSpec(String poolName, FileFormat format, String idColumn, List<String> featureColumns,
+                      List<String> displayColumns, String labelColumn, List<String> classes, List<String> categorical,
+                      int maxLevels, int maxFieldChars, long maxBytes, String importedBy) {
+        this(poolName, format, idColumn, featureColumns, displayColumns, labelColumn, classes, categorical, maxLevels,
+                maxFieldChars, maxBytes, importedBy, DEFAULT_MISSING_TOKENS);
+    }
 
     public ImportSpec {
         PoolWriter.checkName(poolName);
@@ -76,6 +92,7 @@ public record ImportSpec(
         if (importedBy == null || importedBy.isBlank()) {
             throw new IllegalArgumentException("importedBy is required");
         }
+        missingTokens = missingTokens == null ? List.of() : missingTokens.stream().map(String::strip).toList();
     }
 
     /** A spec with every default: id from line numbers, no labels, all columns as features. */
@@ -94,41 +111,46 @@ public record ImportSpec(
 
     public ImportSpec withId(String column) {
         return new ImportSpec(poolName, format, column, featureColumns, displayColumns, labelColumn, classes,
-                categorical, maxLevels, maxFieldChars, maxBytes, importedBy);
+                categorical, maxLevels, maxFieldChars, maxBytes, importedBy, missingTokens);
     }
 
     public ImportSpec withLabel(String column) {
         return new ImportSpec(poolName, format, idColumn, featureColumns, displayColumns, column, classes,
-                categorical, maxLevels, maxFieldChars, maxBytes, importedBy);
+                categorical, maxLevels, maxFieldChars, maxBytes, importedBy, missingTokens);
     }
 
     public ImportSpec withClasses(List<String> labelSet) {
         return new ImportSpec(poolName, format, idColumn, featureColumns, displayColumns, labelColumn, labelSet,
-                categorical, maxLevels, maxFieldChars, maxBytes, importedBy);
+                categorical, maxLevels, maxFieldChars, maxBytes, importedBy, missingTokens);
     }
 
     public ImportSpec withFeatures(List<String> columns) {
         return new ImportSpec(poolName, format, idColumn, columns, displayColumns, labelColumn, classes,
-                categorical, maxLevels, maxFieldChars, maxBytes, importedBy);
+                categorical, maxLevels, maxFieldChars, maxBytes, importedBy, missingTokens);
     }
 
     public ImportSpec withDisplay(List<String> columns) {
         return new ImportSpec(poolName, format, idColumn, featureColumns, columns, labelColumn, classes,
-                categorical, maxLevels, maxFieldChars, maxBytes, importedBy);
+                categorical, maxLevels, maxFieldChars, maxBytes, importedBy, missingTokens);
     }
 
     public ImportSpec withCategorical(List<String> columns) {
         return new ImportSpec(poolName, format, idColumn, featureColumns, displayColumns, labelColumn, classes,
-                columns, maxLevels, maxFieldChars, maxBytes, importedBy);
+                columns, maxLevels, maxFieldChars, maxBytes, importedBy, missingTokens);
     }
 
     public ImportSpec withLimits(int levels, int fieldChars, long bytes) {
         return new ImportSpec(poolName, format, idColumn, featureColumns, displayColumns, labelColumn, classes,
-                categorical, levels, fieldChars, bytes, importedBy);
+                categorical, levels, fieldChars, bytes, importedBy, missingTokens);
     }
 
     public ImportSpec withImportedBy(String who) {
         return new ImportSpec(poolName, format, idColumn, featureColumns, displayColumns, labelColumn, classes,
-                categorical, maxLevels, maxFieldChars, maxBytes, who);
+                categorical, maxLevels, maxFieldChars, maxBytes, who, missingTokens);
+    }
+
+    public ImportSpec withMissingTokens(List<String> tokens) {
+        return new ImportSpec(poolName, format, idColumn, featureColumns, displayColumns, labelColumn, classes,
+                categorical, maxLevels, maxFieldChars, maxBytes, importedBy, tokens);
     }
 }

@@ -1,6 +1,6 @@
 package dev.dowser.data;
 
-import dev.dowser.store.RecordBatch;
+import dev.dowser.records.RecordBatch;
 
 import java.nio.BufferOverflowException;
 import java.nio.ByteBuffer;
@@ -34,7 +34,7 @@ final class RecordEncoder {
         this.classSet = new LinkedHashSet<>(spec.classes());
         Set<String> categorical = new java.util.HashSet<>(spec.categorical());
         for (String f : plan.roles().features()) {
-            stats.add(new ColumnStats(f, categorical.contains(f), spec.maxLevels()));
+            stats.add(new ColumnStats(f, categorical.contains(f), spec.maxLevels(), spec.missingTokens()));
         }
     }
 

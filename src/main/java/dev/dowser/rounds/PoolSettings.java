@@ -2,6 +2,7 @@ package dev.dowser.rounds;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.acquire.BatchBald;
+import dev.dowser.acquire.ColdStart;
 import dev.dowser.json.Json;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.stats.StabilisingPredictions;
@@ -18,9 +19,11 @@ import dev.dowser.stats.StabilisingPredictions;
  *                         while the pool follows the server's sampler
  * @param stopAgreement    the mean agreement (Cohen's kappa) of successive rounds' predictions on the
  *                         stop set at which they count as settled
+ * @param coldStart        how the first batch, picked with no labels, is spread over the pool
  */
 public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinutes, Strategy strategy,
-                           double doubleLabelShare, Sampling sampling, double stopAgreement) {
+                           double doubleLabelShare, Sampling sampling, double stopAgreement,
+                           ColdStart.Method coldStart) {
 
     public static final int DEFAULT_BATCH_SIZE = 10;
     public static final double DEFAULT_SPOT_CHECK_SHARE = 0.10;
@@ -28,6 +31,7 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
     public static final double DEFAULT_DOUBLE_LABEL_SHARE = 0.10;
     /** What a new pool picks by; {@code default} names it in settings and on the command line. */
     public static final Strategy DEFAULT_STRATEGY = Strategy.BALD;
+    public static final ColdStart.Method DEFAULT_COLD_START = ColdStart.Method.KMEANS_PLUS_PLUS;
     /** Agreement below this would call predictions settled while a tenth of them still change. */
     public static final double MIN_STOP_AGREEMENT = 0.9;
 
@@ -60,12 +64,12 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
 
         /** The chains, draws and re-burn-in of a sampler. */
         public static Sampling of(SamplerConfig config) {
-            return new Sampling(config.chains(), config.draws(), config.reburnInSteps());
+            return new Sampling(config.chains().count(), config.chains().draws(), config.steps().reburnInSteps());
         }
 
         /** The server's sampler with this pool's chains, draws and re-burn-in. */
         public SamplerConfig applyTo(SamplerConfig base) {
-            return base.withChains(chains, draws).withSteps(base.burnInSteps(), reburnInSteps, base.thinSteps());
+            return base.toBuilder().chains(chains, draws).reburnInSteps(reburnInSteps).build();
         }
     }
 
@@ -90,10 +94,38 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
         if (!(doubleLabelShare >= 0 && doubleLabelShare <= 1)) {
             throw new IllegalArgumentException("double_label_share (the share sent to two people) must lie between 0 and 1, got " + doubleLabelShare);
         }
+        if (coldStart == null) {
+            throw new IllegalArgumentException("a cold start is required: kmeans++ or typiclust");
+        }
         if (!(stopAgreement >= MIN_STOP_AGREEMENT && stopAgreement <= 1)) {
             throw new IllegalArgumentException("stop_agreement (the agreement at which predictions count as settled)"
                     + " must lie between "
                     + MIN_STOP_AGREEMENT + " and 1, got " + stopAgreement);
+        }
+    }
+
+    /**
+     * A change of some settings: a null field keeps its value. Naming any of chains, draws and
+     * re-burn-in gives the pool its own sampling, the others taken from what is in force.
+     */
+    public record Change(Integer batchSize, Double spotCheckShare, Integer leaseMinutes, Strategy strategy,
+                         Double doubleLabelShare, Integer chains, Integer draws, Integer reburnInSteps,
+                         Double stopAgreement) {
+
+        /** {@code now} with this change, checked whole; {@code server} is the sampler in force without the pool's own. */
+        public PoolSettings applyTo(PoolSettings now, SamplerConfig server) {
+            Sampling sampling = now.sampling(server);
+            boolean ownSampling = chains != null || draws != null || reburnInSteps != null;
+            return new PoolSettings(or(batchSize, now.batchSize()), or(spotCheckShare, now.spotCheckShare()),
+                    or(leaseMinutes, now.leaseMinutes()), or(strategy, now.strategy()),
+                    or(doubleLabelShare, now.doubleLabelShare()),
+                    ownSampling ? new Sampling(or(chains, sampling.chains()), or(draws, sampling.draws()),
+                            or(reburnInSteps, sampling.reburnInSteps())) : now.sampling(),
+                    or(stopAgreement, now.stopAgreement()), now.coldStart());
+        }
+
+        private static <T> T or(T value, T kept) {
+            return value == null ? kept : value;
         }
     }
 
@@ -102,6 +134,13 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
                         double doubleLabelShare) {
         this(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, null,
                 StabilisingPredictions.DEFAULT_THRESHOLD);
+    }
+
+    /** Settings with the default cold start. */
+    public PoolSettings(int batchSize, double spotCheckShare, int leaseMinutes, Strategy strategy,
+                        double doubleLabelShare, Sampling sampling, double stopAgreement) {
+        this(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, sampling, stopAgreement,
+                DEFAULT_COLD_START);
     }
 
     /** The sampler a round of this pool runs: the server's, with the pool's own sampling where it has one. */
@@ -117,22 +156,37 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
     /** The same settings with another batch size. */
     public PoolSettings withBatchSize(int size) {
         return new PoolSettings(size, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, sampling,
-                stopAgreement);
+                stopAgreement, coldStart);
+    }
+
+    /** The same settings with another share of spot checks. */
+    public PoolSettings withSpotCheckShare(double share) {
+        return new PoolSettings(batchSize, share, leaseMinutes, strategy, doubleLabelShare, sampling, stopAgreement,
+                coldStart);
+    }
+
+    /** The same settings with another cold start. */
+    public PoolSettings withColdStart(ColdStart.Method m) {
+        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, sampling,
+                stopAgreement, m);
     }
 
     /** The same settings with another strategy. */
     public PoolSettings withStrategy(Strategy s) {
-        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, s, doubleLabelShare, sampling, stopAgreement);
+        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, s, doubleLabelShare, sampling, stopAgreement,
+                coldStart);
     }
 
     /** The same settings with other sampling. */
     public PoolSettings withSampling(Sampling s) {
-        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, s, stopAgreement);
+        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, s, stopAgreement,
+                coldStart);
     }
 
     /** The same settings with another agreement at which predictions count as settled. */
     public PoolSettings withStopAgreement(double k) {
-        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, sampling, k);
+        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, sampling, k,
+                coldStart);
     }
 
     /** The stopping rule of stabilising predictions with this pool's threshold. */
@@ -155,14 +209,16 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
                 n.path("spotCheckShare").asDouble(d.spotCheckShare()), n.path("leaseMinutes").asInt(d.leaseMinutes()),
                 n.has("strategy") ? Strategy.parse(n.get("strategy").asText()) : d.strategy(),
                 n.path("doubleLabelShare").asDouble(d.doubleLabelShare()), sampling,
-                n.path("stopAgreement").asDouble(d.stopAgreement()));
+                n.path("stopAgreement").asDouble(d.stopAgreement()),
+                n.has("coldStart") ? ColdStart.Method.parse(n.get("coldStart").asText()) : d.coldStart());
     }
 
     /** The document kept with the pool, read back by {@link #parse}. */
     public String toJson() {
         var n = Json.object().put("batchSize", batchSize).put("spotCheckShare", spotCheckShare)
                 .put("leaseMinutes", leaseMinutes).put("strategy", strategy.word())
-                .put("doubleLabelShare", doubleLabelShare).put("stopAgreement", stopAgreement);
+                .put("doubleLabelShare", doubleLabelShare).put("stopAgreement", stopAgreement)
+                .put("coldStart", coldStart.word());
         if (sampling != null) {
             n.put("chains", sampling.chains()).put("draws", sampling.draws())
                     .put("reburnInSteps", sampling.reburnInSteps());

@@ -14,7 +14,6 @@ package dev.dowser.sampler;
 public record ChainConfig(int burnInSteps, int draws, int thinSteps, int batchRows, StepSchedule schedule,
                           boolean adaptSteps, int gibbsEvery) {
 
-    public static final int DEFAULT_BATCH_ROWS = 128;
     public static final int DEFAULT_GIBBS_EVERY = 10;
 
     public ChainConfig {

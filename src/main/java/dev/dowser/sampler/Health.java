@@ -63,6 +63,9 @@ public record Health(double rhatMax, double essBulkMin, double essTailMin, doubl
                 bulk = finiteMin(bulk, Diagnostics.essBulk(s));
                 tail = finiteMin(tail, Diagnostics.essTail(s));
             }
+            // No summary could be judged (too few draws per half-chain): there is no figure, not an infinite one.
+            bulk = Double.isInfinite(bulk) ? Double.NaN : bulk;
+            tail = Double.isInfinite(tail) ? Double.NaN : tail;
         }
         double acc = 0;
         double step = 0;

@@ -30,21 +30,21 @@ public final class PosteriorSampler {
     }
 
     public static Choice choose(SamplerConfig config, int rows) {
-        if (config.kernel() != KernelChoice.AUTO) {
-            return new Choice(config.kernel(), config.kernel().word() + " was asked for");
+        if (config.kernel().choice() != KernelChoice.AUTO) {
+            return new Choice(config.kernel().choice(), config.kernel().choice().word() + " was asked for");
         }
-        if (rows <= config.malaMaxRows()) {
+        if (rows <= config.kernel().malaMaxRows()) {
             return new Choice(KernelChoice.MALA, rows + " labelled rows are few enough (at most "
-                    + config.malaMaxRows() + ") for full-batch gradients, so MALA's accept-reject test"
+                    + config.kernel().malaMaxRows() + ") for full-batch gradients, so MALA's accept-reject test"
                     + " makes the draws exact in the limit");
         }
-        return new Choice(KernelChoice.PSGLD, rows + " labelled rows are more than " + config.malaMaxRows()
-                + ", so mini-batches of " + config.batchRows() + " keep steps cheap; preconditioned SGLD adapts"
+        return new Choice(KernelChoice.PSGLD, rows + " labelled rows are more than " + config.kernel().malaMaxRows()
+                + ", so mini-batches of " + config.steps().batchRows() + " keep steps cheap; preconditioned SGLD adapts"
                 + " each weight's step to its gradient's scale");
     }
 
     public Layout layout(int inputs, int classes) {
-        return new Layout(new Architecture(inputs, config.hidden(), classes, config.activation()));
+        return new Layout(new Architecture(inputs, config.network().hidden(), classes, config.network().activation()));
     }
 
     /**
@@ -74,24 +74,25 @@ public final class PosteriorSampler {
         Layout layout = layout(inputs, classes);
         Choice choice = choose(config, rows);
         boolean warm = previous != null && !previous.isEmpty();
-        if (warm && previous.size() != config.chains()) {
-            throw new IllegalArgumentException(previous.size() + " saved chains but " + config.chains() + " asked for");
+        if (warm && previous.size() != config.chains().count()) {
+            throw new IllegalArgumentException(previous.size() + " saved chains but " + config.chains().count() + " asked for");
         }
-        int perChain = config.draws() / config.chains();
-        StepSchedule schedule = config.cycles() > 0 ? StepSchedule.cyclical(config.cycles()) : StepSchedule.CONSTANT;
-        ChainConfig chainConfig = new ChainConfig(warm ? config.reburnInSteps() : config.burnInSteps(), perChain,
-                config.thinSteps(), config.batchRows(), schedule, true, ChainConfig.DEFAULT_GIBBS_EVERY);
-        double stepSize = 2 * config.learningRate() / rows;
+        int perChain = config.chains().perChain();
+        StepSchedule schedule = config.steps().cycles() > 0 ? StepSchedule.cyclical(config.steps().cycles())
+                : StepSchedule.CONSTANT;
+        ChainConfig chainConfig = new ChainConfig(warm ? config.steps().reburnInSteps() : config.steps().burnInSteps(),
+                perChain, config.steps().thinSteps(), config.steps().batchRows(), schedule, true, ChainConfig.DEFAULT_GIBBS_EVERY);
+        double stepSize = 2 * config.steps().learningRate() / rows;
         List<ChainSet.Job> jobs = new ArrayList<>();
         List<MlpPosterior> targets = new ArrayList<>();
-        int workRows = Math.min(rows, Math.max(config.batchRows(), 256));
-        for (int c = 0; c < config.chains(); c++) {
+        int workRows = Math.min(rows, Math.max(config.steps().batchRows(), 256));
+        for (int c = 0; c < config.chains().count(); c++) {
             MlpPosterior target = new MlpPosterior(layout, config.prior(), x, labels, workRows);
             targets.add(target);
             Kernel kernel = kernel(choice.kernel(), target);
             SplittableRandom rng = seeds.child(c).rng();
             State start;
-            Batch first = kernel.fullBatch() ? Batch.full(rows) : Batch.full(Math.min(rows, config.batchRows()));
+            Batch first = kernel.fullBatch() ? Batch.full(rows) : Batch.full(Math.min(rows, config.steps().batchRows()));
             if (warm) {
                 State p = previous.get(c);
                 if (p.position().length != layout.dimension()) {
@@ -104,12 +105,16 @@ public final class PosteriorSampler {
                 start = new State(fresh.position(), fresh.gradient(), fresh.logDensity(), v, fresh.hyper(),
                         p.stepSize(), p.step(), p.accepted(), p.proposed());
             } else {
-                start = kernel.start(Prior.start(layout, rng), target.initialHyper(), stepSize, first);
+                float[] theta = Prior.start(layout, rng);
+                if (config.steps().mapSteps() > 0) {
+                    climb(target, theta, config.steps().mapSteps(), config.steps().batchRows(), rng);
+                }
+                start = kernel.start(theta, target.initialHyper(), stepSize, first);
             }
             jobs.add(new ChainSet.Job(new Chain(c, kernel, target, rng), start));
         }
         List<ChainRun> runs;
-        try (ChainSet set = new ChainSet(config.threads())) {
+        try (ChainSet set = new ChainSet(ChainSet.defaultThreads(config.chains().count()))) {
             runs = set.run(jobs, chainConfig, stop);
         }
         if (stop.requested()) {
@@ -117,7 +122,42 @@ public final class PosteriorSampler {
         }
         Health health = Health.of(runs, targets.get(0), layout, probe);
         return new RoundDraws(choice, layout, runs, health, warm, (System.nanoTime() - begun) / 1e9,
-                chainConfig.totalSteps() * config.chains());
+                chainConfig.totalSteps() * config.chains().count());
+    }
+
+    /**
+     * Moves a new chain's start to a mode first: Adam (Kingma & Ba 2015) up the log posterior on
+     * mini-batches, each chain from its own random start, so chains begin at independently
+     * optimised points, as in deep-ensemble-initialised sampling (Sommer et al. 2024).
+     */
+    static void climb(Target target, float[] theta, int steps, int batchRows, SplittableRandom rng) {
+        int n = target.dataSize();
+        int b = Math.min(batchRows, n);
+        Adam adam = new Adam(theta.length, Adam.DEFAULT_LEARNING_RATE);
+        float[] grad = new float[theta.length];
+        int[] order = new int[n];
+        for (int i = 0; i < n; i++) {
+            order[i] = i;
+        }
+        int cursor = n;
+        for (int t = 0; t < steps; t++) {
+            if (cursor + b > n) {
+                for (int i = n - 1; i > 0; i--) {
+                    int j = rng.nextInt(i + 1);
+                    int tmp = order[i];
+                    order[i] = order[j];
+                    order[j] = tmp;
+                }
+                cursor = 0;
+            }
+            target.logDensity(theta, target.initialHyper(), new Batch(java.util.Arrays.copyOfRange(order, cursor,
+                    cursor + b), b), grad);
+            cursor += b;
+            for (int i = 0; i < grad.length; i++) {
+                grad[i] /= n;
+            }
+            adam.step(theta, grad);
+        }
     }
 
     private Kernel kernel(KernelChoice k, Target target) {

@@ -1,6 +1,7 @@
 package dev.dowser.web;
 
 import dev.dowser.desk.Desk;
+import dev.dowser.desk.Overview;
 import dev.dowser.rounds.AdviceService;
 import dev.dowser.rounds.RoundWorkers;
 import dev.dowser.sampler.SamplerConfig;
@@ -31,8 +32,6 @@ public final class WebServer implements AutoCloseable {
 
     private static final Logger LOG = LoggerFactory.getLogger(WebServer.class);
     static final long SHUTDOWN_WAIT_MILLIS = 20_000;
-    /** Rounds are reproducible: every random number of a round comes from this seed's tree (the pool, the round, its consumer). */
-    public static final long DEFAULT_SEED = 1;
 
     /** What a served server runs, made by {@link #serve}. */
     private record Services(ImportJobs imports, RoundWorkers rounds, Events events, Accounts accounts, Routes routes,
@@ -53,7 +52,7 @@ public final class WebServer implements AutoCloseable {
     }
 
     public static WebServer start(Database db, WebConfig config) {
-        return start(db, config, SamplerConfig.defaults(DEFAULT_SEED));
+        return start(db, config, SamplerConfig.defaults());
     }
 
     public static WebServer start(Database db, WebConfig config, SamplerConfig sampler) {
@@ -122,11 +121,14 @@ public final class WebServer implements AutoCloseable {
         ImportJobs imports = new ImportJobs(db, config);
         Events events = new Events();
         RoundWorkers rounds = new RoundWorkers(db, sampler, events);
+        // Rounds a killed server left running are marked interrupted, short queues refilled, new pools served.
+        rounds.watch();
         Accounts accounts = new Accounts(db, new SecureRandom(), team);
         Desk desk = new Desk(db, rounds, events);
         HttpHandler files = StaticFiles.handler();
-        Routes routes = new Routes(new TeamApi(accounts), new PoolsApi(db), new ImportsApi(imports, config),
-                new DeskApi(desk), new RoundsApi(db, rounds, desk), new AdviceApi(new AdviceService(db)),
+        Overview overview = new Overview(db, rounds);
+        Routes routes = new Routes(new TeamApi(accounts), new PoolsApi(db, overview), new ImportsApi(imports, config),
+                new DeskApi(desk), new RoundsApi(overview, desk), new AdviceApi(new AdviceService(db)),
                 new ReviewApi(new Reviews(db)), events.handler(), files);
         Door door = new Door(config.limits());
         services = new Services(imports, rounds, events, accounts, routes, door);

@@ -9,12 +9,14 @@ import dev.dowser.TestSupport;
 import dev.dowser.acquire.PoolScorer;
 import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.LabelledSet;
+import dev.dowser.simulate.Simulation;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
+import dev.dowser.store.RoundStatus;
 import dev.dowser.store.RoundStore;
 import dev.dowser.store.SavedChain;
 import java.io.IOException;
@@ -46,11 +48,19 @@ class RoundServiceTest {
         return db;
     }
 
+    /**
+     * Leases the served batch out, one person a place; stops at the first reserve place (the
+     * next-best records served after the batch), which it gives back.
+     */
     private static List<QueueEntry> drain(Database db, PoolRow pool) {
         List<QueueEntry> out = new ArrayList<>();
         for (int i = 0; i < 100; i++) {
-            Optional<QueueEntry> e = db.queues().lease(pool.id(), "person-" + i, Duration.ofMinutes(10));
+            Optional<QueueEntry> e = db.leases().lease(pool.id(), "person-" + i, Duration.ofMinutes(10));
             if (e.isEmpty()) {
+                break;
+            }
+            if (e.get().reserve()) {
+                db.leases().release(pool.id(), e.get().round(), e.get().position(), "person-" + i);
                 break;
             }
             out.add(e.get());
@@ -70,10 +80,10 @@ class RoundServiceTest {
             List<QueueEntry> queue = drain(db, pool);
             assertEquals(10, queue.size());
             assertEquals(1, queue.stream().filter(QueueEntry::spotCheck).count(), "a tenth are spot checks");
-            // Label the first batch (class by the petal length, a stand-in labeller for the test).
+            // Each person labels the record they hold (class by the petal length, a stand-in labeller).
             for (QueueEntry e : queue) {
                 db.labels().add(pool.id(), e.row(), e.row() < 50 ? "setosa" : e.row() < 100 ? "versicolor"
-                        : "virginica", "test", null);
+                        : "virginica", e.leasedTo(), null);
             }
             RoundService.Outcome second = rounds.run("iris");
             assertTrue(second.published(), second.message());
@@ -99,7 +109,7 @@ class RoundServiceTest {
                 assertEquals(1.0, Arrays.stream(kept.of(e.row())).sum(), 1e-5);
             }
             List<RoundStore.RoundRow> rows = db.rounds().list(pool.id());
-            assertEquals("published", rows.get(0).status());
+            assertEquals(RoundStatus.PUBLISHED, rows.get(0).status());
             assertTrue(rows.get(0).healthJson().contains("rhatMax"));
         }
     }
@@ -112,13 +122,13 @@ class RoundServiceTest {
             db.labels().add(pool.id(), 0, "setosa", "test", null);
             db.labels().add(pool.id(), 70, "versicolor", "test", null);
             // Plain SGLD with an absurd learning rate diverges at every step: the chain gives up.
-            SamplerConfig broken = small().withKernel(KernelChoice.SGLD).withLearningRate(1e30);
+            SamplerConfig broken = small().toBuilder().kernel(KernelChoice.SGLD).learningRate(1e30).build();
             RoundService.Outcome failed = new RoundService(db, broken, scorer).run("iris");
             assertFalse(failed.published());
             assertTrue(failed.message().contains("diverged"), failed.message());
             assertEquals(Optional.of(1), db.queues().servedRound(pool.id()), "the first round's queue stays served");
             RoundStore.RoundRow last = db.rounds().list(pool.id()).get(0);
-            assertEquals("failed", last.status());
+            assertEquals(RoundStatus.FAILED, last.status());
             assertEquals(failed.message(), last.message());
             assertFalse(drain(db, pool).isEmpty(), "the old queue still hands out records");
         }
@@ -131,7 +141,8 @@ class RoundServiceTest {
 
     private static void labelAsIris(Database db, PoolRow pool, List<QueueEntry> queue) {
         for (QueueEntry e : queue) {
-            db.labels().add(pool.id(), e.row(), pool.classes().get(irisClass(e.row())), "test", null);
+            // In the name of the person who holds it: a label by anyone else leaves the holder's place open.
+            db.labels().add(pool.id(), e.row(), pool.classes().get(irisClass(e.row())), e.leasedTo(), null);
         }
     }
 
@@ -151,7 +162,7 @@ class RoundServiceTest {
                     pool.classes());
             PoolSettings settings = PoolSettings.parse(pool.settingsJson());
             Simulation.Labeller offline = new Simulation.Labeller(truth, settings, config,
-                    RoundService.seedsOf(config.seed(), pool.id()));
+                    RoundService.seedsOf(RoundService.DEFAULT_SEED, pool.id()));
             for (int round = 1; round <= 3; round++) {
                 assertTrue(rounds.run("iris").published());
                 // Records carried over for a second label were queued before: compare this round's picks.
@@ -188,7 +199,7 @@ class RoundServiceTest {
                     .filter(e -> db.labels().resolution(pool.id(), e.row()).opinions().isEmpty()).toList();
             labelAsIris(db, pool, third.subList(0, 3));
             db.pools().updateSettings(pool.id(), PoolSettings.defaults().withStrategy(Strategy.RANDOM).toJson(), "test");
-            RoundStep.Result rebuilt = new RoundService(db, small().withSeed(99), scorer).rebuild("iris", 3);
+            RoundStep.Result rebuilt = new RoundService(db, small(), 99, scorer, RoundEvents.NONE).rebuild("iris", 3);
             assertEquals(third.stream().map(QueueEntry::row).toList(),
                     rebuilt.queue().stream().map(RoundStep.Pick::row).toList());
             assertEquals(third.stream().map(QueueEntry::predictionJson).toList(), rebuilt.queue().stream()
@@ -201,7 +212,7 @@ class RoundServiceTest {
     void aRestartContinuesWhereTheChainsStopped() throws IOException {
         Path data = dir.resolve("db");
         long stepsAfterFirst;
-        SamplerConfig config = small().withKernel(KernelChoice.PSGLD);
+        SamplerConfig config = small().toBuilder().kernel(KernelChoice.PSGLD).build();
         try (Database db = irisWithoutLabels(); PoolScorer scorer = new PoolScorer(2, 64)) {
             PoolRow pool = db.pools().require("iris");
             RoundService rounds = new RoundService(db, config, scorer);
@@ -219,8 +230,8 @@ class RoundServiceTest {
             assertTrue(new RoundService(db, config, scorer).run("iris").published());
             List<SavedChain> saved = db.chains().load(pool.id());
             assertEquals(3, saved.get(0).round());
-            assertEquals(stepsAfterFirst + config.reburnInSteps() + (long) config.draws() / config.chains()
-                    * config.thinSteps(), saved.get(0).step(), "the third round continued the second's chains");
+            assertEquals(stepsAfterFirst + config.steps().reburnInSteps() + (long) config.chains().perChain()
+                    * config.steps().thinSteps(), saved.get(0).step(), "the third round continued the second's chains");
             assertEquals(stepsAfterFirst, db.chains().load(pool.id(), 2).get(0).step(), "the round before is kept");
         }
     }
@@ -233,9 +244,9 @@ class RoundServiceTest {
             labelAsIris(db, pool, drain(db, pool));
             new RoundService(db, small(), scorer).run("iris");
             long steps = db.chains().load(pool.id()).get(0).step();
-            SamplerConfig wider = small().withHidden(List.of(32));
+            SamplerConfig wider = small().toBuilder().hidden(List.of(32)).build();
             assertTrue(new RoundService(db, wider, scorer).run("iris").published());
-            assertEquals(wider.burnInSteps() + (long) wider.draws() / wider.chains() * wider.thinSteps(),
+            assertEquals(wider.steps().burnInSteps() + (long) wider.chains().perChain() * wider.steps().thinSteps(),
                     db.chains().load(pool.id()).get(0).step(),
                     "chains of a 16-unit network cannot continue as a 32-unit one (they had " + steps + " steps)");
         }

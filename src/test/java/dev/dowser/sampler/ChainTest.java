@@ -38,8 +38,8 @@ class ChainTest {
     }
 
     static SamplerConfig small(long seed) {
-        return SamplerConfig.defaults(seed).withHidden(List.of(8)).withChains(2, 8).withSteps(300, 100, 10)
-                .withKernel(KernelChoice.PSGLD);
+        return SamplerConfig.builder().hidden(List.of(8)).chains(2, 8).burnInSteps(300).reburnInSteps(100)
+                .thinSteps(10).kernel(KernelChoice.PSGLD).build();
     }
 
     @Test
@@ -47,7 +47,7 @@ class ChainTest {
         float[][] d = blobs(60, 1);
         // Plain SGLD with a learning rate this large multiplies the weights by about 14 a step,
         // so within a few dozen steps they overflow float; each halving brings it nearer stability.
-        SamplerConfig config = small(7).withKernel(KernelChoice.SGLD).withLearningRate(1e3);
+        SamplerConfig config = small(7).toBuilder().kernel(KernelChoice.SGLD).learningRate(1e3).build();
         RoundDraws s = new PosteriorSampler(config).sample(d[0], ints(d[1]), 2, null, new float[0], SeedTree.of(0));
         assertFalse(s.divergences().isEmpty(), "no divergence was recorded");
         Divergence first = s.divergences().get(0);
@@ -89,7 +89,7 @@ class ChainTest {
     @Test
     void hierarchicalPriorResamplesLayerPrecisions() {
         float[][] d = blobs(60, 4);
-        SamplerConfig config = small(5).withPrior(new Prior(3, 1, true, 2));
+        SamplerConfig config = small(5).toBuilder().prior(new Prior(3, 1, true, 2)).build();
         RoundDraws s = new PosteriorSampler(config).sample(d[0], ints(d[1]), 2, null, new float[0], SeedTree.of(0));
         double[] tau = s.lastStates().get(0).hyper();
         assertEquals(2, tau.length);

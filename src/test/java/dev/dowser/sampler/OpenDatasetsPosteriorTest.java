@@ -39,7 +39,7 @@ class OpenDatasetsPosteriorTest {
             Splits.Split split = Splits.stratified(all.labels(), classes, 0.3, 1);
             LabelledSet train = all.subset(split.train());
             LabelledSet test = all.subset(split.test());
-            RoundDraws s = new PosteriorSampler(SamplerConfig.defaults(1)).sample(train.x(), train.labels(), classes,
+            RoundDraws s = new PosteriorSampler(SamplerConfig.defaults()).sample(train.x(), train.labels(), classes,
                     null, new float[0], SeedTree.of(1));
             float[] p = Predictive.meanProbabilities(s.layout(), s.draws(), test.x(), test.rows());
             return Metrics.accuracy(p, test.labels(), classes);

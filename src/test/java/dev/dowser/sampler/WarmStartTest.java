@@ -89,11 +89,11 @@ class WarmStartTest {
             int rounds = ROUNDS;
             double[][][] scores = new double[SEEDS][rounds][];
             for (int seed = 0; seed < SEEDS; seed++) {
-                SamplerConfig base = SamplerConfig.defaults(9 + seed).withChains(4, DRAWS).withSteps(R, R, 10)
-                        .withKernel(kernel);
+                SamplerConfig base = SamplerConfig.builder().chains(4, DRAWS).burnInSteps(R).reburnInSteps(R)
+                        .thinSteps(10).kernel(kernel).build();
                 int labelled = startLabels;
                 LabelledSet train = all.subset(Arrays.copyOf(order, labelled));
-                List<State> chains = new PosteriorSampler(base.withSteps(4 * R, R, 10))
+                List<State> chains = new PosteriorSampler(base.toBuilder().burnInSteps(4 * R).build())
                         .sample(train.x(), train.labels(), classes, null, new float[0], SeedTree.of(9 + seed).child(0)).lastStates();
                 for (int round = 1; round <= rounds; round++) {
                     labelled += 10;
@@ -103,7 +103,7 @@ class WarmStartTest {
                     chains = warm.lastStates();
                     RoundDraws coldR = new PosteriorSampler(base).sample(train.x(), train.labels(), classes, null,
                             new float[0], SeedTree.of(9 + seed).child(round));
-                    RoundDraws cold4R = new PosteriorSampler(base.withSteps(4 * R, R, 10)).sample(train.x(),
+                    RoundDraws cold4R = new PosteriorSampler(base.toBuilder().burnInSteps(4 * R).build()).sample(train.x(),
                             train.labels(), classes, null, new float[0], SeedTree.of(9 + seed).child(round));
                     Score w = score(warm, test, classes);
                     Score c = score(coldR, test, classes);
@@ -125,7 +125,7 @@ class WarmStartTest {
                 assertTrue(mean[1] <= mean[4] + TOLERANCE, "round " + (round + 1) + ": warm NLL " + mean[1]
                         + " is worse than cold " + mean[4] + "\n" + table);
             }
-            SamplerConfig base = SamplerConfig.defaults(9).withKernel(kernel);
+            SamplerConfig base = SamplerConfig.builder().kernel(kernel).build();
             int labelled = startLabels + 10 * rounds;
             System.out.println("Warm starts on digits, R = " + R + " steps (" + warmKernel(base, labelled)
                     + ", 4 chains, " + DRAWS + " draws):\n" + table);

@@ -1,8 +1,9 @@
-package dev.dowser.rounds;
+package dev.dowser.simulate;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.dowser.rounds.Strategy;
 import dev.dowser.stats.AccuracyEstimate;
 import java.io.PrintWriter;
 import java.io.StringWriter;

@@ -1,5 +1,6 @@
-package dev.dowser.rounds;
+package dev.dowser.simulate;
 
+import dev.dowser.rounds.Strategy;
 import dev.dowser.stats.AccuracyEstimate;
 import java.io.PrintWriter;
 import java.util.ArrayList;

@@ -1,10 +1,12 @@
-package dev.dowser.rounds;
+package dev.dowser.simulate;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.dowser.TestSupport;
 import dev.dowser.data.LabelledSet;
+import dev.dowser.rounds.PoolSettings;
+import dev.dowser.rounds.Strategy;
 import dev.dowser.sampler.SamplerConfig;
 import java.io.PrintWriter;
 import java.io.StringWriter;
@@ -28,8 +30,8 @@ class HonestAccuracyTest {
     @Test
     void theEstimateHoldsTheTestAccuracyInNineRoundsOfTen() {
         LabelledSet all = TestSupport.labelledOpenDataset("breast_cancer", dir);
-        SamplerConfig sampler = SamplerConfig.defaults(1).withHidden(List.of(32)).withChains(4, 32)
-                .withSteps(300, 100, 5);
+        SamplerConfig sampler = SamplerConfig.builder().hidden(List.of(32)).chains(4, 32).burnInSteps(300)
+                .reburnInSteps(100).thinSteps(5).build();
         Simulation.Plan plan = new Simulation.Plan(List.of(Strategy.POWER), 3, 20, 150, 0.3, PoolSettings.defaults(),
                 sampler, 7);
         List<Simulation.Point> points = Simulation.run(all, plan, k -> { });

@@ -1,7 +1,12 @@
-package dev.dowser.rounds;
+package dev.dowser.simulate;
 
 import dev.dowser.acquire.PoolScorer;
 import dev.dowser.advice.AccuracyReport;
+import dev.dowser.rounds.PoolSettings;
+import dev.dowser.rounds.RoundService;
+import dev.dowser.rounds.RoundStep;
+import dev.dowser.rounds.Settling;
+import dev.dowser.rounds.Strategy;
 import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.sampler.Predictive;
@@ -87,18 +92,30 @@ public final class Simulation {
 
     /** Runs every strategy with every seed on the labelled set; {@code tick} is told after each round. */
     public static List<Point> run(LabelledSet all, Plan plan, IntConsumer tick) {
+        return run(all, null, plan, tick);
+    }
+
+    /**
+     * As above; with a fixed {@code test} set (not null), every seed works the whole of {@code pool}
+     * and is scored on {@code test}, else each seed holds out its own stratified share of the pool.
+     */
+    public static List<Point> run(LabelledSet pool, LabelledSet test, Plan plan, IntConsumer tick) {
         List<Point> out = new ArrayList<>();
-        int classes = all.classes().size();
+        int classes = pool.classes().size();
         SeedTree root = SeedTree.of(plan.seed());
         try (PoolScorer scorer = PoolScorer.withAllCores()) {
             for (int seed = 0; seed < plan.seeds(); seed++) {
                 SeedTree node = root.child(seed);
-                Splits.Split split = Splits.stratified(all.labels(), classes, plan.testFraction(),
-                        node.child(SPLIT).rng());
-                LabelledSet train = all.subset(split.train());
-                LabelledSet test = all.subset(split.test());
+                LabelledSet train = pool;
+                LabelledSet held = test;
+                if (test == null) {
+                    Splits.Split split = Splits.stratified(pool.labels(), classes, plan.testFraction(),
+                            node.child(SPLIT).rng());
+                    train = pool.subset(split.train());
+                    held = pool.subset(split.test());
+                }
                 for (Strategy strategy : plan.strategies()) {
-                    out.addAll(curve(strategy, seed, train, test, plan, node.child(LOOP), scorer, tick));
+                    out.addAll(curve(strategy, seed, train, held, plan, node.child(LOOP), scorer, tick));
                 }
             }
         }
@@ -223,30 +240,5 @@ public final class Simulation {
                 }
             }
         }
-    }
-
-    /**
-     * The median over seeds of the first label count at which test accuracy reached the target;
-     * -1 (never) when more than half the seeds never reach it.
-     */
-    public static int labelsToReach(List<Point> points, Strategy strategy, int seeds, double target) {
-        List<Integer> firsts = new ArrayList<>();
-        for (int seed = 0; seed < seeds; seed++) {
-            int first = Integer.MAX_VALUE;
-            for (Point p : points) {
-                if (p.strategy() == strategy && p.seed() == seed && p.accuracy() >= target) {
-                    first = Math.min(first, p.labels());
-                }
-            }
-            firsts.add(first);
-        }
-        firsts.sort(null);
-        int median = firsts.get((firsts.size() - 1) / 2);
-        if (firsts.size() % 2 == 0) {
-            int upper = firsts.get(firsts.size() / 2);
-            median = median == Integer.MAX_VALUE || upper == Integer.MAX_VALUE ? Math.max(median, upper)
-                    : (median + upper) / 2;
-        }
-        return median == Integer.MAX_VALUE ? -1 : median;
     }
 }
