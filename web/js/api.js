@@ -4,10 +4,16 @@ const BASE = 'api/v1';
 const CSRF_HEADER = 'X-Dowser-Csrf';
 
 let sessionPromise = null;
+let csrfToken = null;
 
 /** The signed-in account: {name, role, csrf}; asked once per page. */
 export function session() {
-  if (!sessionPromise) sessionPromise = getJson('session');
+  if (!sessionPromise) {
+    sessionPromise = getJson('session').then((me) => {
+      csrfToken = me.csrf;
+      return me;
+    });
+  }
   return sessionPromise;
 }
 
@@ -43,6 +49,41 @@ export function putJson(path, value) {
 
 export function deleteJson(path) {
   return send('DELETE', path, undefined, undefined);
+}
+
+/**
+ * Sends a file as the body of a POST, calling onProgress(sentBytes, totalBytes) as it goes (fetch
+ * cannot report an upload's progress; XMLHttpRequest can). Resolves with the JSON reply.
+ */
+export async function postFile(path, file, onProgress) {
+  const { csrf } = await session();
+  return new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open('POST', `${BASE}/${path}`);
+    xhr.setRequestHeader('Accept', 'application/json');
+    xhr.setRequestHeader('Content-Type', 'application/octet-stream');
+    xhr.setRequestHeader(CSRF_HEADER, csrf);
+    xhr.upload.onprogress = (e) => onProgress(e.loaded, e.lengthComputable ? e.total : file.size);
+    xhr.onerror = () => reject(new Error('the upload was cut off before the server answered; try again'));
+    xhr.onload = () => {
+      unwrap(new Response(xhr.responseText, { status: xhr.status })).then(resolve, reject);
+    };
+    xhr.send(file);
+  });
+}
+
+/**
+ * Sends a JSON POST that outlives the page (a tab closing): fire and forget, no answer read. Needs
+ * the session to have been asked for already.
+ */
+export function postJsonOnLeave(path, value) {
+  if (!csrfToken) return;
+  fetch(`${BASE}/${path}`, {
+    method: 'POST',
+    keepalive: true,
+    headers: { 'Content-Type': 'application/json', [CSRF_HEADER]: csrfToken },
+    body: JSON.stringify(value),
+  });
 }
 
 export function apiUrl(path) {

@@ -43,7 +43,7 @@ final class RoundsApi {
         ArrayNode out = Json.array();
         for (Overview.RoundLine line : page.rounds()) {
             RoundStore.RoundRow r = line.round();
-            ObjectNode n = out.addObject().put("round", r.round()).put("status", r.status())
+            ObjectNode n = out.addObject().put("round", r.round()).put("status", r.status().word())
                     .put("started_at", r.startedAt().toString()).put("finished_at", Views.time(r.finishedAt()))
                     .put("labels_at_start", r.labelsAtStart()).put("kernel", r.kernel()).put("message", r.message());
             if (r.finishedAt() != null) {
@@ -79,6 +79,7 @@ final class RoundsApi {
             entries.addObject().put("position", e.position()).put("record", place.record()).put("score", e.score())
                     .put("scored", place.scored()).put("spot_check", e.spotCheck()).put("copies", e.copies())
                     .put("labelled", place.done()).put("waiting_for_second", place.waitingForSecond())
+                    .put("reserve", e.reserve())
                     .put("label", place.label()).put("leased_to", e.leasedTo())
                     .put("lease_until", Views.time(e.leaseUntil()));
         }

@@ -121,6 +121,8 @@ public final class WebServer implements AutoCloseable {
         ImportJobs imports = new ImportJobs(db, config);
         Events events = new Events();
         RoundWorkers rounds = new RoundWorkers(db, sampler, events);
+        // Rounds a killed server left running are marked interrupted, short queues refilled, new pools served.
+        rounds.watch();
         Accounts accounts = new Accounts(db, new SecureRandom(), team);
         Desk desk = new Desk(db, rounds, events);
         HttpHandler files = StaticFiles.handler();
@@ -150,6 +152,11 @@ public final class WebServer implements AutoCloseable {
     /** Asks for a round of the pool now, as {@code POST /api/v1/pools/{pool}/rounds} does. */
     public void requestRound(String pool) {
         served().rounds().worker(pool).request();
+    }
+
+    /** Requests from people not signed in that are inside the door now (for tests of the door). */
+    int strangersInside() {
+        return served().door().inside();
     }
 
     public int port() {
