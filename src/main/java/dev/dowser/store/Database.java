@@ -46,8 +46,8 @@ public final class Database implements AutoCloseable {
         this.queues = new QueueStore(sql, clock);
         this.leases = new LeaseStore(sql, clock, queues);
         this.rounds = new RoundStore(sql, clock);
-        this.users = new UserStore(dataSource, clock);
-        this.history = new HistoryStore(dataSource, clock);
+        this.users = new UserStore(sql, clock);
+        this.history = new HistoryStore(sql, clock);
         this.predictions = new PredictionStore(dataSource);
     }
 

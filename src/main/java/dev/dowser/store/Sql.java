@@ -101,6 +101,20 @@ final class Sql {
         }
     }
 
+    /** Runs an insert; the value the database generated for column {@code key} of the new row. */
+    static long insert(Connection c, String sql, String key, Object... args) throws SQLException {
+        try (PreparedStatement p = c.prepareStatement(sql, new String[] {key})) {
+            bind(p, args);
+            p.executeUpdate();
+            try (ResultSet keys = p.getGeneratedKeys()) {
+                if (!keys.next()) {
+                    throw new SQLException("the database made no " + key + " for the new row");
+                }
+                return keys.getLong(1);
+            }
+        }
+    }
+
     /** Runs one statement for each argument list, sent to the database together. */
     static void batch(Connection c, String sql, List<Object[]> rows) throws SQLException {
         if (rows.isEmpty()) {
@@ -135,6 +149,12 @@ final class Sql {
     /** A nullable whole-number column. */
     static Integer nullableInt(ResultSet rs, int column) throws SQLException {
         int v = rs.getInt(column);
+        return rs.wasNull() ? null : v;
+    }
+
+    /** A nullable whole-number column of 64 bits. */
+    static Long nullableLong(ResultSet rs, int column) throws SQLException {
+        long v = rs.getLong(column);
         return rs.wasNull() ? null : v;
     }
 
