@@ -168,11 +168,9 @@ final class BenchCommand implements Callable<Integer> {
         if (wants("durability")) {
             Path dir = work != null ? Files.createDirectories(work.resolve("durability"))
                     : Files.createTempDirectory("dowser-durability-");
-            try {
-                durability(out, dir, quick);
-            } finally {
-                Folders.deleteTree(dir);
-            }
+            // Kept when the campaign fails: its server log and database show why.
+            durability(out, dir, quick);
+            Folders.deleteTree(dir);
         }
         return 0;
     }

@@ -53,6 +53,30 @@ final class Sql {
         return connected(what, c -> update(c, sql, args));
     }
 
+    /** Reads a whole result as it streams, {@code fetchRows} rows from the database at a time. */
+    @FunctionalInterface
+    interface Scan<T> {
+        T read(ResultSet rs) throws SQLException;
+    }
+
+    /**
+     * Runs a query and hands its result to {@code scan} as it streams: for results too large to
+     * hold as a list (every label of a pool), read in order while the connection is held.
+     */
+    <T> T scan(String what, String sql, int fetchRows, Scan<T> scan, Object... args) {
+        return connected(what, c -> scan(c, sql, fetchRows, scan, args));
+    }
+
+    static <T> T scan(Connection c, String sql, int fetchRows, Scan<T> scan, Object... args) throws SQLException {
+        try (PreparedStatement p = c.prepareStatement(sql)) {
+            p.setFetchSize(fetchRows);
+            bind(p, args);
+            try (ResultSet rs = p.executeQuery()) {
+                return scan.read(rs);
+            }
+        }
+    }
+
     /** Runs {@code work} on one connection. */
     <T> T connected(String what, Work<T> work) {
         try (Connection c = ds.getConnection()) {
@@ -64,8 +88,18 @@ final class Sql {
 
     /** Runs {@code work} as one transaction: committed if it returns, rolled back if it throws. */
     <T> T transaction(String what, Work<T> work) {
-        try {
-            return Transactions.run(ds, work::run);
+        try (Connection c = ds.getConnection()) {
+            c.setAutoCommit(false);
+            try {
+                T result = work.run(c);
+                c.commit();
+                return result;
+            } catch (SQLException | RuntimeException e) {
+                c.rollback();
+                throw e;
+            } finally {
+                c.setAutoCommit(true);
+            }
         } catch (SQLException e) {
             throw new StoreException("cannot " + what + ": " + e.getMessage(), e);
         }
