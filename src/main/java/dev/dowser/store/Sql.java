@@ -9,6 +9,7 @@ import java.time.Instant;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Optional;
+import java.util.Set;
 import javax.sql.DataSource;
 
 /**
@@ -31,6 +32,12 @@ final class Sql {
     interface Work<T> {
         T run(Connection c) throws SQLException;
     }
+
+    /**
+     * SQLSTATEs of a lock not granted in time: H2's lock timeout (HYT00), a serialisation failure
+     * or deadlock victim (40001, 40P01), PostgreSQL's lock not available (55P03).
+     */
+    private static final Set<String> BUSY = Set.of("HYT00", "40001", "40P01", "55P03");
 
     private final DataSource ds;
 
@@ -82,7 +89,7 @@ final class Sql {
         try (Connection c = ds.getConnection()) {
             return work.run(c);
         } catch (SQLException e) {
-            throw new StoreException("cannot " + what + ": " + e.getMessage(), e);
+            throw failure(what, e);
         }
     }
 
@@ -101,8 +108,18 @@ final class Sql {
                 c.setAutoCommit(true);
             }
         } catch (SQLException e) {
-            throw new StoreException("cannot " + what + ": " + e.getMessage(), e);
+            throw failure(what, e);
         }
+    }
+
+    /** What a failed statement becomes: busy (try again) when a lock was not granted in time, else a store failure. */
+    static StoreException failure(String what, SQLException e) {
+        for (Throwable t = e; t != null; t = t.getCause()) {
+            if (t instanceof SQLException s && s.getSQLState() != null && BUSY.contains(s.getSQLState())) {
+                return new BusyException(what, e);
+            }
+        }
+        return new StoreException("cannot " + what + ": " + e.getMessage(), e);
     }
 
     static <T> List<T> list(Connection c, String sql, Row<T> row, Object... args) throws SQLException {
