@@ -5,6 +5,7 @@ import dev.dowser.data.ImportProgress;
 import dev.dowser.data.ImportResult;
 import dev.dowser.data.ImportSpec;
 import dev.dowser.data.Importer;
+import dev.dowser.simulate.Simulation;
 import dev.dowser.store.Database;
 import java.io.IOException;
 import java.io.InputStream;
@@ -95,7 +96,7 @@ final class BenchCommand implements Callable<Integer> {
             description = "labels: strategies besides random, the first one in the table (default: default).")
     java.util.List<String> strategies = java.util.List.of(dev.dowser.rounds.Strategy.DEFAULT_WORD);
 
-    @Option(names = "--seeds", defaultValue = "10", paramLabel = "N", description = "labels: paired seeds (default: ${DEFAULT-VALUE}).")
+    @Option(names = "--seeds", defaultValue = "" + Simulation.Plan.DEFAULT_SEEDS, paramLabel = "N", description = "labels: paired seeds (default: ${DEFAULT-VALUE}).")
     int seeds;
 
     @Option(names = "--datasets-dir", defaultValue = "target/datasets", paramLabel = "DIR",
