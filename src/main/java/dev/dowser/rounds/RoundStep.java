@@ -72,7 +72,7 @@ public final class RoundStep {
      * @param seeds      this round's node of the seed tree
      * @param round      the round's number (1 for a pool's first)
      */
-    public record Input(LabelledSet labelled, Rows candidates, Rows judged, List<State> chains,
+    public record Input(LabelledSet labelled, Rows candidates, Rows judged, List<State<?>> chains,
                         Settling.StopSet stopSet, PoolSettings settings, SamplerConfig sampler, SeedTree seeds,
                         int round) {
 

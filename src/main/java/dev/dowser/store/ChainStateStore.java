@@ -49,8 +49,8 @@ public final class ChainStateStore {
                         + " FROM chain_states WHERE pool_id = ? AND round_no <> ? ORDER BY r DESC FETCH FIRST "
                         + (KEPT_ROUNDS - 1) + " ROWS ONLY) AS latest))");
                      PreparedStatement ins = c.prepareStatement("INSERT INTO chain_states (pool_id, chain_no, round_no,"
-                             + " kernel, network, position, preconditioner, hyper, step_size, step_count, accepted,"
-                             + " proposed, saved_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)")) {
+                             + " kernel, network, position, kernel_state, hyper, step_size, step_count, saved_at)"
+                             + " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)")) {
                     del.setLong(1, poolId);
                     del.setInt(2, round);
                     del.setLong(3, poolId);
@@ -65,18 +65,15 @@ public final class ChainStateStore {
                         ins.setString(5, s.networkJson());
                         byte[] position = toBytes(s.position());
                         ins.setBinaryStream(6, new ByteArrayInputStream(position), position.length);
-                        if (s.preconditioner() == null) {
+                        if (s.kernelState() == null) {
                             ins.setNull(7, Types.BLOB);
                         } else {
-                            byte[] v = toBytes(s.preconditioner());
-                            ins.setBinaryStream(7, new ByteArrayInputStream(v), v.length);
+                            ins.setBinaryStream(7, new ByteArrayInputStream(s.kernelState()), s.kernelState().length);
                         }
                         ins.setString(8, s.hyper() == null ? null : Json.write(s.hyper()));
                         ins.setDouble(9, s.stepSize());
                         ins.setLong(10, s.step());
-                        ins.setLong(11, s.accepted());
-                        ins.setLong(12, s.proposed());
-                        ins.setTimestamp(13, now);
+                        ins.setTimestamp(11, now);
                         ins.executeUpdate();
                     }
                 }
@@ -101,18 +98,16 @@ public final class ChainStateStore {
         List<SavedChain> out = new ArrayList<>();
         try (Connection c = ds.getConnection();
              PreparedStatement q = c.prepareStatement("SELECT chain_no, round_no, kernel, network, position,"
-                     + " preconditioner, hyper, step_size, step_count, accepted, proposed FROM chain_states"
+                     + " kernel_state, hyper, step_size, step_count FROM chain_states"
                      + " WHERE pool_id = ? AND round_no = " + roundSql + " ORDER BY chain_no")) {
             q.setLong(1, poolId);
             q.setLong(2, roundParameter);
             try (ResultSet rs = q.executeQuery()) {
                 while (rs.next()) {
-                    byte[] v = rs.getBytes(6);
                     String hyper = rs.getString(7);
                     out.add(new SavedChain(rs.getInt(1), rs.getInt(2), rs.getString(3), rs.getString(4),
-                            toFloats(rs.getBytes(5)), v == null ? null : toFloats(v),
-                            hyper == null ? null : Json.read(hyper, double[].class), rs.getDouble(8), rs.getLong(9),
-                            rs.getLong(10), rs.getLong(11)));
+                            toFloats(rs.getBytes(5)), rs.getBytes(6),
+                            hyper == null ? null : Json.read(hyper, double[].class), rs.getDouble(8), rs.getLong(9)));
                 }
             }
         } catch (SQLException e) {
