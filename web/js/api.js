@@ -4,10 +4,16 @@ const BASE = 'api/v1';
 const CSRF_HEADER = 'X-Dowser-Csrf';
 
 let sessionPromise = null;
+let csrfToken = null;
 
 /** The signed-in account: {name, role, csrf}; asked once per page. */
 export function session() {
-  if (!sessionPromise) sessionPromise = getJson('session');
+  if (!sessionPromise) {
+    sessionPromise = getJson('session').then((me) => {
+      csrfToken = me.csrf;
+      return me;
+    });
+  }
   return sessionPromise;
 }
 
@@ -43,6 +49,20 @@ export function putJson(path, value) {
 
 export function deleteJson(path) {
   return send('DELETE', path, undefined, undefined);
+}
+
+/**
+ * Sends a JSON POST that outlives the page (a tab closing): fire and forget, no answer read. Needs
+ * the session to have been asked for already.
+ */
+export function postJsonOnLeave(path, value) {
+  if (!csrfToken) return;
+  fetch(`${BASE}/${path}`, {
+    method: 'POST',
+    keepalive: true,
+    headers: { 'Content-Type': 'application/json', [CSRF_HEADER]: csrfToken },
+    body: JSON.stringify(value),
+  });
 }
 
 export function apiUrl(path) {

@@ -1,5 +1,5 @@
 // The labelling desk: one record at a time, labelled by keyboard, never waiting for the model.
-import { getJson, postJson } from './api.js';
+import { getJson, postJson, postJsonOnLeave } from './api.js';
 import { showAccount } from './account.js';
 import { recordBody, scalesOf } from './fields.js';
 import { el, showMessage } from './dom.js';
@@ -238,7 +238,8 @@ function undo(recordId) {
     if (current && current.record && current.record.id !== target) {
       if (current.relabel) state.relabel.push(current);
       else if (current.round !== undefined) {
-        await postJson(`pools/${enc}/queue/skip`, { round: current.round, position: current.position });
+        // The record we moved on to goes back to the queue (not a skip: it may come back to us).
+        await postJson(`pools/${enc}/queue/release`, { round: current.round, position: current.position });
       }
     }
     // The server hands a taken-back record to its labeller first while the served queue holds it.
@@ -354,6 +355,13 @@ function start() {
   $('desk-pool').textContent = `labelling ${state.pool}`;
   $('to-overview').href = `overview.html?pool=${encodeURIComponent(state.pool)}`;
   $('skip').addEventListener('click', skip);
+  // A closed tab gives its record back at once instead of holding it until the lease runs out.
+  window.addEventListener('pagehide', () => {
+    const a = state.current;
+    if (a && a.record && a.round !== undefined) {
+      postJsonOnLeave(`pools/${encodeURIComponent(state.pool)}/queue/release`, { round: a.round, position: a.position });
+    }
+  });
   $('undo').addEventListener('click', () => undo(null));
   $('belief-toggle').addEventListener('click', toggleBelief);
   document.addEventListener('keydown', onKey);

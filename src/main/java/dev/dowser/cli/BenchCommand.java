@@ -45,6 +45,11 @@ import picocli.CommandLine.Spec;
             "desk: 20 simulated labellers on loopback submit a label and ask for the next record (200 ms"
                 + " apart) while rounds run on a 100,000-row pool (batch 100): p50 and p99 of submit-and-next,"
                 + " and the time from a batch's last label to its new queue being served. 60 s, 15 with --quick.",
+            "durability: the server as its own process, 8 labellers, a reviewer and an admin writing as fast as"
+                + " they can, killed with SIGKILL 25 times (5 with --quick) at random moments (after 250 to 750"
+                + " acknowledged writes, then up to 0.3 s) and restarted: every"
+                + " acknowledged label, withdrawal, review, settings and account change must be there afterwards;"
+                + " prints the counts acknowledged and lost.",
             "labels (only when named): the label-savings benchmark, simulate on digits, breast cancer, wine, iris,"
                 + " the demo's pumps and Fashion-MNIST (pool 60,000, test 10,000, 50 principal components) with"
                 + " paired seeds: labels to each target, random's labels over the strategy's with 90% bootstrap"
@@ -74,8 +79,8 @@ final class BenchCommand implements Callable<Integer> {
     Path work;
 
     @Option(names = "--only", split = ",", paramLabel = "SUITE",
-            description = "Suites to run: sgemm, score, sampler, round, desk, import, fuzz, labels (default: all but"
-                    + " labels).")
+            description = "Suites to run: sgemm, score, sampler, round, desk, durability, import, fuzz, labels"
+                    + " (default: all but labels).")
     java.util.List<String> only;
 
     @Option(names = "--datasets", split = ",", paramLabel = "NAME",
@@ -160,7 +165,37 @@ final class BenchCommand implements Callable<Integer> {
                 Folders.deleteTree(dir);
             }
         }
+        if (wants("durability")) {
+            Path dir = work != null ? Files.createDirectories(work.resolve("durability"))
+                    : Files.createTempDirectory("dowser-durability-");
+            try {
+                durability(out, dir, quick);
+            } finally {
+                Folders.deleteTree(dir);
+            }
+        }
         return 0;
+    }
+
+    static final int DURABILITY_KILLS = 25;
+    static final int DURABILITY_QUICK_KILLS = 5;
+    static final int DURABILITY_LABELLERS = 8;
+    /** Writes acknowledged in one life of the server before it is killed: 25 kills give about 12,500. */
+    static final int DURABILITY_MIN_WRITES = 250;
+    static final int DURABILITY_MAX_WRITES = 750;
+
+    private static void durability(java.io.PrintWriter out, Path dir, boolean quick) throws Exception {
+        KillCampaign campaign = new KillCampaign(quick ? DURABILITY_QUICK_KILLS : DURABILITY_KILLS, DURABILITY_LABELLERS,
+                DURABILITY_MIN_WRITES, DURABILITY_MAX_WRITES, SEED);
+        KillCampaign.Report r = campaign.run(dir, ServerProcess.sameJava("-Xmx1g"), out);
+        out.printf("durability_kills=%d%ndurability_acknowledged=%d%ndurability_lost=%d%n", campaign.kills(),
+                r.check().acknowledged(), r.check().lost());
+        r.check().counts().forEach((kind, c) -> out.printf("durability_%s_acknowledged=%d%ndurability_%s_lost=%d%n",
+                kind.name().toLowerCase(java.util.Locale.ROOT), c[0], kind.name().toLowerCase(java.util.Locale.ROOT), c[1]));
+        out.printf("durability_server_errors=%d%ndurability_start_median_s=%.2f%n", r.serverErrors(),
+                r.startSeconds().stream().sorted().toList().get(r.startSeconds().size() / 2));
+        r.check().missing().stream().limit(10).forEach(a -> out.println("durability_missing=" + a));
+        out.flush();
     }
 
     /** Imports n generated rows in {@code format}; prints the figures under {@code tag}, returns rows per second. */

@@ -92,7 +92,46 @@ public final class Exporter {
 
     /** Writes every labelled record of {@code poolName}; returns how many. */
     public long export(String poolName, FileFormat format, Formulas formulas, OutputStream out) {
-        PoolRow pool = db.pools().require(poolName);
+        return open(poolName, format, formulas).writeTo(out);
+    }
+
+    /**
+     * An export of one pool, ready to write: the pool is found (or refused) before any byte is
+     * written, so a server can still answer an unknown pool with an error.
+     */
+    public final class Export {
+
+        private final PoolRow pool;
+        private final FileFormat format;
+        private final Formulas formulas;
+
+        private Export(PoolRow pool, FileFormat format, Formulas formulas) {
+            this.pool = pool;
+            this.format = format;
+            this.formulas = formulas;
+        }
+
+        /** The file name a download suggests: {@code POOL-labels.csv} or {@code .jsonl}. */
+        public String fileName() {
+            return pool.name() + "-labels." + format.word();
+        }
+
+        public FileFormat format() {
+            return format;
+        }
+
+        /** Writes every labelled record; returns how many. */
+        public long writeTo(OutputStream out) {
+            return write(pool, format, formulas, out);
+        }
+    }
+
+    /** The export of {@code poolName}; an unknown pool is refused here. */
+    public Export open(String poolName, FileFormat format, Formulas formulas) {
+        return new Export(db.pools().require(poolName), format, formulas);
+    }
+
+    private long write(PoolRow pool, FileFormat format, Formulas formulas, OutputStream out) {
         ColumnRoles roles = ColumnRoles.parse(pool.columnRolesJson());
         List<String> header = header(roles.display());
         Map<Long, QueueEntry> queued = db.queues().firstQueued(pool.id());

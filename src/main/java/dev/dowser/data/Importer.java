@@ -1,10 +1,10 @@
 package dev.dowser.data;
 
 import dev.dowser.json.Json;
+import dev.dowser.records.RecordBatch;
 import dev.dowser.store.Database;
 import dev.dowser.store.DuplicateKeyException;
 import dev.dowser.store.PoolWriter;
-import dev.dowser.store.RecordBatch;
 import dev.dowser.store.StoreException;
 import java.io.InputStream;
 import java.io.UncheckedIOException;

@@ -1,6 +1,6 @@
 package dev.dowser.data;
 
-import dev.dowser.store.RecordBatch;
+import dev.dowser.records.RecordBatch;
 
 import java.util.List;
 

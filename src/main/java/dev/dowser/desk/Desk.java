@@ -12,13 +12,13 @@ import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
 import dev.dowser.store.QueueStore;
 import dev.dowser.store.RecordRow;
+import dev.dowser.store.RoundStatus;
+import dev.dowser.store.RoundStore;
 import java.time.Duration;
 import java.time.Instant;
 import java.util.ArrayList;
-import java.util.HashSet;
 import java.util.List;
 import java.util.Optional;
-import java.util.Set;
 
 /**
  * The labelling desk: the next record under a lease, a label, a skip, and taking a label back, each
@@ -27,7 +27,9 @@ import java.util.Set;
  */
 public final class Desk {
 
-    static final String NOTHING_LEFT = "nothing to label in the served queue; the next round will bring more";
+    static final String NOTHING_FOR_YOU = "nothing is open for you right now: the records still open are with other"
+            + " people, or are ones you labelled; the next round brings more, and this desk shows it by itself";
+    static final String ALL_LABELLED = "every record of this pool has its labels; nothing is left to label";
 
     /** One of a person's own labels that still stands: the record's id, the label, when. */
     public record Given(String record, String label, Instant at) {
@@ -54,12 +56,18 @@ public final class Desk {
         this.events = events;
     }
 
-    /** Leases the next record of the served queue to {@code person}; a record they hold comes back first. */
-    public Offer next(String poolName, String person) {
+    /**
+     * Leases the next record of the served queue to {@code person}; a record they hold comes back
+     * first. When nothing is left for them, the offer says why and what to do, in words for their
+     * role: {@code mayStartRounds} for reviewers and admins.
+     */
+    public Offer next(String poolName, String person, boolean mayStartRounds) {
         PoolRow pool = db.pools().require(poolName);
-        Optional<QueueEntry> next = db.queues().lease(pool.id(), person, lease(pool));
+        Optional<QueueEntry> next = db.leases().lease(pool.id(), person, lease(pool));
+        RoundWorker worker = rounds.worker(pool.name());
+        worker.deskActive(person, db.queues().openInBatch(pool.id()));
         if (next.isEmpty()) {
-            return Offer.none(NOTHING_LEFT, progress(pool));
+            return Offer.none(nothingLeft(pool, worker, mayStartRounds), progress(pool));
         }
         QueueEntry e = next.get();
         // Another person's label is not shown: a second labeller must judge on their own.
@@ -72,10 +80,31 @@ public final class Desk {
                 reason, secondOpinion, progress(pool), null);
     }
 
-    /** Gives {@code person}'s lease on a queue place back at once, for the next person. */
+    /** Why a desk is empty, and the way out. */
+    private String nothingLeft(PoolRow pool, RoundWorker worker, boolean mayStartRounds) {
+        if (db.queues().servedRound(pool.id()).isPresent()) {
+            return db.labels().labelledRecords(pool.id()) >= pool.recordCount() ? ALL_LABELLED : NOTHING_FOR_YOU;
+        }
+        RoundStore.RoundRow latest = db.rounds().latest(pool.id()).orElse(null);
+        if (worker.busy() || latest == null || latest.status() == RoundStatus.RUNNING) {
+            return "the first batch of this pool is being picked; it appears here by itself in a moment";
+        }
+        String why = "no batch is served yet: the last round " + latest.status().word()
+                + (latest.message() == null ? "" : " (" + latest.message() + ")");
+        return why + (mayStartRounds ? "; start one from the pool's overview (Rounds, Start a round) once the cause"
+                + " is fixed" : "; ask a reviewer or an admin to start one from the pool's overview");
+    }
+
+    /** Gives {@code person}'s lease on a queue place back, and does not offer them the record again while anything else is open. */
     public void skip(String poolName, String person, int round, int position) {
         PoolRow pool = db.pools().require(poolName);
-        db.queues().release(pool.id(), round, position, person);
+        db.leases().skip(pool.id(), round, position, person);
+    }
+
+    /** Gives {@code person}'s lease on a queue place back at once (the page closed); the record is free for anyone. */
+    public void release(String poolName, String person, int round, int position) {
+        PoolRow pool = db.pools().require(poolName);
+        db.leases().release(pool.id(), round, position, person);
     }
 
     /** Labels {@code record} as {@code label} in {@code person}'s name, with an optional note. */
@@ -90,6 +119,7 @@ public final class Desk {
         db.labels().add(pool.id(), row, label, person, note == null || note.isBlank() ? null : note);
         RoundWorker worker = rounds.worker(pool.name());
         worker.labelAdded();
+        worker.deskActive(person, db.queues().openInBatch(pool.id()));
         events.labelChanged(pool.name(), record, "added", worker.labelsToNextRound());
         return new Labelled(view(pool, row), progress(pool));
     }
@@ -102,7 +132,7 @@ public final class Desk {
         PoolRow pool = db.pools().require(poolName);
         long row = db.records().requireRow(pool, record);
         LabelRow withdrawn = db.labels().withdraw(pool.id(), row, person);
-        db.queues().leaseRow(pool.id(), row, person, lease(pool));
+        db.leases().leaseRow(pool.id(), row, person, lease(pool));
         RoundWorker worker = rounds.worker(pool.name());
         worker.labelWithdrawn();
         events.labelChanged(pool.name(), record, "withdrawn", worker.labelsToNextRound());
@@ -124,11 +154,6 @@ public final class Desk {
         return out;
     }
 
-    /** The progress line of a pool's desk. */
-    public Progress progress(String poolName) {
-        return progress(db.pools().require(poolName));
-    }
-
     /**
      * The served queue in order, each place with its record; labels are left out unless
      * {@code withLabels} (a labeller sees none, so that a second labeller judges alone).
@@ -137,13 +162,11 @@ public final class Desk {
         PoolRow pool = db.pools().require(poolName);
         List<QueueStore.Served> served = db.queues().served(pool.id());
         List<RecordRow> records = db.records().rows(pool.id(), served.stream().mapToLong(s -> s.entry().row()).toArray());
-        Set<Long> waiting = new HashSet<>();
-        db.queues().awaitingSecondLabel(pool.id()).forEach(e -> waiting.add(e.row()));
         List<QueuePlace> out = new ArrayList<>(served.size());
         for (int i = 0; i < served.size(); i++) {
             QueueStore.Served s = served.get(i);
             RecordRow r = records.get(i);
-            out.add(new QueuePlace(s.entry(), r.key(), s.labelled(), waiting.contains(s.entry().row()),
+            out.add(new QueuePlace(s.entry(), r.key(), s.labelled(), s.awaitingSecondLabel(),
                     withLabels ? r.label() : null));
         }
         return out;
@@ -155,8 +178,7 @@ public final class Desk {
     }
 
     private Progress progress(PoolRow pool) {
-        return new Progress(db.queues().servedRound(pool.id()).orElse(null),
-                rounds.worker(pool.name()).labelsToNextRound());
+        return Progress.of(db, rounds, pool);
     }
 
     private RecordView view(PoolRow pool, long row) {

@@ -1,7 +1,10 @@
 package dev.dowser.labels;
 
 import java.time.Instant;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Map;
 
 /**
  * Where a record's labels stand: each person's current label (their opinion), the review in force
@@ -20,12 +23,38 @@ public record Resolution(long row, List<Opinion> opinions, Review review) {
     public record Opinion(String person, String label, Instant at, String note) {
     }
 
-    /** A reviewer's decision: {@code verdict} is accept or override; {@code reason} is required for override. */
-    public record Review(String reviewer, String verdict, String label, String reason, Instant at) {
+    /** A reviewer's decision; {@code reason} is required for an override. */
+    public record Review(String reviewer, Verdict verdict, String label, String reason, Instant at) {
     }
 
     public Resolution {
         opinions = List.copyOf(opinions);
+    }
+
+    /**
+     * The rule that turns what was said about one record, oldest first, into where it stands: a
+     * person's newer label replaces their older one, a withdrawal removes it, and the newest review
+     * is in force. Opinions keep the order in which they were last given.
+     */
+    public static Resolution fold(long row, List<LabelEvent> events) {
+        Map<String, Opinion> opinions = new LinkedHashMap<>();
+        Review review = null;
+        for (LabelEvent e : events) {
+            if (e.review()) {
+                review = new Review(e.by(), e.verdict(), e.label(), e.note(), e.at());
+            } else {
+                opinions.remove(e.by());
+                if (!e.withdrawn()) {
+                    opinions.put(e.by(), new Opinion(e.by(), e.label(), e.at(), e.note()));
+                }
+            }
+        }
+        return new Resolution(row, new ArrayList<>(opinions.values()), review);
+    }
+
+    /** Nothing stands: no opinion, no review (every label taken back, or none given). */
+    public boolean empty() {
+        return opinions.isEmpty() && review == null;
     }
 
     public boolean peopleDisagree() {

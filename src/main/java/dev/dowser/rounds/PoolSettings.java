@@ -104,6 +104,31 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
         }
     }
 
+    /**
+     * A change of some settings: a null field keeps its value. Naming any of chains, draws and
+     * re-burn-in gives the pool its own sampling, the others taken from what is in force.
+     */
+    public record Change(Integer batchSize, Double spotCheckShare, Integer leaseMinutes, Strategy strategy,
+                         Double doubleLabelShare, Integer chains, Integer draws, Integer reburnInSteps,
+                         Double stopAgreement) {
+
+        /** {@code now} with this change, checked whole; {@code server} is the sampler in force without the pool's own. */
+        public PoolSettings applyTo(PoolSettings now, SamplerConfig server) {
+            Sampling sampling = now.sampling(server);
+            boolean ownSampling = chains != null || draws != null || reburnInSteps != null;
+            return new PoolSettings(or(batchSize, now.batchSize()), or(spotCheckShare, now.spotCheckShare()),
+                    or(leaseMinutes, now.leaseMinutes()), or(strategy, now.strategy()),
+                    or(doubleLabelShare, now.doubleLabelShare()),
+                    ownSampling ? new Sampling(or(chains, sampling.chains()), or(draws, sampling.draws()),
+                            or(reburnInSteps, sampling.reburnInSteps())) : now.sampling(),
+                    or(stopAgreement, now.stopAgreement()), now.coldStart());
+        }
+
+        private static <T> T or(T value, T kept) {
+            return value == null ? kept : value;
+        }
+    }
+
     /** Settings that follow the server's sampler, with the default stopping rule. */
     public PoolSettings(int batchSize, double spotCheckShare, int leaseMinutes, Strategy strategy,
                         double doubleLabelShare) {

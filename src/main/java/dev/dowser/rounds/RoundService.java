@@ -18,6 +18,7 @@ import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
+import dev.dowser.store.RoundStatus;
 import dev.dowser.store.RoundStore;
 import dev.dowser.store.SavedChain;
 import java.util.ArrayList;
@@ -36,17 +37,16 @@ import java.util.concurrent.ConcurrentHashMap;
  */
 public final class RoundService {
 
-    /** What a round did: its status is {@code published}, {@code failed} or {@code stopped}. */
-    public record Outcome(int round, String status, int queued, String kernel, String message, double seconds) {
+    /** What a round did: it was published, failed or was stopped; {@code queued} counts its batch, not its reserve. */
+    public record Outcome(int round, RoundStatus status, int queued, String kernel, String message, double seconds) {
 
         public boolean published() {
-            return PUBLISHED.equals(status);
+            return status == RoundStatus.PUBLISHED;
         }
     }
 
-    public static final String PUBLISHED = "published";
-    public static final String FAILED = "failed";
-    public static final String STOPPED = "stopped";
+    /** Records of a new queue read into the record cache as it is published: its batch, then its reserve. */
+    static final int WARM_RECORDS = 1_000;
 
     /** The root of the server's seed tree; each pool has its own branch below it (its id). */
     public static final long DEFAULT_SEED = 1;
@@ -114,11 +114,11 @@ public final class RoundService {
             Architecture arch = e.layout().architecture();
             db.chains().save(pool.id(), ChainStates.toSaved(e.lastStates(), e.choice().kernel().word(), arch, round));
             db.rounds().stop(pool.id(), round, e.choice().kernel().word(), why);
-            outcome = new Outcome(round, STOPPED, 0, e.choice().kernel().word(), why, seconds(begun));
+            outcome = new Outcome(round, RoundStatus.STOPPED, 0, e.choice().kernel().word(), why, seconds(begun));
         } catch (RuntimeException e) {
             String why = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
             db.rounds().fail(pool.id(), round, why);
-            outcome = new Outcome(round, FAILED, 0, null, why, seconds(begun));
+            outcome = new Outcome(round, RoundStatus.FAILED, 0, null, why, seconds(begun));
         }
         events.roundEnded(poolName, outcome);
         return outcome;
@@ -198,35 +198,24 @@ public final class RoundService {
             db.rounds().settled(pool.id(), round, new RoundStore.Settled(settling.candidates(),
                     settling.agreement(), settling.compared(), settling.information(), settling.informationTop()));
         }
-        List<QueueEntry> entries = carryOver(db.queues().awaitingSecondLabel(pool.id()), round, entries(result));
-        db.records().warm(pool.id(), entries.stream().mapToLong(QueueEntry::row).toArray());
-        db.queues().publish(pool.id(), round, entries);
+        // Read ahead what the desk will show first: the batch and the start of the reserve.
+        db.records().warm(pool.id(), java.util.stream.Stream.concat(result.queue().stream(), result.reserve().stream())
+                .limit(WARM_RECORDS).mapToLong(RoundStep.Pick::row).toArray());
+        List<QueueEntry> entries = db.queues().publish(pool.id(), round, entries(round, result.queue()),
+                entries(round, result.reserve()));
         db.rounds().finish(pool.id(), round, result.kernel(), result.why(), health);
-        return new Outcome(round, PUBLISHED, entries.size(), result.kernel(), result.why(), seconds(begun));
+        int queued = (int) entries.stream().filter(e -> !e.reserve()).count();
+        return new Outcome(round, RoundStatus.PUBLISHED, queued, result.kernel(), result.why(), seconds(begun));
     }
 
-    private static List<QueueEntry> entries(RoundStep.Result result) {
-        List<QueueEntry> out = new ArrayList<>();
-        for (RoundStep.Pick p : result.queue()) {
+    /** Queue places from a round's picks, numbered in order; the reserve, ranked rather than picked, has no pick probability. */
+    private static List<QueueEntry> entries(int round, List<RoundStep.Pick> picks) {
+        List<QueueEntry> out = new ArrayList<>(picks.size());
+        for (RoundStep.Pick p : picks) {
             String belief = p.mean() == null ? null : QueuedBelief.write(p.mean(), p.sd());
-            out.add(new QueueEntry(result.round(), out.size(), p.row(), p.score(), p.spotCheck(), belief, null, null,
-                    p.copies(), p.probability(), p.order()));
-        }
-        return out;
-    }
-
-    /**
-     * The new queue: records still waiting for their second label first (they are work in
-     * progress, picked by an earlier round, whose entry keeps their place among its picks), then
-     * this round's picks, numbered in that order.
-     */
-    static List<QueueEntry> carryOver(List<QueueEntry> waiting, int round, List<QueueEntry> picked) {
-        List<QueueEntry> in = new ArrayList<>(waiting);
-        in.addAll(picked);
-        List<QueueEntry> out = new ArrayList<>(in.size());
-        for (QueueEntry e : in) {
-            out.add(new QueueEntry(round, out.size(), e.row(), e.score(), e.spotCheck(), e.predictionJson(), null, null,
-                    e.copies(), e.pickProbability(), e.round() == round ? e.pickOrder() : null));
+            out.add(new QueueEntry(round, out.size(), p.row(), p.score(), p.spotCheck(), belief, null, null,
+                    p.copies(), Double.isNaN(p.probability()) ? null : p.probability(),
+                    p.order() == 0 ? null : p.order(), false));
         }
         return out;
     }

@@ -37,6 +37,7 @@ public final class RoundStep {
     static final int PICK = 1;
     static final int SPOT_CHECKS = 2;
     static final int COPIES = 3;
+    static final int RESERVE = 4;
     /** Unlabelled rows whose predictions serve the chains' diagnostics: the first few candidates. */
     static final int PROBE_ROWS = 8;
 
@@ -97,9 +98,11 @@ public final class RoundStep {
      * @param spotCheck   drawn uniformly at random rather than picked by score
      * @param probability the probability with which it was picked, given the places picked before
      *                    it: Plackett-Luce for power sampling, 1 / (candidates left) for random
-     *                    picks and spot checks, 1 for greedy strategies and the cold start
+     *                    picks and spot checks, 1 for greedy strategies and the cold start; NaN for
+     *                    the reserve, which is ranked, not picked
      * @param order       its place in the round's sequence of picks, 1 first (the picks by score,
-     *                    then the spot checks): with {@code probability}, what importance weighting needs
+     *                    then the spot checks): with {@code probability}, what importance weighting needs;
+     *                    0 for the reserve
      * @param copies      how many different people label it (2 to measure their agreement)
      * @param mean        the serving model's mean class probabilities (null in a cold start)
      * @param sd          their spread across the draws (null in a cold start)
@@ -112,17 +115,20 @@ public final class RoundStep {
      * What a round produced.
      *
      * @param queue        the new queue, in serving order
+     * @param reserve      the next-best candidates after it, best first ({@link NextBest}), served once
+     *                     the queue is taken while the next round runs
      * @param draws        the posterior draws, chains and health; null in a cold start
      * @param kernel       the kernel's word, or {@code none} in a cold start
      * @param why          why this kernel (or the cold start), in words for the person who runs the pool
      * @param judgedMean   the posterior predictive of each judged record (rows x classes); empty in a cold start
      * @param settling     the stop set's predictions and the information left in the pool; null in a cold start
      */
-    public record Result(int round, List<Pick> queue, RoundDraws draws, String kernel, String why,
+    public record Result(int round, List<Pick> queue, List<Pick> reserve, RoundDraws draws, String kernel, String why,
                          float[] judgedMean, Settling settling) {
 
         public Result {
             queue = List.copyOf(queue);
+            reserve = List.copyOf(reserve);
         }
 
         public boolean cold() {
@@ -148,7 +154,13 @@ public final class RoundStep {
                 queue.add(new Pick(cand.rows()[e.candidate()], e.candidate(), 0, e.spotCheck(), e.probability(),
                         e.order(), 1, null, null));
             }
-            return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), null, NO_KERNEL,
+            int[] at = mixed.stream().mapToInt(SpotChecks.Entry::candidate).toArray();
+            List<Pick> reserve = new ArrayList<>();
+            for (int c : NextBest.ranked(null, cand.count(), at, NextBest.size(b, cand.count() - at.length),
+                    in.seeds().child(RESERVE).rng())) {
+                reserve.add(new Pick(cand.rows()[c], c, 0, false, Double.NaN, 0, 1, null, null));
+            }
+            return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), reserve, null, NO_KERNEL,
                     "no labels yet: the first batch is spread over the pool by " + settings.coldStart().word(),
                     new float[0], null);
         }
@@ -173,8 +185,19 @@ public final class RoundStep {
         }
         float[] judgedMean = Predictive.meanProbabilities(draws.layout(), draws.draws(), in.judged().x(),
                 in.judged().count());
+        double[] rankBy = NextBest.scoreOf(settings.strategy(), scores);
+        int[] next = NextBest.ranked(rankBy, cand.count(), at, NextBest.size(b, cand.count() - at.length),
+                in.seeds().child(RESERVE).rng());
+        Predictive.Belief nextBelief = Predictive.belief(draws.layout(), draws.draws(),
+                FeatureMatrix.gather(cand.x(), cand.cols(), next), next.length);
+        List<Pick> reserve = new ArrayList<>(next.length);
+        for (int i = 0; i < next.length; i++) {
+            reserve.add(new Pick(cand.rows()[next[i]], next[i], scores.bald()[next[i]], false, Double.NaN, 0, 1,
+                    Arrays.copyOfRange(nextBelief.mean(), i * classes, (i + 1) * classes),
+                    Arrays.copyOfRange(nextBelief.sd(), i * classes, (i + 1) * classes)));
+        }
         Settling settling = Settling.of(draws, in.stopSet(), cand, scores.bald(), b, classes);
-        return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), draws,
+        return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), reserve, draws,
                 draws.choice().kernel().word(), draws.choice().why(), judgedMean, settling);
     }
 

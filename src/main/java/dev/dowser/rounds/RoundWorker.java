@@ -1,32 +1,50 @@
 package dev.dowser.rounds;
 
 import dev.dowser.sampler.StopSignal;
+import dev.dowser.store.RoundStatus;
+import java.time.Duration;
+import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.concurrent.atomic.AtomicInteger;
+import java.util.concurrent.atomic.AtomicLong;
 import java.util.concurrent.atomic.AtomicReference;
 
 /**
- * A pool's background worker: runs a round on request, and by itself after every {@code batch}
- * new labels. Labelling never waits for it: people keep taking records from the queue being
- * served while the next is computed. Requests that arrive during a round fold into one more round
- * after it. Closing stops a running round at its chains' next safe point (their states are saved,
- * the served queue stays) and starts no more.
+ * A pool's background worker: runs a round on request, by itself after every {@code batch} new
+ * labels, and before the served batch runs out. Labelling never waits for it: people keep taking
+ * records from the queue being served (its batch, then its reserve of next-best records) while the
+ * next is computed. Requests that arrive during a round fold into one more round after it. Closing
+ * stops a running round at its chains' next safe point (their states are saved, the served queue
+ * stays) and starts no more.
+ *
+ * <p>The low-water mark: once no more than {@value #LOW_WATER_PER_LABELLER} open places of the
+ * batch remain per person active at the desk (one who asked for a record or labelled within
+ * {@link #ACTIVE_WINDOW}), the next round starts, unless one is running or waiting already. A team
+ * of one starts the next round while on the second-last record; a team of twenty, at forty.
  */
 public final class RoundWorker implements AutoCloseable {
 
     static final long CLOSE_WAIT_SECONDS = 120;
+    static final int LOW_WATER_PER_LABELLER = 2;
+    /** Someone who asked for a record or labelled within this long counts as at the desk. */
+    static final Duration ACTIVE_WINDOW = Duration.ofMinutes(2);
+    /** After a round fails, the desk does not start another by itself for this long (a person still can). */
+    static final Duration RETRY_AFTER_FAILURE = Duration.ofMinutes(1);
 
     private final RoundService service;
     private final String pool;
     private volatile int batch;
     private final ExecutorService thread;
     private final AtomicBoolean queued = new AtomicBoolean();
+    private final AtomicBoolean running = new AtomicBoolean();
     private final AtomicInteger labelsSinceRound = new AtomicInteger();
     private final AtomicInteger roundsRun = new AtomicInteger();
     private final AtomicReference<RoundService.Outcome> last = new AtomicReference<>();
+    private final AtomicLong failedAt = new AtomicLong(System.nanoTime() - RETRY_AFTER_FAILURE.toNanos() - 1);
+    private final ConcurrentHashMap<String, Long> seen = new ConcurrentHashMap<>();
     private final StopSignal stop = new StopSignal();
 
     public RoundWorker(RoundService service, String pool, int batch) {
@@ -49,12 +67,33 @@ public final class RoundWorker implements AutoCloseable {
             thread.execute(() -> {
                 queued.set(false);
                 labelsSinceRound.set(0);
-                if (!stop.requested()) {
-                    last.set(service.run(pool, stop));
+                running.set(true);
+                try {
+                    if (!stop.requested()) {
+                        RoundService.Outcome outcome = service.run(pool, stop);
+                        last.set(outcome);
+                        if (outcome.status() == RoundStatus.FAILED) {
+                            failedAt.set(System.nanoTime());
+                        }
+                    }
+                } finally {
+                    running.set(false);
+                    roundsRun.incrementAndGet();
                 }
-                roundsRun.incrementAndGet();
             });
         }
+    }
+
+    /** Asks for a round unless one is running or waiting, or the last failed within {@link #RETRY_AFTER_FAILURE}. */
+    public void requestUnlessFailing() {
+        if (!busy() && System.nanoTime() - failedAt.get() > RETRY_AFTER_FAILURE.toNanos()) {
+            request();
+        }
+    }
+
+    /** A round is running, or asked for and about to. */
+    public boolean busy() {
+        return queued.get() || running.get();
     }
 
     /** Counts a new label; the {@code batch}-th since the last round starts the next. */
@@ -63,6 +102,25 @@ public final class RoundWorker implements AutoCloseable {
             labelsSinceRound.set(0);
             request();
         }
+    }
+
+    /**
+     * {@code person} is at the desk, and {@code openInBatch} places of the served batch are still
+     * free for anyone: at the low-water mark, the next round starts (see the class comment). With
+     * nothing served at all, the first round does.
+     */
+    public void deskActive(String person, int openInBatch) {
+        seen.put(person, System.nanoTime());
+        if (openInBatch <= LOW_WATER_PER_LABELLER * activeLabellers()) {
+            requestUnlessFailing();
+        }
+    }
+
+    /** People who asked for a record or labelled within {@link #ACTIVE_WINDOW}. */
+    public int activeLabellers() {
+        long since = System.nanoTime() - ACTIVE_WINDOW.toNanos();
+        seen.values().removeIf(t -> t - since < 0);
+        return Math.max(1, seen.size());
     }
 
     /** A label was taken back: it no longer counts toward the next round. */

@@ -3,16 +3,35 @@ package dev.dowser.rounds;
 import dev.dowser.acquire.PoolScorer;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
+import java.time.Duration;
 import java.util.concurrent.ConcurrentHashMap;
+import java.util.concurrent.Executors;
+import java.util.concurrent.ScheduledExecutorService;
+import java.util.concurrent.TimeUnit;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
 
-/** Every pool's round worker, made when first needed and closed together on shutdown. */
+/**
+ * Every pool's round worker, made when first needed and closed together on shutdown. Once the
+ * server runs, {@link #watch} recovers from the way the last server ended and then looks every
+ * {@link #WATCH_PERIOD} for pools with nothing served, however they were imported, and starts
+ * their first round.
+ */
 public final class RoundWorkers implements AutoCloseable {
+
+    private static final Logger LOG = LoggerFactory.getLogger(RoundWorkers.class);
+    static final Duration WATCH_PERIOD = Duration.ofSeconds(2);
 
     private final Database db;
     private final SamplerConfig config;
     private final RoundService service;
     private final PoolScorer scorer;
     private final ConcurrentHashMap<String, RoundWorker> workers = new ConcurrentHashMap<>();
+    private final ScheduledExecutorService watcher = Executors.newSingleThreadScheduledExecutor(r -> {
+        Thread t = new Thread(r, "dowser-rounds-watch");
+        t.setDaemon(true);
+        return t;
+    });
 
     public RoundWorkers(Database db, SamplerConfig config) {
         this(db, config, RoundEvents.NONE);
@@ -50,8 +69,40 @@ public final class RoundWorkers implements AutoCloseable {
         return next;
     }
 
+    /**
+     * Recovers and starts watching. Rounds the last server left running (it was killed) are marked
+     * interrupted; every pool with nothing served, or whose served batch is short (half or more of
+     * it taken, or all but the low-water mark of one labeller) gets a round at once (a round stopped
+     * at shutdown left its queue short too); from then on, a pool with nothing served
+     * gets its first round within {@link #WATCH_PERIOD} of appearing.
+     */
+    public void watch() {
+        int interrupted = db.rounds().interruptRunning();
+        if (interrupted > 0) {
+            LOG.info("{} round(s) left running by the last server were marked interrupted", interrupted);
+        }
+        for (String pool : db.queues().poolsToServe(RoundWorker.LOW_WATER_PER_LABELLER)) {
+            worker(pool).requestUnlessFailing();
+        }
+        // The id index of each pool is built now, off the desk's path, rather than at the first label.
+        watcher.execute(() -> db.pools().ids().values().forEach(db.records()::warmKeys));
+        watcher.scheduleWithFixedDelay(this::serveNewPools, WATCH_PERIOD.toMillis(), WATCH_PERIOD.toMillis(),
+                TimeUnit.MILLISECONDS);
+    }
+
+    private void serveNewPools() {
+        try {
+            for (String pool : db.queues().poolsToServe(-1)) {
+                worker(pool).requestUnlessFailing();
+            }
+        } catch (RuntimeException e) {
+            LOG.warn("cannot look for pools to serve", e);
+        }
+    }
+
     @Override
     public void close() {
+        watcher.shutdownNow();
         workers.values().forEach(RoundWorker::close);
         scorer.close();
     }

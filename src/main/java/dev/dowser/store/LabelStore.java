@@ -1,7 +1,9 @@
 package dev.dowser.store;
 
+import dev.dowser.labels.LabelEvent;
 import dev.dowser.labels.LabelRow;
 import dev.dowser.labels.Resolution;
+import dev.dowser.labels.Verdict;
 import java.sql.Connection;
 import java.sql.PreparedStatement;
 import java.sql.ResultSet;
@@ -27,9 +29,8 @@ public final class LabelStore {
 
     public static final int MAX_LABELLER_CHARS = 100;
     public static final int MAX_NOTE_CHARS = 2_000;
+    /** The kind of a person's label row; a review row's kind is its verdict's word. */
     public static final String KIND_LABEL = "label";
-    public static final String KIND_ACCEPT = "accept";
-    public static final String KIND_OVERRIDE = "override";
 
     private final DataSource ds;
     private final Clock clock;
@@ -85,11 +86,8 @@ public final class LabelStore {
      * final (refused while people disagree: choose one with an override), {@code override} sets
      * {@code label} with a {@code reason}. Appended like every label; the newest review is in force.
      */
-    public Resolution review(long poolId, long row, String reviewer, String verdict, String label, String reason) {
-        if (!verdict.equals(KIND_ACCEPT) && !verdict.equals(KIND_OVERRIDE)) {
-            throw new IllegalArgumentException("a review is accept or override, got '" + verdict + "'");
-        }
-        if (verdict.equals(KIND_OVERRIDE) && (reason == null || reason.isBlank())) {
+    public Resolution review(long poolId, long row, String reviewer, Verdict verdict, String label, String reason) {
+        if (verdict == Verdict.OVERRIDE && (reason == null || reason.isBlank())) {
             throw new IllegalArgumentException("an override needs a reason, kept with the label");
         }
         if (reason != null && reason.length() > MAX_NOTE_CHARS) {
@@ -99,7 +97,7 @@ public final class LabelStore {
             return Transactions.run(ds, c -> {
                 Resolution now = resolution(c, poolId, row);
                 String finalLabel = label;
-                if (verdict.equals(KIND_ACCEPT)) {
+                if (verdict == Verdict.ACCEPT) {
                     if (now.opinions().isEmpty()) {
                         throw new ConflictException("the record has no label to accept");
                     }
@@ -109,7 +107,7 @@ public final class LabelStore {
                     }
                     finalLabel = now.opinions().get(0).label();
                 }
-                insert(c, poolId, row, finalLabel, reviewer, reason, verdict, false);
+                insert(c, poolId, row, finalLabel, reviewer, reason, verdict.word(), false);
                 return resolution(c, poolId, row);
             });
         } catch (SQLException e) {
@@ -207,13 +205,19 @@ public final class LabelStore {
             p.setBoolean(8, withdrawn);
             p.executeUpdate();
         }
-        try (PreparedStatement u = c.prepareStatement(QueueStore.AFTER_LABEL_ROW)) {
-            u.setString(1, by);
-            u.setLong(2, poolId);
-            u.setLong(3, row);
-            u.executeUpdate();
-        }
+        // The author has acted on the record: their lease on it ends, and its entries' done flags follow
+        // the labels (a record wanted by two people is then free for the second at once).
+        Sql.update(c, "DELETE FROM leases WHERE pool_id = ? AND row_no = ? AND person = ?", poolId, row, by);
+        Sql.update(c, QueueStore.REFRESH_DONE, now, poolId, row);
         return now;
+    }
+
+    /** Records that someone has a label on, or that a reviewer decided. */
+    public long labelledRecords(long poolId) {
+        return new Sql(ds).first("count the labelled records of pool " + poolId, "SELECT COUNT(DISTINCT l.row_no)"
+                + " FROM labels l WHERE l.pool_id = ? AND (l.kind <> 'label' OR (NOT l.withdrawn AND NOT EXISTS"
+                + " (SELECT 1 FROM labels w WHERE w.pool_id = l.pool_id AND w.row_no = l.row_no AND w.kind = 'label'"
+                + " AND w.labelled_by = l.labelled_by AND w.id > l.id)))", rs -> rs.getLong(1), poolId).orElse(0L);
     }
 
     /** Records per final label; classes with no records are left to the caller. */
@@ -306,16 +310,15 @@ public final class LabelStore {
     }
 
     /**
-     * Walks the labelled records in row order, folding each one's rows (oldest first) into its
-     * {@link Resolution}: a person's newer label replaces their older one, a withdrawal removes
-     * it, the newest review is in force. Records left with neither opinion nor review are skipped.
+     * Walks the labelled records in row order, gathering each one's rows (oldest first) and
+     * folding them by {@link Resolution#fold}. Records left with neither opinion nor review are skipped.
      */
     static final class Cursor {
 
         private final ResultSet rs;
         private Resolution current;
         /** The first stored row of the next record, already read. */
-        private Stored lookahead;
+        private LabelEvent lookahead;
 
         Cursor(ResultSet rs) {
             this.rs = rs;
@@ -334,49 +337,40 @@ public final class LabelStore {
             return c;
         }
 
-        private record Stored(long row, String label, String by, Instant at, String note, boolean withdrawn,
-                              String kind) {
-        }
-
         private Resolution fold() {
             while (true) {
-                Stored first = lookahead != null ? lookahead : read();
+                LabelEvent first = lookahead != null ? lookahead : read();
                 lookahead = null;
                 if (first == null) {
                     return null;
                 }
-                Map<String, Resolution.Opinion> opinions = new LinkedHashMap<>();
-                Resolution.Review review = null;
-                Stored s = first;
-                while (s != null && s.row() == first.row()) {
-                    if (!s.kind().equals(KIND_LABEL)) {
-                        review = new Resolution.Review(s.by(), s.kind(), s.label(), s.note(), s.at());
-                    } else if (s.withdrawn()) {
-                        opinions.remove(s.by());
-                    } else {
-                        // Re-inserted so that opinions stay in the order they were last given.
-                        opinions.remove(s.by());
-                        opinions.put(s.by(), new Resolution.Opinion(s.by(), s.label(), s.at(), s.note()));
-                    }
-                    s = read();
+                List<LabelEvent> events = new ArrayList<>();
+                LabelEvent e = first;
+                while (e != null && e.row() == first.row()) {
+                    events.add(e);
+                    e = read();
                 }
-                lookahead = s;
-                if (!opinions.isEmpty() || review != null) {
-                    return new Resolution(first.row(), new ArrayList<>(opinions.values()), review);
+                lookahead = e;
+                Resolution r = Resolution.fold(first.row(), events);
+                if (!r.empty()) {
+                    return r;
                 }
             }
         }
 
-        private Stored read() {
+        private LabelEvent read() {
             try {
-                if (!rs.next()) {
-                    return null;
-                }
-                return new Stored(rs.getLong(1), rs.getString(2), rs.getString(3), rs.getTimestamp(4).toInstant(),
-                        rs.getString(5), rs.getBoolean(6), rs.getString(7));
+                return rs.next() ? event(rs) : null;
             } catch (SQLException e) {
                 throw new StoreException("cannot read labels: " + e.getMessage(), e);
             }
         }
+    }
+
+    /** A label row read from the columns of {@link #CURSOR_COLUMNS}. */
+    static LabelEvent event(ResultSet rs) throws SQLException {
+        String kind = rs.getString(7);
+        return new LabelEvent(rs.getLong(1), rs.getString(2), rs.getString(3), rs.getTimestamp(4).toInstant(),
+                rs.getString(5), rs.getBoolean(6), kind.equals(KIND_LABEL) ? null : Verdict.parse(kind));
     }
 }

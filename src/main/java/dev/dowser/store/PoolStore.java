@@ -74,6 +74,14 @@ public final class PoolStore {
         }
     }
 
+    /** Every pool's name and id, by name. */
+    public Map<String, Long> ids() {
+        Map<String, Long> out = new LinkedHashMap<>();
+        new Sql(ds).list("list pools", "SELECT name, id FROM pools ORDER BY name",
+                rs -> out.put(rs.getString(1), rs.getLong(2)));
+        return out;
+    }
+
     public List<PoolSummary> list() {
         List<PoolRow> pools = new ArrayList<>();
         try (Connection c = ds.getConnection();

@@ -1,6 +1,9 @@
 package dev.dowser.store;
 
 import dev.dowser.json.Json;
+import dev.dowser.records.KeyCheck;
+import dev.dowser.records.RecordBatch;
+import dev.dowser.records.RecordBlock;
 import java.sql.Connection;
 import java.sql.PreparedStatement;
 import java.sql.ResultSet;
@@ -39,7 +42,11 @@ public final class PoolWriter implements AutoCloseable {
     static final int BATCH_MAX_FIELDS = 1 << 20;
     static final String UNIQUE_VIOLATION = "23505";
 
-    private static final RecordBatch END = new RecordBatch(0, new int[0], 0);
+    /** A filled batch on its way to the writer thread, with its place in the pool. */
+    private record Job(RecordBatch batch, int blockNo, long firstRow) {
+    }
+
+    private static final Job END = new Job(null, -1, -1);
 
     private final Connection connection;
     private final Clock clock;
@@ -47,7 +54,7 @@ public final class PoolWriter implements AutoCloseable {
     private final String importedBy;
     private final RecordBlock.Builder block;
     private final KeyCheck keyCheck;
-    private final BlockingQueue<RecordBatch> queue = new ArrayBlockingQueue<>(BATCHES + 1);
+    private final BlockingQueue<Job> queue = new ArrayBlockingQueue<>(BATCHES + 1);
     private final BlockingQueue<RecordBatch> free = new ArrayBlockingQueue<>(BATCHES);
     private final Thread writer;
     private volatile Throwable writerFailure;
@@ -67,7 +74,7 @@ public final class PoolWriter implements AutoCloseable {
         this.keyCheck = checkKeys ? new KeyCheck() : null;
         int rowsPerBatch = Math.max(1, Math.min(BLOCK_MAX_ROWS, BATCH_MAX_FIELDS / Math.max(1, cols)));
         for (int i = 0; i < BATCHES; i++) {
-            free.add(new RecordBatch(cols, displayIndex, rowsPerBatch));
+            free.add(RecordBatch.forWriting(cols, displayIndex, rowsPerBatch));
         }
         this.writer = new Thread(this::writeBlocks, "dowser-pool-writer");
         this.writer.setDaemon(true);
@@ -164,13 +171,13 @@ public final class PoolWriter implements AutoCloseable {
         }
         if (keyCheck != null) {
             for (int i = 0; i < batch.rows(); i++) {
-                keyCheck.add(batch.keys[i]);
+                keyCheck.add(batch.key(i));
             }
         }
-        batch.blockNo = blockNo++;
-        batch.firstRow = rows;
+        Job job = new Job(batch, blockNo++, rows);
+        // Counted before the hand-over: once queued, the batch belongs to the writer thread.
         rows += batch.rows();
-        enqueue(batch);
+        enqueue(job);
     }
 
     /** Records sent so far. */
@@ -178,7 +185,7 @@ public final class PoolWriter implements AutoCloseable {
         return rows;
     }
 
-    private void enqueue(RecordBatch job) {
+    private void enqueue(Job job) {
         try {
             while (!queue.offer(job, 100, TimeUnit.MILLISECONDS)) {
                 failIfWriterFailed();
@@ -195,28 +202,28 @@ public final class PoolWriter implements AutoCloseable {
              PreparedStatement label = connection.prepareStatement("INSERT INTO labels"
                      + " (pool_id, row_no, label, labelled_by, labelled_at, note) VALUES (?, ?, ?, ?, ?, ?)")) {
             Timestamp now = Timestamp.from(clock.instant());
-            ByteSink payload = new ByteSink(RecordBatch.TARGET_CHARS * 2);
             while (true) {
-                RecordBatch job = queue.take();
+                Job job = queue.take();
                 if (job == END) {
                     return;
                 }
+                RecordBatch batch = job.batch();
                 if (!aborting) {
                     block.clear();
-                    block.addAll(job);
+                    block.addAll(batch);
                     insert.setLong(1, poolId);
-                    insert.setInt(2, job.blockNo);
-                    insert.setLong(3, job.firstRow);
-                    insert.setInt(4, job.rows());
-                    block.sealInto(payload);
-                    insert.setBinaryStream(5, payload.asInputStream(), payload.size());
+                    insert.setInt(2, job.blockNo());
+                    insert.setLong(3, job.firstRow());
+                    insert.setInt(4, batch.rows());
+                    RecordBlock.Sealed payload = block.sealInPlace();
+                    insert.setBinaryStream(5, payload.stream(), payload.length());
                     insert.executeUpdate();
                     boolean anyLabel = false;
-                    for (int i = 0; i < job.rows(); i++) {
-                        if (job.labels[i] != null) {
+                    for (int i = 0; i < batch.rows(); i++) {
+                        if (batch.label(i) != null) {
                             label.setLong(1, poolId);
-                            label.setLong(2, job.firstRow + i);
-                            label.setString(3, job.labels[i]);
+                            label.setLong(2, job.firstRow() + i);
+                            label.setString(3, batch.label(i));
                             label.setString(4, importedBy);
                             label.setTimestamp(5, now);
                             label.setString(6, "carried in by the import");
@@ -228,8 +235,8 @@ public final class PoolWriter implements AutoCloseable {
                         label.executeBatch();
                     }
                 }
-                job.clear();
-                free.put(job);
+                batch.clear();
+                free.put(batch);
             }
         } catch (InterruptedException e) {
             writerFailure = e;

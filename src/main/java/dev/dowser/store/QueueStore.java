@@ -1,26 +1,27 @@
 package dev.dowser.store;
 
 import java.sql.Connection;
-import java.sql.PreparedStatement;
 import java.sql.ResultSet;
 import java.sql.SQLException;
-import java.sql.Timestamp;
 import java.time.Clock;
-import java.time.Duration;
 import java.time.Instant;
 import java.util.ArrayList;
 import java.util.HashMap;
+import java.util.HashSet;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
-import javax.sql.DataSource;
+import java.util.Set;
+import java.util.concurrent.ThreadLocalRandom;
 
 /**
- * Publishes queues and hands their records out under leases. A record goes to one person at a
- * time: a lease is taken by a conditional update that succeeds only while the entry is free (never
- * leased, lease run out, or already this person's), so two people asking at once cannot both win
- * it. An entry is done once as many different people as its {@code copies} have labelled it, or a
- * reviewer has decided it; done entries are skipped, and nobody gets a record they labelled.
+ * Publishes queues and says where the served one stands. A round's queue is its batch, then the
+ * next-best records (its reserve), served once the batch is taken while the next round runs.
+ * Publishing carries over the records still in hand (leased, or labelled by one of the two people
+ * who should), never queues a record twice, and leaves leases alone ({@link LeaseStore}). An entry
+ * is done once as many different people as its {@code copies} have labelled it, or a reviewer has
+ * decided it, and nobody holds it under a live lease: a label that came late, after its lease ran
+ * out and the record went to someone else, is kept but does not end the other person's work.
  */
 public final class QueueStore {
 
@@ -29,264 +30,213 @@ public final class QueueStore {
             + " AND l.kind = 'label' AND NOT l.withdrawn AND NOT EXISTS (SELECT 1 FROM labels w"
             + " WHERE w.pool_id = l.pool_id AND w.row_no = l.row_no AND w.kind = 'label'"
             + " AND w.labelled_by = l.labelled_by AND w.id > l.id)";
-    /** Queue entry q needs no more labels: enough people gave one, or a reviewer decided. */
-    static final String DONE = "((SELECT COUNT(*) " + LIVE_LABELS + ") >= q.copies OR EXISTS (SELECT 1 FROM labels r"
+    /** Queue entry q's record has the labels it asked for: enough people gave one, or a reviewer decided. */
+    static final String ENOUGH = "((SELECT COUNT(*) " + LIVE_LABELS + ") >= q.copies OR EXISTS (SELECT 1 FROM labels r"
             + " WHERE r.pool_id = q.pool_id AND r.row_no = q.row_no AND r.kind <> 'label'))";
+    /** Someone holds queue entry q's record under a lease that runs past the instant bound next. */
+    static final String HELD = "EXISTS (SELECT 1 FROM leases h WHERE h.pool_id = q.pool_id AND h.row_no = q.row_no"
+            + " AND h.lease_until > ?)";
     /**
-     * After a label row on one record (author, pool and row bound): its queue entries' done flag
-     * follows the labels, and the author's lease on it ends, since they have acted on it; a record
-     * wanted by two people is then free for the second at once.
+     * Queue entry q is done (the instant bound next is now). A holder has not labelled it: a label
+     * row ends its author's lease in the same transaction.
      */
-    static final String AFTER_LABEL_ROW = "UPDATE queue_entries q SET done = " + DONE
-            + ", leased_to = CASE WHEN q.leased_to = ?1 THEN NULL ELSE q.leased_to END"
-            + ", lease_until = CASE WHEN q.leased_to = ?1 THEN NULL ELSE q.lease_until END"
-            + " WHERE q.pool_id = ?2 AND q.row_no = ?3";
-
+    static final String DONE = "(" + ENOUGH + " AND NOT " + HELD + ")";
     /** The person bound to the next parameter has a live label on queue entry q's record. */
     static final String LABELLED_BY_PERSON = "EXISTS (SELECT 1 " + LIVE_LABELS + " AND l.labelled_by = ?)";
+    /** Refreshes the done flag of a record's entries in every round (now, pool and row bound). */
+    static final String REFRESH_DONE = "UPDATE queue_entries q SET done = " + DONE
+            + " WHERE q.pool_id = ? AND q.row_no = ?";
 
-    /** One entry of the served queue as the overview shows it. */
-    public record Served(QueueEntry entry, boolean labelled) {
+    static final String COLUMNS = "q.round_no, q.position, q.row_no, q.score, q.spot_check, q.prediction, q.copies,"
+            + " q.pick_probability, q.pick_order, q.reserve";
+
+    /** How many records a desk with nothing left appends at random (rare: only once a round's reserve is used up). */
+    static final int RANDOM_APPEND = 10;
+    /** Rows looked at for them, at most: a pool nearly all labelled is searched this far and no further. */
+    static final int MAX_PROBES = 20_000;
+
+    /**
+     * One entry of the served queue as the overview shows it: who holds it (null when nobody),
+     * whether it is done, and whether one of its two people has labelled it and the other is awaited.
+     */
+    public record Served(QueueEntry entry, boolean labelled, boolean awaitingSecondLabel) {
     }
 
-    private final DataSource ds;
+    private final Sql sql;
     private final Clock clock;
 
-    QueueStore(DataSource ds, Clock clock) {
-        this.ds = ds;
+    QueueStore(Sql sql, Clock clock) {
+        this.sql = sql;
         this.clock = clock;
     }
 
-    /** Writes a round's queue and makes it the one served, in one transaction. */
-    public void publish(long poolId, int round, List<QueueEntry> entries) {
-        try {
-            Transactions.run(ds, c -> {
-                try (PreparedStatement ins = c.prepareStatement("INSERT INTO queue_entries (pool_id, round_no, position,"
-                        + " row_no, score, spot_check, prediction, copies, pick_probability, pick_order)"
-                        + " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)");
-                     PreparedStatement del = c.prepareStatement("DELETE FROM served_queues WHERE pool_id = ?");
-                     PreparedStatement serve = c.prepareStatement(
-                             "INSERT INTO served_queues (pool_id, round_no) VALUES (?, ?)")) {
-                    for (QueueEntry e : entries) {
-                        ins.setLong(1, poolId);
-                        ins.setInt(2, round);
-                        ins.setInt(3, e.position());
-                        ins.setLong(4, e.row());
-                        ins.setDouble(5, e.score());
-                        ins.setBoolean(6, e.spotCheck());
-                        ins.setString(7, e.predictionJson());
-                        ins.setInt(8, e.copies());
-                        if (e.pickProbability() == null) {
-                            ins.setNull(9, java.sql.Types.DOUBLE);
-                        } else {
-                            ins.setDouble(9, e.pickProbability());
-                        }
-                        if (e.pickOrder() == null) {
-                            ins.setNull(10, java.sql.Types.INTEGER);
-                        } else {
-                            ins.setInt(10, e.pickOrder());
-                        }
-                        ins.addBatch();
-                    }
-                    ins.executeBatch();
-                    // Records labelled while the round ran are done already.
-                    markDone(c, poolId, round);
-                    del.setLong(1, poolId);
-                    del.executeUpdate();
-                    serve.setLong(1, poolId);
-                    serve.setInt(2, round);
-                    serve.executeUpdate();
-                }
-                return null;
-            });
-            // Once more after the commit: a label given while the queue was being written could not
-            // see its entries and so could not mark them done itself.
-            try (Connection c = ds.getConnection()) {
-                markDone(c, poolId, round);
+    private static long gcd(long a, long b) {
+        return b == 0 ? a : gcd(b, a % b);
+    }
+
+    /** Reads an entry from the columns of {@link #COLUMNS}, held by {@code leasedTo} until {@code until}. */
+    static QueueEntry entry(ResultSet rs, String leasedTo, Instant until) throws SQLException {
+        return new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getDouble(4), rs.getBoolean(5),
+                rs.getString(6), leasedTo, until, rs.getInt(7), Sql.nullableDouble(rs, 8), Sql.nullableInt(rs, 9),
+                rs.getBoolean(10));
+    }
+
+    /**
+     * Publishes round {@code round}'s queue and makes it the one served, in one transaction. Its
+     * places are, in order: the served queue's records still in hand (leased, or awaiting their
+     * second label), then {@code batch}, then {@code reserve} (the next-best records), each record
+     * once. Entries of earlier rounds' reserves that nobody finished are deleted. Returns the places.
+     */
+    public List<QueueEntry> publish(long poolId, int round, List<QueueEntry> batch, List<QueueEntry> reserve) {
+        List<QueueEntry> published = sql.transaction("publish the queue of round " + round, c -> {
+            Instant now = clock.instant();
+            Optional<Integer> old = Sql.first(c, "SELECT round_no FROM served_queues WHERE pool_id = ? FOR UPDATE",
+                    rs -> rs.getInt(1), poolId);
+            List<QueueEntry> carried = old.isEmpty() ? List.of() : Sql.list(c, "SELECT " + COLUMNS
+                    + " FROM queue_entries q WHERE q.pool_id = ? AND q.round_no = ? AND NOT q.done AND (" + HELD
+                    + " OR (q.copies = 2 AND (SELECT COUNT(*) " + LIVE_LABELS + ") > 0)) ORDER BY q.position",
+                    rs -> entry(rs, null, null), poolId, old.get(), now);
+            List<QueueEntry> places = new ArrayList<>();
+            Set<Long> rows = new HashSet<>();
+            // A carried record keeps its place among the picks of the round that picked it, in that round's entry.
+            for (QueueEntry e : carried) {
+                add(places, rows, e, round, null, false);
             }
-        } catch (SQLException e) {
-            throw new StoreException("cannot publish the queue of round " + round + ": " + e.getMessage(), e);
+            batch.forEach(e -> add(places, rows, e, round, e.pickOrder(), false));
+            reserve.forEach(e -> add(places, rows, e, round, null, true));
+            insert(c, poolId, places);
+            // Records labelled while the round ran are done already.
+            markDone(c, poolId, round, now);
+            Sql.update(c, "DELETE FROM queue_entries WHERE pool_id = ? AND round_no <> ? AND reserve AND NOT done",
+                    poolId, round);
+            Sql.update(c, "DELETE FROM served_queues WHERE pool_id = ?", poolId);
+            Sql.update(c, "INSERT INTO served_queues (pool_id, round_no) VALUES (?, ?)", poolId, round);
+            return places;
+        });
+        // Once more after the commit: a label given while the queue was being written could not see
+        // its entries and so could not mark them done itself.
+        sql.connected("mark the done records of round " + round, c -> {
+            markDone(c, poolId, round, clock.instant());
+            return null;
+        });
+        return published;
+    }
+
+    /** Publishes a queue with no reserve: once its places are taken, the desk waits for the next round. */
+    public List<QueueEntry> publish(long poolId, int round, List<QueueEntry> batch) {
+        return publish(poolId, round, batch, List.of());
+    }
+
+    private static void add(List<QueueEntry> places, Set<Long> rows, QueueEntry e, int round, Integer pickOrder,
+                            boolean reserve) {
+        if (rows.add(e.row())) {
+            places.add(new QueueEntry(round, places.size(), e.row(), e.score(), e.spotCheck(), e.predictionJson(),
+                    null, null, e.copies(), e.pickProbability(), pickOrder, reserve));
         }
     }
 
-    private static void markDone(Connection c, long poolId, int round) throws SQLException {
-        try (PreparedStatement done = c.prepareStatement("UPDATE queue_entries q SET done = TRUE"
-                + " WHERE q.pool_id = ? AND q.round_no = ? AND NOT q.done AND " + DONE)) {
-            done.setLong(1, poolId);
-            done.setInt(2, round);
-            done.executeUpdate();
+    private static void insert(Connection c, long poolId, List<QueueEntry> places) throws SQLException {
+        List<Object[]> rows = new ArrayList<>(places.size());
+        for (QueueEntry e : places) {
+            rows.add(new Object[] {poolId, e.round(), e.position(), e.row(), e.score(), e.spotCheck(),
+                e.predictionJson(), e.copies(), e.pickProbability(), e.pickOrder(), e.reserve()});
         }
+        Sql.batch(c, "INSERT INTO queue_entries (pool_id, round_no, position, row_no, score, spot_check, prediction,"
+                + " copies, pick_probability, pick_order, reserve) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)", rows);
+    }
+
+    private static void markDone(Connection c, long poolId, int round, Instant now) throws SQLException {
+        Sql.update(c, "UPDATE queue_entries q SET done = TRUE WHERE q.pool_id = ? AND q.round_no = ? AND NOT q.done"
+                + " AND " + DONE, poolId, round, now);
     }
 
     /** The round whose queue is served, if any. */
     public Optional<Integer> servedRound(long poolId) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT round_no FROM served_queues WHERE pool_id = ?")) {
-            q.setLong(1, poolId);
-            try (ResultSet rs = q.executeQuery()) {
-                return rs.next() ? Optional.of(rs.getInt(1)) : Optional.empty();
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the served queue of pool " + poolId + ": " + e.getMessage(), e);
-        }
+        return sql.first("read the served queue of pool " + poolId,
+                "SELECT round_no FROM served_queues WHERE pool_id = ?", rs -> rs.getInt(1), poolId);
     }
 
     /**
-     * Leases the first free record of the served queue that still needs a label and that
-     * {@code person} has not labelled, for {@code lease}; a record this person already holds comes
-     * back to them first. Empty when the queue has nothing left for them.
+     * Places of the served queue's batch that anyone may still take: not done and not held. Reserve
+     * places are not counted: when this falls to the low-water mark the next round should start.
      */
-    public Optional<QueueEntry> lease(long poolId, String person, Duration lease) {
-        Instant now = clock.instant();
-        Instant until = now.plus(lease);
-        // Two cheap reads instead of one sorted one: the entry this person holds, else the first free
-        // ones in queue order. Whether the person
-        // labelled an entry is asked only of entries wanted by two, the only ones it can be true for.
-        // The served round is read first and bound as a value: as a subquery it was evaluated for every
-        // entry of every round of the pool.
-        Optional<Integer> served = servedRound(poolId);
-        if (served.isEmpty()) {
-            return Optional.empty();
-        }
-        String columns = "SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check, q.prediction, q.copies,"
-                + " q.pick_probability FROM queue_entries q WHERE q.pool_id = ? AND q.round_no = ?"
-                + " AND q.done = FALSE AND (q.copies = 1 OR NOT " + LABELLED_BY_PERSON + ")";
-        // Ordered by every column of queue_entries_open, so that the database reads that index in order
-        // from the first open entry and stops after a few, rather than sorting all of them.
-        String inOrder = " ORDER BY q.pool_id, q.round_no, q.done, q.position";
-        try (Connection c = ds.getConnection();
-             PreparedStatement held = c.prepareStatement(columns + " AND q.leased_to = ?" + inOrder
-                     + " FETCH FIRST 1 ROW ONLY");
-             PreparedStatement free = c.prepareStatement(columns + " AND (q.leased_to IS NULL OR q.lease_until <= ?)"
-                     + inOrder + " FETCH FIRST 16 ROWS ONLY");
-             PreparedStatement take = c.prepareStatement("UPDATE queue_entries SET leased_to = ?, lease_until = ?"
-                     + " WHERE pool_id = ? AND round_no = ? AND position = ?"
-                     + " AND (leased_to IS NULL OR lease_until <= ? OR leased_to = ?)")) {
-            for (PreparedStatement find : List.of(held, free)) {
-                find.setLong(1, poolId);
-                find.setInt(2, served.get());
-                find.setString(3, person);
-            }
-            held.setString(4, person);
-            free.setTimestamp(4, Timestamp.from(now));
-            while (true) {
-                boolean any = false;
-                for (PreparedStatement find : List.of(held, free)) {
-                    try (ResultSet rs = find.executeQuery()) {
-                        while (rs.next()) {
-                            any = true;
-                            int round = rs.getInt(1);
-                            int position = rs.getInt(2);
-                            take.setString(1, person);
-                            take.setTimestamp(2, Timestamp.from(until));
-                            take.setLong(3, poolId);
-                            take.setInt(4, round);
-                            take.setInt(5, position);
-                            take.setTimestamp(6, Timestamp.from(now));
-                            take.setString(7, person);
-                            if (take.executeUpdate() == 1) {
-                                return Optional.of(new QueueEntry(round, position, rs.getLong(3), rs.getDouble(4),
-                                        rs.getBoolean(5), rs.getString(6), person, until, rs.getInt(7),
-                                        probability(rs, 8)));
-                            }
-                        }
-                    }
-                }
-                if (!any) {
-                    return Optional.empty();
-                }
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot lease a record of pool " + poolId + ": " + e.getMessage(), e);
-        }
+    public int openInBatch(long poolId) {
+        return sql.first("count the open records of pool " + poolId, "SELECT COUNT(*) FROM queue_entries q"
+                + " JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+                + " WHERE q.pool_id = ? AND NOT q.done AND NOT q.reserve AND NOT " + HELD,
+                rs -> rs.getInt(1), poolId, clock.instant()).orElse(0);
     }
 
     /**
-     * Leases the record at {@code row} to {@code person} if the served queue holds it, whoever held
-     * it before: after taking back a label, its record comes back to the one who labelled it.
+     * Names of the pools that need a round to serve them, among those with records nobody has
+     * labelled: every pool with no served queue, and (when {@code shortAt} is not negative) every
+     * pool whose served batch is short: at most {@code shortAt} of its places open, or at most half.
      */
-    public void leaseRow(long poolId, long row, String person, Duration lease) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement u = c.prepareStatement("UPDATE queue_entries SET leased_to = ?, lease_until = ?"
-                     + " WHERE pool_id = ? AND row_no = ? AND round_no = (SELECT round_no FROM served_queues"
-                     + " WHERE pool_id = ?)")) {
-            u.setString(1, person);
-            u.setTimestamp(2, Timestamp.from(clock.instant().plus(lease)));
-            u.setLong(3, poolId);
-            u.setLong(4, row);
-            u.setLong(5, poolId);
-            u.executeUpdate();
-        } catch (SQLException e) {
-            throw new StoreException("cannot lease row " + row + ": " + e.getMessage(), e);
+    public List<String> poolsToServe(int shortAt) {
+        record Pool(long id, String name, long records, boolean served) {
         }
+        List<Pool> pools = sql.list("find the pools to serve", "SELECT p.id, p.name, p.record_count,"
+                + " s.round_no IS NOT NULL FROM pools p LEFT JOIN served_queues s ON s.pool_id = p.id"
+                + (shortAt < 0 ? " WHERE s.round_no IS NULL" : "") + " ORDER BY p.name",
+                rs -> new Pool(rs.getLong(1), rs.getString(2), rs.getLong(3), rs.getBoolean(4)));
+        List<String> out = new ArrayList<>();
+        for (Pool p : pools) {
+            if ((!p.served() || isShort(p.id(), shortAt)) && labelledRecords(p.id()) < p.records()) {
+                out.add(p.name());
+            }
+        }
+        return out;
     }
 
-    /** The served queue in order, with its leases and whether each record is done (labelled enough, or decided). */
+    private boolean isShort(long poolId, int shortAt) {
+        int places = sql.first("count the batch of pool " + poolId, "SELECT COUNT(*) FROM queue_entries q"
+                + " JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+                + " WHERE q.pool_id = ? AND NOT q.reserve", rs -> rs.getInt(1), poolId).orElse(0);
+        int open = openInBatch(poolId);
+        return shortAt >= 0 && (open <= shortAt || 2 * open <= places);
+    }
+
+    /** Records of the pool that anyone has labelled or a reviewer decided, withdrawn labels included. */
+    private long labelledRecords(long poolId) {
+        return sql.first("count the labelled records of pool " + poolId, "SELECT COUNT(DISTINCT row_no) FROM labels"
+                + " WHERE pool_id = ?", rs -> rs.getLong(1), poolId).orElse(0L);
+    }
+
+    /**
+     * The served queue in order with who holds what, and whether each record is done. Reserve places
+     * that nobody has touched yet are left out; {@link #reserveLeft} counts them.
+     */
     public List<Served> served(long poolId) {
-        List<Served> out = new ArrayList<>();
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check,"
-                     + " q.prediction, q.leased_to, q.lease_until, q.done, q.copies, q.pick_probability"
-                     + " FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
-                     + " WHERE q.pool_id = ? ORDER BY q.position")) {
-            q.setLong(1, poolId);
-            try (ResultSet rs = q.executeQuery()) {
-                while (rs.next()) {
-                    Timestamp until = rs.getTimestamp(8);
-                    out.add(new Served(new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getDouble(4),
-                            rs.getBoolean(5), rs.getString(6), rs.getString(7),
-                            until == null ? null : until.toInstant(), rs.getInt(10), probability(rs, 11)),
-                            rs.getBoolean(9)));
-                }
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the served queue of pool " + poolId + ": " + e.getMessage(), e);
-        }
-        return out;
+        Instant now = clock.instant();
+        return sql.list("read the served queue of pool " + poolId, "SELECT " + COLUMNS
+                + ", h.person, h.lease_until, q.done, (SELECT COUNT(*) " + LIVE_LABELS + ")"
+                + " FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+                + " LEFT JOIN leases h ON h.pool_id = q.pool_id AND h.row_no = q.row_no AND h.lease_until > ?"
+                + " WHERE q.pool_id = ? AND (NOT q.reserve OR q.done OR h.person IS NOT NULL"
+                + " OR (SELECT COUNT(*) " + LIVE_LABELS + ") > 0) ORDER BY q.position",
+                rs -> {
+                    // The entry's own columns come first (COLUMNS), then the lease, the flag and the live labels.
+                    int after = COLUMNS.split(",").length;
+                    QueueEntry e = entry(rs, rs.getString(after + 1), Sql.instant(rs, after + 2));
+                    boolean done = rs.getBoolean(after + 3);
+                    return new Served(e, done, e.copies() == 2 && !done && rs.getInt(after + 4) == 1);
+                }, now, poolId);
     }
 
-    /**
-     * Entries of the served queue that one person has labelled and a second still should: a new
-     * queue carries them over, so that a round never cuts a pair of labels in half.
-     */
-    public List<QueueEntry> awaitingSecondLabel(long poolId) {
-        List<QueueEntry> out = new ArrayList<>();
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT q.round_no, q.position, q.row_no, q.score, q.spot_check,"
-                     + " q.prediction, q.pick_probability FROM queue_entries q JOIN served_queues s"
-                     + " ON s.pool_id = q.pool_id AND s.round_no = q.round_no WHERE q.pool_id = ? AND q.copies = 2"
-                     + " AND NOT q.done"
-                     + " AND (SELECT COUNT(*) " + LIVE_LABELS + ") > 0 ORDER BY q.position")) {
-            q.setLong(1, poolId);
-            try (ResultSet rs = q.executeQuery()) {
-                while (rs.next()) {
-                    out.add(new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getDouble(4),
-                            rs.getBoolean(5), rs.getString(6), null, null, 2, probability(rs, 7)));
-                }
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the served queue of pool " + poolId + ": " + e.getMessage(), e);
-        }
-        return out;
+    /** Reserve places of the served queue that nobody has taken yet. */
+    public int reserveLeft(long poolId) {
+        return sql.first("count the reserve of pool " + poolId, "SELECT COUNT(*) FROM queue_entries q"
+                + " JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+                + " WHERE q.pool_id = ? AND q.reserve AND NOT q.done AND NOT " + HELD
+                + " AND (SELECT COUNT(*) " + LIVE_LABELS + ") = 0", rs -> rs.getInt(1), poolId, clock.instant())
+                .orElse(0);
     }
 
     /** Every spot check ever queued for the pool, oldest round first: the model's belief at queue time. */
     public List<QueueEntry> spotChecks(long poolId) {
-        List<QueueEntry> out = new ArrayList<>();
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT round_no, position, row_no, score, prediction"
-                     + " FROM queue_entries WHERE pool_id = ? AND spot_check ORDER BY round_no, position")) {
-            q.setLong(1, poolId);
-            try (ResultSet rs = q.executeQuery()) {
-                while (rs.next()) {
-                    out.add(new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getDouble(4), true,
-                            rs.getString(5), null, null));
-                }
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the spot checks of pool " + poolId + ": " + e.getMessage(), e);
-        }
-        return out;
+        return sql.list("read the spot checks of pool " + poolId, "SELECT " + COLUMNS + " FROM queue_entries q"
+                + " WHERE q.pool_id = ? AND q.spot_check ORDER BY q.round_no, q.position",
+                rs -> entry(rs, null, null), poolId);
     }
 
     /**
@@ -297,26 +247,14 @@ public final class QueueStore {
     }
 
     /**
-     * Every record a round picked itself (not those carried over), oldest round first and in pick
-     * order within a round: what the accuracy estimates weigh the labels by.
+     * Every record a round picked itself (not those carried over, nor its reserve), oldest round
+     * first and in pick order within a round: what the accuracy estimates weigh the labels by.
      */
     public List<Picked> picks(long poolId) {
-        List<Picked> out = new ArrayList<>();
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT round_no, pick_order, row_no, spot_check,"
-                     + " pick_probability, prediction FROM queue_entries WHERE pool_id = ? AND pick_order IS NOT NULL"
-                     + " ORDER BY round_no, pick_order")) {
-            q.setLong(1, poolId);
-            try (ResultSet rs = q.executeQuery()) {
-                while (rs.next()) {
-                    out.add(new Picked(rs.getInt(1), rs.getInt(2), rs.getLong(3), rs.getBoolean(4), probability(rs, 5),
-                            rs.getString(6)));
-                }
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the picks of pool " + poolId + ": " + e.getMessage(), e);
-        }
-        return out;
+        return sql.list("read the picks of pool " + poolId, "SELECT round_no, pick_order, row_no, spot_check,"
+                + " pick_probability, prediction FROM queue_entries WHERE pool_id = ? AND pick_order IS NOT NULL"
+                + " ORDER BY round_no, pick_order", rs -> new Picked(rs.getInt(1), rs.getInt(2), rs.getLong(3),
+                rs.getBoolean(4), Sql.nullableDouble(rs, 5), rs.getString(6)), poolId);
     }
 
     /**
@@ -325,41 +263,48 @@ public final class QueueStore {
      */
     public Map<Long, QueueEntry> firstQueued(long poolId) {
         Map<Long, QueueEntry> out = new HashMap<>();
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT round_no, position, row_no, score, spot_check, prediction,"
-                     + " copies FROM queue_entries WHERE pool_id = ? ORDER BY round_no, position")) {
-            q.setFetchSize(4_096);
-            q.setLong(1, poolId);
-            try (ResultSet rs = q.executeQuery()) {
-                while (rs.next()) {
-                    out.putIfAbsent(rs.getLong(3), new QueueEntry(rs.getInt(1), rs.getInt(2), rs.getLong(3),
-                            rs.getDouble(4), rs.getBoolean(5), rs.getString(6), null, null, rs.getInt(7)));
-                }
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the queues of pool " + poolId + ": " + e.getMessage(), e);
-        }
+        sql.list("read the queues of pool " + poolId, "SELECT " + COLUMNS + " FROM queue_entries q WHERE q.pool_id = ?"
+                + " ORDER BY q.round_no, q.position", rs -> out.putIfAbsent(rs.getLong(3), entry(rs, null, null)), poolId);
         return out;
     }
 
-    /** Gives a lease back early (a skip): the record is free for the next person at once. */
-    public void release(long poolId, int round, int position, String person) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement u = c.prepareStatement("UPDATE queue_entries SET leased_to = NULL, lease_until = NULL"
-                     + " WHERE pool_id = ? AND round_no = ? AND position = ? AND leased_to = ?")) {
-            u.setLong(1, poolId);
-            u.setInt(2, round);
-            u.setInt(3, position);
-            u.setString(4, person);
-            u.executeUpdate();
-        } catch (SQLException e) {
-            throw new StoreException("cannot release the lease: " + e.getMessage(), e);
-        }
-    }
-
-    /** A pick's probability, or null where none was kept. */
-    private static Double probability(ResultSet rs, int column) throws SQLException {
-        double q = rs.getDouble(column);
-        return rs.wasNull() ? null : q;
+    /**
+     * The last resort of a desk with nothing left for a person while records remain: appends up to
+     * {@value #RANDOM_APPEND} records, drawn from scattered places of the pool, that nobody labelled
+     * and the served queue does not hold, as reserve places without a score. Returns how many it
+     * appended.
+     */
+    int appendRandom(long poolId) {
+        return sql.transaction("add records to the queue of pool " + poolId, c -> {
+            Optional<Integer> round = Sql.first(c, "SELECT round_no FROM served_queues WHERE pool_id = ? FOR UPDATE",
+                    rs -> rs.getInt(1), poolId);
+            long records = Sql.first(c, "SELECT record_count FROM pools WHERE id = ?", rs -> rs.getLong(1), poolId)
+                    .orElse(0L);
+            if (round.isEmpty() || records == 0) {
+                return 0;
+            }
+            int next = Sql.first(c, "SELECT COALESCE(MAX(position) + 1, 0) FROM queue_entries WHERE pool_id = ?"
+                    + " AND round_no = ?", rs -> rs.getInt(1), poolId, round.get()).orElse(0);
+            // A walk through every row in a scattered order (a random start, a random step prime to the
+            // count), so a small pool is searched to the end and a large one from random places.
+            ThreadLocalRandom rng = ThreadLocalRandom.current();
+            long start = rng.nextLong(records);
+            long step = records == 1 ? 1 : 1 + rng.nextLong(records - 1);
+            while (gcd(step, records) != 1) {
+                step = step % (records - 1) + 1;
+            }
+            List<QueueEntry> added = new ArrayList<>();
+            for (long k = 0; k < Math.min(records, MAX_PROBES) && added.size() < RANDOM_APPEND; k++) {
+                long row = Math.floorMod(start + k * step, records);
+                if (Sql.first(c, "SELECT 1 FROM labels WHERE pool_id = ? AND row_no = ?"
+                        + " UNION ALL SELECT 1 FROM queue_entries WHERE pool_id = ? AND round_no = ? AND row_no = ?",
+                        rs -> 1, poolId, row, poolId, round.get(), row).isEmpty()) {
+                    added.add(new QueueEntry(round.get(), next + added.size(), row, 0, false, null, null, null, 1, null,
+                            null, true));
+                }
+            }
+            insert(c, poolId, added);
+            return added.size();
+        });
     }
 }

@@ -2,6 +2,8 @@ package dev.dowser.store;
 
 import dev.dowser.labels.LabelRow;
 import dev.dowser.labels.Resolution;
+import dev.dowser.records.KeyIndex;
+import dev.dowser.records.RecordBlock;
 import java.io.IOException;
 import java.io.InputStream;
 import java.sql.Connection;
@@ -59,12 +61,14 @@ public final class RecordStore {
         }
         long end = offset + limit;
         if (limit == 1) {
-            RecordRow cached = cache.get(poolId, offset);
-            if (cached != null) {
-                LabelRow[] label = new LabelRow[1];
-                labels.forEachCurrent(poolId, offset, end, l -> label[0] = l);
-                return List.of(cached.withLabel(label[0]));
+            // One record (the desk's): through the cache, so the label that follows finds it there.
+            RecordRow one = decode(poolId, new long[] {offset}).get(offset);
+            if (one == null) {
+                return List.of();
             }
+            LabelRow[] label = new LabelRow[1];
+            labels.forEachCurrent(poolId, offset, end, l -> label[0] = l);
+            return List.of(one.withLabel(label[0]));
         }
         Map<Long, LabelRow> current = new HashMap<>();
         labels.forEachCurrent(poolId, offset, end, l -> current.put(l.row(), l));
@@ -163,6 +167,14 @@ public final class RecordStore {
 
     public Optional<RecordRow> find(long poolId, String key) {
         return rowOf(poolId, key).map(row -> page(poolId, row, 1).get(0));
+    }
+
+    /**
+     * Builds the pool's id index now (reading every block's ids), so that the first label after a
+     * start does not wait for it while people are at the desk.
+     */
+    public void warmKeys(long poolId) {
+        index(poolId);
     }
 
     /** The place in the pool of the record with id {@code key}, if there is one. */

@@ -2,6 +2,7 @@ package dev.dowser.team;
 
 import dev.dowser.data.ColumnRoles;
 import dev.dowser.labels.Resolution;
+import dev.dowser.labels.Verdict;
 import dev.dowser.store.Database;
 import dev.dowser.store.LabelStore;
 import dev.dowser.store.PoolRow;
@@ -150,14 +151,14 @@ public final class Reviews {
     }
 
     /** A reviewer's accept (the people's label becomes final) or override (a label and a reason). */
-    public Resolution decide(String poolName, String record, Caller reviewer, String verdict, String label,
+    public Resolution decide(String poolName, String record, Caller reviewer, Verdict verdict, String label,
                              String reason) {
         PoolRow pool = db.pools().require(poolName);
         long row = db.records().requireRow(pool, record);
         if (label != null) {
             pool.checkClass(label);
         }
-        if (LabelStore.KIND_OVERRIDE.equals(verdict) && label == null) {
+        if (verdict == Verdict.OVERRIDE && label == null) {
             throw new IllegalArgumentException("an override needs the label you choose");
         }
         return db.labels().review(pool.id(), row, reviewer.name(), verdict, label, reason);

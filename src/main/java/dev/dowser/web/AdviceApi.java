@@ -9,7 +9,6 @@ import dev.dowser.advice.ChainAdvice;
 import dev.dowser.rounds.AdviceService;
 import dev.dowser.advice.StopAdvice;
 import dev.dowser.json.Json;
-import dev.dowser.rounds.PoolSettings;
 import dev.dowser.stats.AccuracyEstimate;
 import dev.dowser.stats.LearningCurve;
 import dev.dowser.store.RoundStore;
@@ -80,8 +79,7 @@ final class AdviceApi {
     }
 
     /** A round's chain health in plain words, as the rounds list shows it. */
-    static ObjectNode chains(ObjectNode n, String healthJson, String samplerJson, PoolSettings.Sampling now) {
-        ChainAdvice c = AdviceService.chains(healthJson, samplerJson, now);
+    static ObjectNode chains(ObjectNode n, ChainAdvice c) {
         n.put("level", c.level()).put("summary", c.summary()).put("rhat_ceiling", c.rhatCeiling())
                 .put("ess_floor", c.essFloor());
         ArrayNode points = n.putArray("points");

@@ -13,6 +13,8 @@ import com.fasterxml.jackson.databind.node.ObjectNode;
 import dev.dowser.desk.Desk;
 import dev.dowser.desk.Offer;
 import dev.dowser.json.Json;
+import dev.dowser.team.Caller;
+import dev.dowser.team.Role;
 import io.undertow.server.HttpServerExchange;
 import java.io.IOException;
 
@@ -27,7 +29,8 @@ final class DeskApi {
 
     /** Leases the next record of the served queue to the signed-in person. */
     void next(HttpServerExchange ex) {
-        Offer o = desk.next(param(ex, "pool"), Gate.caller(ex, true).name());
+        Caller caller = Gate.caller(ex, true);
+        Offer o = desk.next(param(ex, "pool"), caller.name(), caller.role().atLeast(Role.REVIEWER));
         ObjectNode body = Json.object();
         if (o.empty()) {
             body.putNull("record").put("message", o.message());
@@ -44,10 +47,18 @@ final class DeskApi {
         Responses.ok(ex, Views.progress(body, o.progress()));
     }
 
-    /** Gives the record back to the queue at once. */
+    /** Gives the record back to the queue at once; it is not offered to this person again while anything else is open. */
     void skip(HttpServerExchange ex) throws IOException {
         JsonNode body = jsonBody(ex, "a skip");
         desk.skip(param(ex, "pool"), Gate.caller(ex, true).name(), requiredInt(body, "round"),
+                requiredInt(body, "position"));
+        Responses.ok(ex, Json.object().put("released", true));
+    }
+
+    /** Gives the record back to the queue at once, as when the desk's page closes; anyone may get it next. */
+    void release(HttpServerExchange ex) throws IOException {
+        JsonNode body = jsonBody(ex, "a release");
+        desk.release(param(ex, "pool"), Gate.caller(ex, true).name(), requiredInt(body, "round"),
                 requiredInt(body, "position"));
         Responses.ok(ex, Json.object().put("released", true));
     }

@@ -68,7 +68,7 @@ final class Events implements RoundEvents, LabelEvents {
 
     @Override
     public void roundEnded(String pool, RoundService.Outcome o) {
-        send(pool, "round", Json.object().put("round", o.round()).put("status", o.status()).put("queued", o.queued())
+        send(pool, "round", Json.object().put("round", o.round()).put("status", o.status().word()).put("queued", o.queued())
                 .put("kernel", o.kernel()).put("message", o.message()).put("seconds", o.seconds()));
     }
 

@@ -6,29 +6,29 @@ import static dev.dowser.web.Requests.query;
 
 import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
-import dev.dowser.data.ColumnRoles;
 import dev.dowser.data.Exporter;
 import dev.dowser.data.FeatureColumn;
 import dev.dowser.data.FeatureKind;
 import dev.dowser.data.FileFormat;
 import dev.dowser.data.PoolDescription;
-import dev.dowser.desk.RecordView;
+import dev.dowser.desk.Overview;
 import dev.dowser.json.Json;
 import dev.dowser.store.Database;
-import dev.dowser.store.PoolRow;
 import dev.dowser.store.PoolSummary;
-import dev.dowser.store.RecordRow;
 import io.undertow.server.HttpServerExchange;
 import io.undertow.util.Headers;
-import java.util.List;
 
 /** The pools: the list, one pool's classes, columns and features, its records page by page, and its export. */
 final class PoolsApi {
 
     private final Database db;
+    private final Overview overview;
+    private final Exporter exporter;
 
-    PoolsApi(Database db) {
+    PoolsApi(Database db, Overview overview) {
         this.db = db;
+        this.overview = overview;
+        this.exporter = new Exporter(db);
     }
 
     void listPools(HttpServerExchange ex) {
@@ -72,36 +72,30 @@ final class PoolsApi {
     }
 
     void records(HttpServerExchange ex) {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
-        long offset = longQuery(ex, "offset", 0);
-        int limit = (int) longQuery(ex, "limit", Requests.DEFAULT_PAGE);
-        List<String> display = ColumnRoles.parse(pool.columnRolesJson()).display();
+        Overview.RecordsPage page = overview.records(param(ex, "pool"), longQuery(ex, "offset", 0),
+                (int) longQuery(ex, "limit", Requests.DEFAULT_PAGE));
         ArrayNode rows = Json.array();
-        for (RecordRow r : db.records().page(pool.id(), offset, limit)) {
-            rows.add(Views.record(RecordView.of(r, display)));
-        }
-        ObjectNode body = Json.object().put("offset", offset).put("limit", limit).put("total", pool.recordCount());
+        page.records().forEach(r -> rows.add(Views.record(r)));
+        ObjectNode body = Json.object().put("offset", page.offset()).put("limit", page.limit())
+                .put("total", page.total());
         body.set("records", rows);
         Responses.ok(ex, body);
     }
 
     /** The export's metadata: the pool, its classes with their keys and counts, and what each field means. */
     void exportMetadata(HttpServerExchange ex) {
-        Responses.ok(ex, new Exporter(db).metadata(param(ex, "pool")));
+        Responses.ok(ex, exporter.metadata(param(ex, "pool")));
     }
 
     void export(HttpServerExchange ex) {
-        String name = param(ex, "pool");
-        db.pools().require(name);
-        FileFormat format = FileFormat.parse(query(ex, "format", "csv"));
-        Exporter.Formulas formulas = Exporter.Formulas.parse(query(ex, "formulas", "escape"));
+        Exporter.Export export = exporter.open(param(ex, "pool"), FileFormat.parse(query(ex, "format", "csv")),
+                Exporter.Formulas.parse(query(ex, "formulas", "escape")));
         ex.startBlocking();
-        ex.getResponseHeaders().put(Headers.CONTENT_TYPE,
-                format == FileFormat.CSV ? "text/csv; charset=utf-8" : "application/x-ndjson; charset=utf-8");
-        ex.getResponseHeaders().put(Headers.CONTENT_DISPOSITION,
-                "attachment; filename=\"" + name + "-labels." + format.word() + "\"");
+        ex.getResponseHeaders().put(Headers.CONTENT_TYPE, export.format() == FileFormat.CSV
+                ? "text/csv; charset=utf-8" : "application/x-ndjson; charset=utf-8");
+        ex.getResponseHeaders().put(Headers.CONTENT_DISPOSITION, "attachment; filename=\"" + export.fileName() + "\"");
         // Labels and the people who gave them: no copy kept by browsers or proxies.
         ex.getResponseHeaders().put(Headers.CACHE_CONTROL, "no-store");
-        new Exporter(db).export(name, format, formulas, ex.getOutputStream());
+        export.writeTo(ex.getOutputStream());
     }
 }

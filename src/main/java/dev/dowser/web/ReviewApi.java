@@ -11,6 +11,7 @@ import com.fasterxml.jackson.databind.node.ObjectNode;
 import dev.dowser.desk.RecordView;
 import dev.dowser.json.Json;
 import dev.dowser.labels.Resolution;
+import dev.dowser.labels.Verdict;
 import dev.dowser.store.LabelStore;
 import dev.dowser.team.Agreement;
 import dev.dowser.team.Reviews;
@@ -56,9 +57,12 @@ final class ReviewApi {
     void decide(HttpServerExchange ex) throws IOException {
         JsonNode body = jsonBody(ex, "a review");
         String record = requiredText(body, "record");
-        String verdict = requiredText(body, "verdict");
-        if (!verdict.equals(LabelStore.KIND_ACCEPT) && !verdict.equals(LabelStore.KIND_OVERRIDE)) {
-            throw new ApiException(400, "field 'verdict' must be accept or override, got '" + verdict + "'");
+        String word = requiredText(body, "verdict");
+        Verdict verdict;
+        try {
+            verdict = Verdict.parse(word);
+        } catch (IllegalArgumentException e) {
+            throw new ApiException(400, "field 'verdict' must be accept or override, got '" + word + "'");
         }
         Resolution r = reviews.decide(param(ex, "pool"), record, Gate.caller(ex, true), verdict,
                 optionalText(body, "label"), optionalText(body, "reason"));
@@ -101,7 +105,7 @@ final class ReviewApi {
                     .put("note", o.note());
         }
         if (r.review() != null) {
-            n.putObject("review").put("reviewer", r.review().reviewer()).put("verdict", r.review().verdict())
+            n.putObject("review").put("reviewer", r.review().reviewer()).put("verdict", r.review().verdict().word())
                     .put("label", r.review().label()).put("reason", r.review().reason())
                     .put("at", r.review().at().toString());
         }

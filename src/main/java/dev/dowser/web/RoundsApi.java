@@ -7,15 +7,11 @@ import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import dev.dowser.desk.Desk;
-import dev.dowser.desk.Progress;
+import dev.dowser.desk.Overview;
 import dev.dowser.desk.QueuePlace;
 import dev.dowser.json.Json;
 import dev.dowser.rounds.PoolSettings;
-import dev.dowser.rounds.RoundWorkers;
 import dev.dowser.rounds.Strategy;
-import dev.dowser.store.Database;
-import dev.dowser.store.HistoryStore;
-import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
 import dev.dowser.store.RoundStore;
 import dev.dowser.team.Role;
@@ -31,55 +27,45 @@ final class RoundsApi {
     static final List<String> SETTINGS = List.of("batch_size", "spot_check_share", "lease_minutes", "strategy",
             "double_label_share", "chains", "draws", "reburn_in_steps", "stop_agreement");
 
-    /** Most rounds in one answer; older ones are paged. */
-    static final int MAX_ROUNDS_PAGE = 200;
-
-    private final Database db;
-    private final RoundWorkers rounds;
+    private final Overview overview;
     private final Desk desk;
 
-    RoundsApi(Database db, RoundWorkers rounds, Desk desk) {
-        this.db = db;
-        this.rounds = rounds;
+    RoundsApi(Overview overview, Desk desk) {
+        this.overview = overview;
         this.desk = desk;
     }
 
     /** The rounds, newest first, {@code limit} from {@code offset}, with how many there are. */
     void list(HttpServerExchange ex) {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
-        PoolSettings settings = PoolSettings.parse(pool.settingsJson());
-        int offset = (int) Requests.longQuery(ex, "offset", 0);
-        int limit = (int) Requests.longQuery(ex, "limit", MAX_ROUNDS_PAGE);
-        if (offset < 0 || limit < 1 || limit > MAX_ROUNDS_PAGE) {
-            throw new ApiException(400, "offset must be 0 or more and limit 1 to " + MAX_ROUNDS_PAGE);
-        }
-        List<RoundStore.RoundRow> all = db.rounds().list(pool.id());
+        Overview.RoundsPage page = overview.rounds(param(ex, "pool"),
+                Requests.intQuery(ex, "offset", 0, 0, Integer.MAX_VALUE),
+                Requests.intQuery(ex, "limit", Overview.MAX_ROUNDS_PAGE, 1, Overview.MAX_ROUNDS_PAGE));
         ArrayNode out = Json.array();
-        for (RoundStore.RoundRow r : all.subList(Math.min(offset, all.size()), Math.min(all.size(), offset + limit))) {
-            ObjectNode n = out.addObject().put("round", r.round()).put("status", r.status())
+        for (Overview.RoundLine line : page.rounds()) {
+            RoundStore.RoundRow r = line.round();
+            ObjectNode n = out.addObject().put("round", r.round()).put("status", r.status().word())
                     .put("started_at", r.startedAt().toString()).put("finished_at", Views.time(r.finishedAt()))
                     .put("labels_at_start", r.labelsAtStart()).put("kernel", r.kernel()).put("message", r.message());
             if (r.finishedAt() != null) {
                 n.put("seconds", (r.finishedAt().toEpochMilli() - r.startedAt().toEpochMilli()) / 1000.0);
             }
-            if (r.healthJson() != null) {
+            if (line.chains() != null) {
                 n.set("health", Json.tree(r.healthJson()));
-                AdviceApi.chains(n.putObject("advice"), r.healthJson(), r.samplerJson(),
-                        settings.sampling(rounds.sampler()));
+                AdviceApi.chains(n.putObject("advice"), line.chains());
             }
         }
-        ObjectNode body = Json.object().put("total", all.size()).put("offset", offset).put("limit", limit);
+        ObjectNode body = Json.object().put("total", page.total()).put("offset", page.offset())
+                .put("limit", page.limit());
         body.set("rounds", out);
-        Progress p = desk.progress(pool.name());
-        if (p.servedRound() != null) {
-            body.put("served_round", p.servedRound());
+        if (page.progress().servedRound() != null) {
+            body.put("served_round", page.progress().servedRound());
         }
-        body.put("labels_to_next_round", p.labelsToNextRound());
+        body.put("labels_to_next_round", page.progress().labelsToNextRound());
         Responses.ok(ex, body);
     }
 
     void request(HttpServerExchange ex) {
-        rounds.worker(db.pools().require(param(ex, "pool")).name()).request();
+        overview.requestRound(param(ex, "pool"));
         Responses.json(ex, 202, Json.object().put("requested", true));
     }
 
@@ -93,6 +79,7 @@ final class RoundsApi {
             entries.addObject().put("position", e.position()).put("record", place.record()).put("score", e.score())
                     .put("scored", place.scored()).put("spot_check", e.spotCheck()).put("copies", e.copies())
                     .put("labelled", place.done()).put("waiting_for_second", place.waitingForSecond())
+                    .put("reserve", e.reserve())
                     .put("label", place.label()).put("leased_to", e.leasedTo())
                     .put("lease_until", Views.time(e.leaseUntil()));
         }
@@ -105,12 +92,11 @@ final class RoundsApi {
     }
 
     void settings(HttpServerExchange ex) {
-        Responses.ok(ex, settingsJson(PoolSettings.parse(db.pools().require(param(ex, "pool")).settingsJson())));
+        Responses.ok(ex, settingsJson(overview.settings(param(ex, "pool"))));
     }
 
     /** Changes some of the settings; fields not named keep their value, unknown fields are refused. */
     void changeSettings(HttpServerExchange ex) throws IOException {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
         JsonNode body = jsonBody(ex, "a settings change");
         for (Iterator<Map.Entry<String, JsonNode>> it = body.fields(); it.hasNext(); ) {
             String field = it.next().getKey();
@@ -119,36 +105,39 @@ final class RoundsApi {
                         + String.join(", ", SETTINGS));
             }
         }
-        PoolSettings now = PoolSettings.parse(pool.settingsJson());
-        PoolSettings.Sampling sampling = now.sampling(rounds.sampler());
-        boolean ownSampling = body.has("chains") || body.has("draws") || body.has("reburn_in_steps");
-        PoolSettings next = new PoolSettings(Requests.optionalInt(body, "batch_size", now.batchSize()),
-                Requests.optionalNumber(body, "spot_check_share", now.spotCheckShare()),
-                Requests.optionalInt(body, "lease_minutes", now.leaseMinutes()),
-                body.has("strategy") ? Strategy.parse(body.get("strategy").asText()) : now.strategy(),
-                Requests.optionalNumber(body, "double_label_share", now.doubleLabelShare()),
-                ownSampling ? new PoolSettings.Sampling(Requests.optionalInt(body, "chains", sampling.chains()),
-                        Requests.optionalInt(body, "draws", sampling.draws()),
-                        Requests.optionalInt(body, "reburn_in_steps", sampling.reburnInSteps())) : now.sampling(),
-                Requests.optionalNumber(body, "stop_agreement", now.stopAgreement()));
-        Responses.ok(ex, settingsJson(rounds.changeSettings(pool.name(), next, Gate.caller(ex, true).name())));
+        PoolSettings.Change change = new PoolSettings.Change(optionalInt(body, "batch_size"),
+                optionalNumber(body, "spot_check_share"), optionalInt(body, "lease_minutes"),
+                body.has("strategy") ? Strategy.parse(body.get("strategy").asText()) : null,
+                optionalNumber(body, "double_label_share"), optionalInt(body, "chains"), optionalInt(body, "draws"),
+                optionalInt(body, "reburn_in_steps"), optionalNumber(body, "stop_agreement"));
+        Responses.ok(ex, settingsJson(overview.changeSettings(param(ex, "pool"), change,
+                Gate.caller(ex, true).name())));
     }
 
     /** Every change of the pool's settings, oldest first: who, when, before and after. */
     void settingsHistory(HttpServerExchange ex) {
-        PoolRow pool = db.pools().require(param(ex, "pool"));
         ArrayNode changes = Json.array();
-        for (HistoryStore.Change c : db.history().of(pool.id(), "settings")) {
-            ObjectNode n = changes.addObject().put("by", c.actor()).put("at", c.at().toString());
-            n.set("before", c.before() == null ? null : settingsJson(PoolSettings.parse(c.before())));
-            n.set("after", settingsJson(PoolSettings.parse(c.after())));
+        for (Overview.SettingsChange c : overview.settingsHistory(param(ex, "pool"))) {
+            ObjectNode n = changes.addObject().put("by", c.by()).put("at", c.at().toString());
+            n.set("before", c.before() == null ? null : settingsJson(c.before()));
+            n.set("after", settingsJson(c.after()));
         }
         Responses.ok(ex, Json.object().set("changes", changes));
     }
 
+    /** A field that may be absent: null then. */
+    private static Integer optionalInt(JsonNode body, String field) {
+        return body.has(field) ? Requests.optionalInt(body, field, 0) : null;
+    }
+
+    private static Double optionalNumber(JsonNode body, String field) {
+        return body.has(field) ? Requests.optionalNumber(body, field, 0) : null;
+    }
+
     /** The settings as the API names them; chains, draws and re-burn-in as in force (the pool's own or the server's). */
-    private ObjectNode settingsJson(PoolSettings s) {
-        PoolSettings.Sampling sampling = s.sampling(rounds.sampler());
+    private static ObjectNode settingsJson(Overview.Settings in) {
+        PoolSettings s = in.settings();
+        PoolSettings.Sampling sampling = in.sampling();
         return Json.object().put("batch_size", s.batchSize()).put("spot_check_share", s.spotCheckShare())
                 .put("lease_minutes", s.leaseMinutes()).put("strategy", s.strategy().word())
                 .put("double_label_share", s.doubleLabelShare()).put("chains", sampling.chains())

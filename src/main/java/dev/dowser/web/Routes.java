@@ -57,6 +57,7 @@ final class Routes {
                 call("POST", "/previews", ADMINS, Route.Body.FILE_HEAD, imports::preview),
                 call("POST", "/pools/{pool}/queue/next", ANYONE_SIGNED_IN, desk::next),
                 call("POST", "/pools/{pool}/queue/skip", ANYONE_SIGNED_IN, desk::skip),
+                call("POST", "/pools/{pool}/queue/release", ANYONE_SIGNED_IN, desk::release),
                 call("POST", "/pools/{pool}/labels", ANYONE_SIGNED_IN, desk::label),
                 call("POST", "/pools/{pool}/labels/undo", ANYONE_SIGNED_IN, desk::undo),
                 call("GET", "/pools/{pool}/labels/mine", ANYONE_SIGNED_IN, desk::mine),

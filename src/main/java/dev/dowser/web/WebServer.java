@@ -1,6 +1,7 @@
 package dev.dowser.web;
 
 import dev.dowser.desk.Desk;
+import dev.dowser.desk.Overview;
 import dev.dowser.rounds.AdviceService;
 import dev.dowser.rounds.RoundWorkers;
 import dev.dowser.sampler.SamplerConfig;
@@ -120,11 +121,14 @@ public final class WebServer implements AutoCloseable {
         ImportJobs imports = new ImportJobs(db, config);
         Events events = new Events();
         RoundWorkers rounds = new RoundWorkers(db, sampler, events);
+        // Rounds a killed server left running are marked interrupted, short queues refilled, new pools served.
+        rounds.watch();
         Accounts accounts = new Accounts(db, new SecureRandom(), team);
         Desk desk = new Desk(db, rounds, events);
         HttpHandler files = StaticFiles.handler();
-        Routes routes = new Routes(new TeamApi(accounts), new PoolsApi(db), new ImportsApi(imports, config),
-                new DeskApi(desk), new RoundsApi(db, rounds, desk), new AdviceApi(new AdviceService(db)),
+        Overview overview = new Overview(db, rounds);
+        Routes routes = new Routes(new TeamApi(accounts), new PoolsApi(db, overview), new ImportsApi(imports, config),
+                new DeskApi(desk), new RoundsApi(overview, desk), new AdviceApi(new AdviceService(db)),
                 new ReviewApi(new Reviews(db)), events.handler(), files);
         Door door = new Door(config.limits());
         services = new Services(imports, rounds, events, accounts, routes, door);

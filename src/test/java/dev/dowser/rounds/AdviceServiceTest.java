@@ -51,8 +51,13 @@ class AdviceServiceTest {
 
     private static void labelServedQueue(Database db, PoolRow pool) {
         for (int i = 0; i < 200; i++) {
-            Optional<QueueEntry> e = db.queues().lease(pool.id(), "person-" + (i % 2), Duration.ofMinutes(10));
+            Optional<QueueEntry> e = db.leases().lease(pool.id(), "person-" + (i % 2), Duration.ofMinutes(10));
             if (e.isEmpty()) {
+                return;
+            }
+            if (e.get().reserve()) {
+                // The batch is labelled; the next-best records after it are not this round's picks.
+                db.leases().release(pool.id(), e.get().round(), e.get().position(), "person-" + (i % 2));
                 return;
             }
             db.labels().add(pool.id(), e.get().row(), truth(e.get().row()), "person-" + (i % 2), null);

@@ -16,6 +16,7 @@ import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
+import dev.dowser.store.RoundStatus;
 import dev.dowser.store.RoundStore;
 import dev.dowser.store.SavedChain;
 import java.io.IOException;
@@ -47,11 +48,19 @@ class RoundServiceTest {
         return db;
     }
 
+    /**
+     * Leases the served batch out, one person a place; stops at the first reserve place (the
+     * next-best records served after the batch), which it gives back.
+     */
     private static List<QueueEntry> drain(Database db, PoolRow pool) {
         List<QueueEntry> out = new ArrayList<>();
         for (int i = 0; i < 100; i++) {
-            Optional<QueueEntry> e = db.queues().lease(pool.id(), "person-" + i, Duration.ofMinutes(10));
+            Optional<QueueEntry> e = db.leases().lease(pool.id(), "person-" + i, Duration.ofMinutes(10));
             if (e.isEmpty()) {
+                break;
+            }
+            if (e.get().reserve()) {
+                db.leases().release(pool.id(), e.get().round(), e.get().position(), "person-" + i);
                 break;
             }
             out.add(e.get());
@@ -71,10 +80,10 @@ class RoundServiceTest {
             List<QueueEntry> queue = drain(db, pool);
             assertEquals(10, queue.size());
             assertEquals(1, queue.stream().filter(QueueEntry::spotCheck).count(), "a tenth are spot checks");
-            // Label the first batch (class by the petal length, a stand-in labeller for the test).
+            // Each person labels the record they hold (class by the petal length, a stand-in labeller).
             for (QueueEntry e : queue) {
                 db.labels().add(pool.id(), e.row(), e.row() < 50 ? "setosa" : e.row() < 100 ? "versicolor"
-                        : "virginica", "test", null);
+                        : "virginica", e.leasedTo(), null);
             }
             RoundService.Outcome second = rounds.run("iris");
             assertTrue(second.published(), second.message());
@@ -100,7 +109,7 @@ class RoundServiceTest {
                 assertEquals(1.0, Arrays.stream(kept.of(e.row())).sum(), 1e-5);
             }
             List<RoundStore.RoundRow> rows = db.rounds().list(pool.id());
-            assertEquals("published", rows.get(0).status());
+            assertEquals(RoundStatus.PUBLISHED, rows.get(0).status());
             assertTrue(rows.get(0).healthJson().contains("rhatMax"));
         }
     }
@@ -119,7 +128,7 @@ class RoundServiceTest {
             assertTrue(failed.message().contains("diverged"), failed.message());
             assertEquals(Optional.of(1), db.queues().servedRound(pool.id()), "the first round's queue stays served");
             RoundStore.RoundRow last = db.rounds().list(pool.id()).get(0);
-            assertEquals("failed", last.status());
+            assertEquals(RoundStatus.FAILED, last.status());
             assertEquals(failed.message(), last.message());
             assertFalse(drain(db, pool).isEmpty(), "the old queue still hands out records");
         }
@@ -132,7 +141,8 @@ class RoundServiceTest {
 
     private static void labelAsIris(Database db, PoolRow pool, List<QueueEntry> queue) {
         for (QueueEntry e : queue) {
-            db.labels().add(pool.id(), e.row(), pool.classes().get(irisClass(e.row())), "test", null);
+            // In the name of the person who holds it: a label by anyone else leaves the holder's place open.
+            db.labels().add(pool.id(), e.row(), pool.classes().get(irisClass(e.row())), e.leasedTo(), null);
         }
     }
 

@@ -11,6 +11,7 @@ import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
+import dev.dowser.store.RoundStatus;
 import dev.dowser.store.RoundStore;
 import dev.dowser.store.SavedChain;
 import java.io.IOException;
@@ -47,14 +48,14 @@ class RoundWorkerTest {
                 await(() -> worker.roundsRun() == 1, "the requested round");
                 assertTrue(worker.lastOutcome().published());
                 for (int i = 0; i < 4; i++) {
-                    QueueEntry e = db.queues().lease(pool.id(), "ana", Duration.ofMinutes(10)).orElseThrow();
+                    QueueEntry e = db.leases().lease(pool.id(), "ana", Duration.ofMinutes(10)).orElseThrow();
                     db.labels().add(pool.id(), e.row(), "setosa", "ana", null);
                     worker.labelAdded();
                 }
                 Thread.sleep(200);
                 assertEquals(1, worker.roundsRun(), "four labels of a batch of five must not start a round");
                 assertEquals(1, worker.labelsToNextRound());
-                QueueEntry e = db.queues().lease(pool.id(), "ana", Duration.ofMinutes(10)).orElseThrow();
+                QueueEntry e = db.leases().lease(pool.id(), "ana", Duration.ofMinutes(10)).orElseThrow();
                 db.labels().add(pool.id(), e.row(), "versicolor", "ana", null);
                 worker.labelAdded();
                 await(() -> worker.roundsRun() == 2, "the round after five labels");
@@ -84,7 +85,7 @@ class RoundWorkerTest {
             double seconds = (System.nanoTime() - begun) / 1e9;
             assertTrue(seconds < 10, "closing took " + seconds + " s");
             RoundStore.RoundRow round = db.rounds().list(pool.id()).get(0);
-            assertEquals("stopped", round.status(), round.message());
+            assertEquals(RoundStatus.STOPPED, round.status(), round.message());
             assertTrue(round.message().contains("safe point"), round.message());
             assertTrue(db.queues().servedRound(pool.id()).isEmpty(), "a stopped round must not publish");
             List<SavedChain> saved = db.chains().load(pool.id());

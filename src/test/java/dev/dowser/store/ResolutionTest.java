@@ -3,6 +3,7 @@ package dev.dowser.store;
 import dev.dowser.TestSupport;
 import dev.dowser.labels.LabelRow;
 import dev.dowser.labels.Resolution;
+import dev.dowser.labels.Verdict;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.List;
@@ -58,12 +59,12 @@ class ResolutionTest {
         assertEquals(Resolution.UNRESOLVED, split.status());
         assertNull(split.finalLabel());
         ConflictException accept = assertThrows(ConflictException.class,
-                () -> db.labels().review(pool, 1, "rey", LabelStore.KIND_ACCEPT, null, null));
+                () -> db.labels().review(pool, 1, "rey", Verdict.ACCEPT, null, null));
         assertEquals("people disagree on this record; override it with the label you choose and a reason",
                 accept.getMessage());
         assertEquals("an override needs a reason, kept with the label", assertThrows(IllegalArgumentException.class,
-                () -> db.labels().review(pool, 1, "rey", LabelStore.KIND_OVERRIDE, "c", " ")).getMessage());
-        Resolution decided = db.labels().review(pool, 1, "rey", LabelStore.KIND_OVERRIDE, "c", "scale reads 7.2");
+                () -> db.labels().review(pool, 1, "rey", Verdict.OVERRIDE, "c", " ")).getMessage());
+        Resolution decided = db.labels().review(pool, 1, "rey", Verdict.OVERRIDE, "c", "scale reads 7.2");
         assertEquals(Resolution.REVIEWED, decided.status());
         assertEquals("c", decided.finalLabel().label());
         assertEquals("rey", decided.finalLabel().labelledBy());

@@ -4,8 +4,8 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 
 import dev.dowser.TestSupport;
+import dev.dowser.labels.Verdict;
 import dev.dowser.store.Database;
-import dev.dowser.store.LabelStore;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
@@ -72,11 +72,11 @@ class ReviewsTest {
                 .people(), "everyone who labelled, whatever the filter");
 
         // Overriding the disagreement resolves it but it stays findable as one.
-        reviews.decide(pool.name(), id(1), new Caller("rey", Role.REVIEWER, null, null), LabelStore.KIND_OVERRIDE, "b", "clear b");
+        reviews.decide(pool.name(), id(1), new Caller("rey", Role.REVIEWER, null, null), Verdict.OVERRIDE, "b", "clear b");
         assertEquals(List.of(), rows(Reviews.Show.UNRESOLVED, null, null));
         assertEquals(List.of(1L), rows(Reviews.Show.DISAGREE, null, null));
         // Accepting the model's view by overriding ends the model filter's hit.
-        reviews.decide(pool.name(), id(2), new Caller("rey", Role.REVIEWER, null, null), LabelStore.KIND_OVERRIDE, "a",
+        reviews.decide(pool.name(), id(2), new Caller("rey", Role.REVIEWER, null, null), Verdict.OVERRIDE, "a",
                 "the model is right");
         assertEquals(List.of(), rows(Reviews.Show.MODEL, null, null));
     }
@@ -89,6 +89,6 @@ class ReviewsTest {
                 () -> rows(Reviews.Show.ALL, null, "z")).getMessage());
         assertEquals("an override needs the label you choose", assertThrows(IllegalArgumentException.class,
                 () -> reviews.decide(pool.name(), id(1), new Caller("rey", Role.REVIEWER, null, null),
-                        LabelStore.KIND_OVERRIDE, null, "why")).getMessage());
+                        Verdict.OVERRIDE, null, "why")).getMessage());
     }
 }

@@ -65,6 +65,7 @@ class AccessTest {
         {"POST", "/previews", "/previews?file_name=x.csv", "admin"},
         {"POST", "/pools/{pool}/queue/next", "/pools/p/queue/next", "labeller reviewer admin"},
         {"POST", "/pools/{pool}/queue/skip", "/pools/p/queue/skip", "labeller reviewer admin"},
+        {"POST", "/pools/{pool}/queue/release", "/pools/p/queue/release", "labeller reviewer admin"},
         {"POST", "/pools/{pool}/labels", "/pools/p/labels", "labeller reviewer admin"},
         {"POST", "/pools/{pool}/labels/undo", "/pools/p/labels/undo", "labeller reviewer admin"},
         {"GET", "/pools/{pool}/labels/mine", "/pools/p/labels/mine", "labeller reviewer admin"},

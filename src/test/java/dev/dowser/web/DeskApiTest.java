@@ -205,7 +205,9 @@ class DeskApiTest {
             try {
                 for (String line = events.readLine(); line != null; line = events.readLine()) {
                     all.append(line).append('\n');
-                    if (all.toString().contains("\"status\":\"published\"")) {
+                    // Rounds may end before the label (the server starts one by itself): wait for one after it.
+                    int label = all.indexOf("event:label");
+                    if (label >= 0 && all.indexOf("\"status\":\"published\"", label) >= 0) {
                         return all.toString();
                     }
                 }

@@ -11,6 +11,7 @@ import dev.dowser.json.Json;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
+import dev.dowser.store.RoundStatus;
 import dev.dowser.team.Role;
 import java.io.BufferedReader;
 import java.io.StringReader;
@@ -154,10 +155,9 @@ class PagesBrowserTest {
         assertTrue(browser.byId("import-message").getText().contains("178 records"), browser.byId("import-message").getText());
         browser.screenshot("2-pools-imported");
 
-        // Overview: ask for the first round and see its queue.
+        // Overview: the first batch arrives without anyone asking for a round.
         browser.byId("new-pool-link").click();
         browser.await(d -> browser.byId("pool-facts").getText().contains("178 records"), "the overview");
-        browser.byId("round-now").click();
         browser.await(d -> !browser.byId("queue").findElements(By.cssSelector("tbody tr")).isEmpty(), "the first queue");
         browser.screenshot("3-overview-first-round");
 
@@ -184,8 +184,8 @@ class PagesBrowserTest {
             given.put(id, answer);
             previous = id;
         }
-        // The tenth and twentieth labels started rounds 2 and 3; the page heard without a reload.
-        browser.await(d -> browser.byId("progress").getText().contains("round 3"), "round 3 announced on the desk");
+        // Rounds started as the batches ran low (at least two by now); the page heard without a reload.
+        browser.await(d -> servedRoundShown() >= 3, "round 3 or later announced on the desk");
         assertEquals(Boolean.TRUE, browser.driver.executeScript("return window.__sameDocument === true;"));
         assertTrue(browser.byId("progress").getText().contains("20 labelled this session"), browser.byId("progress").getText());
 
@@ -354,9 +354,9 @@ class PagesBrowserTest {
                 .POST(HttpRequest.BodyPublishers.ofString(csv)).build(), HttpResponse.BodyHandlers.ofString());
         assertEquals(201, up.statusCode(), up.body());
         long poolId = db.pools().require("gauges").id();
-        // Round 1 has no labels to learn from: its queue is spread over the pool, no chains yet.
-        server.requestRound("gauges");
-        awaitRound(poolId, 1, "published");
+        // Round 1 has no labels to learn from: its queue is spread over the pool, no chains yet. The server
+        // starts it by itself.
+        awaitRound(poolId, 1, RoundStatus.PUBLISHED);
         for (String[] l : new String[][] {{"k1", "ok"}, {"k2", "fault"}}) {
             HttpResponse<String> r = http.send(asLead("api/v1/pools/gauges/labels")
                     .POST(HttpRequest.BodyPublishers.ofString("{\"record\":\"" + l[0] + "\",\"label\":\"" + l[1]
@@ -365,28 +365,42 @@ class PagesBrowserTest {
         }
 
         // The same database behind a server whose sampler diverges at every step (plain SGLD with an
-        // absurd learning rate): its first sampled round, a cold start, fails.
+        // absurd learning rate): its first sampled round fails (the server starts it by itself, since the
+        // served batch is nearly all labelled), and the queue served before stays in service.
         server.close();
+        int served = db.queues().servedRound(poolId).orElseThrow();
         SamplerConfig broken = TestSupport.quickSampler().toBuilder().kernel(KernelChoice.SGLD).learningRate(1e30)
                 .build();
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")), broken,
                 TestSupport.FAST_TEAM);
         server.requestRound("gauges");
-        awaitRound(poolId, 2, "failed");
+        TestSupport.await(Duration.ofSeconds(60), () -> {
+            var latest = db.rounds().latest(poolId).orElseThrow();
+            return latest.round() > served && latest.status() == RoundStatus.FAILED;
+        }, "a failed round");
+        int failed = db.rounds().latest(poolId).orElseThrow().round();
+        assertEquals(served, db.queues().servedRound(poolId).orElseThrow());
 
         signIn(LEAD);
         browser.driver.get(base() + "overview.html?pool=gauges");
-        browser.await(d -> browser.byId("overview-message").getText().contains("Round 2 failed"), "the failure on the overview");
+        browser.await(d -> browser.byId("overview-message").getText().contains("Round " + failed + " failed"),
+                "the failure on the overview");
         assertTrue(browser.byId("overview-message").getText().contains("previous queue stays in service"));
-        browser.await(d -> browser.byId("queue-title").getText().contains("round 1"), "round 1 still served");
+        browser.await(d -> browser.byId("queue-title").getText().contains("round " + served), "the last queue still served");
         assertFalse(browser.byId("queue").findElements(By.cssSelector("tbody tr")).isEmpty());
         browser.screenshot("9-overview-failed-round");
     }
 
-    private void awaitRound(long poolId, int round, String status) {
+    /** The round the desk's progress line says is served, or 0. */
+    private int servedRoundShown() {
+        java.util.regex.Matcher m = java.util.regex.Pattern.compile("round (\\d+)").matcher(browser.byId("progress").getText());
+        return m.find() ? Integer.parseInt(m.group(1)) : 0;
+    }
+
+    private void awaitRound(long poolId, int round, RoundStatus status) {
         TestSupport.await(Duration.ofSeconds(60), () -> {
             var rounds = db.rounds().list(poolId);
-            return !rounds.isEmpty() && rounds.get(0).round() == round && rounds.get(0).status().equals(status);
-        }, "round " + round + " to become " + status);
+            return !rounds.isEmpty() && rounds.get(0).round() == round && rounds.get(0).status() == status;
+        }, "round " + round + " to become " + status.word());
     }
 }

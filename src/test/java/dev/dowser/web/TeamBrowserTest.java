@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.TestSupport;
 import dev.dowser.json.Json;
+import dev.dowser.rounds.PoolSettings;
 import dev.dowser.store.Database;
 import dev.dowser.team.Role;
 import java.net.URI;
@@ -43,6 +44,12 @@ class TeamBrowserTest {
     @BeforeEach
     void start() throws Exception {
         db = TestSupport.openDb(dir.resolve("db"));
+        // A small pool whose every queued record goes to two people, set so before the server starts:
+        // a server serves a new pool's first batch by itself, with the settings it has at that moment.
+        TestSupport.importText(db, "gauges", "id,reading\ng1,0.5\ng2,3.5\ng3,1.0\ng4,2.0\ng5,2.5\ng6,3.0\n",
+                TestSupport.csv("gauges").withId("id").withClasses(List.of("ok", "fault")));
+        db.pools().updateSettings(db.pools().require("gauges").id(), new PoolSettings(6, 0, 10,
+                PoolSettings.DEFAULT_STRATEGY, 1.0).toJson(), "test");
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
                 TestSupport.quickSampler(), TestSupport.FAST_TEAM);
         tokens.put("lead", TestSupport.tokenFor(db, "lead", Role.ADMIN));
@@ -51,13 +58,7 @@ class TeamBrowserTest {
         tokens.put("ben", TestSupport.tokenFor(db, "ben", Role.LABELLER));
         browser = Browser.shared();
 
-        // A small pool whose every queued record goes to two people; ana and ben label all of them,
-        // agreeing on some and not on others.
-        assertEquals(201, call("lead", "POST", "api/v1/imports?pool=gauges&file_name=g.csv&id=id&classes=ok,fault&wait=true",
-                "id,reading\ng1,0.5\ng2,3.5\ng3,1.0\ng4,2.0\ng5,2.5\ng6,3.0\n").statusCode());
-        assertEquals(200, call("lead", "PUT", "api/v1/pools/gauges/settings",
-                "{\"double_label_share\":1.0,\"batch_size\":6,\"spot_check_share\":0}").statusCode());
-        server.requestRound("gauges");
+        // Ana and ben label all of them, agreeing on some and not on others.
         long pool = db.pools().require("gauges").id();
         TestSupport.await(Duration.ofSeconds(60), () -> db.queues().servedRound(pool).isPresent(), "the first round");
         for (String person : List.of("ana", "ben")) {

@@ -1,4 +1,4 @@
-package dev.dowser.store;
+package dev.dowser.records;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
@@ -50,7 +50,7 @@ class RecordBlockTest {
 
     @Test
     void blockSectionsReadBack() throws IOException {
-        RecordBatch b = new RecordBatch(3, new int[] {2, 0}, 8);
+        RecordBatch b = RecordBatch.forWriting(3, new int[] {2, 0}, 8);
         String[][] rows = {{"r1", "x", "1.25"}, {"r2", null, "héllo, wörld"}, {"r3", "z", null}};
         for (int r = 0; r < rows.length; r++) {
             b.beginRecord(10 + r);
@@ -94,7 +94,7 @@ class RecordBlockTest {
 
     @Test
     void missingFieldIsNull() {
-        RecordBatch b = new RecordBatch(1, new int[] {0}, 2);
+        RecordBatch b = RecordBatch.forWriting(1, new int[] {0}, 2);
         b.beginRecord(1);
         b.field("");
         b.endRecord();

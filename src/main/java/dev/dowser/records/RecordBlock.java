@@ -1,4 +1,4 @@
-package dev.dowser.store;
+package dev.dowser.records;
 
 import java.io.IOException;
 import java.io.InputStream;
@@ -21,7 +21,7 @@ import java.util.Arrays;
  * All integers little-endian. Storing blocks rather than one row per record lets an import
  * write a million records at disk speed instead of index-update speed (measured in DEVELOPERS.md).
  */
-final class RecordBlock {
+public final class RecordBlock {
 
     static final int MAGIC = 0x44574231; // "DWB1"
     static final int HEADER_BYTES = 28;
@@ -42,7 +42,7 @@ final class RecordBlock {
      * without the float bytes that make up most of a block (its LOB is streamed, so the rest is
      * never read).
      */
-    static RecordBlock readHead(InputStream stream) throws IOException {
+    public static RecordBlock readHead(InputStream stream) throws IOException {
         return readUpTo(stream, 20);
     }
 
@@ -50,26 +50,26 @@ final class RecordBlock {
     private static RecordBlock readUpTo(InputStream stream, int offsetAt) throws IOException {
         byte[] header = stream.readNBytes(HEADER_BYTES);
         if (header.length < HEADER_BYTES) {
-            throw new StoreException("a record block is damaged (" + header.length + " header bytes)");
+            throw new DamagedBlockException("a record block is damaged (" + header.length + " header bytes)");
         }
         int end = new ByteSource(header, offsetAt).getInt();
         byte[] head = Arrays.copyOf(header, end);
         int read = stream.readNBytes(head, HEADER_BYTES, end - HEADER_BYTES);
         if (read != end - HEADER_BYTES) {
-            throw new StoreException("a record block is damaged (ends at byte " + (HEADER_BYTES + read) + ")");
+            throw new DamagedBlockException("a record block is damaged (ends at byte " + (HEADER_BYTES + read) + ")");
         }
         return new RecordBlock(head);
     }
 
     /** Reads only a block's header, lines and keys: enough to confirm which id a row has. */
-    static RecordBlock readKeys(InputStream stream) throws IOException {
+    public static RecordBlock readKeys(InputStream stream) throws IOException {
         return readUpTo(stream, 12);
     }
 
-    RecordBlock(byte[] payload) {
+    public RecordBlock(byte[] payload) {
         ByteSource in = new ByteSource(payload, 0);
         if (in.getInt() != MAGIC) {
-            throw new StoreException("a record block has an unknown layout; was it written by a newer Dowser?");
+            throw new DamagedBlockException("a record block has an unknown layout; was it written by a newer Dowser?");
         }
         this.payload = payload;
         this.n = in.getInt();
@@ -80,11 +80,11 @@ final class RecordBlock {
         this.displayCols = in.getInt();
     }
 
-    int size() {
+    public int size() {
         return n;
     }
 
-    long[] lines() {
+    public long[] lines() {
         ByteSource in = new ByteSource(payload, HEADER_BYTES);
         long[] out = new long[n];
         for (int i = 0; i < n; i++) {
@@ -93,7 +93,7 @@ final class RecordBlock {
         return out;
     }
 
-    String[] keys() {
+    public String[] keys() {
         ByteSource in = new ByteSource(payload, keysAt);
         String[] out = new String[n];
         for (int i = 0; i < n; i++) {
@@ -103,7 +103,7 @@ final class RecordBlock {
     }
 
     /** The id of record {@code index} alone, skipping the ones before it undecoded. */
-    String key(int index) {
+    public String key(int index) {
         ByteSource in = new ByteSource(payload, keysAt);
         for (int i = 0; i < index; i++) {
             in.skip(in.getVarint());
@@ -111,7 +111,7 @@ final class RecordBlock {
         return in.getString();
     }
 
-    String[] knownLabels() {
+    public String[] knownLabels() {
         ByteSource in = new ByteSource(payload, labelsAt);
         String[] out = new String[n];
         for (int i = 0; i < n; i++) {
@@ -124,7 +124,7 @@ final class RecordBlock {
     }
 
     /** Display values of records {@code from} (inclusive) to {@code to} (exclusive) of this block. */
-    String[][] display(int from, int to) {
+    public String[][] display(int from, int to) {
         int[] wanted = new int[to - from];
         Arrays.setAll(wanted, i -> from + i);
         return display(wanted);
@@ -134,7 +134,7 @@ final class RecordBlock {
      * Display values of the records at {@code wanted} (ascending indices in this block), in that
      * order; the values of records in between are skipped, not decoded.
      */
-    String[][] display(int[] wanted) {
+    public String[][] display(int[] wanted) {
         ByteSource in = new ByteSource(payload, displayAt);
         String[][] out = new String[wanted.length][];
         int last = wanted.length == 0 ? -1 : wanted[wanted.length - 1];
@@ -148,7 +148,7 @@ final class RecordBlock {
                     case MISSING -> null;
                     case TEXT -> keep ? in.getString() : skipString(in);
                     case NUMBER -> NumberPack.read(in, keep);
-                    default -> throw new StoreException("a record block is damaged (display tag " + tag + ")");
+                    default -> throw new DamagedBlockException("a record block is damaged (display tag " + tag + ")");
                 };
                 if (keep) {
                     row[c] = v;
@@ -167,7 +167,7 @@ final class RecordBlock {
     }
 
     /** Calls {@code sink} with each record's index in the block and its raw feature bytes. */
-    void features(FeatureVisitor sink) {
+    public void features(FeatureVisitor sink) {
         if (featuresAt >= payload.length && n > 0) {
             throw new IllegalStateException("this block was read without its features");
         }
@@ -181,12 +181,30 @@ final class RecordBlock {
 
     /** Receives one record's raw features as a slice of the block's bytes. */
     @FunctionalInterface
-    interface FeatureVisitor {
+    public interface FeatureVisitor {
         void visit(int index, byte[] bytes, int offset, int length);
     }
 
+    /** A sealed block: its length in bytes and a stream over them. */
+    public static final class Sealed {
+
+        private final ByteSink bytes;
+
+        private Sealed(ByteSink bytes) {
+            this.bytes = bytes;
+        }
+
+        public int length() {
+            return bytes.size();
+        }
+
+        public InputStream stream() {
+            return bytes.asInputStream();
+        }
+    }
+
     /** Collects records into the sections of one block. */
-    static final class Builder {
+    public static final class Builder {
 
         private final int displayCols;
         private final ByteSink lines = new ByteSink(8 * 1024);
@@ -194,14 +212,15 @@ final class RecordBlock {
         private final ByteSink labels = new ByteSink(4 * 1024);
         private final ByteSink display = new ByteSink(256 * 1024);
         private final ByteSink features = new ByteSink(256 * 1024);
+        private final ByteSink reused = new ByteSink(RecordBatch.TARGET_CHARS * 2);
         private int n;
 
-        Builder(int displayCols) {
+        public Builder(int displayCols) {
             this.displayCols = displayCols;
         }
 
         /** Lays out every record of the batch. */
-        void addAll(RecordBatch batch) {
+        public void addAll(RecordBatch batch) {
             if (batch.displayCols() != displayCols) {
                 throw new IllegalArgumentException("expected " + displayCols + " display columns, got "
                         + batch.displayCols());
@@ -209,8 +228,8 @@ final class RecordBlock {
             char[] text = batch.chars();
             for (int r = 0; r < batch.rows(); r++) {
                 lines.putLong(batch.line(r));
-                keys.putString(batch.keys[r]);
-                String knownLabel = batch.labels[r];
+                keys.putString(batch.key(r));
+                String knownLabel = batch.label(r);
                 if (knownLabel == null) {
                     labels.putVarint(0);
                 } else {
@@ -239,7 +258,7 @@ final class RecordBlock {
             }
         }
 
-        int size() {
+        public int size() {
             return n;
         }
 
@@ -247,13 +266,22 @@ final class RecordBlock {
             return HEADER_BYTES + lines.size() + keys.size() + labels.size() + display.size() + features.size();
         }
 
-        byte[] seal() {
+        public byte[] seal() {
             ByteSink out = new ByteSink(bytes());
             sealInto(out);
             return out.toArray();
         }
 
-        /** Writes the finished block into {@code out}, which is cleared first; lets a writer reuse one buffer. */
+        /**
+         * The finished block in a buffer this builder reuses, valid until its next seal or clear:
+         * lets a writer store block after block without a new array each time.
+         */
+        public Sealed sealInPlace() {
+            sealInto(reused);
+            return new Sealed(reused);
+        }
+
+        /** Writes the finished block into {@code out}, which is cleared first. */
         void sealInto(ByteSink out) {
             out.clear();
             int keysAt = HEADER_BYTES + lines.size();
@@ -274,7 +302,7 @@ final class RecordBlock {
             out.putSink(features);
         }
 
-        void clear() {
+        public void clear() {
             lines.clear();
             keys.clear();
             labels.clear();

@@ -1,4 +1,4 @@
-package dev.dowser.store;
+package dev.dowser.records;
 
 /**
  * Packs the text of a number, exactly as written, two characters a byte: the digits and

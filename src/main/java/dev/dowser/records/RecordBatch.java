@@ -1,4 +1,4 @@
-package dev.dowser.store;
+package dev.dowser.records;
 
 import java.util.Arrays;
 
@@ -7,7 +7,7 @@ import java.util.Arrays;
  * copying: the reader puts each record's fields here (the characters of all fields side by side
  * in one array, so reading a field makes no object), the importer adds each record's id, label
  * and encoded features, and the writer's thread lays the batch out as one block and stores it.
- * Batches come from {@link PoolWriter#emptyBatch} and go back through {@link PoolWriter#send}.
+ * A writer hands out a few batches and takes them back filled, so memory stays bounded.
  */
 public final class RecordBatch {
 
@@ -22,8 +22,8 @@ public final class RecordBatch {
     private final int[] start;
     private final int[] length;
     private final long[] lines;
-    final String[] keys;
-    final String[] labels;
+    private final String[] keys;
+    private final String[] labels;
     final int[] featureStart;
     final int[] featureLength;
     private char[] chars = new char[1 << 16];
@@ -33,10 +33,8 @@ public final class RecordBatch {
     private int rows;
     private int field;
     private int encoded;
-    long firstRow;
-    int blockNo;
 
-    RecordBatch(int cols, int[] displayIndex, int capacity) {
+    private RecordBatch(int cols, int[] displayIndex, int capacity) {
         this.cols = cols;
         this.capacity = capacity;
         this.displayIndex = displayIndex.clone();
@@ -49,12 +47,21 @@ public final class RecordBatch {
         this.featureLength = new int[capacity];
     }
 
+    /**
+     * A batch to be stored: records of {@code cols} fields, those at {@code displayIndex} shown to
+     * people, at most {@code capacity} of them.
+     */
+    public static RecordBatch forWriting(int cols, int[] displayIndex, int capacity) {
+        return new RecordBatch(cols, displayIndex, capacity);
+    }
+
     /** A batch that is only read back, never stored: the preview of a file's first records. */
     public static RecordBatch forReading(int cols, int capacity) {
         return new RecordBatch(cols, new int[0], capacity);
     }
 
-    void clear() {
+    /** Empties the batch for reuse. */
+    public void clear() {
         Arrays.fill(keys, 0, rows, null);
         Arrays.fill(labels, 0, rows, null);
         used = 0;
@@ -176,7 +183,12 @@ public final class RecordBatch {
         featureUsed += rawLength;
     }
 
-    /** The carried label of encoded record {@code row}, or null. */
+    /** The id given to record {@code row} by {@link #encoded}. */
+    public String key(int row) {
+        return keys[row];
+    }
+
+    /** The label record {@code row} carried in, or null. */
     public String label(int row) {
         return labels[row];
     }

@@ -1,4 +1,4 @@
-package dev.dowser.store;
+package dev.dowser.records;
 
 import java.nio.charset.StandardCharsets;
 import java.util.Arrays;

@@ -1,4 +1,4 @@
-package dev.dowser.store;
+package dev.dowser.records;
 
 import java.io.BufferedInputStream;
 import java.io.BufferedOutputStream;
@@ -22,7 +22,7 @@ import java.util.Set;
  * temporary files, and a merge of the runs reports hashes seen twice. A repeated hash is only a
  * candidate; the caller confirms it against the ids themselves.
  */
-final class KeyCheck implements AutoCloseable {
+public final class KeyCheck implements AutoCloseable {
 
     /** Hashes held in memory at once: 16 MiB. */
     static final int RUN_ENTRIES = 1 << 21;
@@ -34,7 +34,7 @@ final class KeyCheck implements AutoCloseable {
     private int size;
     private final List<Path> runs = new ArrayList<>();
 
-    KeyCheck() {
+    public KeyCheck() {
         this(RUN_ENTRIES);
     }
 
@@ -43,7 +43,7 @@ final class KeyCheck implements AutoCloseable {
         this.buf = new long[runEntries];
     }
 
-    void add(String key) {
+    public void add(String key) {
         buf[size++] = hash(key);
         if (size == runEntries) {
             spill();
@@ -51,7 +51,7 @@ final class KeyCheck implements AutoCloseable {
     }
 
     /** The id's hash: FNV-1a, then the MurmurHash3 64-bit finaliser (Appleby 2011) to spread its bits. */
-    static long hash(String s) {
+    public static long hash(String s) {
         long h = fnv1a(s);
         h ^= h >>> 33;
         h *= 0xff51afd7ed558ccdL;
@@ -89,7 +89,7 @@ final class KeyCheck implements AutoCloseable {
     }
 
     /** Hashes that were added more than once. */
-    Set<Long> repeated() {
+    public Set<Long> repeated() {
         Set<Long> out = new HashSet<>();
         if (runs.isEmpty()) {
             Arrays.sort(buf, 0, size);

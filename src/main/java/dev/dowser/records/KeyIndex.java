@@ -1,4 +1,4 @@
-package dev.dowser.store;
+package dev.dowser.records;
 
 import java.util.Arrays;
 import java.util.function.LongFunction;
@@ -9,7 +9,7 @@ import java.util.function.LongFunction;
  * (for a million ids about a hundred pairs share a hash), and each candidate's id is read back
  * to confirm. A map of strings to boxed rows took about 100 bytes a record.
  */
-final class KeyIndex {
+public final class KeyIndex {
 
     private final long[] packed;
 
@@ -18,12 +18,12 @@ final class KeyIndex {
     }
 
     /** Collects the ids of a pool in row order, then seals the index. */
-    static final class Builder {
+    public static final class Builder {
 
         private long[] packed = new long[1 << 12];
         private int size;
 
-        void add(String key, long row) {
+        public void add(String key, long row) {
             if (row < 0 || row > 0xFFFF_FFFFL) {
                 throw new IllegalArgumentException("row " + row + " is beyond what the key index holds");
             }
@@ -33,7 +33,7 @@ final class KeyIndex {
             packed[size++] = pack(hash(key), row);
         }
 
-        KeyIndex build() {
+        public KeyIndex build() {
             long[] sorted = Arrays.copyOf(packed, size);
             Arrays.sort(sorted);
             return new KeyIndex(sorted);
@@ -41,7 +41,7 @@ final class KeyIndex {
     }
 
     /** The row whose id is {@code key}, or -1; {@code keyAt} reads a row's id back to confirm a candidate. */
-    long find(String key, LongFunction<String> keyAt) {
+    public long find(String key, LongFunction<String> keyAt) {
         int h = hash(key);
         int at = Arrays.binarySearch(packed, pack(h, 0));
         int first = at >= 0 ? at : -at - 1;
@@ -54,7 +54,7 @@ final class KeyIndex {
         return -1;
     }
 
-    int size() {
+    public int size() {
         return packed.length;
     }
 

@@ -1,4 +1,4 @@
-package dev.dowser.store;
+package dev.dowser.records;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 

@@ -1,0 +1,31 @@
+package dev.dowser.store;
+
+import java.util.Locale;
+
+/** How a round stands, as the rounds table keeps it. */
+public enum RoundStatus {
+    /** Sampling, scoring or picking now. */
+    RUNNING,
+    /** Its queue is out (and served until a later round's replaces it). */
+    PUBLISHED,
+    /** It ended with an error, kept in its message; the queue before it stays in service. */
+    FAILED,
+    /** The server shut down during it: its chains were saved at a safe point, its queue not published. */
+    STOPPED,
+    /** The server was killed during it (found still running at the next start); nothing of it was kept. */
+    INTERRUPTED;
+
+    /** The word stored and shown. */
+    public String word() {
+        return name().toLowerCase(Locale.ROOT);
+    }
+
+    public static RoundStatus parse(String word) {
+        for (RoundStatus s : values()) {
+            if (s.word().equals(word)) {
+                return s;
+            }
+        }
+        throw new IllegalArgumentException("unknown round status '" + word + "'");
+    }
+}
