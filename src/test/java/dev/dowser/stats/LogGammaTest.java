@@ -13,7 +13,7 @@ class LogGammaTest {
         for (double x = 0.05; x < 60; x *= 1.3) {
             assertEquals(Gamma.logGamma(x), LogGamma.of(x), 1e-9 * Math.max(1, Math.abs(Gamma.logGamma(x))), "x = " + x);
         }
-        assertEquals(Math.log(120), LogGamma.of(6), 1e-12);
-        assertEquals(0.5 * Math.log(Math.PI), LogGamma.of(0.5), 1e-12);
+        assertEquals(Math.log(120), LogGamma.of(6), 1e-10);
+        assertEquals(0.5 * Math.log(Math.PI), LogGamma.of(0.5), 1e-10);
     }
 }
