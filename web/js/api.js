@@ -52,6 +52,27 @@ export function deleteJson(path) {
 }
 
 /**
+ * Sends a file as the body of a POST, calling onProgress(sentBytes, totalBytes) as it goes (fetch
+ * cannot report an upload's progress; XMLHttpRequest can). Resolves with the JSON reply.
+ */
+export async function postFile(path, file, onProgress) {
+  const { csrf } = await session();
+  return new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open('POST', `${BASE}/${path}`);
+    xhr.setRequestHeader('Accept', 'application/json');
+    xhr.setRequestHeader('Content-Type', 'application/octet-stream');
+    xhr.setRequestHeader(CSRF_HEADER, csrf);
+    xhr.upload.onprogress = (e) => onProgress(e.loaded, e.lengthComputable ? e.total : file.size);
+    xhr.onerror = () => reject(new Error('the upload was cut off before the server answered; try again'));
+    xhr.onload = () => {
+      unwrap(new Response(xhr.responseText, { status: xhr.status })).then(resolve, reject);
+    };
+    xhr.send(file);
+  });
+}
+
+/**
  * Sends a JSON POST that outlives the page (a tab closing): fire and forget, no answer read. Needs
  * the session to have been asked for already.
  */

@@ -1,6 +1,6 @@
 // The pools page: the list of pools, one pool's records, and adding a pool from a file.
 import { showAccount } from './account.js';
-import { getJson, postBody, apiUrl } from './api.js';
+import { getJson, postBody, postFile, apiUrl } from './api.js';
 import { recordBody, scalesOf } from './fields.js';
 import { el, showMessage } from './dom.js';
 
@@ -295,6 +295,9 @@ function mappingParams() {
   return params;
 }
 
+/** Bytes as MiB with one decimal. */
+const mib = (n) => (n / 1048576).toFixed(1);
+
 async function importFile(event) {
   event.preventDefault();
   const message = $('import-message');
@@ -302,20 +305,29 @@ async function importFile(event) {
   message.className = 'message';
   try {
     const params = mappingParams();
-    message.textContent = `Uploading ${chosen.file.name}…`;
+    const limit = chosen.preview.upload_limit;
+    if (limit && chosen.file.size > limit.bytes) {
+      throw new Error(`${chosen.file.name} is ${mib(chosen.file.size)} MiB, larger than this server takes:`
+        + ` ${limit.text}.`);
+    }
     bar.hidden = false;
     bar.value = 0;
     bar.scrollIntoView({ block: 'center' });
     $('import-button').disabled = true;
-    const job = await postBody(`imports?${params}`, chosen.file, 'application/octet-stream');
+    // Two stages, each with the bar from empty to full: sending the file, then reading it into the pool.
+    message.textContent = `Sending ${chosen.file.name}…`;
+    const job = await postFile(`imports?${params}`, chosen.file, (sent, total) => {
+      bar.value = total ? sent / total : 0;
+      message.textContent = `Sending ${chosen.file.name}: ${mib(sent)} of ${mib(total)} MiB`;
+    });
+    bar.value = 0;
     let status = job;
     while (status.state === 'queued' || status.state === 'running') {
+      message.textContent = `Reading ${chosen.file.name} into the pool: ${status.records.toLocaleString()} records`
+        + (status.total_bytes ? `, ${mib(status.bytes_read)} of ${mib(status.total_bytes)} MiB` : '');
       await new Promise((resolve) => setTimeout(resolve, 250));
       status = await getJson(`imports/${job.id}`);
       bar.value = status.total_bytes ? status.bytes_read / status.total_bytes : 0;
-      const mib = (n) => (n / 1048576).toFixed(1);
-      message.textContent = `${status.records.toLocaleString()} records read`
-        + (status.total_bytes ? ` · ${mib(status.bytes_read)} of ${mib(status.total_bytes)} MiB` : '');
     }
     if (status.state === 'failed') throw new Error(status.error);
     bar.value = 1;

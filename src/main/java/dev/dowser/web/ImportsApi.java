@@ -78,6 +78,8 @@ final class ImportsApi {
         body.put("sampled", p.sampled());
         body.set("rows", Json.mapper().valueToTree(p.rows()));
         body.set("suggested", Json.mapper().valueToTree(p.suggested()));
+        // The page checks a file's size against this before sending it; the server refuses past it anyway.
+        body.putObject("upload_limit").put("bytes", config.maxUploadBytes()).put("text", config.uploadLimitText());
         Responses.ok(ex, body);
     }
 

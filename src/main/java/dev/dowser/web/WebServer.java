@@ -154,6 +154,11 @@ public final class WebServer implements AutoCloseable {
         served().rounds().worker(pool).request();
     }
 
+    /** Requests from people not signed in that are inside the door now (for tests of the door). */
+    int strangersInside() {
+        return served().door().inside();
+    }
+
     public int port() {
         return ((InetSocketAddress) undertow.getListenerInfo().get(0).getAddress()).getPort();
     }

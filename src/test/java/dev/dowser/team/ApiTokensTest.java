@@ -57,7 +57,8 @@ class ApiTokensTest {
         }
         assertFalse(ApiTokens.wellFormed(null));
         assertFalse(ApiTokens.wellFormed(""));
-        assertFalse(ApiTokens.wellFormed("dwt_abc"));
+        assertFalse(ApiTokens.wellFormed("dowser.abc"));
+        assertFalse(ApiTokens.wellFormed("DOWSER." + ApiTokens.make(random).substring("dowser.".length())));
     }
 
     /** Every token with one character changed, or two neighbours swapped, is refused by its check. */

@@ -91,6 +91,31 @@ class ApiTest {
         assertTrue(csv.body().contains(",by ear,\"{\"\"ana\"\":\"\"ok\"\"}\",,,,\r\n"), csv.body());
     }
 
+    /**
+     * Issue 11: an export is never cached, and a display field a spreadsheet would run as a formula
+     * (OWASP, "CSV Injection") is written with a ' in front unless the caller asks to keep it.
+     */
+    @Test
+    void exportsAreNotCachedAndFormulasAreEscapedUnlessKept() throws Exception {
+        HttpResponse<String> r = upload("pool=notes&file_name=n.csv&id=id&label=state&display=remark&features=flow&wait=true",
+                "id,remark,flow,state\nn1,\"=HYPERLINK(\"\"http://x.example\"\")\",1.5,ok\nn2,-4.5,2.5,fault\n");
+        assertEquals(201, r.statusCode(), r.body());
+        HttpResponse<String> csv = send(at("/api/v1/pools/notes/export?format=csv"));
+        assertEquals(200, csv.statusCode(), csv.body());
+        assertEquals("no-store", csv.headers().firstValue("cache-control").orElse(""));
+        assertTrue(csv.body().contains("\r\nn1,\"'=HYPERLINK(\"\"http://x.example\"\")\",ok,"), csv.body());
+        assertTrue(csv.body().contains("\r\nn2,-4.5,fault,"), "a plain number stays as it is: " + csv.body());
+        HttpResponse<String> kept = send(at("/api/v1/pools/notes/export?format=csv&formulas=keep"));
+        assertEquals("no-store", kept.headers().firstValue("cache-control").orElse(""));
+        assertTrue(kept.body().contains("\r\nn1,\"=HYPERLINK(\"\"http://x.example\"\")\",ok,"), kept.body());
+        HttpResponse<String> jsonl = send(at("/api/v1/pools/notes/export?format=jsonl"));
+        assertEquals("no-store", jsonl.headers().firstValue("cache-control").orElse(""));
+        assertTrue(jsonl.body().contains("\"remark\":\"=HYPERLINK(\\\"http://x.example\\\")\""), jsonl.body());
+        HttpResponse<String> wrong = send(at("/api/v1/pools/notes/export?format=csv&formulas=strip"));
+        assertEquals(400, wrong.statusCode());
+        assertEquals("formulas must be escape or keep, got 'strip'", Json.tree(wrong.body()).get("error").asText());
+    }
+
     @Test
     void errorsAreJsonWithAMessageAndLeaveDataAlone() throws Exception {
         upload("pool=kept&classes=yes,no&wait=true", "a\n1\n");
