@@ -52,7 +52,7 @@ import picocli.CommandLine.Spec;
                 + " prints the counts acknowledged and lost.",
             "labels (only when named): the label-savings benchmark, simulate on digits, breast cancer, wine, iris,"
                 + " the demo's pumps and Fashion-MNIST (pool 60,000, test 10,000, 50 principal components) with"
-                + " paired seeds: labels to each target, random's labels over the strategy's with 90% bootstrap"
+                + " paired seeds: labels to each target, random's labels over the strategy's with 90%% bootstrap"
                 + " intervals, area-under-the-curve gains; curves and a table (labels.md) in --labels-out. Hours.",
             "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: files to import,"
                 + " heads of files to preview, every JSON body; jqwik properties of the test sources, run through"
@@ -228,12 +228,10 @@ final class BenchCommand implements Callable<Integer> {
         }
     }
 
-    /** n rows: an id, then 64 Gaussian features written with four decimals. */
-    static void writeCsv(Path file, int n) throws IOException {
-        writeRows(file, n, FileFormat.CSV);
-    }
-
-    /** The same rows as CSV or as JSON Lines ({"id": "r0", "f0": 0.1234, ...}), from the same seed. */
+    /**
+     * n rows, as CSV or as JSON Lines ({"id": "r0", "f0": 0.1234, ...}), the same from the same seed: an id,
+     * then 64 Gaussian features written with four decimals.
+     */
     static void writeRows(Path file, int n, FileFormat format) throws IOException {
         boolean csv = format == FileFormat.CSV;
         SplittableRandom rng = new SplittableRandom(SEED);

@@ -25,7 +25,7 @@ import picocli.CommandLine.Spec;
                 + " start, then round after round the chains continued, the pool scored, a batch picked with spot"
                 + " checks mixed in. Every strategy sees the same splits and first batches (paired seeds). Writes"
                 + " DIR/curves.csv, curves.svg and curves.png, and prints a table and key=value lines: labels to"
-                + " each target from the mean curve with a 90% bootstrap interval over seeds, the seeds that"
+                + " each target from the mean curve with a 90%% bootstrap interval over seeds, the seeds that"
                 + " reached it, the median of the seeds' first counts, random's labels over each strategy's,"
                 + " the area under the curve, accuracy and NLL at fixed label counts; then, per seed, where the stopping rule"
                 + " fired beside where the test curve levelled off, and stop_at_<strategy>=N,"

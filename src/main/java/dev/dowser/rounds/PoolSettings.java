@@ -177,12 +177,6 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
                 coldStart);
     }
 
-    /** The same settings with other sampling. */
-    public PoolSettings withSampling(Sampling s) {
-        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, s, stopAgreement,
-                coldStart);
-    }
-
     /** The same settings with another agreement at which predictions count as settled. */
     public PoolSettings withStopAgreement(double k) {
         return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, sampling, k,
