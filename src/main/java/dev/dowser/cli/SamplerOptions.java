@@ -60,7 +60,7 @@ final class SamplerOptions {
             description = "Posterior temperature; 1 is the true posterior (default: ${DEFAULT-VALUE}).")
     double temperature;
 
-    @Option(names = "--map-steps", defaultValue = "0", paramLabel = "N",
+    @Option(names = "--map-steps", defaultValue = "" + SamplerConfig.DEFAULT_MAP_STEPS, paramLabel = "N",
             description = "Adam steps that carry each new chain to a mode before it samples (default: ${DEFAULT-VALUE}).")
     int mapSteps;
 

@@ -7,6 +7,9 @@ import java.util.SplittableRandom;
 /** Seeded splits of labelled rows. */
 public final class Splits {
 
+    /** The share held out for testing, per class, where a command or benchmark is not told otherwise. */
+    public static final double DEFAULT_TEST_FRACTION = 0.3;
+
     private Splits() {
     }
 

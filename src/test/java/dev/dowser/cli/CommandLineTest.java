@@ -48,9 +48,19 @@ class CommandLineTest {
     @Test
     void everyCommandExplainsItself() {
         for (String command : List.of("serve", "demo", "import", "export", "users", "fit", "simulate", "bench")) {
-            Run r = run(command, "--help");
+            // picocli formats descriptions with String.format and complains on System.err about a bare %.
+            PrintStream stderr = System.err;
+            ByteArrayOutputStream warned = new ByteArrayOutputStream();
+            Run r;
+            try {
+                System.setErr(new PrintStream(warned, true, StandardCharsets.UTF_8));
+                r = run(command, "--help");
+            } finally {
+                System.setErr(stderr);
+            }
             assertEquals(0, r.exit(), command);
             assertTrue(r.out().startsWith("Usage: dowser " + command), command + ": " + r.out());
+            assertEquals("", warned.toString(StandardCharsets.UTF_8), command + "'s help");
         }
         Run top = run("--help");
         assertEquals(0, top.exit());
