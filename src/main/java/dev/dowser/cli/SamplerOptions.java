@@ -12,7 +12,7 @@ import picocli.CommandLine.Option;
 /** How the posterior is sampled, as options shared by {@code fit} and {@code simulate}; defaults are the app's. */
 final class SamplerOptions {
 
-    @Option(names = "--kernel", defaultValue = "auto", paramLabel = "auto|sgld|psgld|mala",
+    @Option(names = "--kernel", defaultValue = "auto", paramLabel = "auto|sgld|psgld|mala|sghmc",
             description = "Sampler kernel (default: ${DEFAULT-VALUE}: MALA up to "
                     + SamplerConfig.DEFAULT_MALA_MAX_ROWS + " labelled rows, preconditioned SGLD beyond).")
     String kernel;
