@@ -7,6 +7,7 @@ import dev.dowser.acquire.ColdStart;
 import dev.dowser.data.FileFormat;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.Strategy;
+import dev.dowser.sampler.KernelChoice;
 import dev.dowser.store.RoundStatus;
 import dev.dowser.team.Role;
 import java.util.List;
@@ -44,6 +45,8 @@ class WordedTest {
         assertEquals("unknown cold start 'lloyd': use kmeans++ or typiclust",
                 assertThrows(IllegalArgumentException.class, () -> ColdStart.Method.parse("lloyd")).getMessage());
         assertEquals(FileFormat.JSONL, FileFormat.parse("JSONL"));
+        assertEquals("unknown kernel 'hmc': use auto, sgld, psgld, mala or sghmc",
+                assertThrows(IllegalArgumentException.class, () -> KernelChoice.parse("hmc")).getMessage());
         for (RoundStatus s : RoundStatus.values()) {
             assertEquals(s, RoundStatus.parse(s.word()));
         }
