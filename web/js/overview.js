@@ -313,7 +313,7 @@ async function start() {
 start();
 
 const SETTINGS = ['batch_size', 'spot_check_share', 'double_label_share', 'lease_minutes', 'strategy', 'chains',
-  'draws', 'reburn_in_steps', 'stop_agreement'];
+  'draws', 'reburn_in_steps', 'temperature', 'stop_agreement'];
 
 /** A setting's name as the settings form says it ("labels per round"), so the history reads like the form. */
 function settingWords(form, field) {
