@@ -1,6 +1,6 @@
 package dev.dowser.sampler;
 
-import java.util.Locale;
+import dev.dowser.words.Worded;
 import java.util.function.BiFunction;
 import java.util.function.Function;
 
@@ -9,7 +9,7 @@ import java.util.function.Function;
  * size of the labelled set; each other word names a kernel, how to make it, and how to read back
  * the state it stores between rounds.
  */
-public enum KernelChoice {
+public enum KernelChoice implements Worded {
     AUTO(null, null),
     SGLD(Sgld::new, Sgld.Plain::decode),
     PSGLD(PreconditionedSgld::new, PreconditionedSgld.Preconditioner::decode),
@@ -25,15 +25,7 @@ public enum KernelChoice {
     }
 
     public static KernelChoice parse(String word) {
-        try {
-            return valueOf(word.trim().toUpperCase(Locale.ROOT));
-        } catch (IllegalArgumentException e) {
-            throw new IllegalArgumentException("unknown kernel '" + word + "': use auto, sgld, psgld, mala or sghmc");
-        }
-    }
-
-    public String word() {
-        return name().toLowerCase(Locale.ROOT);
+        return Worded.parse(KernelChoice.class, word, "kernel");
     }
 
     /** The kernel this word names, on {@code target} at {@code temperature}. */
