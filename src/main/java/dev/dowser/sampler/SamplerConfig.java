@@ -28,6 +28,10 @@ public record SamplerConfig(KernelRule kernel, Network network, Prior prior, Cha
      * SGLD 0.24 s (1.04) and 0.27 s (1.08).
      */
     public static final int DEFAULT_MALA_MAX_ROWS = 512;
+    /** The kernel's word, for the command line's default; the builder's kernel follows from it. */
+    public static final String DEFAULT_KERNEL_WORD = "auto";
+    /** The hidden nonlinearity's word, likewise. */
+    public static final String DEFAULT_ACTIVATION_WORD = "relu";
     public static final int DEFAULT_CHAINS = 4;
     public static final int DEFAULT_DRAWS = 64;
     public static final int DEFAULT_BURN_IN_STEPS = 2_000;
@@ -182,10 +186,10 @@ public record SamplerConfig(KernelRule kernel, Network network, Prior prior, Cha
     /** Sets values one by one from the named defaults; {@link #build} validates them together. */
     public static final class Builder {
 
-        private KernelChoice kernel = KernelChoice.AUTO;
+        private KernelChoice kernel = KernelChoice.parse(DEFAULT_KERNEL_WORD);
         private int malaMaxRows = DEFAULT_MALA_MAX_ROWS;
         private List<Integer> hidden = List.of(Architecture.DEFAULT_HIDDEN);
-        private Activation activation = Activation.RELU;
+        private Activation activation = Activation.parse(DEFAULT_ACTIVATION_WORD);
         private Prior prior = Prior.standard();
         private int chains = DEFAULT_CHAINS;
         private int draws = DEFAULT_DRAWS;
