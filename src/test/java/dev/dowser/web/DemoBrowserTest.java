@@ -194,6 +194,15 @@ class DemoBrowserTest {
                     assertTrue(!colour.equals("rgba(0, 0, 238, 1)") && !colour.equals("rgba(85, 26, 139, 1)"),
                             "a link in the browser's own blue on the " + page.getKey() + " page: " + link.getText());
                 }
+                if (page.getKey().equals("accounts")) {
+                    // Dates read the same in every locale: 2026-12-02, never 12/2/2026.
+                    String since = browser.driver.findElement(By.cssSelector("#users tbody tr td:nth-child(4)")).getText();
+                    assertTrue(since.matches("\\d{4}-\\d{2}-\\d{2}"), since);
+                }
+                if (page.getKey().equals("account")) {
+                    assertFalse(browser.byId("tokens").isDisplayed(), "an empty token table's header shown");
+                    assertTrue(browser.byId("tokens-none").isDisplayed());
+                }
                 if (page.getKey().equals("desk") || page.getKey().equals("review")) {
                     // Where labels can hurt someone: the model's view is a suggestion, and local rules decide.
                     String caution = browser.driver.findElement(By.className("caution")).getText();
