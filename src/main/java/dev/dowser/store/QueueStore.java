@@ -110,8 +110,10 @@ public final class QueueStore {
             insert(c, poolId, places);
             // Records labelled while the round ran are done already.
             markDone(c, poolId, round, now);
-            Sql.update(c, "DELETE FROM queue_entries WHERE pool_id = ? AND round_no <> ? AND reserve AND NOT done",
-                    poolId, round);
+            // A reserve place someone holds stays until its next publish: the desk names the record by its
+            // round and position to skip or release it, and a place gone would make both a no-op.
+            Sql.update(c, "DELETE FROM queue_entries q WHERE q.pool_id = ? AND q.round_no <> ? AND q.reserve"
+                    + " AND NOT q.done AND NOT " + HELD, poolId, round, now);
             Sql.update(c, "DELETE FROM served_queues WHERE pool_id = ?", poolId);
             Sql.update(c, "INSERT INTO served_queues (pool_id, round_no) VALUES (?, ?)", poolId, round);
             return places;
