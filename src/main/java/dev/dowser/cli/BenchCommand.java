@@ -53,7 +53,8 @@ import picocli.CommandLine.Spec;
                 + " they can, killed with SIGKILL 25 times (5 with --quick) at random moments (after 250 to 750"
                 + " acknowledged writes, then up to 0.3 s) and restarted: every"
                 + " acknowledged label, withdrawal, review, settings and account change must be there afterwards;"
-                + " prints the counts acknowledged and lost.",
+                + " prints the counts acknowledged and lost, and the desk's empty answers across the kills (the pool"
+                + " holds more records than the campaign writes).",
             "labels (only when named): the label-savings benchmark, simulate on digits, breast cancer, wine, iris,"
                 + " the demo's pumps and Fashion-MNIST (pool 60,000, test 10,000, 50 principal components) with"
                 + " paired seeds: labels to each target, random's labels over the strategy's with 90%% bootstrap"
@@ -197,6 +198,11 @@ final class BenchCommand implements Callable<Integer> {
         out.printf("durability_server_errors=%d%ndurability_busy=%d%ndurability_timeouts=%d%n"
                 + "durability_start_median_s=%.2f%n", r.serverErrors(), r.busy(), r.timeouts(),
                 r.startSeconds().stream().sorted().toList().get(r.startSeconds().size() / 2));
+        out.printf("durability_records=%d%ndurability_desk_offered=%d%ndurability_desk_empty=%d%n", campaign.records(),
+                r.offered(), r.empty());
+        if (r.firstEmpty() != null) {
+            out.println("durability_desk_first_empty=" + r.firstEmpty());
+        }
         r.check().missing().stream().limit(10).forEach(a -> out.println("durability_missing=" + a));
         out.flush();
     }

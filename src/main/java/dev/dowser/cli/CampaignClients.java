@@ -23,6 +23,7 @@ import java.util.SplittableRandom;
 import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.concurrent.atomic.AtomicInteger;
 import java.util.concurrent.atomic.AtomicLong;
+import java.util.concurrent.atomic.AtomicReference;
 
 /**
  * The clients of one server life: labellers, a reviewer and an admin writing as fast as they can,
@@ -32,6 +33,17 @@ final class CampaignClients {
 
     /** "Busy, try again": a lock not granted in time; nothing was written, and the client goes on. */
     static final int BUSY = 503;
+
+    /**
+     * What the desk answered over the whole campaign: records offered, and answers without one once
+     * the first batch had been served (the pool always has unlabelled records left, so each is an
+     * empty desk), with the first such answer's message.
+     */
+    static final class Desk {
+        final AtomicLong offered = new AtomicLong();
+        final AtomicLong empty = new AtomicLong();
+        final AtomicReference<String> firstEmpty = new AtomicReference<>();
+    }
 
     private final HttpClient http = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
     private final String base;
@@ -44,13 +56,14 @@ final class CampaignClients {
     private final SplittableRandom rng;
     private final AtomicLong busy;
     private final AtomicLong timeouts;
+    private final Desk desk;
     private final AtomicBoolean down = new AtomicBoolean();
     private volatile String firstStop;
     private final List<Thread> threads = new ArrayList<>();
     private final List<String> failures = Collections.synchronizedList(new ArrayList<>());
 
     CampaignClients(int port, KillCampaign.Tokens tokens, Queue<String> members, AckLedger ledger,
-            AtomicLong serverErrors, AtomicLong busy, AtomicLong timeouts, AtomicInteger settingsCounter, int cycle, SplittableRandom rng) {
+            AtomicLong serverErrors, AtomicLong busy, AtomicLong timeouts, Desk desk, AtomicInteger settingsCounter, int cycle, SplittableRandom rng) {
         this.base = "http://127.0.0.1:" + port + "/api/v1/";
         this.tokens = tokens;
         this.members = members;
@@ -58,6 +71,7 @@ final class CampaignClients {
         this.serverErrors = serverErrors;
         this.busy = busy;
         this.timeouts = timeouts;
+        this.desk = desk;
         this.settingsCounter = settingsCounter;
         this.cycle = cycle;
         this.rng = rng;
@@ -132,9 +146,15 @@ final class CampaignClients {
                     HttpResponse<String> offered = send(token, "POST", pool + "queue/next", "{}");
                     JsonNode next = offered.statusCode() == 200 ? Json.tree(offered.body()) : null;
                     if (next == null || !next.hasNonNull("record")) {
+                        // Before the first batch of the campaign is served, nothing can be offered.
+                        if (next != null && desk.offered.get() > 0) {
+                            desk.empty.incrementAndGet();
+                            desk.firstEmpty.compareAndSet(null, "life " + (cycle + 1) + ": " + offered.body());
+                        }
                         Thread.sleep(25);
                         continue;
                     }
+                    desk.offered.incrementAndGet();
                     String record = next.at("/record/id").asText();
                     String label = CLASSES.get(rng.nextInt(CLASSES.size()));
                     String note = "c" + cycle + "-" + person + "-" + n++;
