@@ -77,10 +77,6 @@ final class CampaignClients {
         this.rng = rng;
     }
 
-    void requestRound() throws IOException, InterruptedException {
-        send(tokens.admin(), "POST", "pools/" + POOL + "/rounds", "");
-    }
-
     void start(int labellers) {
         for (int i = 0; i < labellers; i++) {
             int who = i;

@@ -32,7 +32,8 @@ import java.util.concurrent.atomic.AtomicLong;
  * labellers label and take labels back, a reviewer overrides, and an admin changes settings and
  * accounts, all as fast as they can; at a random moment the server gets SIGKILL, and is started
  * again on the same folder. After the last kill every write that was answered with success must
- * be in the database.
+ * be in the database. Nobody asks for the first round, as nobody would in a new team's first hour:
+ * the server serves the new pool's first batch by itself.
  *
  * <p>A kill comes once the server's life has acknowledged a number of writes drawn between
  * {@code minWrites} and {@code maxWrites}, and then up to {@link #JITTER_MILLIS} later: the moment is
@@ -113,9 +114,6 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
                 starts.add((System.nanoTime() - t0) / 1e9);
                 CampaignClients clients = new CampaignClients(server.port(), tokens, members, ledger, serverErrors,
                         busy, timeouts, desk, settingsCounter, cycle, rng.split());
-                if (cycle == 0) {
-                    clients.requestRound();
-                }
                 long before = ledger.size();
                 long quota = minWrites + rng.nextInt(maxWrites - minWrites + 1);
                 clients.start(labellers);
