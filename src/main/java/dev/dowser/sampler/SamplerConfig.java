@@ -63,15 +63,7 @@ public record SamplerConfig(KernelRule kernel, Network network, Prior prior, Cha
     public record Network(List<Integer> hidden, Activation activation) {
 
         public Network {
-            hidden = List.copyOf(hidden);
-            for (int h : hidden) {
-                if (h < 1) {
-                    throw new IllegalArgumentException("a hidden layer needs at least one unit, got " + hidden);
-                }
-            }
-            if (activation == null) {
-                throw new IllegalArgumentException("activation is required: relu or tanh");
-            }
+            hidden = Architecture.checkedHidden(hidden, activation);
         }
     }
 

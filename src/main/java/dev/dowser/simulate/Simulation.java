@@ -185,7 +185,7 @@ public final class Simulation {
         private final SeedTree seeds;
         private final boolean[] labelled;
         private Settling.StopSet stopSet;
-        private List<State> chains;
+        private List<State<?>> chains;
         private int round;
         private int count;
 

@@ -39,8 +39,7 @@ public final class ChainStateStore {
         List<Object[]> rows = new ArrayList<>(chains.size());
         for (SavedChain s : chains) {
             rows.add(new Object[] {poolId, s.chain(), s.round(), s.kernel(), s.networkJson(), toBytes(s.position()),
-                s.preconditioner() == null ? null : toBytes(s.preconditioner()),
-                s.hyper() == null ? null : Json.write(s.hyper()), s.stepSize(), s.step(), s.accepted(), s.proposed(), now});
+                s.kernelState(), s.hyper() == null ? null : Json.write(s.hyper()), s.stepSize(), s.step(), now});
         }
         sql.transaction("save the chains of pool " + poolId, c -> {
             Sql.update(c, "DELETE FROM chain_states WHERE pool_id = ? AND (round_no = ? OR round_no < (SELECT MIN(r)"
@@ -48,8 +47,8 @@ public final class ChainStateStore {
                     + " ORDER BY r DESC FETCH FIRST " + (KEPT_ROUNDS - 1) + " ROWS ONLY) AS latest))",
                     poolId, round, poolId, round);
             Sql.batch(c, "INSERT INTO chain_states (pool_id, chain_no, round_no, kernel, network, position,"
-                    + " preconditioner, hyper, step_size, step_count, accepted, proposed, saved_at)"
-                    + " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)", rows);
+                    + " kernel_state, hyper, step_size, step_count, saved_at)"
+                    + " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)", rows);
             return null;
         });
     }
@@ -66,14 +65,12 @@ public final class ChainStateStore {
 
     private List<SavedChain> load(long poolId, String roundSql, long roundParameter) {
         return sql.list("load the chains of pool " + poolId, "SELECT chain_no, round_no, kernel, network, position,"
-                + " preconditioner, hyper, step_size, step_count, accepted, proposed FROM chain_states"
+                + " kernel_state, hyper, step_size, step_count FROM chain_states"
                 + " WHERE pool_id = ? AND round_no = " + roundSql + " ORDER BY chain_no", rs -> {
-                    byte[] v = rs.getBytes(6);
                     String hyper = rs.getString(7);
                     return new SavedChain(rs.getInt(1), rs.getInt(2), rs.getString(3), rs.getString(4),
-                            toFloats(rs.getBytes(5)), v == null ? null : toFloats(v),
-                            hyper == null ? null : Json.read(hyper, double[].class), rs.getDouble(8), rs.getLong(9),
-                            rs.getLong(10), rs.getLong(11));
+                            toFloats(rs.getBytes(5)), rs.getBytes(6),
+                            hyper == null ? null : Json.read(hyper, double[].class), rs.getDouble(8), rs.getLong(9));
                 }, poolId, roundParameter);
     }
 

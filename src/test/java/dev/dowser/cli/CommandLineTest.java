@@ -130,7 +130,7 @@ class CommandLineTest {
         assertEquals(2, twice.exit());
         assertTrue(twice.err().contains("there is already an account named 'Ada Park'"), twice.err());
         Run badRole = run("users", "add", "cy", "--role", "boss", "--data", data);
-        assertTrue(badRole.err().contains("unknown role 'boss': use admin, reviewer or labeller"), badRole.err());
+        assertTrue(badRole.err().contains("unknown role 'boss': use labeller, reviewer or admin"), badRole.err());
 
         assertEquals(0, run("users", "disable", "Ada Park", "--data", data).exit());
         Run list = run("users", "list", "--data", data);
