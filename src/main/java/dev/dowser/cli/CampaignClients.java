@@ -9,6 +9,7 @@ import static dev.dowser.cli.KillCampaign.UNDO_SHARE;
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.json.Json;
 import java.io.IOException;
+import java.net.ConnectException;
 import java.net.URI;
 import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
@@ -33,6 +34,8 @@ final class CampaignClients {
 
     /** "Busy, try again": a lock not granted in time; nothing was written, and the client goes on. */
     static final int BUSY = 503;
+    /** Times a request whose connection closed before any answer is sent again (see {@link #send}). */
+    static final int RESENDS = 2;
 
     /**
      * What the desk answered over the whole campaign: records offered, and answers without one once
@@ -250,13 +253,31 @@ final class CampaignClients {
         }
     }
 
+    /**
+     * Sends a request. A connection closed before any answer while the server still listens is the
+     * server ending a kept-alive connection that sat idle past its limit just as the client reused it
+     * (the client keeps idle connections far longer than the server's minute): the request is sent
+     * again on a new connection, up to {@value #RESENDS} times. Once the server is killed, a new
+     * connection is refused, and that ends the life.
+     */
     private HttpResponse<String> send(String token, String method, String path, String body)
             throws IOException, InterruptedException {
-        HttpResponse<String> r = http.send(HttpRequest.newBuilder(URI.create(base + path))
+        HttpRequest request = HttpRequest.newBuilder(URI.create(base + path))
                 .timeout(Duration.ofSeconds(30)).header("Authorization", "Bearer " + token)
                 .header("Content-Type", "application/json")
-                .method(method, HttpRequest.BodyPublishers.ofString(body)).build(),
-                HttpResponse.BodyHandlers.ofString());
+                .method(method, HttpRequest.BodyPublishers.ofString(body)).build();
+        HttpResponse<String> r = null;
+        for (int attempt = 0; r == null; attempt++) {
+            try {
+                r = http.send(request, HttpResponse.BodyHandlers.ofString());
+            } catch (ConnectException | HttpTimeoutException e) {
+                throw e;
+            } catch (IOException e) {
+                if (attempt >= RESENDS) {
+                    throw e;
+                }
+            }
+        }
         if (r.statusCode() == BUSY) {
             busy.incrementAndGet();
         } else if (r.statusCode() >= 500) {
