@@ -198,8 +198,8 @@ final class BenchCommand implements Callable<Integer> {
         out.printf("durability_server_errors=%d%ndurability_busy=%d%ndurability_timeouts=%d%n"
                 + "durability_start_median_s=%.2f%n", r.serverErrors(), r.busy(), r.timeouts(),
                 r.startSeconds().stream().sorted().toList().get(r.startSeconds().size() / 2));
-        out.printf("durability_records=%d%ndurability_desk_offered=%d%ndurability_desk_empty=%d%n", campaign.records(),
-                r.offered(), r.empty());
+        out.printf("durability_records=%d%ndurability_desk_offered=%d%ndurability_desk_empty=%d%n"
+                + "durability_requests_resent=%d%n", campaign.records(), r.offered(), r.empty(), r.dropped());
         if (r.firstEmpty() != null) {
             out.println("durability_desk_first_empty=" + r.firstEmpty());
         }

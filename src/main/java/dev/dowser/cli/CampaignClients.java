@@ -9,7 +9,6 @@ import static dev.dowser.cli.KillCampaign.UNDO_SHARE;
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.json.Json;
 import java.io.IOException;
-import java.net.ConnectException;
 import java.net.URI;
 import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
@@ -34,8 +33,8 @@ final class CampaignClients {
 
     /** "Busy, try again": a lock not granted in time; nothing was written, and the client goes on. */
     static final int BUSY = 503;
-    /** Times a request whose connection closed before any answer is sent again (see {@link #send}). */
-    static final int RESENDS = 2;
+    /** Pause before a request that did not reach the live server is sent again (see {@link #send}). */
+    static final int RESEND_PAUSE_MILLIS = 100;
 
     /**
      * What the desk answered over the whole campaign: records offered, and answers without one once
@@ -46,6 +45,8 @@ final class CampaignClients {
         final AtomicLong offered = new AtomicLong();
         final AtomicLong empty = new AtomicLong();
         final AtomicReference<String> firstEmpty = new AtomicReference<>();
+        /** Requests that did not reach the live server and were sent again. */
+        final AtomicLong dropped = new AtomicLong();
     }
 
     private final HttpClient http = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
@@ -61,6 +62,7 @@ final class CampaignClients {
     private final AtomicLong timeouts;
     private final Desk desk;
     private final AtomicBoolean down = new AtomicBoolean();
+    private final AtomicBoolean killed = new AtomicBoolean();
     private volatile String firstStop;
     private final List<Thread> threads = new ArrayList<>();
     private final List<String> failures = Collections.synchronizedList(new ArrayList<>());
@@ -115,6 +117,11 @@ final class CampaignClients {
     /** Why the first client stopped, or null. */
     String firstStop() {
         return firstStop;
+    }
+
+    /** The campaign is about to kill the server: from now on a request that fails ends its client. */
+    void killing() {
+        killed.set(true);
     }
 
     /** False once a client found the server gone or failed. */
@@ -254,11 +261,10 @@ final class CampaignClients {
     }
 
     /**
-     * Sends a request. A connection closed before any answer while the server still listens is the
-     * server ending a kept-alive connection that sat idle past its limit just as the client reused it
-     * (the client keeps idle connections far longer than the server's minute): the request is sent
-     * again on a new connection, up to {@value #RESENDS} times. Once the server is killed, a new
-     * connection is refused, and that ends the life.
+     * Sends a request. Until the campaign kills the server, a request that fails to reach it (a
+     * kept-alive connection the server closed just as it was reused, a connection not accepted in
+     * time on a starved machine) is counted as dropped and sent again a moment later; once the
+     * server has been killed, the failure ends this client's life.
      */
     private HttpResponse<String> send(String token, String method, String path, String body)
             throws IOException, InterruptedException {
@@ -267,15 +273,17 @@ final class CampaignClients {
                 .header("Content-Type", "application/json")
                 .method(method, HttpRequest.BodyPublishers.ofString(body)).build();
         HttpResponse<String> r = null;
-        for (int attempt = 0; r == null; attempt++) {
+        while (r == null) {
             try {
                 r = http.send(request, HttpResponse.BodyHandlers.ofString());
-            } catch (ConnectException | HttpTimeoutException e) {
+            } catch (HttpTimeoutException e) {
                 throw e;
             } catch (IOException e) {
-                if (attempt >= RESENDS) {
+                if (killed.get()) {
                     throw e;
                 }
+                desk.dropped.incrementAndGet();
+                Thread.sleep(RESEND_PAUSE_MILLIS);
             }
         }
         if (r.statusCode() == BUSY) {

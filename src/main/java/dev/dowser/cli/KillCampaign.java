@@ -85,10 +85,11 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
      * What a campaign did: the check of its acknowledged writes, the server's failures (5xx other than
      * busy), its "busy, try again" answers, requests with no answer in time, restart times, and the
      * desk's answers: those with a record, and those without one once the first batch was served
-     * (with the first such answer's message).
+     * (with the first such answer's message), and requests that did not reach the live server and were
+     * sent again.
      */
     record Report(AckLedger.Check check, long serverErrors, long busy, long timeouts, List<Double> startSeconds,
-                  long offered, long empty, String firstEmpty) {
+                  long offered, long empty, String firstEmpty, long dropped) {
     }
 
     /**
@@ -123,6 +124,7 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
                     Thread.sleep(5);
                 }
                 Thread.sleep(rng.nextInt(JITTER_MILLIS + 1));
+                clients.killing();
                 server.kill();
                 clients.join();
                 if (ledger.size() - before < quota) {
@@ -138,7 +140,7 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
         }
         try (Database db = Database.open(data, Clock.systemUTC())) {
             return new Report(ledger.check(db, POOL), serverErrors.get(), busy.get(), timeouts.get(), starts,
-                    desk.offered.get(), desk.empty.get(), desk.firstEmpty.get());
+                    desk.offered.get(), desk.empty.get(), desk.firstEmpty.get(), desk.dropped.get());
         }
     }
 
