@@ -70,7 +70,7 @@ class EmptyDeskTest {
         assertEquals(why + "; ask a reviewer or an admin to start one from the pool's overview", labeller.message());
         Offer reviewer = desk.next("p", "rae", true);
         assertNull(reviewer.record());
-        assertEquals(why + "; start one from the pool's overview (Rounds, Start a round) once the cause is fixed",
+        assertEquals(why + "; once the cause is fixed, press Start a round now on the pool's overview",
                 reviewer.message());
         // Asking again does not start a failing round over and over; the pool's rounds say what happened.
         assertEquals(List.of(RoundStatus.FAILED), db.rounds().list(db.pools().require("p").id()).stream()
