@@ -31,7 +31,7 @@ import picocli.CommandLine.Spec;
             "import: a generated CSV of N rows x 64 numeric features into a fresh pool, at N/10 and at N in"
                 + " the same run; rows per second, the peak heap (what the collector let the heap grow to) and"
                 + " the live heap (the most still in use just after a collection), so memory that grows with"
-                + " the file would show. Then the same number of fields in 64, 2,000 and 20,000 columns:"
+                + " the file would show. Then the same number of fields in 64, 2,000, 10,000 and 20,000 columns:"
                 + " fields per second and each against 64 columns (1.0 when the cost is linear in the columns).",
             "sgemm: square single-precision products through the BLAS the model uses, one per core at once"
                 + " (the machine's throughput) and on one thread.",
