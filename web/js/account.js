@@ -2,6 +2,7 @@
 // role may open, and signing out. Parts of a page marked data-role="admin" or "reviewer" are
 // removed for roles below that; the server refuses those calls anyway, this only keeps the page honest.
 import { session, deleteJson } from './api.js';
+import { el } from './dom.js';
 
 const RANK = { labeller: 0, reviewer: 1, admin: 2 };
 
@@ -31,7 +32,7 @@ export async function showAccount() {
   who.className = 'who';
   who.href = 'account.html';
   who.title = 'your account and API tokens';
-  who.textContent = `${me.name} · ${me.role}`;
+  who.append(me.name, el('span', 'role', ` · ${me.role}`));
   const out = document.createElement('button');
   out.type = 'button';
   out.className = 'sign-out';

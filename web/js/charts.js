@@ -14,8 +14,8 @@ function label(x, y, text, anchor = 'middle') {
 }
 
 /**
- * A line of y against x with a shaded band from low to high (an interval per point), on axes
- * from 0 to the largest x and from 0 to 1.
+ * Points of y against x, each with its interval from low to high, joined by a line over a shaded
+ * band once there are three; on axes from 0 to the largest x and from 0 to 1.
  */
 export function bandChart(points, { xTitle, yTitle }) {
   const width = 520;
@@ -33,11 +33,18 @@ export function bandChart(points, { xTitle, yTitle }) {
   svg.append(label(pad.left, height - 8, '0', 'middle'));
   svg.append(label(width - pad.right, height - 8, String(maxX), 'end'));
   svg.append(label((width + pad.left) / 2, height - 8, xTitle));
-  if (points.length > 0) {
+  // A band needs a few points to read as one; each point also shows as a dot with its interval.
+  if (points.length >= 3) {
     const upper = points.map((p) => `${sx(p.x).toFixed(1)},${sy(p.high).toFixed(1)}`);
     const lower = points.map((p) => `${sx(p.x).toFixed(1)},${sy(p.low).toFixed(1)}`).reverse();
     svg.append(el('polygon', { points: upper.concat(lower).join(' '), class: 'band' }));
+  }
+  if (points.length >= 2) {
     svg.append(el('polyline', { points: points.map((p) => `${sx(p.x).toFixed(1)},${sy(p.y).toFixed(1)}`).join(' '), class: 'line' }));
+  }
+  for (const p of points) {
+    svg.append(el('line', { x1: sx(p.x), x2: sx(p.x), y1: sy(p.low), y2: sy(p.high), class: 'whisker' }));
+    svg.append(el('circle', { cx: sx(p.x), cy: sy(p.y), r: 3, class: 'dot' }));
   }
   return svg;
 }

@@ -61,7 +61,8 @@ function renderChoices() {
       b.append(k);
     }
     // A class that is its own key (the digit 3) shows once, as its key.
-    if (!ownKey(c)) b.append(document.createTextNode(c.name));
+    if (ownKey(c)) b.classList.add('own-key');
+    else b.append(document.createTextNode(c.name));
     b.setAttribute('aria-label', `${c.name}${c.key ? ` (key ${c.key})` : ''}`);
     b.addEventListener('click', () => label(c.name));
     box.append(b);

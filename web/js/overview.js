@@ -54,11 +54,16 @@ async function showAccuracy() {
         + ` ${a.picked.labels} labels.`);
     } else {
       const li = listItem(facts, 'Picked records cannot tell: this pool picks the best scores outright, and such picks'
-        + ' cannot be weighted back to the whole pool; picking by power sampling would let every label count. ');
+        + ' cannot be weighted back to the whole pool. ');
       const link = document.createElement('a');
       link.href = '#settings';
-      link.textContent = 'Picking';
-      li.append(link);
+      link.textContent = 'Pick by power sampling';
+      // Like chain advice, the link fills in the setting; an admin saves it.
+      link.addEventListener('click', () => {
+        const form = $('settings');
+        if (form && !form.elements.strategy.disabled) form.elements.strategy.value = 'power';
+      });
+      li.append(link, ' to let every label count.');
     }
     const s = a.spot_checks;
     if (s.labels > 0) {
@@ -76,7 +81,9 @@ async function showAccuracy() {
     }
   }
   const points = a.rounds.map((p) => ({ x: p.model_labels, y: p.accuracy, low: p.lower, high: p.upper }));
-  $('accuracy-chart').replaceChildren(bandChart(points, { xTitle: 'labels the model learnt from', yTitle: 'accuracy' }));
+  // No chart before the first estimate: empty axes say nothing.
+  $('accuracy-chart').replaceChildren(...(points.length
+    ? [bandChart(points, { xTitle: 'labels the model learnt from', yTitle: 'accuracy' })] : []));
   $('accuracy-chart-note').textContent = points.length
     ? 'Each round\'s own estimate from its labels, with its 95% interval; each rests on few labels, so they scatter.'
     : '';
@@ -134,7 +141,7 @@ function showHealth(round) {
     ['How far the chains agree (R-hat; 1 is full agreement)',
       `${fixed(h.rhatMax, 2)}; fine up to ${fixed(a.rhat_ceiling, 2)} for these draws`],
     ['Independent draws (effective sample size)',
-      `${fixed(Math.min(h.essBulkMin, h.essTailMin), 0)}; fine from ${fixed(a.ess_floor, 1)}`],
+      `${fixed(Math.min(h.essBulkMin, h.essTailMin), 0)}; fine from ${fixed(Math.ceil(a.ess_floor), 0)}`],
     ['Acceptance', h.acceptance === null || Number.isNaN(h.acceptance) ? 'not an accept-reject kernel'
       : fixed(h.acceptance, 2)],
     ['Steps undone and retried smaller', String(h.divergences)],
@@ -151,10 +158,14 @@ function showHealth(round) {
 const ROUNDS_PAGE = 15;
 let roundsOffset = 0;
 
-/** A round's note when it says something new: its failure or stop, or a reason unlike the older round's. */
+/** A message with its numbers left out: "30 labelled rows ..." and "40 labelled rows ..." say the same. */
+const wording = (m) => (m || '').replace(/[0-9][0-9.,]*/g, '#');
+
+/** A round's note when it says something new: its failure or stop, or a reason worded unlike the older round's. */
 function roundNote(round, older) {
   if (!round.message) return '';
-  if (round.status !== 'published' || !older || older.message !== round.message || older.kernel !== round.kernel) {
+  if (round.status !== 'published' || !older || wording(older.message) !== wording(round.message)
+    || older.kernel !== round.kernel) {
     return round.message;
   }
   return '';
@@ -181,8 +192,15 @@ async function showRounds() {
     cell(row, round.health ? (Number.isNaN(h.acceptance) || h.acceptance === null
       ? Number(h.meanStepSize).toExponential(2) : fixed(h.acceptance, 2)) : '—');
     cell(row, round.health ? String(h.divergences) : '—');
-    cell(row, roundNote(round, r.rounds[i + 1]), 'note-cell');
     body.append(row);
+    // A note gets a line of its own under its round, so the numbers above stay in narrow columns.
+    const note = roundNote(round, r.rounds[i + 1]);
+    if (note) {
+      const noteRow = document.createElement('tr');
+      noteRow.className = `round-note status-${round.status}`;
+      cell(noteRow, note, 'note-cell').colSpan = row.cells.length;
+      body.append(noteRow);
+    }
   });
   $('rounds-facts').textContent = r.total === 0 ? 'No round yet.'
     : `${roundsOffset + 1}–${roundsOffset + shown.length} of ${r.total}`;

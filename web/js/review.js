@@ -79,7 +79,8 @@ function decisionForm(record, list, cardElement) {
     b.setAttribute('aria-checked', 'false');
     b.dataset.label = c.name;
     if (c.key) b.append(el('kbd', null, c.key));
-    if (c.key !== c.name) b.append(document.createTextNode(c.name));
+    if (c.key === c.name) b.classList.add('own-key');
+    else b.append(document.createTextNode(c.name));
     b.setAttribute('aria-label', `${c.name}${c.key ? ` (key ${c.key})` : ''}`);
     b.addEventListener('click', () => choose(c.name));
     buttons.set(c.name, b);

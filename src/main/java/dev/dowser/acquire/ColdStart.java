@@ -1,5 +1,6 @@
 package dev.dowser.acquire;
 
+import dev.dowser.words.Worded;
 import java.util.Arrays;
 import java.util.SplittableRandom;
 
@@ -20,21 +21,17 @@ import java.util.SplittableRandom;
 public final class ColdStart {
 
     /** Which way a cold start picks. */
-    public enum Method {
+    public enum Method implements Worded {
         KMEANS_PLUS_PLUS,
         TYPICLUST;
 
+        @Override
         public String word() {
             return this == KMEANS_PLUS_PLUS ? "kmeans++" : "typiclust";
         }
 
         public static Method parse(String word) {
-            for (Method m : values()) {
-                if (m.word().equalsIgnoreCase(word.trim())) {
-                    return m;
-                }
-            }
-            throw new IllegalArgumentException("unknown cold start '" + word + "': use kmeans++ or typiclust");
+            return Worded.parse(Method.class, word, "cold start");
         }
     }
 

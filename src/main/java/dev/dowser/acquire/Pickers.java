@@ -116,47 +116,70 @@ public final class Pickers {
      * then uniformly among themselves.
      */
     public static Picks power(double[] scores, int b, double beta, SplittableRandom rng) {
+        return power(scores, b, beta, 0, rng);
+    }
+
+    /**
+     * Power sampling from the defensive mixture (Hesterberg 1995, "Weighted average importance
+     * sampling and defensive mixture distributions"): w_i = (1 - e) score_i^beta / sum_j score_j^beta
+     * + e / n, so every record's probability is at least e / n and an importance weight 1 / (n q)
+     * at most 1 / e. {@code uniformShare} e = 0 is plain power sampling.
+     */
+    public static Picks power(double[] scores, int b, double beta, double uniformShare, SplittableRandom rng) {
         if (!(beta > 0)) {
             throw new IllegalArgumentException("beta must be positive, got " + beta);
         }
+        if (!(uniformShare >= 0 && uniformShare <= 1)) {
+            throw new IllegalArgumentException("the uniform share must lie between 0 and 1, got " + uniformShare);
+        }
         int n = scores.length;
-        double[] perturbed = new double[n];
         double[] weight = new double[n];
         double maxLog = Double.NEGATIVE_INFINITY;
-        int positive = 0;
+        for (double s : scores) {
+            if (s > 0) {
+                maxLog = Math.max(maxLog, beta * Math.log(s));
+            }
+        }
+        // Weights relative to the largest, so score^beta neither overflows nor underflows to all zeros.
+        double sum = 0;
         for (int i = 0; i < n; i++) {
-            // Gumbel(0, 1/beta) = -log(-log U) / beta; 1 - U keeps U away from 0.
-            double u = 1 - rng.nextDouble();
-            double gumbel = -Math.log(-Math.log(u)) / beta;
-            if (scores[i] > 0) {
-                perturbed[i] = Math.log(scores[i]) + gumbel;
-                maxLog = Math.max(maxLog, beta * Math.log(scores[i]));
+            weight[i] = scores[i] > 0 ? Math.exp(beta * Math.log(scores[i]) - maxLog) : 0;
+            sum += weight[i];
+        }
+        double total = 0;
+        int positive = 0;
+        double[] perturbed = new double[n];
+        for (int i = 0; i < n; i++) {
+            if (sum > 0) {
+                weight[i] = (1 - uniformShare) * weight[i] / sum + uniformShare / n;
+            } else {
+                weight[i] = uniformShare / n;
+            }
+            total += weight[i];
+            // Gumbel(0, 1) = -log(-log U); 1 - U keeps U away from 0.
+            double gumbel = -Math.log(-Math.log(1 - rng.nextDouble()));
+            if (weight[i] > 0) {
+                perturbed[i] = Math.log(weight[i]) + gumbel;
                 positive++;
             } else {
                 perturbed[i] = Double.NEGATIVE_INFINITY;
             }
         }
-        // Weights relative to the largest, so score^beta neither overflows nor underflows to all zeros.
-        double total = 0;
-        for (int i = 0; i < n; i++) {
-            weight[i] = scores[i] > 0 ? Math.exp(beta * Math.log(scores[i]) - maxLog) : 0;
-            total += weight[i];
-        }
         int k = Math.min(b, n);
-        int fromScores = Math.min(k, positive);
-        int[] top = topB(perturbed, fromScores);
+        int fromWeights = Math.min(k, positive);
+        int[] top = topB(perturbed, fromWeights);
         int[] out = new int[k];
         double[] q = new double[k];
         double left = total;
-        for (int m = 0; m < fromScores; m++) {
+        for (int m = 0; m < fromWeights; m++) {
             out[m] = top[m];
             q[m] = weight[top[m]] / left;
             left -= weight[top[m]];
         }
-        if (fromScores < k) {
-            Picks rest = uniformAmong(zeroScored(scores), k - fromScores, rng);
-            System.arraycopy(rest.positions(), 0, out, fromScores, rest.size());
-            System.arraycopy(rest.probabilities(), 0, q, fromScores, rest.size());
+        if (fromWeights < k) {
+            Picks rest = uniformAmong(zeroScored(weight), k - fromWeights, rng);
+            System.arraycopy(rest.positions(), 0, out, fromWeights, rest.size());
+            System.arraycopy(rest.probabilities(), 0, q, fromWeights, rest.size());
         }
         return new Picks(out, q);
     }

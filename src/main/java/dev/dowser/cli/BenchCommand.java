@@ -5,6 +5,7 @@ import dev.dowser.data.ImportProgress;
 import dev.dowser.data.ImportResult;
 import dev.dowser.data.ImportSpec;
 import dev.dowser.data.Importer;
+import dev.dowser.simulate.Simulation;
 import dev.dowser.store.Database;
 import java.io.IOException;
 import java.io.InputStream;
@@ -46,8 +47,11 @@ import picocli.CommandLine.Spec;
             "round: a whole round on a 100,000-row pool with 1000 labels: continue the chains, score the"
                 + " pool with 64 draws, pick 10.",
             "desk: 20 simulated labellers on loopback submit a label and ask for the next record (200 ms"
-                + " apart) while rounds run on a 100,000-row pool (batch 100): p50 and p99 of submit-and-next,"
-                + " and the time from a batch's last label to its new queue being served. 60 s, 15 with --quick.",
+                + " apart) while rounds run on a 100,000-row pool (batch 100), with commits written before they"
+                + " return and delayed (H2's default) in the same run: p50 and p99 of submit-and-next, their ratio,"
+                + " and the time from a batch's last label to its new queue being served; then the empty answers"
+                + " while records remain with 1 and 20 labellers on the defaults, 20 with BatchBALD at 20 a round"
+                + " and 50 on the defaults. About 4 minutes, 2 with --quick.",
             "durability: the server as its own process, 8 labellers, a reviewer and an admin writing as fast as"
                 + " they can, killed with SIGKILL 25 times (5 with --quick) at random moments (after 250 to 750"
                 + " acknowledged writes, then up to 0.3 s) and restarted: every"
@@ -55,7 +59,7 @@ import picocli.CommandLine.Spec;
                 + " prints the counts acknowledged and lost.",
             "labels (only when named): the label-savings benchmark, simulate on digits, breast cancer, wine, iris,"
                 + " the demo's pumps and Fashion-MNIST (pool 60,000, test 10,000, 50 principal components) with"
-                + " paired seeds: labels to each target, random's labels over the strategy's with 90% bootstrap"
+                + " paired seeds: labels to each target, random's labels over the strategy's with 90%% bootstrap"
                 + " intervals, area-under-the-curve gains; curves and a table (labels.md) in --labels-out. Hours.",
             "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: files to import,"
                 + " heads of files to preview, every JSON body; jqwik properties of the test sources, run through"
@@ -95,7 +99,7 @@ final class BenchCommand implements Callable<Integer> {
             description = "labels: strategies besides random, the first one in the table (default: default).")
     java.util.List<String> strategies = java.util.List.of(dev.dowser.rounds.Strategy.DEFAULT_WORD);
 
-    @Option(names = "--seeds", defaultValue = "10", paramLabel = "N", description = "labels: paired seeds (default: ${DEFAULT-VALUE}).")
+    @Option(names = "--seeds", defaultValue = "" + Simulation.Plan.DEFAULT_SEEDS, paramLabel = "N", description = "labels: paired seeds (default: ${DEFAULT-VALUE}).")
     int seeds;
 
     @Option(names = "--datasets-dir", defaultValue = "target/datasets", paramLabel = "DIR",
@@ -179,11 +183,9 @@ final class BenchCommand implements Callable<Integer> {
         if (wants("durability")) {
             Path dir = work != null ? Files.createDirectories(work.resolve("durability"))
                     : Files.createTempDirectory("dowser-durability-");
-            try {
-                durability(out, dir, quick);
-            } finally {
-                Folders.deleteTree(dir);
-            }
+            // Kept when the campaign fails: its server log and database show why.
+            durability(out, dir, quick);
+            Folders.deleteTree(dir);
         }
         return 0;
     }
@@ -203,7 +205,8 @@ final class BenchCommand implements Callable<Integer> {
                 r.check().acknowledged(), r.check().lost());
         r.check().counts().forEach((kind, c) -> out.printf("durability_%s_acknowledged=%d%ndurability_%s_lost=%d%n",
                 kind.name().toLowerCase(java.util.Locale.ROOT), c[0], kind.name().toLowerCase(java.util.Locale.ROOT), c[1]));
-        out.printf("durability_server_errors=%d%ndurability_start_median_s=%.2f%n", r.serverErrors(),
+        out.printf("durability_server_errors=%d%ndurability_busy=%d%ndurability_timeouts=%d%n"
+                + "durability_start_median_s=%.2f%n", r.serverErrors(), r.busy(), r.timeouts(),
                 r.startSeconds().stream().sorted().toList().get(r.startSeconds().size() / 2));
         r.check().missing().stream().limit(10).forEach(a -> out.println("durability_missing=" + a));
         out.flush();
@@ -239,12 +242,10 @@ final class BenchCommand implements Callable<Integer> {
         }
     }
 
-    /** n rows: an id, then 64 Gaussian features written with four decimals. */
-    static void writeCsv(Path file, int n) throws IOException {
-        writeRows(file, n, FileFormat.CSV);
-    }
-
-    /** The same rows as CSV or as JSON Lines ({"id": "r0", "f0": 0.1234, ...}), from the same seed. */
+    /**
+     * n rows, as CSV or as JSON Lines ({"id": "r0", "f0": 0.1234, ...}), the same from the same seed: an id,
+     * then 64 Gaussian features written with four decimals.
+     */
     static void writeRows(Path file, int n, FileFormat format) throws IOException {
         boolean csv = format == FileFormat.CSV;
         SplittableRandom rng = new SplittableRandom(SEED);

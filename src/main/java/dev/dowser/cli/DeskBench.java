@@ -51,9 +51,9 @@ import java.util.stream.Stream;
  * (as served) and delayed (H2's default), in the order written, delayed, delayed, written so that
  * neither gets the warm-up alone; the latency of submit-and-next, and for each round the labels
  * start, the time from the batch's last label to the new queue being served.</li>
- * <li>Whether the desk ever waits: 1 labeller on the default settings, 20 on the defaults, and 20
- * with BatchBALD at 20 a round; the count of answers with no record while the pool still has
- * thousands unlabelled (any such answer is an empty desk).</li>
+ * <li>Whether the desk ever waits: 1 labeller on the default settings, 20 on the defaults, 20
+ * with BatchBALD at 20 a round, and a crowd of 50 on the defaults; the count of answers with no
+ * record while the pool still has thousands unlabelled (any such answer is an empty desk).</li>
  * </ul>
  */
 final class DeskBench {
@@ -63,6 +63,8 @@ final class DeskBench {
     static final int CLASSES = 10;
     static final int LABELLED = 1_000;
     static final int LABELLERS = 20;
+    /** The crowd of issue 11's load test, where half the desk's answers were empty. */
+    static final int CROWD = 50;
     /** Labels per round in the commit phases: the batch size a team of 20 would choose. */
     static final int BATCH = 100;
     /** Pause between a labeller's records; a person takes seconds, so this is many times the real load. */
@@ -124,10 +126,13 @@ final class DeskBench {
         for (Phase p : List.of(new Phase("one_default", Database.Commits.WRITTEN, 1, PoolSettings.defaults(), emptySeconds),
                 new Phase("twenty_default", Database.Commits.WRITTEN, LABELLERS, PoolSettings.defaults(), emptySeconds),
                 new Phase("twenty_batchbald20", Database.Commits.WRITTEN, LABELLERS, settings(20, Strategy.BATCHBALD),
-                        emptySeconds))) {
+                        emptySeconds),
+                new Phase("fifty_default", Database.Commits.WRITTEN, CROWD, PoolSettings.defaults(), emptySeconds))) {
             Result r = phase(dir, seeded, tokens, p);
-            out.printf("desk_empty_%s=%d%ndesk_answers_%s=%d%ndesk_rounds_%s=%d%n", p.tag(), r.empty(), p.tag(),
-                    r.answers(), p.tag(), r.turnarounds().length);
+            out.printf("desk_empty_%s=%d%ndesk_answers_%s=%d%ndesk_rounds_%s=%d%n"
+                    + "desk_%s_submit_and_next_p50_ms=%.1f%ndesk_%s_submit_and_next_p99_ms=%.1f%n", p.tag(), r.empty(),
+                    p.tag(), r.answers(), p.tag(), r.turnarounds().length, p.tag(), quantile(r.latencies(), 0.5) / 1e6,
+                    p.tag(), quantile(r.latencies(), 0.99) / 1e6);
             out.flush();
         }
     }
@@ -197,7 +202,7 @@ final class DeskBench {
     private static List<String> labellerTokens(Database db) {
         Accounts accounts = new Accounts(db, new SecureRandom(), TeamConfig.defaults().withIterations(1_000));
         List<String> tokens = new ArrayList<>();
-        for (int p = 0; p < LABELLERS; p++) {
+        for (int p = 0; p < CROWD; p++) {
             String name = "bench-" + p;
             accounts.add(name, Role.LABELLER, UsersCommand.generatePassword(new SecureRandom()), "bench");
             tokens.add(accounts.newToken(new Caller(name, Role.LABELLER, null, null), "bench"));

@@ -44,7 +44,7 @@ final class FitCommand implements Callable<Integer> {
     @Mixin
     SamplerOptions sampler;
 
-    @Option(names = "--test-fraction", defaultValue = "0.3", paramLabel = "F",
+    @Option(names = "--test-fraction", defaultValue = "" + Splits.DEFAULT_TEST_FRACTION, paramLabel = "F",
             description = "Share held out for testing, per class (default: ${DEFAULT-VALUE}).")
     double testFraction;
 

@@ -1,11 +1,9 @@
 package dev.dowser.cli;
 
-import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.data.FileFormat;
 import dev.dowser.data.ImportProgress;
 import dev.dowser.data.ImportSpec;
 import dev.dowser.data.Importer;
-import dev.dowser.json.Json;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.store.Database;
@@ -17,10 +15,6 @@ import java.io.IOException;
 import java.io.InputStream;
 import java.io.PrintWriter;
 import java.io.Writer;
-import java.net.URI;
-import java.net.http.HttpClient;
-import java.net.http.HttpRequest;
-import java.net.http.HttpResponse;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -30,7 +24,6 @@ import java.time.Duration;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
-import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.concurrent.atomic.AtomicInteger;
 import java.util.concurrent.atomic.AtomicLong;
 
@@ -78,8 +71,11 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
         }
     }
 
-    /** What a campaign did: the check of its acknowledged writes, the server's 5xx answers, restart times. */
-    record Report(AckLedger.Check check, long serverErrors, List<Double> startSeconds) {
+    /**
+     * What a campaign did: the check of its acknowledged writes, the server's failures (5xx other than
+     * busy), its "busy, try again" answers, requests with no answer in time, and restart times.
+     */
+    record Report(AckLedger.Check check, long serverErrors, long busy, long timeouts, List<Double> startSeconds) {
     }
 
     /**
@@ -91,6 +87,8 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
         Tokens tokens = prepare(dir, data);
         AckLedger ledger = new AckLedger();
         AtomicLong serverErrors = new AtomicLong();
+        AtomicLong busy = new AtomicLong();
+        AtomicLong timeouts = new AtomicLong();
         AtomicInteger settingsCounter = new AtomicInteger(100);
         java.util.Queue<String> members = new java.util.concurrent.ConcurrentLinkedQueue<>(tokens.members());
         SplittableRandom rng = new SplittableRandom(seed);
@@ -100,8 +98,8 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
             long t0 = System.nanoTime();
             try (ServerProcess server = ServerProcess.start(launcher, data, serverLog)) {
                 starts.add((System.nanoTime() - t0) / 1e9);
-                Clients clients = new Clients(server.port(), tokens, members, ledger, serverErrors, settingsCounter,
-                        cycle, rng.split());
+                CampaignClients clients = new CampaignClients(server.port(), tokens, members, ledger, serverErrors,
+                        busy, timeouts, settingsCounter, cycle, rng.split());
                 if (cycle == 0) {
                     clients.requestRound();
                 }
@@ -119,7 +117,8 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
                 if (ledger.size() - before < quota) {
                     throw new IllegalStateException("life " + (cycle + 1) + " acknowledged only "
                             + (ledger.size() - before) + " of " + quota + " writes in " + LIFE_DEADLINE.toSeconds()
-                            + " s; see " + serverLog);
+                            + " s" + (clients.firstStop() == null ? "" : " (a client stopped first: "
+                            + clients.firstStop() + ")") + "; see " + serverLog);
                 }
                 log.printf("durability: kill %d of %d after %d ms and %d writes; %d acknowledged so far%n", cycle + 1,
                         kills, (System.nanoTime() - began) / 1_000_000, ledger.size() - before, ledger.size());
@@ -127,7 +126,7 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
             }
         }
         try (Database db = Database.open(data, Clock.systemUTC())) {
-            return new Report(ledger.check(db, POOL), serverErrors.get(), starts);
+            return new Report(ledger.check(db, POOL), serverErrors.get(), busy.get(), timeouts.get(), starts);
         }
     }
 
@@ -190,182 +189,5 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
     private static String token(Accounts accounts, String name, Role role) {
         accounts.add(name, role, UsersCommand.generatePassword(new SecureRandom()), "campaign");
         return accounts.newToken(new Caller(name, role, null, null), "campaign");
-    }
-
-    /** The clients of one server life: they work until a request fails to reach the server. */
-    private static final class Clients {
-
-        private final HttpClient http = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
-        private final String base;
-        private final Tokens tokens;
-        private final java.util.Queue<String> members;
-        private final AckLedger ledger;
-        private final AtomicLong serverErrors;
-        private final AtomicInteger settingsCounter;
-        private final int cycle;
-        private final SplittableRandom rng;
-        private final AtomicBoolean down = new AtomicBoolean();
-        private final List<Thread> threads = new ArrayList<>();
-        private final List<String> failures = java.util.Collections.synchronizedList(new ArrayList<>());
-
-        Clients(int port, Tokens tokens, java.util.Queue<String> members, AckLedger ledger, AtomicLong serverErrors,
-                AtomicInteger settingsCounter, int cycle, SplittableRandom rng) {
-            this.base = "http://127.0.0.1:" + port + "/api/v1/";
-            this.tokens = tokens;
-            this.members = members;
-            this.ledger = ledger;
-            this.serverErrors = serverErrors;
-            this.settingsCounter = settingsCounter;
-            this.cycle = cycle;
-            this.rng = rng;
-        }
-
-        void requestRound() throws IOException, InterruptedException {
-            send(tokens.admin(), "POST", "pools/" + POOL + "/rounds", "");
-        }
-
-        void start(int labellers) {
-            for (int i = 0; i < labellers; i++) {
-                int who = i;
-                SplittableRandom own = rng.split();
-                threads.add(new Thread(() -> labeller(who, own), "labeller-" + i));
-            }
-            SplittableRandom own = rng.split();
-            threads.add(new Thread(() -> reviewer(own), "reviewer"));
-            threads.add(new Thread(this::admin, "admin"));
-            threads.add(new Thread(this::addAccount, "accounts"));
-            threads.forEach(t -> t.setUncaughtExceptionHandler((thread, e) -> {
-                down.set(true);
-                failures.add(thread.getName() + ": " + e);
-            }));
-            threads.forEach(Thread::start);
-        }
-
-        /** False once a client found the server gone or failed. */
-        boolean working() {
-            return !down.get();
-        }
-
-        void join() throws InterruptedException {
-            for (Thread t : threads) {
-                t.join(Duration.ofSeconds(60).toMillis());
-                if (t.isAlive()) {
-                    throw new IllegalStateException(t.getName() + " still runs a minute after the server was killed");
-                }
-            }
-            if (!failures.isEmpty()) {
-                throw new IllegalStateException("a client failed: " + failures);
-            }
-        }
-
-        private void labeller(int who, SplittableRandom rng) {
-            String token = tokens.labellers().get(who);
-            String person = tokens.labellerNames().get(who);
-            String pool = "pools/" + POOL + "/";
-            int n = 0;
-            try {
-                while (true) {
-                    JsonNode next = Json.tree(send(token, "POST", pool + "queue/next", "{}").body());
-                    if (!next.hasNonNull("record")) {
-                        Thread.sleep(25);
-                        continue;
-                    }
-                    String record = next.at("/record/id").asText();
-                    String label = CLASSES.get(rng.nextInt(CLASSES.size()));
-                    String note = "c" + cycle + "-" + person + "-" + n++;
-                    HttpResponse<String> r = send(token, "POST", pool + "labels", Json.write(Json.object()
-                            .put("record", record).put("label", label).put("note", note)));
-                    if (r.statusCode() != 201) {
-                        continue;
-                    }
-                    ledger.add(new AckLedger.Ack(AckLedger.Kind.LABEL, cycle, record, person, note, label));
-                    if (rng.nextDouble() < UNDO_SHARE && send(token, "POST", pool + "labels/undo",
-                            Json.write(Json.object().put("record", record))).statusCode() == 200) {
-                        ledger.add(new AckLedger.Ack(AckLedger.Kind.WITHDRAWAL, cycle, record, person, note, label));
-                    }
-                }
-            } catch (IOException | InterruptedException e) {
-                down.set(true);
-            }
-        }
-
-        /** Overrides labels acknowledged earlier, each with a reason of its own. */
-        private void reviewer(SplittableRandom rng) {
-            int n = 0;
-            try {
-                while (!down.get()) {
-                    List<AckLedger.Ack> labels = ledger.labels();
-                    if (labels.isEmpty()) {
-                        Thread.sleep(50);
-                        continue;
-                    }
-                    AckLedger.Ack target = labels.get(rng.nextInt(labels.size()));
-                    String label = CLASSES.get(rng.nextInt(CLASSES.size()));
-                    String reason = "c" + cycle + "-review-" + n++;
-                    HttpResponse<String> r = send(tokens.reviewer(), "POST", "pools/" + POOL + "/reviews",
-                            Json.write(Json.object().put("record", target.record()).put("verdict", "override")
-                                    .put("label", label).put("reason", reason)));
-                    if (r.statusCode() == 201) {
-                        ledger.add(new AckLedger.Ack(AckLedger.Kind.REVIEW, cycle, target.record(), "reviewer", reason,
-                                label));
-                    }
-                    Thread.sleep(REVIEW_PAUSE_MILLIS);
-                }
-            } catch (IOException | InterruptedException e) {
-                down.set(true);
-            }
-        }
-
-        /** Changes the lease length (each change to a value never used before) and adds and changes accounts. */
-        private void admin() {
-            int n = 0;
-            try {
-                while (!down.get()) {
-                    int minutes = settingsCounter.getAndIncrement();
-                    if (send(tokens.admin(), "PUT", "pools/" + POOL + "/settings",
-                            "{\"lease_minutes\":" + minutes + "}").statusCode() == 200) {
-                        ledger.add(new AckLedger.Ack(AckLedger.Kind.SETTINGS, cycle, null, "lead",
-                                Integer.toString(minutes), null));
-                    }
-                    String member = n++ % 2 == 0 ? members.poll() : null;
-                    if (member != null && send(tokens.admin(), "PUT", "users/" + member, "{\"role\":\"reviewer\"}")
-                            .statusCode() == 200) {
-                        ledger.add(new AckLedger.Ack(AckLedger.Kind.ACCOUNT, cycle, null, "lead", member, "reviewer"));
-                    }
-                    Thread.sleep(ADMIN_PAUSE_MILLIS);
-                }
-            } catch (IOException | InterruptedException e) {
-                down.set(true);
-            }
-        }
-
-        /**
-         * Adds one account: the server hashes its password with the full PBKDF2 work, which takes a
-         * while on a busy machine, so the kill may well come first.
-         */
-        private void addAccount() {
-            String name = "added-in-life-" + cycle;
-            try {
-                if (send(tokens.admin(), "POST", "users", Json.write(Json.object().put("name", name)
-                        .put("role", "labeller").put("password", "campaign-" + name))).statusCode() == 201) {
-                    ledger.add(new AckLedger.Ack(AckLedger.Kind.ACCOUNT, cycle, null, "lead", name, null));
-                }
-            } catch (IOException | InterruptedException e) {
-                down.set(true);
-            }
-        }
-
-        private HttpResponse<String> send(String token, String method, String path, String body)
-                throws IOException, InterruptedException {
-            HttpResponse<String> r = http.send(HttpRequest.newBuilder(URI.create(base + path))
-                    .timeout(Duration.ofSeconds(30)).header("Authorization", "Bearer " + token)
-                    .header("Content-Type", "application/json")
-                    .method(method, HttpRequest.BodyPublishers.ofString(body)).build(),
-                    HttpResponse.BodyHandlers.ofString());
-            if (r.statusCode() >= 500) {
-                serverErrors.incrementAndGet();
-            }
-            return r;
-        }
     }
 }

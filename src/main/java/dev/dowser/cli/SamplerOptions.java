@@ -6,13 +6,12 @@ import dev.dowser.model.Prior;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.SamplerConfig;
 import java.util.List;
-import java.util.Locale;
 import picocli.CommandLine.Option;
 
 /** How the posterior is sampled, as options shared by {@code fit} and {@code simulate}; defaults are the app's. */
 final class SamplerOptions {
 
-    @Option(names = "--kernel", defaultValue = "auto", paramLabel = "auto|sgld|psgld|mala",
+    @Option(names = "--kernel", defaultValue = "auto", paramLabel = "auto|sgld|psgld|mala|sghmc",
             description = "Sampler kernel (default: ${DEFAULT-VALUE}: MALA up to "
                     + SamplerConfig.DEFAULT_MALA_MAX_ROWS + " labelled rows, preconditioned SGLD beyond).")
     String kernel;
@@ -60,7 +59,7 @@ final class SamplerOptions {
             description = "Posterior temperature; 1 is the true posterior (default: ${DEFAULT-VALUE}).")
     double temperature;
 
-    @Option(names = "--map-steps", defaultValue = "0", paramLabel = "N",
+    @Option(names = "--map-steps", defaultValue = "" + SamplerConfig.DEFAULT_MAP_STEPS, paramLabel = "N",
             description = "Adam steps that carry each new chain to a mode before it samples (default: ${DEFAULT-VALUE}).")
     int mapSteps;
 
@@ -70,7 +69,7 @@ final class SamplerOptions {
 
     SamplerConfig config() {
         return SamplerConfig.builder().kernel(KernelChoice.parse(kernel)).hidden(hidden)
-                .activation(Activation.valueOf(activation.trim().toUpperCase(Locale.ROOT)))
+                .activation(Activation.parse(activation))
                 .prior(new Prior(priorScale, Prior.DEFAULT_BIAS_SCALE, hierarchical, Prior.DEFAULT_HYPER_SHAPE))
                 .chains(chains, draws).burnInSteps(burnIn).reburnInSteps(reburnIn).thinSteps(thin)
                 .learningRate(learningRate).temperature(temperature).mapSteps(mapSteps)

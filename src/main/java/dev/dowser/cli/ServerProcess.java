@@ -3,8 +3,11 @@ package dev.dowser.cli;
 import java.io.BufferedReader;
 import java.io.IOException;
 import java.io.InputStreamReader;
+import java.io.Writer;
 import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
 import java.nio.file.Path;
+import java.nio.file.StandardOpenOption;
 import java.time.Duration;
 import java.util.ArrayList;
 import java.util.List;
@@ -18,7 +21,7 @@ import java.util.regex.Pattern;
 /**
  * {@code dowser serve} as a separate process on a free loopback port: started, read until it says
  * where it listens, then killed without warning (SIGKILL) or stopped in order (SIGTERM). Its
- * standard error goes to a log file beside the data.
+ * output, after the line that names its port, and its standard error go to a log file.
  */
 final class ServerProcess implements AutoCloseable {
 
@@ -51,7 +54,7 @@ final class ServerProcess implements AutoCloseable {
         List<String> cmd = new ArrayList<>(launcher);
         cmd.addAll(List.of("serve", "--data", dataDir.toString(), "--port", "0"));
         Process p = new ProcessBuilder(cmd).redirectError(ProcessBuilder.Redirect.appendTo(log.toFile())).start();
-        CompletableFuture<Integer> listening = CompletableFuture.supplyAsync(() -> readPort(p));
+        CompletableFuture<Integer> listening = CompletableFuture.supplyAsync(() -> readPort(p, log));
         try {
             return new ServerProcess(p, listening.get(START_DEADLINE.toSeconds(), TimeUnit.SECONDS));
         } catch (InterruptedException e) {
@@ -66,7 +69,7 @@ final class ServerProcess implements AutoCloseable {
     }
 
     /** Reads standard output until the banner names the port; the rest of the output is drained. */
-    private static int readPort(Process p) {
+    private static int readPort(Process p, Path log) {
         BufferedReader out = new BufferedReader(new InputStreamReader(p.getInputStream(), StandardCharsets.UTF_8));
         try {
             String line;
@@ -74,7 +77,7 @@ final class ServerProcess implements AutoCloseable {
                 Matcher m = ADDRESS.matcher(line);
                 if (m.find()) {
                     int port = Integer.parseInt(m.group(1));
-                    Thread drain = new Thread(() -> drain(out), "server-stdout");
+                    Thread drain = new Thread(() -> drain(out, log), "server-stdout");
                     drain.setDaemon(true);
                     drain.start();
                     return port;
@@ -86,10 +89,15 @@ final class ServerProcess implements AutoCloseable {
         throw new IllegalStateException("the server exited (status " + waitQuietly(p) + ") before it listened");
     }
 
-    private static void drain(BufferedReader out) {
-        try {
-            while (out.readLine() != null) {
-                // The banner is all that is needed; the rest is read only so the process never blocks on it.
+    /** Copies the rest of the server's output to the log beside its standard error, so the process never blocks on it. */
+    private static void drain(BufferedReader out, Path log) {
+        try (Writer w = Files.newBufferedWriter(log, StandardCharsets.UTF_8, StandardOpenOption.CREATE,
+                StandardOpenOption.APPEND)) {
+            String line;
+            while ((line = out.readLine()) != null) {
+                w.write(line);
+                w.write('\n');
+                w.flush();
             }
         } catch (IOException ignored) {
             // The process ended.

@@ -6,6 +6,7 @@ import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.simulate.Simulation;
 import dev.dowser.simulate.SimulationReport;
+import dev.dowser.stats.Splits;
 import dev.dowser.stats.StabilisingPredictions;
 import java.io.IOException;
 import java.io.PrintWriter;
@@ -25,7 +26,7 @@ import picocli.CommandLine.Spec;
                 + " start, then round after round the chains continued, the pool scored, a batch picked with spot"
                 + " checks mixed in. Every strategy sees the same splits and first batches (paired seeds). Writes"
                 + " DIR/curves.csv, curves.svg and curves.png, and prints a table and key=value lines: labels to"
-                + " each target from the mean curve with a 90% bootstrap interval over seeds, the seeds that"
+                + " each target from the mean curve with a 90%% bootstrap interval over seeds, the seeds that"
                 + " reached it, the median of the seeds' first counts, random's labels over each strategy's,"
                 + " the area under the curve, accuracy and NLL at fixed label counts; then, per seed, where the stopping rule"
                 + " fired beside where the test curve levelled off, and stop_at_<strategy>=N,"
@@ -47,11 +48,11 @@ final class SimulateCommand implements Callable<Integer> {
                     + " uses) (default: ${DEFAULT-VALUE}).")
     List<String> strategies;
 
-    @Option(names = "--seed-labels", defaultValue = "20", paramLabel = "N",
+    @Option(names = "--seed-labels", defaultValue = "" + Simulation.Plan.DEFAULT_SEED_LABELS, paramLabel = "N",
             description = "Size of the first batch, picked with no labels (default: ${DEFAULT-VALUE}).")
     int seedLabels;
 
-    @Option(names = "--cold-start", defaultValue = "kmeans++", paramLabel = "kmeans++|typiclust",
+    @Option(names = "--cold-start", defaultValue = PoolSettings.DEFAULT_COLD_START_WORD, paramLabel = "kmeans++|typiclust",
             description = "How the first batch is spread over the pool (default: ${DEFAULT-VALUE}).")
     String coldStart;
 
@@ -63,19 +64,19 @@ final class SimulateCommand implements Callable<Integer> {
             description = "Share of each batch drawn at random as spot checks (default: ${DEFAULT-VALUE}).")
     double spotCheckShare;
 
-    @Option(names = "--budget", defaultValue = "300", paramLabel = "N",
+    @Option(names = "--budget", defaultValue = "" + Simulation.Plan.DEFAULT_BUDGET, paramLabel = "N",
             description = "Labels at which to stop (default: ${DEFAULT-VALUE}).")
     int budget;
 
-    @Option(names = "--test-fraction", defaultValue = "0.3", paramLabel = "F",
+    @Option(names = "--test-fraction", defaultValue = "" + Splits.DEFAULT_TEST_FRACTION, paramLabel = "F",
             description = "Share held out for testing, per class (default: ${DEFAULT-VALUE}).")
     double testFraction;
 
-    @Option(names = "--seeds", defaultValue = "10", paramLabel = "N",
+    @Option(names = "--seeds", defaultValue = "" + Simulation.Plan.DEFAULT_SEEDS, paramLabel = "N",
             description = "Paired repeats, each with its own split and first batch (default: ${DEFAULT-VALUE}).")
     int seeds;
 
-    @Option(names = "--seed", defaultValue = "1", paramLabel = "N", description = "Root of the seed tree (default: ${DEFAULT-VALUE}).")
+    @Option(names = "--seed", defaultValue = "" + Simulation.Plan.DEFAULT_SEED, paramLabel = "N", description = "Root of the seed tree (default: ${DEFAULT-VALUE}).")
     long seed;
 
     @Option(names = "--targets", split = ",", defaultValue = "0.9,0.95", paramLabel = "A",

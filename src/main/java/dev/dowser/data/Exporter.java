@@ -6,6 +6,7 @@ import dev.dowser.labels.Resolution;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
+import dev.dowser.words.Worded;
 import java.io.BufferedWriter;
 import java.io.IOException;
 import java.io.OutputStream;
@@ -62,7 +63,7 @@ public final class Exporter {
     private static final Pattern PLAIN_NUMBER = Pattern.compile("[+-]?(\\d+\\.?\\d*|\\.\\d+)([eE][+-]?\\d+)?");
 
     /** What to do with CSV fields a spreadsheet would run as formulas. */
-    public enum Formulas {
+    public enum Formulas implements Worded {
         /** Write them with a {@code '} in front, so that a spreadsheet shows them as text (the default). */
         ESCAPE,
         /** Write every field exactly as stored. */
@@ -70,12 +71,7 @@ public final class Exporter {
 
         /** {@code escape} or {@code keep}, as the command line and the API spell them. */
         public static Formulas parse(String word) {
-            for (Formulas f : values()) {
-                if (f.name().equalsIgnoreCase(word)) {
-                    return f;
-                }
-            }
-            throw new IllegalArgumentException("formulas must be escape or keep, got '" + word + "'");
+            return Worded.parse(Formulas.class, word, "formulas choice");
         }
     }
 

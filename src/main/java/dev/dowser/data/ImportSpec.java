@@ -134,19 +134,9 @@ public record ImportSpec(
                 categorical, maxLevels, maxFieldChars, maxBytes, importedBy, missingTokens);
     }
 
-    public ImportSpec withCategorical(List<String> columns) {
-        return new ImportSpec(poolName, format, idColumn, featureColumns, displayColumns, labelColumn, classes,
-                columns, maxLevels, maxFieldChars, maxBytes, importedBy, missingTokens);
-    }
-
     public ImportSpec withLimits(int levels, int fieldChars, long bytes) {
         return new ImportSpec(poolName, format, idColumn, featureColumns, displayColumns, labelColumn, classes,
                 categorical, levels, fieldChars, bytes, importedBy, missingTokens);
-    }
-
-    public ImportSpec withImportedBy(String who) {
-        return new ImportSpec(poolName, format, idColumn, featureColumns, displayColumns, labelColumn, classes,
-                categorical, maxLevels, maxFieldChars, maxBytes, who, missingTokens);
     }
 
     public ImportSpec withMissingTokens(List<String> tokens) {

@@ -27,11 +27,12 @@ final class Reasons {
                     + " The two labels show how far people agree.";
         }
         String pair = e.copies() == 2 ? " Two people label this one, neither seeing the other's label." : "";
-        if (e.spotCheck()) {
-            return "Spot check: picked at random, so that the model's accuracy is measured without the bias of"
-                    + " picking; its belief stays hidden until you ask." + pair;
-        }
         QueuedBelief b = e.predictionJson() == null ? null : QueuedBelief.parse(e.predictionJson());
+        if (e.spotCheck()) {
+            // In the first batch there is no model, and so no belief to hide.
+            return "Spot check: picked at random, so that the model's accuracy is measured without the bias of"
+                    + " picking" + (b == null ? "." : "; its belief stays hidden until you ask.") + pair;
+        }
         if (b == null || b.mean().length != classes.size() || classes.size() < 2) {
             return "First batch: picked to cover the pool before the model has labels to learn from." + pair;
         }
@@ -49,7 +50,8 @@ final class Reasons {
         String view = "on average its draws give " + classes.get(top) + " " + percent(b.mean()[top]) + " and "
                 + classes.get(second) + " " + percent(b.mean()[second]);
         if (b.sd().length == b.mean().length) {
-            view += ", and single draws stray about " + Math.round(100 * b.sd()[top]) + " points from the first";
+            view += "; single draws put " + classes.get(top) + " about " + Math.round(100 * b.sd()[top])
+                    + " points either side of that";
         }
         return switch (strategy) {
             case RANDOM -> "Picked at random (the pool's strategy): " + view + ".";

@@ -1,9 +1,15 @@
 package dev.dowser.model;
 
+import dev.dowser.words.Worded;
+
 /** The hidden layers' nonlinearity. */
-public enum Activation {
+public enum Activation implements Worded {
     RELU,
     TANH;
+
+    public static Activation parse(String word) {
+        return Worded.parse(Activation.class, word, "activation");
+    }
 
     /** a = f(z), in place over {@code n} values from {@code off}. */
     void apply(float[] z, int off, int n) {

@@ -17,15 +17,24 @@ public record Architecture(int inputs, List<Integer> hidden, int classes, Activa
         if (classes < 2) {
             throw new IllegalArgumentException("the network needs at least two classes, got " + classes);
         }
-        hidden = List.copyOf(hidden);
-        for (int h : hidden) {
+        hidden = checkedHidden(hidden, activation);
+    }
+
+    /**
+     * The hidden widths, copied, once each layer has at least one unit and the activation is
+     * given: the one rule, for the network and for the sampler's configuration alike.
+     */
+    public static List<Integer> checkedHidden(List<Integer> hidden, Activation activation) {
+        List<Integer> widths = List.copyOf(hidden);
+        for (int h : widths) {
             if (h < 1) {
-                throw new IllegalArgumentException("a hidden layer needs at least one unit, got " + hidden);
+                throw new IllegalArgumentException("a hidden layer needs at least one unit, got " + widths);
             }
         }
         if (activation == null) {
             throw new IllegalArgumentException("activation is required: relu or tanh");
         }
+        return widths;
     }
 
     /** One hidden layer of 128 ReLU units, the default. */

@@ -1,6 +1,7 @@
 package dev.dowser.model;
 
 import dev.dowser.stats.RandomVariates;
+import dev.dowser.stats.LogGamma;
 import java.util.SplittableRandom;
 
 /**
@@ -9,14 +10,19 @@ import java.util.SplittableRandom;
  * hierarchical (Neal 1996, "Bayesian Learning for Neural Networks", ch. 1.2 and 3.2): each
  * layer's weight precision tau_l has a Gamma(shape, rate_l) hyperprior, with rate_l chosen so
  * the prior mean precision is fanIn / s^2, and is resampled by its conjugate Gibbs step
- * tau_l | w ~ Gamma(shape + n_l / 2, rate_l + sum(w^2) / 2) between Langevin steps.
+ * tau_l | w ~ Gamma(shape + n_l / 2, rate_l + sum(w^2) / 2) between Langevin steps. Or
+ * heavy-tailed (Fortuin et al. 2022, "Bayesian Neural Network Priors Revisited", which found such
+ * priors suit fully connected networks): each weight Student-t with nu degrees of freedom and the
+ * same scale sigma_l = s / sqrt(fanIn).
  *
- * @param weightScale s
- * @param biasScale   standard deviation of every bias
+ * @param weightScale  s
+ * @param biasScale    standard deviation of every bias
  * @param hierarchical whether layer precisions are sampled
- * @param hyperShape  shape of the Gamma hyperprior (used when hierarchical)
+ * @param hyperShape   shape of the Gamma hyperprior (used when hierarchical)
+ * @param tailDegrees  nu of a Student-t weight prior; 0 for the Gaussian
  */
-public record Prior(double weightScale, double biasScale, boolean hierarchical, double hyperShape) {
+public record Prior(double weightScale, double biasScale, boolean hierarchical, double hyperShape,
+                    double tailDegrees) {
 
     /** Chosen by measurement; see DEVELOPERS.md ("the prior scale"). */
     public static final double DEFAULT_WEIGHT_SCALE = 3.0;
@@ -32,6 +38,18 @@ public record Prior(double weightScale, double biasScale, boolean hierarchical, 
         if (hierarchical && !(hyperShape > 0)) {
             throw new IllegalArgumentException("the hyperprior shape must be positive, got " + hyperShape);
         }
+        if (!(tailDegrees >= 0) || Double.isInfinite(tailDegrees)) {
+            throw new IllegalArgumentException("the prior's degrees of freedom must be 0 (Gaussian) or positive, got "
+                    + tailDegrees);
+        }
+        if (hierarchical && tailDegrees > 0) {
+            throw new IllegalArgumentException("a hierarchical prior is Gaussian: set the degrees of freedom to 0");
+        }
+    }
+
+    /** A Gaussian prior. */
+    public Prior(double weightScale, double biasScale, boolean hierarchical, double hyperShape) {
+        this(weightScale, biasScale, hierarchical, hyperShape, 0);
     }
 
     public static Prior standard() {
@@ -59,7 +77,7 @@ public record Prior(double weightScale, double biasScale, boolean hierarchical, 
         for (int l = 0; l < tau.length; l++) {
             int w0 = layout.weightOffset(l);
             int nw = layout.weightCount(l);
-            logp += gaussian(theta, w0, nw, tau[l]);
+            logp += tailDegrees > 0 ? studentT(theta, w0, nw, tau[l]) : gaussian(theta, w0, nw, tau[l]);
             logp += gaussian(theta, layout.biasOffset(l), layout.architecture().fanOut(l), biasPrecision);
         }
         return logp;
@@ -74,12 +92,39 @@ public record Prior(double weightScale, double biasScale, boolean hierarchical, 
         return -0.5 * tau * ss + n * (0.5 * Math.log(tau) - HALF_LOG_2PI);
     }
 
-    /** grad = d log p(theta | tau) / d theta = -tau * theta, overwriting grad: it starts a gradient. */
+    // log t_nu(x | 0, sigma^2 = 1/tau) summed: n [lgamma((nu+1)/2) - lgamma(nu/2) - log(nu pi sigma^2)/2]
+    //   - (nu+1)/2 sum log(1 + tau x^2 / nu)
+    private double studentT(float[] x, int off, int n, double tau) {
+        double nu = tailDegrees;
+        double s = 0;
+        for (int i = off; i < off + n; i++) {
+            s += Math.log1p(tau * x[i] * x[i] / nu);
+        }
+        double norm = LogGamma.of((nu + 1) / 2) - LogGamma.of(nu / 2) - 0.5 * Math.log(nu * Math.PI / tau);
+        return n * norm - (nu + 1) / 2 * s;
+    }
+
+    /**
+     * grad = d log p(theta | tau) / d theta, overwriting grad: it starts a gradient. Gaussian:
+     * -tau theta; Student-t: -(nu + 1) tau theta / (nu + tau theta^2).
+     */
     public void setGradient(Layout layout, float[] theta, double[] tau, float[] grad) {
         double biasPrecision = 1 / (biasScale * biasScale);
         for (int l = 0; l < tau.length; l++) {
-            scaleTo(theta, grad, layout.weightOffset(l), layout.weightCount(l), (float) -tau[l]);
+            if (tailDegrees > 0) {
+                studentTGradient(theta, grad, layout.weightOffset(l), layout.weightCount(l), tau[l]);
+            } else {
+                scaleTo(theta, grad, layout.weightOffset(l), layout.weightCount(l), (float) -tau[l]);
+            }
             scaleTo(theta, grad, layout.biasOffset(l), layout.architecture().fanOut(l), (float) -biasPrecision);
+        }
+    }
+
+    private void studentTGradient(float[] x, float[] y, int off, int n, double tau) {
+        float nu = (float) tailDegrees;
+        float t = (float) tau;
+        for (int i = off; i < off + n; i++) {
+            y[i] = -(nu + 1) * t * x[i] / (nu + t * x[i] * x[i]);
         }
     }
 

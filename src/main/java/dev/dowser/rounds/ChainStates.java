@@ -2,6 +2,8 @@ package dev.dowser.rounds;
 
 import dev.dowser.json.Json;
 import dev.dowser.model.Architecture;
+import dev.dowser.sampler.KernelChoice;
+import dev.dowser.sampler.KernelState;
 import dev.dowser.sampler.State;
 import dev.dowser.store.SavedChain;
 import java.util.ArrayList;
@@ -13,13 +15,13 @@ final class ChainStates {
     private ChainStates() {
     }
 
-    static List<SavedChain> toSaved(List<State> states, String kernel, Architecture arch, int round) {
+    static List<SavedChain> toSaved(List<State<?>> states, String kernel, Architecture arch, int round) {
         String network = Json.write(arch);
         List<SavedChain> out = new ArrayList<>();
         for (int c = 0; c < states.size(); c++) {
-            State s = states.get(c);
-            out.add(new SavedChain(c, round, kernel, network, s.position(),
-                    s.preconditioner(), s.hyper(), s.stepSize(), s.step(), s.accepted(), s.proposed()));
+            State<?> s = states.get(c);
+            out.add(new SavedChain(c, round, kernel, network, s.position(), s.extra().encode(), s.hyper(),
+                    s.stepSize(), s.step()));
         }
         return out;
     }
@@ -28,19 +30,20 @@ final class ChainStates {
      * The saved chains as states to continue from, or null when they cannot be continued: none
      * saved, a different network, or a different number of chains.
      */
-    static List<State> continuable(List<SavedChain> saved, Architecture arch, int chains) {
+    static List<State<?>> continuable(List<SavedChain> saved, Architecture arch, int chains) {
         if (saved.size() != chains) {
             return null;
         }
         String network = Json.write(arch);
-        List<State> out = new ArrayList<>();
+        List<State<?>> out = new ArrayList<>();
         for (SavedChain s : saved) {
             if (!s.networkJson().equals(network)) {
                 return null;
             }
             // The density and gradient depend on the labels, which have changed: the sampler re-evaluates them.
-            out.add(new State(s.position(), new float[s.position().length], Double.NaN, s.preconditioner(), s.hyper(),
-                    s.stepSize(), s.step(), s.accepted(), s.proposed()));
+            KernelState extra = KernelChoice.parse(s.kernel()).decode(s.kernelState());
+            out.add(new State<>(s.position(), new float[s.position().length], Double.NaN, s.hyper(), s.stepSize(),
+                    s.step(), extra));
         }
         return out;
     }

@@ -31,7 +31,9 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
     public static final double DEFAULT_DOUBLE_LABEL_SHARE = 0.10;
     /** What a new pool picks by; {@code default} names it in settings and on the command line. */
     public static final Strategy DEFAULT_STRATEGY = Strategy.BALD;
-    public static final ColdStart.Method DEFAULT_COLD_START = ColdStart.Method.KMEANS_PLUS_PLUS;
+    /** The cold start's word, for the command line's default; the method follows from it. */
+    public static final String DEFAULT_COLD_START_WORD = "kmeans++";
+    public static final ColdStart.Method DEFAULT_COLD_START = ColdStart.Method.parse(DEFAULT_COLD_START_WORD);
     /** Agreement below this would call predictions settled while a tenth of them still change. */
     public static final double MIN_STOP_AGREEMENT = 0.9;
 
@@ -174,12 +176,6 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
     /** The same settings with another strategy. */
     public PoolSettings withStrategy(Strategy s) {
         return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, s, doubleLabelShare, sampling, stopAgreement,
-                coldStart);
-    }
-
-    /** The same settings with other sampling. */
-    public PoolSettings withSampling(Sampling s) {
-        return new PoolSettings(batchSize, spotCheckShare, leaseMinutes, strategy, doubleLabelShare, s, stopAgreement,
                 coldStart);
     }
 

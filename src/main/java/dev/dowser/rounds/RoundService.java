@@ -155,7 +155,7 @@ public final class RoundService {
         FeatureMatrix m = matrices.computeIfAbsent(pool.name(), name -> FeatureMatrix.load(db, name));
         int classes = pool.classes().size();
         Architecture arch = new PosteriorSampler(sampler).layout(m.cols(), classes).architecture();
-        List<State> chains = ChainStates.continuable(saved, arch, sampler.chains().count());
+        List<State<?>> chains = ChainStates.continuable(saved, arch, sampler.chains().count());
         int[] candidates = labels.unlabelled(m.rows());
         int[] judged = labels.judgedRows();
         LabelledSet known = LabelledSet.of(m, labels.finalRows(), labels.finalClasses(), pool.classes());

@@ -73,7 +73,7 @@ public final class RoundStep {
      * @param seeds      this round's node of the seed tree
      * @param round      the round's number (1 for a pool's first)
      */
-    public record Input(LabelledSet labelled, Rows candidates, Rows judged, List<State> chains,
+    public record Input(LabelledSet labelled, Rows candidates, Rows judged, List<State<?>> chains,
                         Settling.StopSet stopSet, PoolSettings settings, SamplerConfig sampler, SeedTree seeds,
                         int round) {
 
@@ -146,7 +146,9 @@ public final class RoundStep {
         SplittableRandom pickRng = in.seeds().child(PICK).rng();
         SplittableRandom spotRng = in.seeds().child(SPOT_CHECKS).rng();
         if (in.labelled().rows() == 0) {
-            Picks picks = Picks.greedy(ColdStart.pick(settings.coldStart(), cand.x(), cand.count(), cand.cols(), b,
+            // Labelling at random means at random from the first record: the baseline gets no cold start's help.
+            Picks picks = settings.strategy() == Strategy.RANDOM ? Pickers.uniform(cand.count(), b, pickRng)
+                    : Picks.greedy(ColdStart.pick(settings.coldStart(), cand.x(), cand.count(), cand.cols(), b,
                     pickRng));
             List<SpotChecks.Entry> mixed = SpotChecks.mix(picks, cand.count(), b, settings.spotCheckShare(), spotRng);
             List<Pick> queue = new ArrayList<>();
@@ -161,7 +163,8 @@ public final class RoundStep {
                 reserve.add(new Pick(cand.rows()[c], c, 0, false, Double.NaN, 0, 1, null, null));
             }
             return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), reserve, null, NO_KERNEL,
-                    "no labels yet: the first batch is spread over the pool by " + settings.coldStart().word(),
+                    settings.strategy() == Strategy.RANDOM ? "no labels yet: the first batch is drawn at random"
+                            : "no labels yet: the first batch is spread over the pool by " + settings.coldStart().word(),
                     new float[0], null);
         }
         LabelledSet known = in.labelled();

@@ -1,11 +1,11 @@
 package dev.dowser.rounds;
 
-import java.util.Arrays;
-import java.util.Locale;
-import java.util.stream.Collectors;
+import dev.dowser.words.Worded;
+import java.util.ArrayList;
+import java.util.List;
 
 /** How a round picks its batch. */
-public enum Strategy {
+public enum Strategy implements Worded {
     /** The b highest BALD scores. */
     BALD,
     /** Stochastic power sampling on BALD (beta = 1). */
@@ -24,21 +24,13 @@ public enum Strategy {
 
     /** A strategy by its word, or {@code default} for a new pool's. */
     public static Strategy parse(String word) {
-        String w = word.trim().toLowerCase(Locale.ROOT);
-        if (w.equals(DEFAULT_WORD)) {
+        if (word != null && word.trim().equalsIgnoreCase(DEFAULT_WORD)) {
             return PoolSettings.DEFAULT_STRATEGY;
         }
-        for (Strategy s : values()) {
-            if (s.word().equals(w)) {
-                return s;
-            }
-        }
-        throw new IllegalArgumentException("unknown strategy '" + word + "': use "
-                + Arrays.stream(values()).map(Strategy::word).collect(Collectors.joining(", ")) + " or "
-                + DEFAULT_WORD);
-    }
-
-    public String word() {
-        return name().toLowerCase(Locale.ROOT);
+        return Worded.find(Strategy.class, word).orElseThrow(() -> {
+            List<String> choices = new ArrayList<>(Worded.words(Strategy.class));
+            choices.add(DEFAULT_WORD);
+            return Worded.unknown("strategy", word, choices);
+        });
     }
 }

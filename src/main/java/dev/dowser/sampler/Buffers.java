@@ -22,7 +22,7 @@ final class Buffers {
     }
 
     /** Which set to write the next state into: the one the current state's position is not in. */
-    int free(State current) {
+    int free(State<?> current) {
         return current.position() == position[0] ? 1 : 0;
     }
 

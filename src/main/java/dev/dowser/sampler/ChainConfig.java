@@ -8,7 +8,7 @@ package dev.dowser.sampler;
  * @param thinSteps     steps between kept draws (constant schedule)
  * @param batchRows     mini-batch size for stochastic-gradient kernels
  * @param schedule      the step-size schedule; a cyclical one keeps one draw at the end of each cycle
- * @param adaptSteps    whether a kernel with an accept-reject test tunes its step size during burn-in
+ * @param adaptSteps    whether the chain asks the kernel to adapt itself during burn-in
  * @param gibbsEvery    steps between Gibbs updates of hyperparameters (hierarchical prior)
  */
 public record ChainConfig(int burnInSteps, int draws, int thinSteps, int batchRows, StepSchedule schedule,

@@ -2,6 +2,7 @@ package dev.dowser.sampler;
 
 import java.util.ArrayList;
 import java.util.List;
+import java.util.SplittableRandom;
 import java.util.concurrent.ExecutionException;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
@@ -15,7 +16,22 @@ import java.util.concurrent.Future;
 public final class ChainSet implements AutoCloseable {
 
     /** One chain's part in a round. */
-    public record Job(Chain chain, State start) {
+    public record Job<E extends KernelState>(Chain<E> chain, State<E> start) {
+
+        ChainRun run(ChainConfig config, StopSignal stop) {
+            return chain.run(start, config, stop);
+        }
+    }
+
+    /**
+     * Chain {@code index} running {@code kernel} on {@code target}, started at {@code position}
+     * (continuing {@code previous}, or null for a new chain).
+     */
+    public static <E extends KernelState> Job<E> job(int index, Kernel<E> kernel, Target target, SplittableRandom rng,
+                                                     float[] position, double[] hyper, double stepSize, Batch first,
+                                                     State<?> previous) {
+        return new Job<>(new Chain<>(index, kernel, target, rng), kernel.start(position, hyper, stepSize, first,
+                previous));
     }
 
     private final ExecutorService pool;
@@ -36,15 +52,15 @@ public final class ChainSet implements AutoCloseable {
         return Math.max(1, Math.min(chains, Runtime.getRuntime().availableProcessors()));
     }
 
-    public List<ChainRun> run(List<Job> jobs, ChainConfig config) {
+    public List<ChainRun> run(List<Job<?>> jobs, ChainConfig config) {
         return run(jobs, config, StopSignal.never());
     }
 
     /** Runs every job to its end, or each to its next safe point once {@code stop} is raised. */
-    public List<ChainRun> run(List<Job> jobs, ChainConfig config, StopSignal stop) {
+    public List<ChainRun> run(List<Job<?>> jobs, ChainConfig config, StopSignal stop) {
         List<Future<ChainRun>> futures = new ArrayList<>();
-        for (Job job : jobs) {
-            futures.add(pool.submit(() -> job.chain().run(job.start(), config, stop)));
+        for (Job<?> job : jobs) {
+            futures.add(pool.submit(() -> job.run(config, stop)));
         }
         List<ChainRun> out = new ArrayList<>();
         try {

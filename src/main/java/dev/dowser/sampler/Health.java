@@ -72,8 +72,9 @@ public record Health(double rhatMax, double essBulkMin, double essTailMin, doubl
         int divergences = 0;
         int withMh = 0;
         for (ChainRun r : runs) {
-            if (r.last().proposed() > 0) {
-                acc += r.last().acceptanceRate();
+            double rate = r.last().extra().acceptanceRate();
+            if (!Double.isNaN(rate)) {
+                acc += rate;
                 withMh++;
             }
             step += r.last().stepSize();

@@ -54,7 +54,7 @@ public final class PosteriorSampler {
      * probabilities serve as diagnostics summaries (may be empty). Chain c draws its random numbers
      * from branch c of {@code seeds}.
      */
-    public RoundDraws sample(float[] x, int[] labels, int classes, List<State> previous, float[] probe,
+    public RoundDraws sample(float[] x, int[] labels, int classes, List<State<?>> previous, float[] probe,
                              SeedTree seeds) {
         return sample(x, labels, classes, previous, probe, seeds, StopSignal.never());
     }
@@ -63,7 +63,7 @@ public final class PosteriorSampler {
      * As above; when {@code stop} is raised the chains end at their next safe point and
      * {@link SamplingStopped} carries their states.
      */
-    public RoundDraws sample(float[] x, int[] labels, int classes, List<State> previous, float[] probe,
+    public RoundDraws sample(float[] x, int[] labels, int classes, List<State<?>> previous, float[] probe,
                              SeedTree seeds, StopSignal stop) {
         long begun = System.nanoTime();
         int rows = labels.length;
@@ -83,35 +83,29 @@ public final class PosteriorSampler {
         ChainConfig chainConfig = new ChainConfig(warm ? config.steps().reburnInSteps() : config.steps().burnInSteps(),
                 perChain, config.steps().thinSteps(), config.steps().batchRows(), schedule, true, ChainConfig.DEFAULT_GIBBS_EVERY);
         double stepSize = 2 * config.steps().learningRate() / rows;
-        List<ChainSet.Job> jobs = new ArrayList<>();
+        List<ChainSet.Job<?>> jobs = new ArrayList<>();
         List<MlpPosterior> targets = new ArrayList<>();
         int workRows = Math.min(rows, Math.max(config.steps().batchRows(), 256));
         for (int c = 0; c < config.chains().count(); c++) {
             MlpPosterior target = new MlpPosterior(layout, config.prior(), x, labels, workRows);
             targets.add(target);
-            Kernel kernel = kernel(choice.kernel(), target);
+            Kernel<?> kernel = choice.kernel().kernel(target, config.temperature());
             SplittableRandom rng = seeds.child(c).rng();
-            State start;
             Batch first = kernel.fullBatch() ? Batch.full(rows) : Batch.full(Math.min(rows, config.steps().batchRows()));
             if (warm) {
-                State p = previous.get(c);
+                // Continue from the last position; the density changed with the labels, so the kernel re-evaluates it.
+                State<?> p = previous.get(c);
                 if (p.position().length != layout.dimension()) {
                     throw new IllegalArgumentException("the saved chains are for a different network");
                 }
-                // Continue from the last position; the density changed with the labels, so re-evaluate it.
-                State fresh = kernel.start(p.position(), p.hyper(), p.stepSize(), first);
-                float[] v = p.preconditioner() != null && fresh.preconditioner() != null ? p.preconditioner()
-                        : fresh.preconditioner();
-                start = new State(fresh.position(), fresh.gradient(), fresh.logDensity(), v, fresh.hyper(),
-                        p.stepSize(), p.step(), p.accepted(), p.proposed());
+                jobs.add(ChainSet.job(c, kernel, target, rng, p.position(), p.hyper(), stepSize, first, p));
             } else {
                 float[] theta = Prior.start(layout, rng);
                 if (config.steps().mapSteps() > 0) {
                     climb(target, theta, config.steps().mapSteps(), config.steps().batchRows(), rng);
                 }
-                start = kernel.start(theta, target.initialHyper(), stepSize, first);
+                jobs.add(ChainSet.job(c, kernel, target, rng, theta, target.initialHyper(), stepSize, first, null));
             }
-            jobs.add(new ChainSet.Job(new Chain(c, kernel, target, rng), start));
         }
         List<ChainRun> runs;
         try (ChainSet set = new ChainSet(ChainSet.defaultThreads(config.chains().count()))) {
@@ -135,36 +129,13 @@ public final class PosteriorSampler {
         int b = Math.min(batchRows, n);
         Adam adam = new Adam(theta.length, Adam.DEFAULT_LEARNING_RATE);
         float[] grad = new float[theta.length];
-        int[] order = new int[n];
-        for (int i = 0; i < n; i++) {
-            order[i] = i;
-        }
-        int cursor = n;
+        Epochs epochs = new Epochs(n, rng);
         for (int t = 0; t < steps; t++) {
-            if (cursor + b > n) {
-                for (int i = n - 1; i > 0; i--) {
-                    int j = rng.nextInt(i + 1);
-                    int tmp = order[i];
-                    order[i] = order[j];
-                    order[j] = tmp;
-                }
-                cursor = 0;
-            }
-            target.logDensity(theta, target.initialHyper(), new Batch(java.util.Arrays.copyOfRange(order, cursor,
-                    cursor + b), b), grad);
-            cursor += b;
+            target.logDensity(theta, target.initialHyper(), epochs.next(b), grad);
             for (int i = 0; i < grad.length; i++) {
                 grad[i] /= n;
             }
             adam.step(theta, grad);
         }
-    }
-
-    private Kernel kernel(KernelChoice k, Target target) {
-        return switch (k) {
-            case SGLD -> new Sgld(target, config.temperature());
-            case PSGLD, AUTO -> new PreconditionedSgld(target, config.temperature());
-            case MALA -> new Mala(target, config.temperature());
-        };
     }
 }

@@ -12,7 +12,21 @@ import java.util.SplittableRandom;
  * paper's likelihood-only average it includes the prior's share (grad log p(theta) / N), which
  * spares a second gradient pass and changes V by a term of order 1/N.
  */
-public final class PreconditionedSgld implements Kernel {
+public final class PreconditionedSgld implements Kernel<PreconditionedSgld.Preconditioner> {
+
+    /** V, the running mean square of the per-datum gradient, one entry per weight. */
+    public record Preconditioner(float[] v) implements KernelState {
+
+        @Override
+        public byte[] encode() {
+            return Kernels.bytes(v);
+        }
+
+        static Preconditioner decode(byte[] bytes) {
+            return new Preconditioner(Kernels.floats(bytes));
+        }
+    }
+
 
     public static final double DEFAULT_ALPHA = 0.99;
     public static final double DEFAULT_LAMBDA = 1e-5;
@@ -44,11 +58,11 @@ public final class PreconditionedSgld implements Kernel {
     }
 
     @Override
-    public State step(State s, Batch batch, SplittableRandom rng) {
+    public State<Preconditioner> step(State<Preconditioner> s, Batch batch, SplittableRandom rng) {
         double eps = s.stepSize();
         float[] x = s.position();
         float[] g = s.gradient();
-        float[] v = s.preconditioner();
+        float[] v = s.extra().v();
         int set = buffers.free(s);
         float[] nextV = buffers.extra(set);
         float[] next = buffers.position(set);
@@ -70,7 +84,7 @@ public final class PreconditionedSgld implements Kernel {
         }
         float[] grad = buffers.gradient(set);
         double logp = target.logDensity(next, s.hyper(), batch, grad);
-        return new State(next, grad, logp, nextV, s.hyper(), s.stepSize(), s.step() + 1, s.accepted(), s.proposed());
+        return new State<>(next, grad, logp, s.hyper(), s.stepSize(), s.step() + 1, new Preconditioner(nextV));
     }
 
     @Override
@@ -83,16 +97,23 @@ public final class PreconditionedSgld implements Kernel {
         return "psgld";
     }
 
+    /**
+     * Continues the running mean square V of a previous preconditioned chain on the same network;
+     * a new chain starts V at the first gradient's square, so its first steps are not wildly large.
+     */
     @Override
-    public State start(float[] position, double[] hyper, double stepSize, Batch batch) {
-        State first = Kernels.evaluate(target, position, hyper, stepSize, batch);
+    public State<Preconditioner> start(float[] position, double[] hyper, double stepSize, Batch batch,
+                                       State<?> previous) {
+        State<Preconditioner> first = Kernels.evaluate(target, position, hyper, stepSize, batch, previous, null);
+        if (previous != null && previous.extra() instanceof Preconditioner p && p.v().length == position.length) {
+            return first.withExtra(new Preconditioner(p.v().clone()));
+        }
         float[] grad = first.gradient();
-        // Start V at the first gradient's square, so the first steps are not wildly large.
         float[] v = new float[position.length];
         float perDatum = 1f / target.dataSize();
         for (int i = 0; i < v.length; i++) {
             v[i] = grad[i] * perDatum * grad[i] * perDatum;
         }
-        return new State(first.position(), grad, first.logDensity(), v, hyper, stepSize, 0, 0, 0);
+        return first.withExtra(new Preconditioner(v));
     }
 }

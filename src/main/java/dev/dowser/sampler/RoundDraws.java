@@ -23,8 +23,8 @@ public record RoundDraws(PosteriorSampler.Choice choice, Layout layout, List<Cha
     }
 
     /** Where each chain stopped, to continue from next round. */
-    public List<State> lastStates() {
-        return runs.stream().map(ChainRun::last).toList();
+    public List<State<?>> lastStates() {
+        return runs.stream().<State<?>>map(ChainRun::last).toList();
     }
 
     public List<Divergence> divergences() {

@@ -36,6 +36,8 @@ public record SamplerConfig(KernelRule kernel, Network network, Prior prior, Cha
     public static final int DEFAULT_BATCH_ROWS = 128;
     public static final double DEFAULT_LEARNING_RATE = 3e-3;
     public static final double DEFAULT_TEMPERATURE = 1.0;
+    /** New chains start where the prior puts them, without a climb to a mode. */
+    public static final int DEFAULT_MAP_STEPS = 0;
 
     /**
      * @param choice      which kernel; AUTO picks MALA up to {@code malaMaxRows} labelled rows, else
@@ -61,15 +63,7 @@ public record SamplerConfig(KernelRule kernel, Network network, Prior prior, Cha
     public record Network(List<Integer> hidden, Activation activation) {
 
         public Network {
-            hidden = List.copyOf(hidden);
-            for (int h : hidden) {
-                if (h < 1) {
-                    throw new IllegalArgumentException("a hidden layer needs at least one unit, got " + hidden);
-                }
-            }
-            if (activation == null) {
-                throw new IllegalArgumentException("activation is required: relu or tanh");
-            }
+            hidden = Architecture.checkedHidden(hidden, activation);
         }
     }
 
@@ -189,7 +183,7 @@ public record SamplerConfig(KernelRule kernel, Network network, Prior prior, Cha
         private int batchRows = DEFAULT_BATCH_ROWS;
         private double learningRate = DEFAULT_LEARNING_RATE;
         private int cycles;
-        private int mapSteps;
+        private int mapSteps = DEFAULT_MAP_STEPS;
         private double temperature = DEFAULT_TEMPERATURE;
 
         private Builder() {

@@ -11,9 +11,9 @@ public final class SamplingStopped extends RuntimeException {
 
     private final transient PosteriorSampler.Choice choice;
     private final transient Layout layout;
-    private final transient List<State> lastStates;
+    private final transient List<State<?>> lastStates;
 
-    public SamplingStopped(PosteriorSampler.Choice choice, Layout layout, List<State> lastStates) {
+    public SamplingStopped(PosteriorSampler.Choice choice, Layout layout, List<State<?>> lastStates) {
         super("sampling stopped at a safe point on request");
         this.choice = choice;
         this.layout = layout;
@@ -28,7 +28,7 @@ public final class SamplingStopped extends RuntimeException {
         return layout;
     }
 
-    public List<State> lastStates() {
+    public List<State<?>> lastStates() {
         return lastStates;
     }
 }

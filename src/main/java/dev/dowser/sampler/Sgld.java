@@ -9,7 +9,22 @@ import java.util.SplittableRandom;
  * is the mini-batch estimate of the log posterior's gradient (likelihood scaled by N/n). At
  * temperature T the target is p^(1/T), so g is divided by T and the noise is unchanged.
  */
-public final class Sgld implements Kernel {
+public final class Sgld implements Kernel<Sgld.Plain> {
+
+    /** SGLD keeps nothing beside the position. */
+    public record Plain() implements KernelState {
+
+        static final Plain INSTANCE = new Plain();
+
+        @Override
+        public byte[] encode() {
+            return new byte[0];
+        }
+
+        static Plain decode(byte[] bytes) {
+            return INSTANCE;
+        }
+    }
 
     private final Target target;
     private final double temperature;
@@ -22,7 +37,7 @@ public final class Sgld implements Kernel {
     }
 
     @Override
-    public State step(State s, Batch batch, SplittableRandom rng) {
+    public State<Plain> step(State<Plain> s, Batch batch, SplittableRandom rng) {
         double eps = s.stepSize();
         float half = (float) (eps / 2 / temperature);
         double sd = Math.sqrt(eps);
@@ -35,7 +50,7 @@ public final class Sgld implements Kernel {
         }
         float[] grad = buffers.gradient(set);
         double logp = target.logDensity(next, s.hyper(), batch, grad);
-        return new State(next, grad, logp, null, s.hyper(), s.stepSize(), s.step() + 1, s.accepted(), s.proposed());
+        return new State<>(next, grad, logp, s.hyper(), s.stepSize(), s.step() + 1, Plain.INSTANCE);
     }
 
     @Override
@@ -49,7 +64,7 @@ public final class Sgld implements Kernel {
     }
 
     @Override
-    public State start(float[] position, double[] hyper, double stepSize, Batch batch) {
-        return Kernels.evaluate(target, position, hyper, stepSize, batch);
+    public State<Plain> start(float[] position, double[] hyper, double stepSize, Batch batch, State<?> previous) {
+        return Kernels.evaluate(target, position, hyper, stepSize, batch, previous, Plain.INSTANCE);
     }
 }

@@ -7,25 +7,28 @@ package dev.dowser.sampler;
  * step, so a caller that keeps a state longer (a draw, a chain's last state) copies it or stops
  * using the kernel.
  *
- * @param position       the parameters theta
- * @param gradient       the gradient of the log density at theta, as last estimated
- * @param logDensity     the log density at theta, as last estimated
- * @param preconditioner the running mean square of the gradient (preconditioned SGLD); null otherwise
- * @param hyper          hyperparameters (layer precisions of a hierarchical prior); null when none
- * @param stepSize       the base step size; a schedule scales it, a divergence halves it
- * @param step           steps taken since the chain began, over all rounds
- * @param accepted       Metropolis-Hastings proposals accepted (MALA)
- * @param proposed       Metropolis-Hastings proposals made (MALA)
+ * @param position   the parameters theta
+ * @param gradient   the gradient of the log density at theta, as last estimated
+ * @param logDensity the log density at theta, as last estimated
+ * @param hyper      hyperparameters (layer precisions of a hierarchical prior); null when none
+ * @param stepSize   the base step size; a schedule scales it, a divergence halves it
+ * @param step       steps taken since the chain began, over all rounds
+ * @param extra      what the kernel keeps of its own
+ * @param <E>        the kernel's own state
  */
-public record State(float[] position, float[] gradient, double logDensity, float[] preconditioner, double[] hyper,
-                    double stepSize, long step, long accepted, long proposed) {
+public record State<E extends KernelState>(float[] position, float[] gradient, double logDensity, double[] hyper,
+                                           double stepSize, long step, E extra) {
 
-    public State withStepSize(double newStepSize) {
-        return new State(position, gradient, logDensity, preconditioner, hyper, newStepSize, step, accepted, proposed);
+    public State<E> withStepSize(double newStepSize) {
+        return new State<>(position, gradient, logDensity, hyper, newStepSize, step, extra);
     }
 
-    public State withHyper(double[] newHyper) {
-        return new State(position, gradient, logDensity, preconditioner, newHyper, stepSize, step, accepted, proposed);
+    public State<E> withStep(long newStep) {
+        return new State<>(position, gradient, logDensity, hyper, stepSize, newStep, extra);
+    }
+
+    public State<E> withExtra(E newExtra) {
+        return new State<>(position, gradient, logDensity, hyper, stepSize, step, newExtra);
     }
 
     /**
@@ -44,9 +47,5 @@ public record State(float[] position, float[] gradient, double logDensity, float
             acc += x * 0f;
         }
         return acc == 0f;
-    }
-
-    public double acceptanceRate() {
-        return proposed == 0 ? Double.NaN : (double) accepted / proposed;
     }
 }

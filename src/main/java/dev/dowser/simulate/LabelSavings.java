@@ -4,6 +4,7 @@ import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.stats.Bootstrap;
+import dev.dowser.stats.Splits;
 import java.io.IOException;
 import java.io.PrintWriter;
 import java.io.StringWriter;
@@ -63,8 +64,8 @@ public final class LabelSavings {
         if (!all.contains(Strategy.RANDOM)) {
             all.add(Strategy.RANDOM);
         }
-        Simulation.Plan plan = new Simulation.Plan(all, seeds, setup.seedLabels(), setup.budget(), 0.3,
-                settings.withBatchSize(setup.batch()), sampler, 1);
+        Simulation.Plan plan = new Simulation.Plan(all, seeds, setup.seedLabels(), setup.budget(),
+                Splits.DEFAULT_TEST_FRACTION, settings.withBatchSize(setup.batch()), sampler, Simulation.Plan.DEFAULT_SEED);
         long begun = System.nanoTime();
         List<Simulation.Point> points = Simulation.run(data.pool(), data.test(), plan, tick);
         double seconds = (System.nanoTime() - begun) / 1e9;

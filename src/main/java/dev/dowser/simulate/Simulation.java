@@ -67,6 +67,15 @@ public final class Simulation {
     public record Plan(List<Strategy> strategies, int seeds, int seedLabels, int budget, double testFraction,
                        PoolSettings settings, SamplerConfig sampler, long seed) {
 
+        /** Paired seeds: ten, the fewest over which the report's intervals mean much (common practice here). */
+        public static final int DEFAULT_SEEDS = 10;
+        /** The first batch, picked with no labels. */
+        public static final int DEFAULT_SEED_LABELS = 20;
+        /** Labels at which a run stops. */
+        public static final int DEFAULT_BUDGET = 300;
+        /** The root of the seed tree. */
+        public static final long DEFAULT_SEED = 1;
+
         public Plan {
             strategies = List.copyOf(strategies);
             if (strategies.isEmpty()) {
@@ -176,7 +185,7 @@ public final class Simulation {
         private final SeedTree seeds;
         private final boolean[] labelled;
         private Settling.StopSet stopSet;
-        private List<State> chains;
+        private List<State<?>> chains;
         private int round;
         private int count;
 

@@ -107,4 +107,14 @@ public final class RandomVariates {
             }
         }
     }
+
+    /** Shuffles {@code a} in place, every order equally likely (Fisher-Yates; Knuth, TAOCP vol. 2, Algorithm P). */
+    public static void shuffle(int[] a, SplittableRandom rng) {
+        for (int i = a.length - 1; i > 0; i--) {
+            int j = rng.nextInt(i + 1);
+            int t = a[i];
+            a[i] = a[j];
+            a[j] = t;
+        }
+    }
 }

@@ -2,10 +2,14 @@ package dev.dowser.stats;
 
 import java.util.ArrayList;
 import java.util.List;
+import java.util.stream.IntStream;
 import java.util.SplittableRandom;
 
 /** Seeded splits of labelled rows. */
 public final class Splits {
+
+    /** The share held out for testing, per class, where a command or benchmark is not told otherwise. */
+    public static final double DEFAULT_TEST_FRACTION = 0.3;
 
     private Splits() {
     }
@@ -31,21 +35,13 @@ public final class Splits {
         List<Integer> train = new ArrayList<>();
         List<Integer> test = new ArrayList<>();
         for (int k = 0; k < classes; k++) {
-            List<Integer> rows = new ArrayList<>();
-            for (int i = 0; i < labels.length; i++) {
-                if (labels[i] == k) {
-                    rows.add(i);
-                }
+            final int cls = k;
+            int[] rows = IntStream.range(0, labels.length).filter(i -> labels[i] == cls).toArray();
+            RandomVariates.shuffle(rows, rng);
+            int nTest = (int) Math.round(testFraction * rows.length);
+            for (int i = 0; i < rows.length; i++) {
+                (i < nTest ? test : train).add(rows[i]);
             }
-            for (int i = rows.size() - 1; i > 0; i--) {
-                int j = rng.nextInt(i + 1);
-                Integer t = rows.get(i);
-                rows.set(i, rows.get(j));
-                rows.set(j, t);
-            }
-            int nTest = (int) Math.round(testFraction * rows.size());
-            test.addAll(rows.subList(0, nTest));
-            train.addAll(rows.subList(nTest, rows.size()));
         }
         return new Split(train.stream().mapToInt(Integer::intValue).sorted().toArray(),
                 test.stream().mapToInt(Integer::intValue).sorted().toArray());

@@ -1,19 +1,12 @@
 package dev.dowser.store;
 
 import dev.dowser.json.Json;
-import java.io.ByteArrayInputStream;
 import java.nio.ByteBuffer;
 import java.nio.ByteOrder;
-import java.sql.Connection;
-import java.sql.PreparedStatement;
-import java.sql.ResultSet;
-import java.sql.SQLException;
-import java.sql.Timestamp;
-import java.sql.Types;
 import java.time.Clock;
+import java.time.Instant;
 import java.util.ArrayList;
 import java.util.List;
-import javax.sql.DataSource;
 
 /**
  * Saves and loads the chains' last states, all of a pool's chains together, per round: the latest
@@ -21,11 +14,11 @@ import javax.sql.DataSource;
  */
 public final class ChainStateStore {
 
-    private final DataSource ds;
+    private final Sql sql;
     private final Clock clock;
 
-    ChainStateStore(DataSource ds, Clock clock) {
-        this.ds = ds;
+    ChainStateStore(Sql sql, Clock clock) {
+        this.sql = sql;
         this.clock = clock;
     }
 
@@ -42,49 +35,22 @@ public final class ChainStateStore {
             throw new IllegalArgumentException("save the chains of one round together");
         }
         int round = chains.get(0).round();
-        try {
-            Transactions.run(ds, c -> {
-                try (PreparedStatement del = c.prepareStatement("DELETE FROM chain_states WHERE pool_id = ?"
-                        + " AND (round_no = ? OR round_no < (SELECT MIN(r) FROM (SELECT DISTINCT round_no AS r"
-                        + " FROM chain_states WHERE pool_id = ? AND round_no <> ? ORDER BY r DESC FETCH FIRST "
-                        + (KEPT_ROUNDS - 1) + " ROWS ONLY) AS latest))");
-                     PreparedStatement ins = c.prepareStatement("INSERT INTO chain_states (pool_id, chain_no, round_no,"
-                             + " kernel, network, position, preconditioner, hyper, step_size, step_count, accepted,"
-                             + " proposed, saved_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)")) {
-                    del.setLong(1, poolId);
-                    del.setInt(2, round);
-                    del.setLong(3, poolId);
-                    del.setInt(4, round);
-                    del.executeUpdate();
-                    Timestamp now = Timestamp.from(clock.instant());
-                    for (SavedChain s : chains) {
-                        ins.setLong(1, poolId);
-                        ins.setInt(2, s.chain());
-                        ins.setInt(3, s.round());
-                        ins.setString(4, s.kernel());
-                        ins.setString(5, s.networkJson());
-                        byte[] position = toBytes(s.position());
-                        ins.setBinaryStream(6, new ByteArrayInputStream(position), position.length);
-                        if (s.preconditioner() == null) {
-                            ins.setNull(7, Types.BLOB);
-                        } else {
-                            byte[] v = toBytes(s.preconditioner());
-                            ins.setBinaryStream(7, new ByteArrayInputStream(v), v.length);
-                        }
-                        ins.setString(8, s.hyper() == null ? null : Json.write(s.hyper()));
-                        ins.setDouble(9, s.stepSize());
-                        ins.setLong(10, s.step());
-                        ins.setLong(11, s.accepted());
-                        ins.setLong(12, s.proposed());
-                        ins.setTimestamp(13, now);
-                        ins.executeUpdate();
-                    }
-                }
-                return null;
-            });
-        } catch (SQLException e) {
-            throw new StoreException("cannot save the chains of pool " + poolId + ": " + e.getMessage(), e);
+        Instant now = clock.instant();
+        List<Object[]> rows = new ArrayList<>(chains.size());
+        for (SavedChain s : chains) {
+            rows.add(new Object[] {poolId, s.chain(), s.round(), s.kernel(), s.networkJson(), toBytes(s.position()),
+                s.kernelState(), s.hyper() == null ? null : Json.write(s.hyper()), s.stepSize(), s.step(), now});
         }
+        sql.transaction("save the chains of pool " + poolId, c -> {
+            Sql.update(c, "DELETE FROM chain_states WHERE pool_id = ? AND (round_no = ? OR round_no < (SELECT MIN(r)"
+                    + " FROM (SELECT DISTINCT round_no AS r FROM chain_states WHERE pool_id = ? AND round_no <> ?"
+                    + " ORDER BY r DESC FETCH FIRST " + (KEPT_ROUNDS - 1) + " ROWS ONLY) AS latest))",
+                    poolId, round, poolId, round);
+            Sql.batch(c, "INSERT INTO chain_states (pool_id, chain_no, round_no, kernel, network, position,"
+                    + " kernel_state, hyper, step_size, step_count, saved_at)"
+                    + " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)", rows);
+            return null;
+        });
     }
 
     /** The pool's chains as the latest round left them, in chain order; empty when none were saved. */
@@ -98,27 +64,14 @@ public final class ChainStateStore {
     }
 
     private List<SavedChain> load(long poolId, String roundSql, long roundParameter) {
-        List<SavedChain> out = new ArrayList<>();
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT chain_no, round_no, kernel, network, position,"
-                     + " preconditioner, hyper, step_size, step_count, accepted, proposed FROM chain_states"
-                     + " WHERE pool_id = ? AND round_no = " + roundSql + " ORDER BY chain_no")) {
-            q.setLong(1, poolId);
-            q.setLong(2, roundParameter);
-            try (ResultSet rs = q.executeQuery()) {
-                while (rs.next()) {
-                    byte[] v = rs.getBytes(6);
+        return sql.list("load the chains of pool " + poolId, "SELECT chain_no, round_no, kernel, network, position,"
+                + " kernel_state, hyper, step_size, step_count FROM chain_states"
+                + " WHERE pool_id = ? AND round_no = " + roundSql + " ORDER BY chain_no", rs -> {
                     String hyper = rs.getString(7);
-                    out.add(new SavedChain(rs.getInt(1), rs.getInt(2), rs.getString(3), rs.getString(4),
-                            toFloats(rs.getBytes(5)), v == null ? null : toFloats(v),
-                            hyper == null ? null : Json.read(hyper, double[].class), rs.getDouble(8), rs.getLong(9),
-                            rs.getLong(10), rs.getLong(11)));
-                }
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot load the chains of pool " + poolId + ": " + e.getMessage(), e);
-        }
-        return out;
+                    return new SavedChain(rs.getInt(1), rs.getInt(2), rs.getString(3), rs.getString(4),
+                            toFloats(rs.getBytes(5)), rs.getBytes(6),
+                            hyper == null ? null : Json.read(hyper, double[].class), rs.getDouble(8), rs.getLong(9));
+                }, poolId, roundParameter);
     }
 
     static byte[] toBytes(float[] v) {

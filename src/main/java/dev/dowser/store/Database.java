@@ -38,17 +38,17 @@ public final class Database implements AutoCloseable {
     private Database(HikariDataSource dataSource, Clock clock) {
         this.dataSource = dataSource;
         this.clock = clock;
-        this.labels = new LabelStore(dataSource, clock);
-        this.pools = new PoolStore(dataSource, labels, clock);
-        this.records = new RecordStore(dataSource, labels);
         Sql sql = new Sql(dataSource);
-        this.chains = new ChainStateStore(dataSource, clock);
+        this.labels = new LabelStore(sql, clock);
+        this.pools = new PoolStore(sql, labels, clock);
+        this.records = new RecordStore(sql, labels);
+        this.chains = new ChainStateStore(sql, clock);
         this.queues = new QueueStore(sql, clock);
         this.leases = new LeaseStore(sql, clock, queues);
         this.rounds = new RoundStore(sql, clock);
-        this.users = new UserStore(dataSource, clock);
-        this.history = new HistoryStore(dataSource, clock);
-        this.predictions = new PredictionStore(dataSource);
+        this.users = new UserStore(sql, clock);
+        this.history = new HistoryStore(sql, clock);
+        this.predictions = new PredictionStore(sql);
     }
 
     /** When a committed transaction reaches the database file. */

@@ -1,16 +1,10 @@
 package dev.dowser.store;
 
 import java.sql.Connection;
-import java.sql.PreparedStatement;
-import java.sql.ResultSet;
 import java.sql.SQLException;
-import java.sql.Timestamp;
-import java.sql.Types;
 import java.time.Clock;
 import java.time.Instant;
-import java.util.ArrayList;
 import java.util.List;
-import javax.sql.DataSource;
 
 /** The append-only record of changes to settings and accounts: rows are added, never changed or removed. */
 public final class HistoryStore {
@@ -22,65 +16,37 @@ public final class HistoryStore {
                          String before, String after) {
     }
 
-    private final DataSource ds;
+    private final Sql sql;
     private final Clock clock;
 
-    HistoryStore(DataSource ds, Clock clock) {
-        this.ds = ds;
+    HistoryStore(Sql sql, Clock clock) {
+        this.sql = sql;
         this.clock = clock;
     }
 
     public void append(Long poolId, String subject, String kind, String actor, String before, String after) {
-        try (Connection c = ds.getConnection()) {
+        sql.connected("record the change of " + subject, c -> {
             append(c, clock, poolId, subject, kind, actor, before, after);
-        } catch (SQLException e) {
-            throw new StoreException("cannot record the change of " + subject + ": " + e.getMessage(), e);
-        }
+            return null;
+        });
     }
 
     /** Appends on {@code c}, so that a change and its history entry share one transaction. */
     static void append(Connection c, Clock clock, Long poolId, String subject, String kind, String actor,
                        String before, String after) throws SQLException {
-        try (PreparedStatement p = c.prepareStatement("INSERT INTO history (pool_id, subject, change_kind, actor,"
-                + " changed_at, before_value, after_value) VALUES (?, ?, ?, ?, ?, ?, ?)")) {
-            if (poolId == null) {
-                p.setNull(1, Types.BIGINT);
-            } else {
-                p.setLong(1, poolId);
-            }
-            p.setString(2, subject);
-            p.setString(3, kind);
-            p.setString(4, actor);
-            p.setTimestamp(5, Timestamp.from(clock.instant()));
-            p.setString(6, clip(before));
-            p.setString(7, clip(after));
-            p.executeUpdate();
-        }
+        Sql.update(c, "INSERT INTO history (pool_id, subject, change_kind, actor, changed_at, before_value,"
+                + " after_value) VALUES (?, ?, ?, ?, ?, ?, ?)", poolId, subject, kind, actor, clock.instant(),
+                clip(before), clip(after));
     }
 
     /** Changes about {@code subject} (within {@code poolId} when given), oldest first. */
     public List<Change> of(Long poolId, String subject) {
-        List<Change> out = new ArrayList<>();
-        String where = poolId == null ? "pool_id IS NULL" : "pool_id = ?";
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT id, pool_id, subject, change_kind, actor, changed_at,"
-                     + " before_value, after_value FROM history WHERE " + where + " AND subject = ? ORDER BY id")) {
-            int i = 1;
-            if (poolId != null) {
-                q.setLong(i++, poolId);
-            }
-            q.setString(i, subject);
-            try (ResultSet rs = q.executeQuery()) {
-                while (rs.next()) {
-                    long pool = rs.getLong(2);
-                    out.add(new Change(rs.getLong(1), rs.wasNull() ? null : pool, rs.getString(3), rs.getString(4),
-                            rs.getString(5), rs.getTimestamp(6).toInstant(), rs.getString(7), rs.getString(8)));
-                }
-            }
-            return out;
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the history of " + subject + ": " + e.getMessage(), e);
-        }
+        String where = poolId == null ? "pool_id IS NULL AND subject = ?" : "pool_id = ? AND subject = ?";
+        Object[] args = poolId == null ? new Object[] {subject} : new Object[] {poolId, subject};
+        return sql.list("read the history of " + subject, "SELECT id, pool_id, subject, change_kind, actor, changed_at,"
+                + " before_value, after_value FROM history WHERE " + where + " ORDER BY id",
+                rs -> new Change(rs.getLong(1), Sql.nullableLong(rs, 2), rs.getString(3), rs.getString(4),
+                        rs.getString(5), Sql.instant(rs, 6), rs.getString(7), rs.getString(8)), args);
     }
 
     private static String clip(String value) {

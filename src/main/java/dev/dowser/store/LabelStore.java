@@ -5,10 +5,8 @@ import dev.dowser.labels.LabelRow;
 import dev.dowser.labels.Resolution;
 import dev.dowser.labels.Verdict;
 import java.sql.Connection;
-import java.sql.PreparedStatement;
 import java.sql.ResultSet;
 import java.sql.SQLException;
-import java.sql.Timestamp;
 import java.time.Clock;
 import java.time.Instant;
 import java.util.ArrayList;
@@ -18,7 +16,6 @@ import java.util.List;
 import java.util.Map;
 import java.util.Set;
 import java.util.function.Consumer;
-import javax.sql.DataSource;
 
 /**
  * Labels and reviews: appended, never changed in place or deleted, so the table is the history.
@@ -32,11 +29,11 @@ public final class LabelStore {
     /** The kind of a person's label row; a review row's kind is its verdict's word. */
     public static final String KIND_LABEL = "label";
 
-    private final DataSource ds;
+    private final Sql sql;
     private final Clock clock;
 
-    LabelStore(DataSource ds, Clock clock) {
-        this.ds = ds;
+    LabelStore(Sql sql, Clock clock) {
+        this.sql = sql;
         this.clock = clock;
     }
 
@@ -48,14 +45,10 @@ public final class LabelStore {
         if (note != null && note.length() > MAX_NOTE_CHARS) {
             throw new IllegalArgumentException("the note is longer than " + MAX_NOTE_CHARS + " characters");
         }
-        try {
-            return Transactions.run(ds, c -> {
-                Instant at = insert(c, poolId, row, label, labelledBy, note, KIND_LABEL, false);
-                return new LabelRow(row, label, labelledBy, at, note);
-            });
-        } catch (SQLException e) {
-            throw new StoreException("cannot store the label of row " + row + ": " + e.getMessage(), e);
-        }
+        return sql.transaction("store the label of row " + row, c -> {
+            Instant at = insert(c, poolId, row, label, labelledBy, note, KIND_LABEL, false);
+            return new LabelRow(row, label, labelledBy, at, note);
+        });
     }
 
     /**
@@ -63,22 +56,18 @@ public final class LabelStore {
      * which that person has no label on it. Returns the label taken back.
      */
     public LabelRow withdraw(long poolId, long row, String person) {
-        try {
-            return Transactions.run(ds, c -> {
-                Resolution now = resolution(c, poolId, row);
-                Resolution.Opinion mine = now.opinions().stream().filter(o -> o.person().equals(person))
-                        .findFirst().orElse(null);
-                if (mine == null) {
-                    // The same words whether or not someone else labelled it: blind double labelling
-                    // must not learn another person's label, nor that there is one, from a refusal.
-                    throw new ConflictException("you have no label on this record to take back");
-                }
-                insert(c, poolId, row, mine.label(), person, null, KIND_LABEL, true);
-                return new LabelRow(row, mine.label(), person, mine.at(), mine.note());
-            });
-        } catch (SQLException e) {
-            throw new StoreException("cannot take back the label of row " + row + ": " + e.getMessage(), e);
-        }
+        return sql.transaction("take back the label of row " + row, c -> {
+            Resolution now = resolution(c, poolId, row);
+            Resolution.Opinion mine = now.opinions().stream().filter(o -> o.person().equals(person))
+                    .findFirst().orElse(null);
+            if (mine == null) {
+                // The same words whether or not someone else labelled it: blind double labelling
+                // must not learn another person's label, nor that there is one, from a refusal.
+                throw new ConflictException("you have no label on this record to take back");
+            }
+            insert(c, poolId, row, mine.label(), person, null, KIND_LABEL, true);
+            return new LabelRow(row, mine.label(), person, mine.at(), mine.note());
+        });
     }
 
     /**
@@ -93,26 +82,22 @@ public final class LabelStore {
         if (reason != null && reason.length() > MAX_NOTE_CHARS) {
             throw new IllegalArgumentException("the reason is longer than " + MAX_NOTE_CHARS + " characters");
         }
-        try {
-            return Transactions.run(ds, c -> {
-                Resolution now = resolution(c, poolId, row);
-                String finalLabel = label;
-                if (verdict == Verdict.ACCEPT) {
-                    if (now.opinions().isEmpty()) {
-                        throw new ConflictException("the record has no label to accept");
-                    }
-                    if (now.peopleDisagree()) {
-                        throw new ConflictException("people disagree on this record; override it with the label"
-                                + " you choose and a reason");
-                    }
-                    finalLabel = now.opinions().get(0).label();
+        return sql.transaction("store the review of row " + row, c -> {
+            Resolution now = resolution(c, poolId, row);
+            String finalLabel = label;
+            if (verdict == Verdict.ACCEPT) {
+                if (now.opinions().isEmpty()) {
+                    throw new ConflictException("the record has no label to accept");
                 }
-                insert(c, poolId, row, finalLabel, reviewer, reason, verdict.word(), false);
-                return resolution(c, poolId, row);
-            });
-        } catch (SQLException e) {
-            throw new StoreException("cannot store the review of row " + row + ": " + e.getMessage(), e);
-        }
+                if (now.peopleDisagree()) {
+                    throw new ConflictException("people disagree on this record; override it with the label"
+                            + " you choose and a reason");
+                }
+                finalLabel = now.opinions().get(0).label();
+            }
+            insert(c, poolId, row, finalLabel, reviewer, reason, verdict.word(), false);
+            return resolution(c, poolId, row);
+        });
     }
 
     /**
@@ -120,28 +105,20 @@ public final class LabelStore {
      * by their own later label), newest first, at most {@code limit}.
      */
     public List<LabelRow> latestBy(long poolId, String person, int limit) {
-        List<LabelRow> out = new ArrayList<>();
-        Set<Long> seen = new HashSet<>();
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT row_no, label, labelled_at, note, withdrawn FROM labels"
-                     + " WHERE pool_id = ? AND labelled_by = ? AND kind = '" + KIND_LABEL + "'"
-                     + " ORDER BY pool_id DESC, labelled_by DESC, id DESC")) {
-            q.setFetchSize(64);
-            q.setLong(1, poolId);
-            q.setString(2, person);
-            try (ResultSet rs = q.executeQuery()) {
-                while (out.size() < limit && rs.next()) {
-                    long row = rs.getLong(1);
-                    if (seen.add(row) && !rs.getBoolean(5)) {
-                        out.add(new LabelRow(row, rs.getString(2), person, rs.getTimestamp(3).toInstant(),
-                                rs.getString(4)));
+        // Newest first along the index labels_by_person; each record's first row seen is the person's newest on it.
+        return sql.scan("read the labels of " + person, "SELECT row_no, label, labelled_at, note, withdrawn FROM labels"
+                + " WHERE pool_id = ? AND labelled_by = ? AND kind = '" + KIND_LABEL + "'"
+                + " ORDER BY pool_id DESC, labelled_by DESC, id DESC", 64, rs -> {
+                    List<LabelRow> out = new ArrayList<>();
+                    Set<Long> seen = new HashSet<>();
+                    while (out.size() < limit && rs.next()) {
+                        long row = rs.getLong(1);
+                        if (seen.add(row) && !rs.getBoolean(5)) {
+                            out.add(new LabelRow(row, rs.getString(2), person, Sql.instant(rs, 3), rs.getString(4)));
+                        }
                     }
-                }
-            }
-            return out;
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the labels of " + person + ": " + e.getMessage(), e);
-        }
+                    return out;
+                }, poolId, person);
     }
 
     /** One stored row of a record's label history, oldest first: labels, withdrawals and reviews. */
@@ -150,61 +127,31 @@ public final class LabelStore {
 
     /** Everything ever said about the record at {@code row}, oldest first. */
     public List<Entry> history(long poolId, long row) {
-        List<Entry> out = new ArrayList<>();
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT kind, label, labelled_by, labelled_at, note, withdrawn"
-                     + " FROM labels WHERE pool_id = ? AND row_no = ? ORDER BY id")) {
-            q.setLong(1, poolId);
-            q.setLong(2, row);
-            try (ResultSet rs = q.executeQuery()) {
-                while (rs.next()) {
-                    out.add(new Entry(rs.getString(1), rs.getString(2), rs.getString(3),
-                            rs.getTimestamp(4).toInstant(), rs.getString(5), rs.getBoolean(6)));
-                }
-            }
-            return out;
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the history of row " + row + ": " + e.getMessage(), e);
-        }
+        return sql.list("read the history of row " + row, "SELECT kind, label, labelled_by, labelled_at, note, withdrawn"
+                + " FROM labels WHERE pool_id = ? AND row_no = ? ORDER BY id", rs -> new Entry(rs.getString(1),
+                rs.getString(2), rs.getString(3), Sql.instant(rs, 4), rs.getString(5), rs.getBoolean(6)), poolId, row);
     }
 
     /** Where the labels of the record at {@code row} stand. */
     public Resolution resolution(long poolId, long row) {
-        try (Connection c = ds.getConnection()) {
-            return resolution(c, poolId, row);
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the labels of row " + row + ": " + e.getMessage(), e);
-        }
+        return sql.connected("read the labels of row " + row, c -> resolution(c, poolId, row));
     }
 
+    /** The record's labels as they stand, its label rows locked until the transaction ends. */
     private static Resolution resolution(Connection c, long poolId, long row) throws SQLException {
-        try (PreparedStatement q = c.prepareStatement("SELECT " + CURSOR_COLUMNS
-                + " FROM labels WHERE pool_id = ? AND row_no = ? ORDER BY id FOR UPDATE")) {
-            q.setLong(1, poolId);
-            q.setLong(2, row);
-            try (ResultSet rs = q.executeQuery()) {
-                Resolution r = new Cursor(rs).next();
-                return r != null ? r : new Resolution(row, List.of(), null);
-            }
-        }
+        return Sql.scan(c, "SELECT " + CURSOR_COLUMNS + " FROM labels WHERE pool_id = ? AND row_no = ? ORDER BY id"
+                + " FOR UPDATE", 64, rs -> {
+                    Resolution r = new Cursor(rs).next();
+                    return r != null ? r : new Resolution(row, List.of(), null);
+                }, poolId, row);
     }
 
     /** Appends one label row and brings the record's queue entries up to date with it; returns its time. */
     private Instant insert(Connection c, long poolId, long row, String label, String by, String note, String kind,
                            boolean withdrawn) throws SQLException {
         Instant now = clock.instant();
-        try (PreparedStatement p = c.prepareStatement("INSERT INTO labels (pool_id, row_no, label, labelled_by,"
-                + " labelled_at, note, kind, withdrawn) VALUES (?, ?, ?, ?, ?, ?, ?, ?)")) {
-            p.setLong(1, poolId);
-            p.setLong(2, row);
-            p.setString(3, label);
-            p.setString(4, by);
-            p.setTimestamp(5, Timestamp.from(now));
-            p.setString(6, note);
-            p.setString(7, kind);
-            p.setBoolean(8, withdrawn);
-            p.executeUpdate();
-        }
+        Sql.update(c, "INSERT INTO labels (pool_id, row_no, label, labelled_by, labelled_at, note, kind, withdrawn)"
+                + " VALUES (?, ?, ?, ?, ?, ?, ?, ?)", poolId, row, label, by, now, note, kind, withdrawn);
         // The author has acted on the record: their lease on it ends, and its entries' done flags follow
         // the labels (a record wanted by two people is then free for the second at once).
         Sql.update(c, "DELETE FROM leases WHERE pool_id = ? AND row_no = ? AND person = ?", poolId, row, by);
@@ -214,7 +161,7 @@ public final class LabelStore {
 
     /** Records that someone has a label on, or that a reviewer decided. */
     public long labelledRecords(long poolId) {
-        return new Sql(ds).first("count the labelled records of pool " + poolId, "SELECT COUNT(DISTINCT l.row_no)"
+        return sql.first("count the labelled records of pool " + poolId, "SELECT COUNT(DISTINCT l.row_no)"
                 + " FROM labels l WHERE l.pool_id = ? AND (l.kind <> 'label' OR (NOT l.withdrawn AND NOT EXISTS"
                 + " (SELECT 1 FROM labels w WHERE w.pool_id = l.pool_id AND w.row_no = l.row_no AND w.kind = 'label'"
                 + " AND w.labelled_by = l.labelled_by AND w.id > l.id)))", rs -> rs.getLong(1), poolId).orElse(0L);
@@ -262,16 +209,8 @@ public final class LabelStore {
 
     /** The id of the pool's newest label row (labels, withdrawals and reviews alike); 0 when there is none. */
     public long lastLabelId(long poolId) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT COALESCE(MAX(id), 0) FROM labels WHERE pool_id = ?")) {
-            q.setLong(1, poolId);
-            try (ResultSet rs = q.executeQuery()) {
-                rs.next();
-                return rs.getLong(1);
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the labels of pool " + poolId + ": " + e.getMessage(), e);
-        }
+        return sql.first("read the labels of pool " + poolId, "SELECT COALESCE(MAX(id), 0) FROM labels WHERE pool_id = ?",
+                rs -> rs.getLong(1), poolId).orElse(0L);
     }
 
     void forEachResolution(long poolId, long from, long to, Consumer<Resolution> sink) {
@@ -293,20 +232,11 @@ public final class LabelStore {
     }
 
     private void withCursor(long poolId, long from, long to, long lastId, Consumer<Cursor> use) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT " + CURSOR_COLUMNS
-                     + " FROM labels WHERE pool_id = ? AND row_no >= ? AND row_no < ? AND id <= ? ORDER BY row_no, id")) {
-            q.setFetchSize(4_096);
-            q.setLong(1, poolId);
-            q.setLong(2, from);
-            q.setLong(3, to);
-            q.setLong(4, lastId);
-            try (ResultSet rs = q.executeQuery()) {
-                use.accept(new Cursor(rs));
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the labels of pool " + poolId + ": " + e.getMessage(), e);
-        }
+        sql.scan("read the labels of pool " + poolId, "SELECT " + CURSOR_COLUMNS + " FROM labels WHERE pool_id = ?"
+                + " AND row_no >= ? AND row_no < ? AND id <= ? ORDER BY row_no, id", 4_096, rs -> {
+                    use.accept(new Cursor(rs));
+                    return null;
+                }, poolId, from, to, lastId);
     }
 
     /**
@@ -370,7 +300,7 @@ public final class LabelStore {
     /** A label row read from the columns of {@link #CURSOR_COLUMNS}. */
     static LabelEvent event(ResultSet rs) throws SQLException {
         String kind = rs.getString(7);
-        return new LabelEvent(rs.getLong(1), rs.getString(2), rs.getString(3), rs.getTimestamp(4).toInstant(),
+        return new LabelEvent(rs.getLong(1), rs.getString(2), rs.getString(3), Sql.instant(rs, 4),
                 rs.getString(5), rs.getBoolean(6), kind.equals(KIND_LABEL) ? null : Verdict.parse(kind));
     }
 }

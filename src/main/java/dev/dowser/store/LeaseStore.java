@@ -75,7 +75,8 @@ public final class LeaseStore {
             }
         }
         Optional<QueueEntry> next = firstFree(poolId, round, person, lease, false);
-        if (next.isEmpty() && queues.appendRandom(poolId) > 0) {
+        // Only while this round is served: if a new one was published meanwhile, the caller looks there first.
+        if (next.isEmpty() && queues.appendRandom(poolId, round) > 0) {
             next = firstFree(poolId, round, person, lease, false);
         }
         return next.isPresent() ? next : firstFree(poolId, round, person, lease, true);

@@ -1,8 +1,6 @@
 package dev.dowser.store;
 
 import dev.dowser.json.Json;
-import java.sql.Connection;
-import java.sql.PreparedStatement;
 import java.sql.ResultSet;
 import java.sql.SQLException;
 import java.time.Clock;
@@ -12,7 +10,6 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
-import javax.sql.DataSource;
 
 /** Reads pools and their label counts. Pools are written by {@link PoolWriter}. */
 public final class PoolStore {
@@ -20,79 +17,45 @@ public final class PoolStore {
     private static final String COLUMNS =
             "id, name, label_set, column_roles, feature_schema, settings, record_count, created_at";
 
-    private final DataSource ds;
+    private final Sql sql;
     private final LabelStore labels;
     private final Clock clock;
 
-    PoolStore(DataSource ds, LabelStore labels, Clock clock) {
-        this.ds = ds;
+    PoolStore(Sql sql, LabelStore labels, Clock clock) {
+        this.sql = sql;
         this.labels = labels;
         this.clock = clock;
     }
 
     public Optional<PoolRow> find(String name) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT " + COLUMNS + " FROM pools WHERE name = ?")) {
-            q.setString(1, name);
-            try (ResultSet rs = q.executeQuery()) {
-                return rs.next() ? Optional.of(row(rs)) : Optional.empty();
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read pool '" + name + "': " + e.getMessage(), e);
-        }
+        return sql.first("read pool '" + name + "'", "SELECT " + COLUMNS + " FROM pools WHERE name = ?", PoolStore::row,
+                name);
     }
 
     public PoolRow require(String name) {
         return find(name).orElseThrow(() -> new NotFoundException("no pool named '" + name + "'"));
     }
 
-    /** Replaces the pool's settings document (validated by the caller). */
-    /** Replaces a pool's settings and appends the change, before and after, to the history; both or neither. */
+    /** Replaces a pool's settings (validated by the caller) and appends the change, before and after, to the history; both or neither. */
     public void updateSettings(long poolId, String settingsJson, String actor) {
-        try {
-            Transactions.run(ds, c -> {
-                String before;
-                try (PreparedStatement q = c.prepareStatement("SELECT settings FROM pools WHERE id = ? FOR UPDATE")) {
-                    q.setLong(1, poolId);
-                    try (ResultSet rs = q.executeQuery()) {
-                        if (!rs.next()) {
-                            throw new NotFoundException("no pool with id " + poolId);
-                        }
-                        before = rs.getString(1);
-                    }
-                }
-                try (PreparedStatement u = c.prepareStatement("UPDATE pools SET settings = ? WHERE id = ?")) {
-                    u.setString(1, settingsJson);
-                    u.setLong(2, poolId);
-                    u.executeUpdate();
-                }
-                HistoryStore.append(c, clock, poolId, "settings", "settings-changed", actor, before, settingsJson);
-                return null;
-            });
-        } catch (SQLException e) {
-            throw new StoreException("cannot save the settings of pool " + poolId + ": " + e.getMessage(), e);
-        }
+        sql.transaction("save the settings of pool " + poolId, c -> {
+            String before = Sql.first(c, "SELECT settings FROM pools WHERE id = ? FOR UPDATE", rs -> rs.getString(1),
+                    poolId).orElseThrow(() -> new NotFoundException("no pool with id " + poolId));
+            Sql.update(c, "UPDATE pools SET settings = ? WHERE id = ?", settingsJson, poolId);
+            HistoryStore.append(c, clock, poolId, "settings", "settings-changed", actor, before, settingsJson);
+            return null;
+        });
     }
 
     /** Every pool's name and id, by name. */
     public Map<String, Long> ids() {
         Map<String, Long> out = new LinkedHashMap<>();
-        new Sql(ds).list("list pools", "SELECT name, id FROM pools ORDER BY name",
-                rs -> out.put(rs.getString(1), rs.getLong(2)));
+        sql.list("list pools", "SELECT name, id FROM pools ORDER BY name", rs -> out.put(rs.getString(1), rs.getLong(2)));
         return out;
     }
 
     public List<PoolSummary> list() {
-        List<PoolRow> pools = new ArrayList<>();
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT " + COLUMNS + " FROM pools ORDER BY name");
-             ResultSet rs = q.executeQuery()) {
-            while (rs.next()) {
-                pools.add(row(rs));
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot list pools: " + e.getMessage(), e);
-        }
+        List<PoolRow> pools = sql.list("list pools", "SELECT " + COLUMNS + " FROM pools ORDER BY name", PoolStore::row);
         List<PoolSummary> out = new ArrayList<>();
         for (PoolRow pool : pools) {
             Map<String, Long> counts = labelCounts(pool);
@@ -115,6 +78,6 @@ public final class PoolStore {
     private static PoolRow row(ResultSet rs) throws SQLException {
         List<String> classes = Arrays.asList(Json.read(rs.getString(3), String[].class));
         return new PoolRow(rs.getLong(1), rs.getString(2), classes, rs.getString(4), rs.getString(5),
-                rs.getString(6), rs.getLong(7), rs.getTimestamp(8).toInstant());
+                rs.getString(6), rs.getLong(7), Sql.instant(rs, 8));
     }
 }

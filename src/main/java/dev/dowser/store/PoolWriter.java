@@ -6,9 +6,7 @@ import dev.dowser.records.RecordBatch;
 import dev.dowser.records.RecordBlock;
 import java.sql.Connection;
 import java.sql.PreparedStatement;
-import java.sql.ResultSet;
 import java.sql.SQLException;
-import java.sql.Statement;
 import java.sql.Timestamp;
 import java.time.Clock;
 import java.util.HashMap;
@@ -96,18 +94,8 @@ public final class PoolWriter implements AutoCloseable {
             if (exists(c, name)) {
                 throw nameTaken(name);
             }
-            long id;
-            try (PreparedStatement p = c.prepareStatement("INSERT INTO pools (name, label_set, column_roles,"
-                    + " feature_schema, settings, record_count, created_at) VALUES (?, '[]', '{}', '{}', '{}', 0, ?)",
-                    Statement.RETURN_GENERATED_KEYS)) {
-                p.setString(1, name);
-                p.setTimestamp(2, Timestamp.from(clock.instant()));
-                p.executeUpdate();
-                try (ResultSet keys = p.getGeneratedKeys()) {
-                    keys.next();
-                    id = keys.getLong(1);
-                }
-            }
+            long id = Sql.insert(c, "INSERT INTO pools (name, label_set, column_roles, feature_schema, settings,"
+                    + " record_count, created_at) VALUES (?, '[]', '{}', '{}', '{}', 0, ?)", "id", name, clock.instant());
             return new PoolWriter(c, clock, id, cols, displayIndex, checkKeys, importedBy);
         } catch (SQLException e) {
             closeQuietly(c);
@@ -122,12 +110,7 @@ public final class PoolWriter implements AutoCloseable {
     }
 
     private static boolean exists(Connection c, String name) throws SQLException {
-        try (PreparedStatement q = c.prepareStatement("SELECT 1 FROM pools WHERE name = ?")) {
-            q.setString(1, name);
-            try (ResultSet rs = q.executeQuery()) {
-                return rs.next();
-            }
-        }
+        return Sql.first(c, "SELECT 1 FROM pools WHERE name = ?", rs -> 1, name).isPresent();
     }
 
     private static ConflictException nameTaken(String name) {
@@ -196,6 +179,10 @@ public final class PoolWriter implements AutoCloseable {
         }
     }
 
+    /**
+     * The writer thread's loop: two statements prepared once for the whole import (not through
+     * {@link Sql}), a block's payload streamed into the first from its reused buffer.
+     */
     private void writeBlocks() {
         try (PreparedStatement insert = connection.prepareStatement("INSERT INTO record_blocks"
                 + " (pool_id, block_no, first_row, row_count, payload) VALUES (?, ?, ?, ?, ?)");
@@ -303,26 +290,13 @@ public final class PoolWriter implements AutoCloseable {
                     throw firstDuplicate(repeated);
                 }
             }
-            try (PreparedStatement p = connection.prepareStatement("UPDATE pools SET label_set = ?, column_roles = ?,"
-                    + " feature_schema = ?, settings = ?, record_count = ? WHERE id = ?")) {
-                p.setString(1, Json.write(classes));
-                p.setString(2, columnRolesJson);
-                p.setString(3, featureSchemaJson);
-                p.setString(4, settingsJson);
-                p.setLong(5, rows);
-                p.setLong(6, poolId);
-                p.executeUpdate();
-            }
-            try (PreparedStatement p = connection.prepareStatement("INSERT INTO imports (pool_id, file_name,"
-                    + " file_format, row_count, byte_count, finished_at) VALUES (?, ?, ?, ?, ?, ?)")) {
-                p.setLong(1, poolId);
-                p.setString(2, fileName.length() <= 500 ? fileName : fileName.substring(0, 500));
-                p.setString(3, fileFormat);
-                p.setLong(4, rows);
-                p.setLong(5, byteCount);
-                p.setTimestamp(6, Timestamp.from(clock.instant()));
-                p.executeUpdate();
-            }
+            Sql.update(connection, "UPDATE pools SET label_set = ?, column_roles = ?, feature_schema = ?, settings = ?,"
+                    + " record_count = ? WHERE id = ?", Json.write(classes), columnRolesJson, featureSchemaJson,
+                    settingsJson, rows, poolId);
+            Sql.update(connection, "INSERT INTO imports (pool_id, file_name, file_format, row_count, byte_count,"
+                    + " finished_at) VALUES (?, ?, ?, ?, ?, ?)", poolId,
+                    fileName.length() <= 500 ? fileName : fileName.substring(0, 500), fileFormat, rows, byteCount,
+                    clock.instant());
             connection.commit();
             committed = true;
         } catch (SQLException e) {
@@ -333,26 +307,23 @@ public final class PoolWriter implements AutoCloseable {
     /** Confirms repeated hashes against the ids written so far and names the earliest repeat. */
     private DuplicateKeyException firstDuplicate(Set<Long> hashes) throws SQLException {
         Map<String, Long> firstLine = new HashMap<>();
-        DuplicateKeyException earliest = null;
-        try (PreparedStatement q = connection.prepareStatement(
-                "SELECT payload FROM record_blocks WHERE pool_id = ? ORDER BY block_no")) {
-            q.setLong(1, poolId);
-            try (ResultSet rs = q.executeQuery()) {
-                while (rs.next() && earliest == null) {
-                    RecordBlock b = new RecordBlock(rs.getBytes(1));
-                    String[] keys = b.keys();
-                    long[] lines = b.lines();
-                    for (int i = 0; i < keys.length && earliest == null; i++) {
-                        if (hashes.contains(KeyCheck.hash(keys[i]))) {
-                            Long first = firstLine.putIfAbsent(keys[i], lines[i]);
-                            if (first != null) {
-                                earliest = new DuplicateKeyException(keys[i], first, lines[i]);
+        DuplicateKeyException earliest = Sql.scan(connection, "SELECT payload FROM record_blocks WHERE pool_id = ?"
+                + " ORDER BY block_no", 2, rs -> {
+                    while (rs.next()) {
+                        RecordBlock b = new RecordBlock(rs.getBytes(1));
+                        String[] keys = b.keys();
+                        long[] lines = b.lines();
+                        for (int i = 0; i < keys.length; i++) {
+                            if (hashes.contains(KeyCheck.hash(keys[i]))) {
+                                Long first = firstLine.putIfAbsent(keys[i], lines[i]);
+                                if (first != null) {
+                                    return new DuplicateKeyException(keys[i], first, lines[i]);
+                                }
                             }
                         }
                     }
-                }
-            }
-        }
+                    return null;
+                }, poolId);
         if (earliest == null) {
             throw new StoreException("id check found a repeated hash but no repeated id; please report this");
         }

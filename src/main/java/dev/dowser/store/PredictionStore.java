@@ -2,13 +2,8 @@ package dev.dowser.store;
 
 import java.nio.ByteBuffer;
 import java.nio.ByteOrder;
-import java.sql.Connection;
-import java.sql.PreparedStatement;
-import java.sql.ResultSet;
-import java.sql.SQLException;
 import java.util.Arrays;
 import java.util.Optional;
-import javax.sql.DataSource;
 
 /**
  * The model's posterior predictive for each labelled record after the latest round: derived data,
@@ -52,88 +47,50 @@ public final class PredictionStore {
         }
     }
 
-    private final DataSource ds;
+    private final Sql sql;
 
-    PredictionStore(DataSource ds) {
-        this.ds = ds;
+    PredictionStore(Sql sql) {
+        this.sql = sql;
     }
 
     /** Replaces the pool's predictions with {@code p}. */
     public void replace(long poolId, Predictions p) {
         ByteBuffer probs = ByteBuffer.allocate(p.probabilities().length * Float.BYTES).order(ByteOrder.LITTLE_ENDIAN);
         probs.asFloatBuffer().put(p.probabilities());
-        try (Connection c = ds.getConnection();
-             PreparedStatement m = c.prepareStatement("MERGE INTO labelled_predictions (pool_id, round_no,"
-                     + " class_count, row_nos, probabilities) KEY (pool_id) VALUES (?, ?, ?, ?, ?)")) {
-            m.setLong(1, poolId);
-            m.setInt(2, p.round());
-            m.setInt(3, p.classes());
-            m.setBytes(4, packRows(p.rows()));
-            m.setBytes(5, probs.array());
-            m.executeUpdate();
-        } catch (SQLException e) {
-            throw new StoreException("cannot store the predictions of round " + p.round() + ": " + e.getMessage(), e);
-        }
+        sql.update("store the predictions of round " + p.round(), "MERGE INTO labelled_predictions (pool_id, round_no,"
+                + " class_count, row_nos, probabilities) KEY (pool_id) VALUES (?, ?, ?, ?, ?)", poolId, p.round(),
+                p.classes(), packRows(p.rows()), probs.array());
     }
 
     /** The pool's latest predictions, if a round has made any. */
     public Optional<Predictions> latest(long poolId) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT round_no, class_count, row_nos, probabilities"
-                     + " FROM labelled_predictions WHERE pool_id = ?")) {
-            q.setLong(1, poolId);
-            try (ResultSet rs = q.executeQuery()) {
-                if (!rs.next()) {
-                    return Optional.empty();
-                }
-                long[] rows = unpackRows(rs.getBytes(3));
-                ByteBuffer probBytes = ByteBuffer.wrap(rs.getBytes(4)).order(ByteOrder.LITTLE_ENDIAN);
-                float[] probs = new float[probBytes.remaining() / Float.BYTES];
-                probBytes.asFloatBuffer().get(probs);
-                return Optional.of(new Predictions(rs.getInt(1), rows, probs, rs.getInt(2)));
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the predictions of pool " + poolId + ": " + e.getMessage(), e);
-        }
+        return sql.first("read the predictions of pool " + poolId, "SELECT round_no, class_count, row_nos, probabilities"
+                + " FROM labelled_predictions WHERE pool_id = ?", rs -> {
+                    ByteBuffer probBytes = ByteBuffer.wrap(rs.getBytes(4)).order(ByteOrder.LITTLE_ENDIAN);
+                    float[] probs = new float[probBytes.remaining() / Float.BYTES];
+                    probBytes.asFloatBuffer().get(probs);
+                    return new Predictions(rs.getInt(1), unpackRows(rs.getBytes(3)), probs, rs.getInt(2));
+                }, poolId);
     }
 
     /** Replaces the pool's stop-set predictions with those of round {@code p.round()}. */
     public void replaceStopSet(long poolId, StopSetClasses p) {
         ByteBuffer classes = ByteBuffer.allocate(p.classes().length * Integer.BYTES).order(ByteOrder.LITTLE_ENDIAN);
         classes.asIntBuffer().put(p.classes());
-        try (Connection c = ds.getConnection();
-             PreparedStatement m = c.prepareStatement("MERGE INTO stop_set_predictions (pool_id, round_no, row_nos,"
-                     + " classes) KEY (pool_id) VALUES (?, ?, ?, ?)")) {
-            m.setLong(1, poolId);
-            m.setInt(2, p.round());
-            m.setBytes(3, packRows(p.rows()));
-            m.setBytes(4, classes.array());
-            m.executeUpdate();
-        } catch (SQLException e) {
-            throw new StoreException("cannot store the stop-set predictions of round " + p.round() + ": "
-                    + e.getMessage(), e);
-        }
+        sql.update("store the stop-set predictions of round " + p.round(), "MERGE INTO stop_set_predictions (pool_id,"
+                + " round_no, row_nos, classes) KEY (pool_id) VALUES (?, ?, ?, ?)", poolId, p.round(),
+                packRows(p.rows()), classes.array());
     }
 
     /** The latest round's stop-set predictions, if a round has made any. */
     public Optional<StopSetClasses> latestStopSet(long poolId) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT round_no, row_nos, classes FROM stop_set_predictions"
-                     + " WHERE pool_id = ?")) {
-            q.setLong(1, poolId);
-            try (ResultSet rs = q.executeQuery()) {
-                if (!rs.next()) {
-                    return Optional.empty();
-                }
-                long[] rows = unpackRows(rs.getBytes(2));
-                ByteBuffer classBytes = ByteBuffer.wrap(rs.getBytes(3)).order(ByteOrder.LITTLE_ENDIAN);
-                int[] classes = new int[classBytes.remaining() / Integer.BYTES];
-                classBytes.asIntBuffer().get(classes);
-                return Optional.of(new StopSetClasses(rs.getInt(1), rows, classes));
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the stop-set predictions of pool " + poolId + ": " + e.getMessage(), e);
-        }
+        return sql.first("read the stop-set predictions of pool " + poolId, "SELECT round_no, row_nos, classes"
+                + " FROM stop_set_predictions WHERE pool_id = ?", rs -> {
+                    ByteBuffer classBytes = ByteBuffer.wrap(rs.getBytes(3)).order(ByteOrder.LITTLE_ENDIAN);
+                    int[] classes = new int[classBytes.remaining() / Integer.BYTES];
+                    classBytes.asIntBuffer().get(classes);
+                    return new StopSetClasses(rs.getInt(1), unpackRows(rs.getBytes(2)), classes);
+                }, poolId);
     }
 
     /** Row numbers as int64 little-endian, as both tables keep them. */

@@ -6,6 +6,7 @@ import java.sql.SQLException;
 import java.time.Clock;
 import java.time.Instant;
 import java.util.ArrayList;
+import java.util.Collections;
 import java.util.HashMap;
 import java.util.HashSet;
 import java.util.List;
@@ -54,6 +55,8 @@ public final class QueueStore {
     static final int RANDOM_APPEND = 10;
     /** Rows looked at for them, at most: a pool nearly all labelled is searched this far and no further. */
     static final int MAX_PROBES = 20_000;
+    /** Rows read together in that search: one query tells which of them are labelled or queued. */
+    static final int SEARCH_BLOCK = 256;
 
     /**
      * One entry of the served queue as the overview shows it: who holds it (null when nobody),
@@ -270,37 +273,70 @@ public final class QueueStore {
 
     /**
      * The last resort of a desk with nothing left for a person while records remain: appends up to
-     * {@value #RANDOM_APPEND} records, drawn from scattered places of the pool, that nobody labelled
-     * and the served queue does not hold, as reserve places without a score. Returns how many it
-     * appended.
+     * {@value #RANDOM_APPEND} records that nobody labelled and the queue does not hold, as reserve
+     * places without a score, to round {@code round}'s queue if it is still the one served. The pool
+     * is searched in blocks of {@value #SEARCH_BLOCK} rows visited in a scattered order (a random
+     * start, a random step prime to the block count), a few records from each, so they come from
+     * all over the pool; at most {@value #MAX_PROBES} rows are looked at. The search holds no lock;
+     * only the append does, briefly. Returns how many it appended.
      */
-    int appendRandom(long poolId) {
+    int appendRandom(long poolId, int round) {
+        long records = sql.first("read pool " + poolId, "SELECT record_count FROM pools WHERE id = ?",
+                rs -> rs.getLong(1), poolId).orElse(0L);
+        if (records == 0 || !servedRound(poolId).equals(Optional.of(round))) {
+            return 0;
+        }
+        long blocks = (records + SEARCH_BLOCK - 1) / SEARCH_BLOCK;
+        int perBlock = (int) Math.max(1, (RANDOM_APPEND + blocks - 1) / blocks);
+        ThreadLocalRandom rng = ThreadLocalRandom.current();
+        long start = rng.nextLong(blocks);
+        long step = blocks == 1 ? 1 : 1 + rng.nextLong(blocks - 1);
+        while (gcd(step, blocks) != 1) {
+            step = step % (blocks - 1) + 1;
+        }
+        List<Long> found = new ArrayList<>();
+        for (long k = 0; k < blocks && k * SEARCH_BLOCK < MAX_PROBES && found.size() < RANDOM_APPEND; k++) {
+            long from = Math.floorMod(start + k * step, blocks) * SEARCH_BLOCK;
+            long to = Math.min(records, from + SEARCH_BLOCK);
+            Set<Long> taken = new HashSet<>(sql.list("look for records to add to the queue", "SELECT row_no FROM labels"
+                    + " WHERE pool_id = ? AND row_no >= ? AND row_no < ? UNION SELECT row_no FROM queue_entries"
+                    + " WHERE pool_id = ? AND round_no = ? AND row_no >= ? AND row_no < ?", rs -> rs.getLong(1),
+                    poolId, from, to, poolId, round, from, to));
+            List<Long> free = new ArrayList<>();
+            for (long row = from; row < to; row++) {
+                if (!taken.contains(row)) {
+                    free.add(row);
+                }
+            }
+            for (int i = 0; i < perBlock && !free.isEmpty() && found.size() < RANDOM_APPEND; i++) {
+                found.add(free.remove(rng.nextInt(free.size())));
+            }
+        }
+        if (found.isEmpty()) {
+            return 0;
+        }
         return sql.transaction("add records to the queue of pool " + poolId, c -> {
-            Optional<Integer> round = Sql.first(c, "SELECT round_no FROM served_queues WHERE pool_id = ? FOR UPDATE",
+            Optional<Integer> served = Sql.first(c, "SELECT round_no FROM served_queues WHERE pool_id = ? FOR UPDATE",
                     rs -> rs.getInt(1), poolId);
-            long records = Sql.first(c, "SELECT record_count FROM pools WHERE id = ?", rs -> rs.getLong(1), poolId)
-                    .orElse(0L);
-            if (round.isEmpty() || records == 0) {
+            if (!served.equals(Optional.of(round))) {
                 return 0;
             }
+            // Labelled or queued since the search: left out.
+            String in = String.join(", ", Collections.nCopies(found.size(), "?"));
+            List<Object> args = new ArrayList<>(List.of(poolId));
+            args.addAll(found);
+            args.addAll(List.of(poolId, round));
+            args.addAll(found);
+            Set<Long> taken = new HashSet<>(Sql.list(c, "SELECT row_no FROM labels WHERE pool_id = ? AND row_no IN (" + in
+                    + ") UNION SELECT row_no FROM queue_entries WHERE pool_id = ? AND round_no = ? AND row_no IN (" + in
+                    + ")", rs -> rs.getLong(1), args.toArray()));
             int next = Sql.first(c, "SELECT COALESCE(MAX(position) + 1, 0) FROM queue_entries WHERE pool_id = ?"
-                    + " AND round_no = ?", rs -> rs.getInt(1), poolId, round.get()).orElse(0);
-            // A walk through every row in a scattered order (a random start, a random step prime to the
-            // count), so a small pool is searched to the end and a large one from random places.
-            ThreadLocalRandom rng = ThreadLocalRandom.current();
-            long start = rng.nextLong(records);
-            long step = records == 1 ? 1 : 1 + rng.nextLong(records - 1);
-            while (gcd(step, records) != 1) {
-                step = step % (records - 1) + 1;
-            }
+                    + " AND round_no = ?", rs -> rs.getInt(1), poolId, round).orElse(0);
             List<QueueEntry> added = new ArrayList<>();
-            for (long k = 0; k < Math.min(records, MAX_PROBES) && added.size() < RANDOM_APPEND; k++) {
-                long row = Math.floorMod(start + k * step, records);
-                if (Sql.first(c, "SELECT 1 FROM labels WHERE pool_id = ? AND row_no = ?"
-                        + " UNION ALL SELECT 1 FROM queue_entries WHERE pool_id = ? AND round_no = ? AND row_no = ?",
-                        rs -> 1, poolId, row, poolId, round.get(), row).isEmpty()) {
-                    added.add(new QueueEntry(round.get(), next + added.size(), row, 0, false, null, null, null, 1, null,
-                            null, true));
+            for (long row : found) {
+                if (!taken.contains(row)) {
+                    added.add(new QueueEntry(round, next + added.size(), row, 0, false, null, null, null, 1, null, null,
+                            true));
                 }
             }
             insert(c, poolId, added);

@@ -6,10 +6,6 @@ import dev.dowser.records.KeyIndex;
 import dev.dowser.records.RecordBlock;
 import java.io.IOException;
 import java.io.InputStream;
-import java.sql.Connection;
-import java.sql.PreparedStatement;
-import java.sql.ResultSet;
-import java.sql.SQLException;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.HashMap;
@@ -17,7 +13,6 @@ import java.util.List;
 import java.util.Map;
 import java.util.Optional;
 import java.util.concurrent.ConcurrentHashMap;
-import javax.sql.DataSource;
 
 /**
  * Reads records: pages for people, feature bytes for the model, labelled records for export,
@@ -33,7 +28,7 @@ public final class RecordStore {
         void accept(long row, byte[] bytes, int offset, int length);
     }
 
-    private final DataSource ds;
+    private final Sql sql;
     private final LabelStore labels;
     /** Pools never change after import, so an id index, once built, stays right. */
     private final Map<Long, KeyIndex> keyIndex = new ConcurrentHashMap<>();
@@ -44,8 +39,8 @@ public final class RecordStore {
      */
     private final RecordCache cache = new RecordCache(RecordCache.DEFAULT_RECORDS);
 
-    RecordStore(DataSource ds, LabelStore labels) {
-        this.ds = ds;
+    RecordStore(Sql sql, LabelStore labels) {
+        this.sql = sql;
         this.labels = labels;
     }
 
@@ -254,28 +249,24 @@ public final class RecordStore {
 
     /** Visits the blocks holding any row in [fromRow, toRow), in pool order, read as far as {@code section}. */
     private void forEachBlock(long poolId, long fromRow, long toRow, Section section, BlockVisitor visitor) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT first_row, payload FROM record_blocks"
-                     + " WHERE pool_id = ? AND first_row < ? AND first_row + row_count > ? ORDER BY block_no")) {
-            q.setFetchSize(4);
-            q.setLong(1, poolId);
-            q.setLong(2, toRow);
-            q.setLong(3, fromRow);
-            try (ResultSet rs = q.executeQuery()) {
-                while (rs.next()) {
-                    RecordBlock block;
-                    if (section == Section.ALL) {
-                        block = new RecordBlock(rs.getBytes(2));
-                    } else {
-                        try (InputStream head = rs.getBinaryStream(2)) {
-                            block = section == Section.KEYS ? RecordBlock.readKeys(head) : RecordBlock.readHead(head);
+        // Blocks are 1-2 MB each: a few at a time from the database, and only as far into each as needed.
+        sql.scan("read the records of pool " + poolId, "SELECT first_row, payload FROM record_blocks"
+                + " WHERE pool_id = ? AND first_row < ? AND first_row + row_count > ? ORDER BY block_no", 4, rs -> {
+                    while (rs.next()) {
+                        RecordBlock block;
+                        if (section == Section.ALL) {
+                            block = new RecordBlock(rs.getBytes(2));
+                        } else {
+                            try (InputStream head = rs.getBinaryStream(2)) {
+                                block = section == Section.KEYS ? RecordBlock.readKeys(head) : RecordBlock.readHead(head);
+                            } catch (IOException e) {
+                                throw new StoreException("cannot read the records of pool " + poolId + ": "
+                                        + e.getMessage(), e);
+                            }
                         }
+                        visitor.visit(rs.getLong(1), block);
                     }
-                    visitor.visit(rs.getLong(1), block);
-                }
-            }
-        } catch (SQLException | IOException e) {
-            throw new StoreException("cannot read the records of pool " + poolId + ": " + e.getMessage(), e);
-        }
+                    return null;
+                }, poolId, toRow, fromRow);
     }
 }

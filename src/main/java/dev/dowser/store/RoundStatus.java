@@ -1,9 +1,9 @@
 package dev.dowser.store;
 
-import java.util.Locale;
+import dev.dowser.words.Worded;
 
 /** How a round stands, as the rounds table keeps it. */
-public enum RoundStatus {
+public enum RoundStatus implements Worded {
     /** Sampling, scoring or picking now. */
     RUNNING,
     /** Its queue is out (and served until a later round's replaces it). */
@@ -15,17 +15,7 @@ public enum RoundStatus {
     /** The server was killed during it (found still running at the next start); nothing of it was kept. */
     INTERRUPTED;
 
-    /** The word stored and shown. */
-    public String word() {
-        return name().toLowerCase(Locale.ROOT);
-    }
-
     public static RoundStatus parse(String word) {
-        for (RoundStatus s : values()) {
-            if (s.word().equals(word)) {
-                return s;
-            }
-        }
-        throw new IllegalArgumentException("unknown round status '" + word + "'");
+        return Worded.parse(RoundStatus.class, word, "round status");
     }
 }

@@ -9,6 +9,7 @@ import java.time.Instant;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Optional;
+import java.util.Set;
 import javax.sql.DataSource;
 
 /**
@@ -32,6 +33,12 @@ final class Sql {
         T run(Connection c) throws SQLException;
     }
 
+    /**
+     * SQLSTATEs of a lock not granted in time: H2's lock timeout (HYT00), a serialisation failure
+     * or deadlock victim (40001, 40P01), PostgreSQL's lock not available (55P03).
+     */
+    private static final Set<String> BUSY = Set.of("HYT00", "40001", "40P01", "55P03");
+
     private final DataSource ds;
 
     Sql(DataSource ds) {
@@ -53,22 +60,66 @@ final class Sql {
         return connected(what, c -> update(c, sql, args));
     }
 
+    /** Reads a whole result as it streams, {@code fetchRows} rows from the database at a time. */
+    @FunctionalInterface
+    interface Scan<T> {
+        T read(ResultSet rs) throws SQLException;
+    }
+
+    /**
+     * Runs a query and hands its result to {@code scan} as it streams: for results too large to
+     * hold as a list (every label of a pool), read in order while the connection is held.
+     */
+    <T> T scan(String what, String sql, int fetchRows, Scan<T> scan, Object... args) {
+        return connected(what, c -> scan(c, sql, fetchRows, scan, args));
+    }
+
+    static <T> T scan(Connection c, String sql, int fetchRows, Scan<T> scan, Object... args) throws SQLException {
+        try (PreparedStatement p = c.prepareStatement(sql)) {
+            p.setFetchSize(fetchRows);
+            bind(p, args);
+            try (ResultSet rs = p.executeQuery()) {
+                return scan.read(rs);
+            }
+        }
+    }
+
     /** Runs {@code work} on one connection. */
     <T> T connected(String what, Work<T> work) {
         try (Connection c = ds.getConnection()) {
             return work.run(c);
         } catch (SQLException e) {
-            throw new StoreException("cannot " + what + ": " + e.getMessage(), e);
+            throw failure(what, e);
         }
     }
 
     /** Runs {@code work} as one transaction: committed if it returns, rolled back if it throws. */
     <T> T transaction(String what, Work<T> work) {
-        try {
-            return Transactions.run(ds, work::run);
+        try (Connection c = ds.getConnection()) {
+            c.setAutoCommit(false);
+            try {
+                T result = work.run(c);
+                c.commit();
+                return result;
+            } catch (SQLException | RuntimeException e) {
+                c.rollback();
+                throw e;
+            } finally {
+                c.setAutoCommit(true);
+            }
         } catch (SQLException e) {
-            throw new StoreException("cannot " + what + ": " + e.getMessage(), e);
+            throw failure(what, e);
         }
+    }
+
+    /** What a failed statement becomes: busy (try again) when a lock was not granted in time, else a store failure. */
+    static StoreException failure(String what, SQLException e) {
+        for (Throwable t = e; t != null; t = t.getCause()) {
+            if (t instanceof SQLException s && s.getSQLState() != null && BUSY.contains(s.getSQLState())) {
+                return new BusyException(what, e);
+            }
+        }
+        return new StoreException("cannot " + what + ": " + e.getMessage(), e);
     }
 
     static <T> List<T> list(Connection c, String sql, Row<T> row, Object... args) throws SQLException {
@@ -98,6 +149,20 @@ final class Sql {
         try (PreparedStatement p = c.prepareStatement(sql)) {
             bind(p, args);
             return p.executeUpdate();
+        }
+    }
+
+    /** Runs an insert; the value the database generated for column {@code key} of the new row. */
+    static long insert(Connection c, String sql, String key, Object... args) throws SQLException {
+        try (PreparedStatement p = c.prepareStatement(sql, new String[] {key})) {
+            bind(p, args);
+            p.executeUpdate();
+            try (ResultSet keys = p.getGeneratedKeys()) {
+                if (!keys.next()) {
+                    throw new SQLException("the database made no " + key + " for the new row");
+                }
+                return keys.getLong(1);
+            }
         }
     }
 
@@ -135,6 +200,12 @@ final class Sql {
     /** A nullable whole-number column. */
     static Integer nullableInt(ResultSet rs, int column) throws SQLException {
         int v = rs.getInt(column);
+        return rs.wasNull() ? null : v;
+    }
+
+    /** A nullable whole-number column of 64 bits. */
+    static Long nullableLong(ResultSet rs, int column) throws SQLException {
+        long v = rs.getLong(column);
         return rs.wasNull() ? null : v;
     }
 

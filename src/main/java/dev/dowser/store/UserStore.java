@@ -1,181 +1,148 @@
 package dev.dowser.store;
 
-import java.sql.Connection;
-import java.sql.PreparedStatement;
 import java.sql.ResultSet;
 import java.sql.SQLException;
-import java.sql.Timestamp;
 import java.time.Clock;
 import java.time.Instant;
-import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
-import javax.sql.DataSource;
 
-/** Accounts, their browser sessions and their API tokens. Tokens are looked up by hash only. */
+/**
+ * Accounts, their browser sessions and their API tokens. Tokens are looked up by hash only. Every
+ * change to an account is written with its history entries in one transaction: a change the server
+ * acknowledged is there with its history, whatever happens to the process afterwards.
+ */
 public final class UserStore {
 
     private static final String USER_COLUMNS = "u.id, u.name, u.role, u.password_hash, u.disabled, u.created_at";
 
-    private final DataSource ds;
+    /**
+     * One change to an account, with what it entails; a null field stays as it is. A new password
+     * ends the account's sessions but {@code keepSession} (null: all of them) and is recorded as
+     * {@code passwordKind}; {@code revokeTokens} revokes every live API token.
+     */
+    public record AccountChange(String role, Boolean disabled, String passwordHash, String passwordKind,
+                                String keepSession, boolean revokeTokens) {
+        public AccountChange {
+            if (passwordHash != null && passwordKind == null) {
+                throw new IllegalArgumentException("a new password needs the kind of change to record");
+            }
+        }
+    }
+
+    private final Sql sql;
     private final Clock clock;
 
-    UserStore(DataSource ds, Clock clock) {
-        this.ds = ds;
+    UserStore(Sql sql, Clock clock) {
+        this.sql = sql;
         this.clock = clock;
     }
 
-    public UserRow add(String name, String role, String passwordHash) {
+    /** Adds an account and its history entry ({@code actor} added it), both or neither. */
+    public UserRow add(String name, String role, String passwordHash, String actor) {
         Instant now = clock.instant();
-        try (Connection c = ds.getConnection();
-             PreparedStatement p = c.prepareStatement("INSERT INTO users (name, role, password_hash, created_at)"
-                     + " VALUES (?, ?, ?, ?)", new String[] {"id"})) {
-            p.setString(1, name);
-            p.setString(2, role);
-            p.setString(3, passwordHash);
-            p.setTimestamp(4, Timestamp.from(now));
-            p.executeUpdate();
-            try (ResultSet keys = p.getGeneratedKeys()) {
-                keys.next();
-                return new UserRow(keys.getLong(1), name, role, passwordHash, false, now);
-            }
-        } catch (SQLException e) {
-            if (e.getSQLState() != null && e.getSQLState().startsWith("23")) {
+        try {
+            return sql.transaction("add the account '" + name + "'", c -> {
+                long id = Sql.insert(c, "INSERT INTO users (name, role, password_hash, created_at) VALUES (?, ?, ?, ?)",
+                        "id", name, role, passwordHash, now);
+                HistoryStore.append(c, clock, null, subject(name), "account-added", actor, null, role);
+                return new UserRow(id, name, role, passwordHash, false, now);
+            });
+        } catch (StoreException e) {
+            if (e.getCause() instanceof SQLException s && s.getSQLState() != null && s.getSQLState().startsWith("23")) {
                 throw new ConflictException("there is already an account named '" + name + "'");
             }
-            throw new StoreException("cannot add the account '" + name + "': " + e.getMessage(), e);
+            throw e;
         }
+    }
+
+    /**
+     * Changes an account in {@code actor}'s name and appends each part of the change to its history,
+     * in one transaction; returns the account as it is now.
+     */
+    public UserRow change(String name, AccountChange change, String actor) {
+        return sql.transaction("change the account '" + name + "'", c -> {
+            UserRow before = Sql.first(c, "SELECT " + USER_COLUMNS + " FROM users u WHERE u.name = ? FOR UPDATE",
+                    rs -> user(rs, 1), name).orElseThrow(() -> new NotFoundException("no account named '" + name + "'"));
+            String subject = subject(name);
+            if (change.role() != null) {
+                Sql.update(c, "UPDATE users SET role = ? WHERE id = ?", change.role(), before.id());
+                HistoryStore.append(c, clock, null, subject, "role-changed", actor, before.role(), change.role());
+            }
+            if (change.disabled() != null) {
+                Sql.update(c, "UPDATE users SET disabled = ? WHERE id = ?", change.disabled(), before.id());
+                HistoryStore.append(c, clock, null, subject, change.disabled() ? "account-disabled" : "account-enabled",
+                        actor, Boolean.toString(before.disabled()), Boolean.toString(change.disabled()));
+            }
+            if (change.passwordHash() != null) {
+                Sql.update(c, "UPDATE users SET password_hash = ? WHERE id = ?", change.passwordHash(), before.id());
+                Sql.update(c, "UPDATE sessions SET ended_at = ? WHERE user_id = ? AND ended_at IS NULL"
+                        + " AND token_hash <> COALESCE(?, '')", clock.instant(), before.id(), change.keepSession());
+                HistoryStore.append(c, clock, null, subject, change.passwordKind(), actor, null, null);
+            }
+            if (change.revokeTokens()) {
+                int revoked = Sql.update(c, "UPDATE api_tokens SET revoked_at = ? WHERE user_id = ?"
+                        + " AND revoked_at IS NULL", clock.instant(), before.id());
+                if (revoked > 0) {
+                    HistoryStore.append(c, clock, null, subject, "tokens-revoked", actor, revoked + " live", "0 live");
+                }
+            }
+            return Sql.first(c, "SELECT " + USER_COLUMNS + " FROM users u WHERE u.id = ?", rs -> user(rs, 1),
+                    before.id()).orElseThrow();
+        });
+    }
+
+    /** Stores a stronger hash of the same password (at sign-in): not a change anyone made, so no history. */
+    public void rehash(String name, String passwordHash) {
+        sql.update("store the new password hash of '" + name + "'", "UPDATE users SET password_hash = ? WHERE name = ?",
+                passwordHash, name);
     }
 
     public long count() {
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT COUNT(*) FROM users");
-             ResultSet rs = q.executeQuery()) {
-            rs.next();
-            return rs.getLong(1);
-        } catch (SQLException e) {
-            throw new StoreException("cannot count accounts: " + e.getMessage(), e);
-        }
+        return sql.first("count accounts", "SELECT COUNT(*) FROM users", rs -> rs.getLong(1)).orElse(0L);
     }
 
     public List<UserRow> list() {
-        List<UserRow> out = new ArrayList<>();
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT " + USER_COLUMNS + " FROM users u ORDER BY u.name");
-             ResultSet rs = q.executeQuery()) {
-            while (rs.next()) {
-                out.add(user(rs, 1));
-            }
-            return out;
-        } catch (SQLException e) {
-            throw new StoreException("cannot list accounts: " + e.getMessage(), e);
-        }
+        return sql.list("list accounts", "SELECT " + USER_COLUMNS + " FROM users u ORDER BY u.name", rs -> user(rs, 1));
     }
 
     public Optional<UserRow> find(String name) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT " + USER_COLUMNS + " FROM users u WHERE u.name = ?")) {
-            q.setString(1, name);
-            try (ResultSet rs = q.executeQuery()) {
-                return rs.next() ? Optional.of(user(rs, 1)) : Optional.empty();
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read the account '" + name + "': " + e.getMessage(), e);
-        }
+        return sql.first("read the account '" + name + "'", "SELECT " + USER_COLUMNS + " FROM users u WHERE u.name = ?",
+                rs -> user(rs, 1), name);
     }
 
     public UserRow require(String name) {
         return find(name).orElseThrow(() -> new NotFoundException("no account named '" + name + "'"));
     }
 
-    /** Changes the given fields of an account; a null leaves that field as it is. */
-    public void update(String name, String role, String passwordHash, Boolean disabled) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement u = c.prepareStatement("UPDATE users SET role = COALESCE(?, role),"
-                     + " password_hash = COALESCE(?, password_hash), disabled = COALESCE(?, disabled) WHERE name = ?")) {
-            u.setString(1, role);
-            u.setString(2, passwordHash);
-            u.setObject(3, disabled);
-            u.setString(4, name);
-            if (u.executeUpdate() != 1) {
-                throw new NotFoundException("no account named '" + name + "'");
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot change the account '" + name + "': " + e.getMessage(), e);
-        }
-    }
-
     public void addSession(String tokenHash, long userId, String csrfToken) {
-        Timestamp now = Timestamp.from(clock.instant());
-        try (Connection c = ds.getConnection();
-             PreparedStatement p = c.prepareStatement("INSERT INTO sessions (token_hash, user_id, csrf_token,"
-                     + " created_at, last_seen_at) VALUES (?, ?, ?, ?, ?)")) {
-            p.setString(1, tokenHash);
-            p.setLong(2, userId);
-            p.setString(3, csrfToken);
-            p.setTimestamp(4, now);
-            p.setTimestamp(5, now);
-            p.executeUpdate();
-        } catch (SQLException e) {
-            throw new StoreException("cannot start a session: " + e.getMessage(), e);
-        }
+        Instant now = clock.instant();
+        sql.update("start a session", "INSERT INTO sessions (token_hash, user_id, csrf_token, created_at, last_seen_at)"
+                + " VALUES (?, ?, ?, ?, ?)", tokenHash, userId, csrfToken, now, now);
     }
 
     public Optional<SessionRow> session(String tokenHash) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT " + USER_COLUMNS + ", s.csrf_token, s.created_at,"
-                     + " s.last_seen_at, s.ended_at FROM sessions s JOIN users u ON u.id = s.user_id"
-                     + " WHERE s.token_hash = ?")) {
-            q.setString(1, tokenHash);
-            try (ResultSet rs = q.executeQuery()) {
-                if (!rs.next()) {
-                    return Optional.empty();
-                }
-                return Optional.of(new SessionRow(tokenHash, user(rs, 1), rs.getString(7), instant(rs, 8),
-                        instant(rs, 9), instant(rs, 10)));
-            }
-        } catch (SQLException e) {
-            throw new StoreException("cannot read a session: " + e.getMessage(), e);
-        }
+        return sql.first("read a session", "SELECT " + USER_COLUMNS + ", s.csrf_token, s.created_at, s.last_seen_at,"
+                + " s.ended_at FROM sessions s JOIN users u ON u.id = s.user_id WHERE s.token_hash = ?",
+                rs -> new SessionRow(tokenHash, user(rs, 1), rs.getString(7), Sql.instant(rs, 8), Sql.instant(rs, 9),
+                        Sql.instant(rs, 10)), tokenHash);
     }
 
     public void touchSession(String tokenHash) {
-        execute("UPDATE sessions SET last_seen_at = ? WHERE token_hash = ?", tokenHash, "cannot renew a session");
+        sql.update("renew a session", "UPDATE sessions SET last_seen_at = ? WHERE token_hash = ?", clock.instant(),
+                tokenHash);
     }
 
     public void endSession(String tokenHash) {
-        execute("UPDATE sessions SET ended_at = ? WHERE token_hash = ? AND ended_at IS NULL", tokenHash,
-                "cannot end a session");
-    }
-
-    /** Ends every open session of the account but {@code keepHash} (which may be null: all of them). */
-    public void endSessionsExcept(long userId, String keepHash) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement u = c.prepareStatement("UPDATE sessions SET ended_at = ? WHERE user_id = ?"
-                     + " AND ended_at IS NULL AND token_hash <> COALESCE(?, '')")) {
-            u.setTimestamp(1, Timestamp.from(clock.instant()));
-            u.setLong(2, userId);
-            u.setString(3, keepHash);
-            u.executeUpdate();
-        } catch (SQLException e) {
-            throw new StoreException("cannot end the sessions of account " + userId + ": " + e.getMessage(), e);
-        }
+        sql.update("end a session", "UPDATE sessions SET ended_at = ? WHERE token_hash = ? AND ended_at IS NULL",
+                clock.instant(), tokenHash);
     }
 
     public void addToken(String tokenHash, long userId, String name) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement p = c.prepareStatement("INSERT INTO api_tokens (token_hash, user_id, name, created_at)"
-                     + " VALUES (?, ?, ?, ?)")) {
-            p.setString(1, tokenHash);
-            p.setLong(2, userId);
-            p.setString(3, name);
-            p.setTimestamp(4, Timestamp.from(clock.instant()));
-            p.executeUpdate();
-        } catch (SQLException e) {
-            throw new StoreException("cannot store an API token: " + e.getMessage(), e);
-        }
+        sql.update("store an API token", "INSERT INTO api_tokens (token_hash, user_id, name, created_at)"
+                + " VALUES (?, ?, ?, ?)", tokenHash, userId, name, clock.instant());
     }
 
     public Optional<TokenRow> token(String tokenHash) {
@@ -190,82 +157,40 @@ public final class UserStore {
     /** Live tokens per account name (accounts without any are left out). */
     public Map<String, Long> liveTokenCounts() {
         Map<String, Long> out = new HashMap<>();
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT u.name, COUNT(*) FROM api_tokens t JOIN users u"
-                     + " ON u.id = t.user_id WHERE t.revoked_at IS NULL GROUP BY u.name");
-             ResultSet rs = q.executeQuery()) {
-            while (rs.next()) {
-                out.put(rs.getString(1), rs.getLong(2));
+        sql.list("count API tokens", "SELECT u.name, COUNT(*) FROM api_tokens t JOIN users u ON u.id = t.user_id"
+                + " WHERE t.revoked_at IS NULL GROUP BY u.name", rs -> out.put(rs.getString(1), rs.getLong(2)));
+        return out;
+    }
+
+    /**
+     * Revokes token {@code id} of {@code userName}; false when that account has no such live token.
+     * When {@code actor} is someone else (an admin), the account's history says so, in the same transaction.
+     */
+    public boolean revokeToken(long id, String userName, String actor) {
+        return sql.transaction("revoke an API token", c -> {
+            boolean revoked = Sql.update(c, "UPDATE api_tokens SET revoked_at = ? WHERE id = ? AND revoked_at IS NULL"
+                    + " AND user_id = (SELECT id FROM users WHERE name = ?)", clock.instant(), id, userName) == 1;
+            if (revoked && !userName.equals(actor)) {
+                HistoryStore.append(c, clock, null, subject(userName), "token-revoked", actor, "token " + id, null);
             }
-            return out;
-        } catch (SQLException e) {
-            throw new StoreException("cannot count API tokens: " + e.getMessage(), e);
-        }
-    }
-
-    /** Revokes every live token of the account; returns how many. */
-    public int revokeTokensOf(long userId) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement u = c.prepareStatement("UPDATE api_tokens SET revoked_at = ? WHERE user_id = ?"
-                     + " AND revoked_at IS NULL")) {
-            u.setTimestamp(1, Timestamp.from(clock.instant()));
-            u.setLong(2, userId);
-            return u.executeUpdate();
-        } catch (SQLException e) {
-            throw new StoreException("cannot revoke the API tokens of account " + userId + ": " + e.getMessage(), e);
-        }
-    }
-
-    /** Revokes token {@code id} of {@code userName}; false when that account has no such live token. */
-    public boolean revokeToken(long id, String userName) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement u = c.prepareStatement("UPDATE api_tokens SET revoked_at = ? WHERE id = ?"
-                     + " AND revoked_at IS NULL AND user_id = (SELECT id FROM users WHERE name = ?)")) {
-            u.setTimestamp(1, Timestamp.from(clock.instant()));
-            u.setLong(2, id);
-            u.setString(3, userName);
-            return u.executeUpdate() == 1;
-        } catch (SQLException e) {
-            throw new StoreException("cannot revoke an API token: " + e.getMessage(), e);
-        }
+            return revoked;
+        });
     }
 
     private List<TokenRow> tokens(String where, String value) {
-        List<TokenRow> out = new ArrayList<>();
-        try (Connection c = ds.getConnection();
-             PreparedStatement q = c.prepareStatement("SELECT " + USER_COLUMNS + ", t.id, t.name, t.created_at,"
-                     + " t.revoked_at FROM api_tokens t JOIN users u ON u.id = t.user_id WHERE " + where
-                     + " ORDER BY t.id")) {
-            q.setString(1, value);
-            try (ResultSet rs = q.executeQuery()) {
-                while (rs.next()) {
-                    out.add(new TokenRow(rs.getLong(7), user(rs, 1), rs.getString(8), instant(rs, 9), instant(rs, 10)));
-                }
-            }
-            return out;
-        } catch (SQLException e) {
-            throw new StoreException("cannot read API tokens: " + e.getMessage(), e);
-        }
+        return sql.list("read API tokens", "SELECT " + USER_COLUMNS + ", t.id, t.name, t.created_at, t.revoked_at"
+                + " FROM api_tokens t JOIN users u ON u.id = t.user_id WHERE " + where + " ORDER BY t.id",
+                rs -> new TokenRow(rs.getLong(7), user(rs, 1), rs.getString(8), Sql.instant(rs, 9), Sql.instant(rs, 10)),
+                value);
     }
 
-    private void execute(String sql, String tokenHash, String failure) {
-        try (Connection c = ds.getConnection();
-             PreparedStatement u = c.prepareStatement(sql)) {
-            u.setTimestamp(1, Timestamp.from(clock.instant()));
-            u.setString(2, tokenHash);
-            u.executeUpdate();
-        } catch (SQLException e) {
-            throw new StoreException(failure + ": " + e.getMessage(), e);
-        }
+    /** The history's subject for an account. */
+    private static String subject(String name) {
+        return "account:" + name;
     }
 
     private static UserRow user(ResultSet rs, int at) throws SQLException {
         return new UserRow(rs.getLong(at), rs.getString(at + 1), rs.getString(at + 2), rs.getString(at + 3),
-                rs.getBoolean(at + 4), instant(rs, at + 5));
-    }
-
-    private static Instant instant(ResultSet rs, int column) throws SQLException {
-        Timestamp t = rs.getTimestamp(column);
-        return t == null ? null : t.toInstant();
+                rs.getBoolean(at + 4), Sql.instant(rs, at + 5));
     }
 }

@@ -5,6 +5,7 @@ import dev.dowser.store.Database;
 import dev.dowser.store.SessionRow;
 import dev.dowser.store.TokenRow;
 import dev.dowser.store.UserRow;
+import dev.dowser.store.UserStore;
 import java.security.SecureRandom;
 import java.time.Clock;
 import java.time.Duration;
@@ -55,9 +56,7 @@ public final class Accounts {
 
     public UserRow add(String name, Role role, String password, String actor) {
         checkName(name);
-        UserRow row = db.users().add(name, role.word(), passwords.hash(password));
-        db.history().append(null, "account:" + name, "account-added", actor, null, role.word());
-        return row;
+        return db.users().add(name, role.word(), passwords.hash(password), actor);
     }
 
     public UserRow require(String name) {
@@ -70,8 +69,10 @@ public final class Accounts {
 
     /**
      * An admin's change to an account: any of a new role, disabled or enabled, a new password (null
-     * leaves each as it is). Nobody changes their own role or disables themselves, so that a team
-     * never loses its last admin by a slip; another admin must. Returns the account as it is now.
+     * leaves each as it is), written with its history in one transaction. Nobody changes their own
+     * role or disables themselves, so that a team never loses its last admin by a slip; another
+     * admin must. Disabling the account or giving it a new password revokes its API tokens, and a new
+     * password ends its sessions, as after a leak. Returns the account as it is now.
      */
     public UserRow change(String name, Role role, Boolean disabled, String password, String actor) {
         UserRow account = db.users().require(name);
@@ -81,22 +82,13 @@ public final class Accounts {
         if (account.name().equals(actor) && (role != null || Boolean.TRUE.equals(disabled))) {
             throw new ConflictException("you cannot change your own role or disable yourself; ask another admin");
         }
-        if (role != null) {
-            changeRole(account.name(), role, actor);
-        }
-        if (disabled != null) {
-            setDisabled(account.name(), disabled, actor);
-        }
-        if (password != null) {
-            resetPassword(account.name(), password, actor);
-        }
-        return db.users().require(account.name());
+        return db.users().change(account.name(), new UserStore.AccountChange(role == null ? null : role.word(),
+                disabled, password == null ? null : passwords.hash(password), "password-reset", null,
+                password != null || Boolean.TRUE.equals(disabled)), actor);
     }
 
     public void changeRole(String name, Role role, String actor) {
-        UserRow before = db.users().require(name);
-        db.users().update(name, role.word(), null, null);
-        db.history().append(null, "account:" + name, "role-changed", actor, before.role(), role.word());
+        db.users().change(name, new UserStore.AccountChange(role.word(), null, null, null, null, false), actor);
     }
 
     /**
@@ -104,27 +96,14 @@ public final class Accounts {
      * tokens are revoked, so that enabling it again brings back no credential made before.
      */
     public void setDisabled(String name, boolean disabled, String actor) {
-        UserRow before = db.users().require(name);
-        db.users().update(name, null, null, disabled);
-        db.history().append(null, "account:" + name, disabled ? "account-disabled" : "account-enabled", actor,
-                Boolean.toString(before.disabled()), Boolean.toString(disabled));
-        if (disabled) {
-            revokeAll(before, actor);
-        }
+        db.users().change(name, new UserStore.AccountChange(null, disabled, null, null, null, disabled), actor);
     }
 
     /** An admin's new password for someone: their sessions end and their API tokens are revoked, as after a leak. */
     public void resetPassword(String name, String password, String actor) {
-        UserRow u = db.users().require(name);
-        setPassword(u, password, null, "password-reset", actor);
-        revokeAll(u, actor);
-    }
-
-    private void revokeAll(UserRow u, String actor) {
-        int revoked = db.users().revokeTokensOf(u.id());
-        if (revoked > 0) {
-            db.history().append(null, "account:" + u.name(), "tokens-revoked", actor, revoked + " live", "0 live");
-        }
+        Passwords.check(password);
+        db.users().change(name, new UserStore.AccountChange(null, null, passwords.hash(password), "password-reset",
+                null, true), actor);
     }
 
     /**
@@ -141,17 +120,11 @@ public final class Accounts {
             if (!ok) {
                 throw new AuthException(AuthException.Kind.FORBIDDEN, "the current password is wrong");
             }
-            setPassword(u, next, caller.sessionHash(), "password-changed", u.name());
+            db.users().change(u.name(), new UserStore.AccountChange(null, null, passwords.hash(next),
+                    "password-changed", caller.sessionHash(), false), u.name());
         } finally {
             attempt.end(ok);
         }
-    }
-
-    /** Stores a new password, ends the account's sessions but {@code keepSession} (may be null), records it. */
-    private void setPassword(UserRow u, String password, String keepSession, String kind, String actor) {
-        db.users().update(u.name(), null, passwords.hash(password), null);
-        db.users().endSessionsExcept(u.id(), keepSession);
-        db.history().append(null, "account:" + u.name(), kind, actor, null, null);
     }
 
     /** Checks a password and starts a session; failures are held back by account and address ({@link LoginLimiter}). */
@@ -173,7 +146,7 @@ public final class Accounts {
         }
         UserRow u = user.get();
         if (passwords.needsRehash(u.passwordHash())) {
-            db.users().update(u.name(), null, passwords.hash(password), null);
+            db.users().rehash(u.name(), passwords.hash(password));
         }
         String token = Secrets.token(random);
         String hash = Secrets.hash(token);
@@ -249,17 +222,12 @@ public final class Accounts {
     }
 
     public boolean revokeToken(Caller caller, long id) {
-        return db.users().revokeToken(id, caller.name());
+        return db.users().revokeToken(id, caller.name(), caller.name());
     }
 
     /** An admin revokes a token of any account; recorded in the account's history. */
     public boolean revokeTokenOf(String account, long id, String actor) {
-        UserRow u = db.users().require(account);
-        boolean revoked = db.users().revokeToken(id, u.name());
-        if (revoked && !u.name().equals(actor)) {
-            db.history().append(null, "account:" + u.name(), "token-revoked", actor, "token " + id, null);
-        }
-        return revoked;
+        return db.users().revokeToken(id, db.users().require(account).name(), actor);
     }
 
     static void checkName(String name) {

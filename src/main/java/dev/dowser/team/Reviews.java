@@ -9,10 +9,10 @@ import dev.dowser.store.PoolRow;
 import dev.dowser.store.PredictionStore;
 import dev.dowser.store.QueueEntry;
 import dev.dowser.store.RecordRow;
+import dev.dowser.words.Worded;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
-import java.util.Locale;
 import java.util.Optional;
 import java.util.Set;
 import java.util.TreeSet;
@@ -28,7 +28,7 @@ public final class Reviews {
     public static final int MAX_PAGE = 200;
 
     /** Which records to list. */
-    public enum Show {
+    public enum Show implements Worded {
         /** every labelled record */
         ALL,
         /** people gave different labels (resolved by a reviewer or not) */
@@ -41,12 +41,7 @@ public final class Reviews {
         SPOT;
 
         public static Show parse(String word) {
-            try {
-                return valueOf(word.trim().toUpperCase(Locale.ROOT));
-            } catch (IllegalArgumentException e) {
-                throw new IllegalArgumentException("unknown filter '" + word
-                        + "': use all, disagree, unresolved, model or spot");
-            }
+            return Worded.parse(Show.class, word, "filter");
         }
     }
 

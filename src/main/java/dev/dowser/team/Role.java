@@ -1,26 +1,18 @@
 package dev.dowser.team;
 
-import java.util.Locale;
+import dev.dowser.words.Worded;
 
 /**
  * What an account may do. Admins run pools (imports, exports, settings, accounts) and may also
  * review and label; reviewers review and label; labellers label.
  */
-public enum Role {
+public enum Role implements Worded {
     LABELLER,
     REVIEWER,
     ADMIN;
 
     public static Role parse(String word) {
-        try {
-            return valueOf(word.trim().toUpperCase(Locale.ROOT));
-        } catch (IllegalArgumentException | NullPointerException e) {
-            throw new IllegalArgumentException("unknown role '" + word + "': use admin, reviewer or labeller");
-        }
-    }
-
-    public String word() {
-        return name().toLowerCase(Locale.ROOT);
+        return Worded.parse(Role.class, word, "role");
     }
 
     /** True when this role includes everything {@code other} may do. */

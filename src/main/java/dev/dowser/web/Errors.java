@@ -2,6 +2,7 @@ package dev.dowser.web;
 
 import dev.dowser.data.ImportException;
 import dev.dowser.json.Json;
+import dev.dowser.store.BusyException;
 import dev.dowser.store.ConflictException;
 import dev.dowser.store.NotFoundException;
 import dev.dowser.team.AuthException;
@@ -38,6 +39,10 @@ final class Errors {
         } else if (e instanceof ApiException api) {
             status = api.status();
             message = api.getMessage();
+        } else if (e instanceof BusyException) {
+            status = 503;
+            message = e.getMessage();
+            exchange.getResponseHeaders().put(Headers.RETRY_AFTER, BusyException.RETRY_AFTER_SECONDS);
         } else if (e instanceof NotFoundException) {
             status = 404;
             message = e.getMessage();

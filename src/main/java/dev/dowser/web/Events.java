@@ -5,6 +5,7 @@ import dev.dowser.desk.LabelEvents;
 import dev.dowser.json.Json;
 import dev.dowser.rounds.RoundEvents;
 import dev.dowser.rounds.RoundService;
+import dev.dowser.store.RoundStatus;
 import io.undertow.server.HttpHandler;
 import io.undertow.server.handlers.sse.ServerSentEventConnection;
 import io.undertow.server.handlers.sse.ServerSentEventHandler;
@@ -63,7 +64,7 @@ final class Events implements RoundEvents, LabelEvents {
 
     @Override
     public void roundStarted(String pool, int round) {
-        send(pool, "round", Json.object().put("round", round).put("status", "running"));
+        send(pool, "round", Json.object().put("round", round).put("status", RoundStatus.RUNNING.word()));
     }
 
     @Override

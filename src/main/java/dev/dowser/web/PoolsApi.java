@@ -57,7 +57,7 @@ final class PoolsApi {
         body.set("roles", Json.mapper().valueToTree(pool.roles()));
         ArrayNode features = body.putArray("features");
         for (FeatureColumn c : pool.schema().columns()) {
-            ObjectNode f = features.addObject().put("name", c.name()).put("kind", c.kind().name().toLowerCase())
+            ObjectNode f = features.addObject().put("name", c.name()).put("kind", c.kind().word())
                     .put("width", c.encodedWidth()).put("missing", c.missing());
             if (c.kind() == FeatureKind.CATEGORICAL) {
                 f.set("levels", Json.mapper().valueToTree(c.levels()));

@@ -48,9 +48,19 @@ class CommandLineTest {
     @Test
     void everyCommandExplainsItself() {
         for (String command : List.of("serve", "demo", "import", "export", "users", "fit", "simulate", "bench")) {
-            Run r = run(command, "--help");
+            // picocli formats descriptions with String.format and complains on System.err about a bare %.
+            PrintStream stderr = System.err;
+            ByteArrayOutputStream warned = new ByteArrayOutputStream();
+            Run r;
+            try {
+                System.setErr(new PrintStream(warned, true, StandardCharsets.UTF_8));
+                r = run(command, "--help");
+            } finally {
+                System.setErr(stderr);
+            }
             assertEquals(0, r.exit(), command);
             assertTrue(r.out().startsWith("Usage: dowser " + command), command + ": " + r.out());
+            assertEquals("", warned.toString(StandardCharsets.UTF_8), command + "'s help");
         }
         Run top = run("--help");
         assertEquals(0, top.exit());
@@ -120,7 +130,7 @@ class CommandLineTest {
         assertEquals(2, twice.exit());
         assertTrue(twice.err().contains("there is already an account named 'Ada Park'"), twice.err());
         Run badRole = run("users", "add", "cy", "--role", "boss", "--data", data);
-        assertTrue(badRole.err().contains("unknown role 'boss': use admin, reviewer or labeller"), badRole.err());
+        assertTrue(badRole.err().contains("unknown role 'boss': use labeller, reviewer or admin"), badRole.err());
 
         assertEquals(0, run("users", "disable", "Ada Park", "--data", data).exit());
         Run list = run("users", "list", "--data", data);

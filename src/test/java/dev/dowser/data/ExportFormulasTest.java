@@ -68,7 +68,7 @@ class ExportFormulasTest {
         for (String f : List.of("", "x=1", "-1", "+2.5", "-.5", "1e9", "-4E-3", " =1")) {
             assertFalse(Exporter.runsAsFormula(f), f);
         }
-        assertEquals("formulas must be escape or keep, got 'strip'",
+        assertEquals("unknown formulas choice 'strip': use escape or keep",
                 org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
                         () -> Exporter.Formulas.parse("strip")).getMessage());
     }

@@ -59,7 +59,7 @@ class ResolutionFoldTest {
     void verdictsAreWords() {
         assertEquals(Verdict.ACCEPT, Verdict.parse("accept"));
         assertEquals("override", Verdict.OVERRIDE.word());
-        assertEquals("a review is accept or override, got 'maybe'",
+        assertEquals("unknown verdict 'maybe': use accept or override",
                 assertThrows(IllegalArgumentException.class, () -> Verdict.parse("maybe")).getMessage());
     }
 }

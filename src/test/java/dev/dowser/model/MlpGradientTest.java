@@ -9,6 +9,7 @@ import dev.dowser.sampler.Batch;
 import dev.dowser.sampler.MlpPosterior;
 import java.util.List;
 import java.util.SplittableRandom;
+import org.apache.commons.math3.distribution.TDistribution;
 import org.junit.jupiter.api.Test;
 
 /**
@@ -28,7 +29,13 @@ class MlpGradientTest {
             int nw = layout.weightCount(l);
             for (int i = 0; i < nw; i++) {
                 double w = theta[layout.weightOffset(l) + i];
-                logp += -0.5 * tau * w * w + 0.5 * Math.log(tau) - 0.5 * Math.log(2 * Math.PI);
+                if (prior.tailDegrees() > 0) {
+                    // Student-t with scale sigma = 1 / sqrt(tau), from Commons Math's standard t density.
+                    double sigma = 1 / Math.sqrt(tau);
+                    logp += new TDistribution(prior.tailDegrees()).logDensity(w / sigma) - Math.log(sigma);
+                } else {
+                    logp += -0.5 * tau * w * w + 0.5 * Math.log(tau) - 0.5 * Math.log(2 * Math.PI);
+                }
             }
             for (int j = 0; j < a.fanOut(l); j++) {
                 double b = theta[layout.biasOffset(l) + j];
@@ -42,9 +49,12 @@ class MlpGradientTest {
     }
 
     private void check(Architecture arch, long seed) {
+        check(arch, seed, new Prior(2.0, 1.0, false, 2.0));
+    }
+
+    private void check(Architecture arch, long seed, Prior prior) {
         SplittableRandom rng = new SplittableRandom(seed);
         Layout layout = new Layout(arch);
-        Prior prior = new Prior(2.0, 1.0, false, 2.0);
         int rows = 13;
         float[] x = new float[rows * arch.inputs()];
         int[] labels = new int[rows];
@@ -98,6 +108,11 @@ class MlpGradientTest {
     void tanhNetworksMatchFiniteDifferences() {
         check(new Architecture(5, List.of(7), 3, Activation.TANH), 3);
         check(new Architecture(3, List.of(4, 6, 5), 2, Activation.TANH), 4);
+    }
+
+    @Test
+    void aStudentTPriorMatchesFiniteDifferences() {
+        check(new Architecture(5, List.of(7), 3, Activation.RELU), 5, new Prior(2.0, 1.0, false, 2.0, 3.0));
     }
 
     @Test

@@ -222,7 +222,8 @@ class RoundServiceTest {
             List<SavedChain> saved = db.chains().load(pool.id());
             assertEquals(2, saved.size());
             assertEquals(2, saved.get(0).round(), "chains are saved under the round's own number");
-            assertTrue(saved.get(0).preconditioner() != null, "preconditioned SGLD keeps its preconditioner");
+            assertEquals(4 * saved.get(0).position().length, saved.get(0).kernelState().length,
+                    "preconditioned SGLD keeps its preconditioner, a float per weight");
             stepsAfterFirst = saved.get(0).step();
         }
         try (Database db = TestSupport.openDb(data); PoolScorer scorer = new PoolScorer(2, 64)) {

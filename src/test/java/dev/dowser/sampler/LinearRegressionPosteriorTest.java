@@ -79,18 +79,22 @@ class LinearRegressionPosteriorTest {
         return new SimpleMatrix[] {mean, cov};
     }
 
-    private static void check(String name, Function<Target, Kernel> kernel, double step, int batch, int thin) {
+    private static void check(String name, Function<Target, Kernel<?>> kernel, double step, int batch, int thin) {
+        check(name, kernel, step, batch, thin, StepSchedule.CONSTANT);
+    }
+
+    private static void check(String name, Function<Target, Kernel<?>> kernel, double step, int batch, int thin,
+                              StepSchedule schedule) {
         LinearTarget target = data();
         SimpleMatrix[] exact = exact(target);
         int chains = 4;
         int draws = 4_000;
-        ChainConfig config = new ChainConfig(2_000, draws, thin, batch, StepSchedule.CONSTANT, true, 10);
+        ChainConfig config = new ChainConfig(2_000, draws, thin, batch, schedule, true, 10);
         SplittableRandom master = new SplittableRandom(2006);
-        List<ChainSet.Job> jobs = new ArrayList<>();
+        List<ChainSet.Job<?>> jobs = new ArrayList<>();
         for (int c = 0; c < chains; c++) {
-            Kernel k = kernel.apply(target);
-            jobs.add(new ChainSet.Job(new Chain(c, k, target, master.split()),
-                    k.start(new float[] {0f, 0f}, null, step, Batch.full(N))));
+            jobs.add(ChainSet.job(c, kernel.apply(target), target, master.split(), new float[] {0f, 0f}, null, step,
+                    Batch.full(N), null));
         }
         List<ChainRun> runs;
         try (ChainSet set = new ChainSet(2)) {
@@ -147,5 +151,16 @@ class LinearRegressionPosteriorTest {
     @Test
     void malaMatchesTheExactPosterior() {
         check("mala", t -> new Mala(t, 1.0), 1e-3, N, 5);
+    }
+
+    @Test
+    void sghmcMatchesTheExactPosterior() {
+        check("sghmc", t -> new Sghmc(t, 1.0), 1e-4, 10, 20);
+    }
+
+    /** The cyclical schedule keeps one draw at the end of each cycle, where the step is smallest. */
+    @Test
+    void theCyclicalScheduleMatchesTheExactPosterior() {
+        check("sgld, cyclical", t -> new Sgld(t, 1.0), 2e-4, 10, 20, StepSchedule.cyclical(4_000));
     }
 }

@@ -6,14 +6,15 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
+import java.util.function.Function;
 import org.junit.jupiter.api.Test;
 
 /**
  * The two-parameter Gaussian mixture of Welling & Teh (2011, section 5.1): theta1 ~ N(0, 10),
  * theta2 ~ N(0, 1), x_i ~ 1/2 N(theta1, 2) + 1/2 N(theta1 + theta2, 2), 100 points drawn with
  * theta1 = 0, theta2 = 1. The likelihood is unchanged by (theta1, theta2) -> (theta1 + theta2,
- * -theta2), so the posterior has two modes; SGLD must visit both, where a grid evaluation of the
- * same posterior finds them.
+ * -theta2), so the posterior has two modes; every kernel, and the cyclical schedule, must visit
+ * both, where a grid evaluation of the same posterior finds them.
  */
 class MixturePosteriorTest {
 
@@ -113,9 +114,8 @@ class MixturePosteriorTest {
     }
 
     @Test
-    void sgldVisitsBothModesTheGridFinds() {
-        MixtureTarget target = data();
-        List<double[]> modes = gridModes(target);
+    void theGridFindsTwoMirroredModes() {
+        List<double[]> modes = gridModes(data());
         assertEquals(2, modes.size(), "the grid should find the two symmetric modes");
         // The second is the first under (theta1, theta2) -> (theta1 + theta2, -theta2), to grid accuracy.
         double[] a = modes.get(0);
@@ -123,15 +123,46 @@ class MixturePosteriorTest {
         boolean mirrored = Math.hypot(a[0] + a[1] - b[0], -a[1] - b[1]) < 0.1
                 || Math.hypot(b[0] + b[1] - a[0], -b[1] - a[1]) < 0.1;
         assertTrue(mirrored, "modes " + java.util.Arrays.toString(a) + " and " + java.util.Arrays.toString(b));
+    }
 
+    @Test
+    void sgldVisitsBothModes() {
+        visitsBothModes("sgld", t -> new Sgld(t, 1.0), 0.01, 10, StepSchedule.CONSTANT);
+    }
+
+    @Test
+    void preconditionedSgldVisitsBothModes() {
+        visitsBothModes("psgld", t -> new PreconditionedSgld(t, 1.0), 0.01, 10, StepSchedule.CONSTANT);
+    }
+
+    @Test
+    void malaVisitsBothModes() {
+        visitsBothModes("mala", t -> new Mala(t, 1.0), 0.01, 100, StepSchedule.CONSTANT);
+    }
+
+    @Test
+    void sghmcVisitsBothModes() {
+        visitsBothModes("sghmc", t -> new Sghmc(t, 1.0), 0.01, 10, StepSchedule.CONSTANT);
+    }
+
+    @Test
+    void theCyclicalScheduleVisitsBothModes() {
+        visitsBothModes("sgld, cyclical", t -> new Sgld(t, 1.0), 0.02, 10, StepSchedule.cyclical(5_000));
+    }
+
+    /** At least a tenth of the draws lie nearer each of the grid's modes. */
+    private static void visitsBothModes(String name, Function<Target, Kernel<?>> kernel, double step, int batch,
+                                        StepSchedule schedule) {
+        MixtureTarget target = data();
+        List<double[]> modes = gridModes(target);
         int chains = 4;
-        ChainConfig config = new ChainConfig(1_000, 5_000, 10, 10, StepSchedule.CONSTANT, false, 10);
+        ChainConfig config = new ChainConfig(1_000, 5_000, 10, batch, schedule, false, 10);
         SplittableRandom master = new SplittableRandom(2011);
-        List<ChainSet.Job> jobs = new ArrayList<>();
+        List<ChainSet.Job<?>> jobs = new ArrayList<>();
         for (int c = 0; c < chains; c++) {
-            Kernel k = new Sgld(target, 1.0);
             float[] start = {(float) (master.nextGaussian()), (float) (master.nextGaussian())};
-            jobs.add(new ChainSet.Job(new Chain(c, k, target, master.split()), k.start(start, null, 0.01, Batch.full(100))));
+            jobs.add(ChainSet.job(c, kernel.apply(target), target, master.split(), start, null, step,
+                    Batch.full(Math.min(batch, 100)), null));
         }
         List<ChainRun> runs;
         try (ChainSet set = new ChainSet(2)) {
@@ -148,6 +179,6 @@ class MixturePosteriorTest {
             }
         }
         assertTrue(near[0] > 0.1 * total && near[1] > 0.1 * total,
-                "draws near each mode: " + near[0] + " and " + near[1] + " of " + total);
+                name + ": draws near each mode: " + near[0] + " and " + near[1] + " of " + total);
     }
 }

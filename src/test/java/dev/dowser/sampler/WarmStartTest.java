@@ -93,7 +93,7 @@ class WarmStartTest {
                         .thinSteps(10).kernel(kernel).build();
                 int labelled = startLabels;
                 LabelledSet train = all.subset(Arrays.copyOf(order, labelled));
-                List<State> chains = new PosteriorSampler(base.toBuilder().burnInSteps(4 * R).build())
+                List<State<?>> chains = new PosteriorSampler(base.toBuilder().burnInSteps(4 * R).build())
                         .sample(train.x(), train.labels(), classes, null, new float[0], SeedTree.of(9 + seed).child(0)).lastStates();
                 for (int round = 1; round <= rounds; round++) {
                     labelled += 10;

@@ -253,7 +253,7 @@ class AccountsTest {
                 assertThrows(IllegalArgumentException.class, () -> accounts.add(" x", Role.ADMIN, "long enough pw", "t"))
                         .getMessage());
         assertThrows(IllegalArgumentException.class, () -> accounts.add("<b>", Role.ADMIN, "long enough pw", "t"));
-        assertEquals("unknown role 'boss': use admin, reviewer or labeller",
+        assertEquals("unknown role 'boss': use labeller, reviewer or admin",
                 assertThrows(IllegalArgumentException.class, () -> Role.parse("boss")).getMessage());
         accounts.add("Zoë Ng", Role.ADMIN, "long enough pw", "t");
         assertEquals("there is already an account named 'Zoë Ng'", assertThrows(RuntimeException.class,

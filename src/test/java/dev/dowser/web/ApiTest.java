@@ -113,7 +113,7 @@ class ApiTest {
         assertTrue(jsonl.body().contains("\"remark\":\"=HYPERLINK(\\\"http://x.example\\\")\""), jsonl.body());
         HttpResponse<String> wrong = send(at("/api/v1/pools/notes/export?format=csv&formulas=strip"));
         assertEquals(400, wrong.statusCode());
-        assertEquals("formulas must be escape or keep, got 'strip'", Json.tree(wrong.body()).get("error").asText());
+        assertEquals("unknown formulas choice 'strip': use escape or keep", Json.tree(wrong.body()).get("error").asText());
     }
 
     /**

@@ -5,6 +5,7 @@ import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
+import java.util.Base64;
 import java.util.List;
 import java.util.Map;
 import java.util.function.Function;
@@ -110,11 +111,24 @@ final class Browser implements AutoCloseable {
         }
     }
 
-    /** A blank page, no cookies, the default window and media: as a fresh browser would be. */
+    /** Saves the whole page, beyond the window's bottom edge too, as target/screenshots/NAME.png. */
+    void screenshotWholePage(String name) {
+        Map<String, Object> shot = driver.executeCdpCommand("Page.captureScreenshot",
+                Map.of("format", "png", "captureBeyondViewport", true));
+        try {
+            Files.createDirectories(SCREENSHOTS);
+            Files.write(SCREENSHOTS.resolve(name + ".png"), Base64.getDecoder().decode((String) shot.get("data")));
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /** A blank page, no cookies, the default window, screen and media: as a fresh browser would be. */
     private void reset() {
         driver.get("about:blank");
         driver.executeCdpCommand("Network.clearBrowserCookies", Map.of());
         driver.executeCdpCommand("Emulation.setEmulatedMedia", Map.of("features", List.of()));
+        driver.executeCdpCommand("Emulation.clearDeviceMetricsOverride", Map.of());
         driver.manage().window().setSize(new Dimension(WIDTH, HEIGHT));
     }
 

@@ -36,8 +36,9 @@ class DemoBrowserTest {
     void start() {
         db = TestSupport.openDb(dir.resolve("db"));
         DemoPool.load(db, dir.resolve("db"), 300, DemoPool.DEFAULT_SEED);
-        new Accounts(db, new SecureRandom(), TestSupport.FAST_TEAM).add("demo-labeller", Role.LABELLER,
-                TestSupport.TEST_PASSWORD, "demo");
+        Accounts accounts = new Accounts(db, new SecureRandom(), TestSupport.FAST_TEAM);
+        accounts.add("demo-labeller", Role.LABELLER, TestSupport.TEST_PASSWORD, "demo");
+        accounts.add("demo-lead", Role.ADMIN, TestSupport.TEST_PASSWORD, "demo");
         server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
                 TestSupport.quickSampler(), TestSupport.FAST_TEAM);
         server.requestRound(DemoPool.POOL);
@@ -108,5 +109,85 @@ class DemoBrowserTest {
                 "return document.documentElement.scrollWidth - window.innerWidth;")).longValue();
         assertTrue(overflow <= 0, "the desk scrolls sideways by " + overflow + " px at tablet width");
         browser.screenshot("17c-demo-desk-tablet");
+    }
+
+    /** Whatever of the page lies beyond the right edge of what it shows, in pixels (0 when nothing scrolls sideways). */
+    private long overflow() {
+        return ((Number) browser.driver.executeScript(
+                "return document.documentElement.scrollWidth - document.documentElement.clientWidth;")).longValue();
+    }
+
+    private void theme(String scheme) {
+        browser.driver.executeCdpCommand("Emulation.setEmulatedMedia", Map.of("features",
+                List.of(Map.of("name", "prefers-color-scheme", "value", scheme))));
+    }
+
+    /**
+     * Every page an admin reaches, on a phone in the dark theme and on a laptop in the light one:
+     * nothing scrolls sideways, nothing is in the browser's own link blue, and each leaves a
+     * screenshot (18-page-NAME-phone-dark, 18-page-NAME-light) for a person to look at.
+     */
+    @Test
+    void everyPageFitsAPhoneInBothThemes() {
+        String base = "http://127.0.0.1:" + server.port() + "/";
+        browser.driver.get(base + "login.html");
+        WebElement form = browser.await(d -> browser.byId("sign-in").isDisplayed() ? browser.byId("sign-in") : null,
+                "the sign-in page");
+        form.findElement(By.name("account")).sendKeys("demo-lead");
+        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
+        browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signed in");
+        // A few labels, so that the review page and the overview have something to show.
+        browser.driver.get(base + "desk.html?pool=" + DemoPool.POOL);
+        for (int i = 0; i < 3; i++) {
+            String shown = browser.await(d -> browser.byId("card").isDisplayed() ? browser.byId("card-id").getText() : null,
+                    "a record on the desk");
+            new Actions(browser.driver).sendKeys(String.valueOf(1 + i)).perform();
+            browser.await(d -> !browser.byId("card-id").getText().equals(shown), "the record after " + shown);
+        }
+        Map<String, String> pages = Map.of("pools", "", "pool", "?pool=" + DemoPool.POOL,
+                "overview", "overview.html?pool=" + DemoPool.POOL, "desk", "desk.html?pool=" + DemoPool.POOL,
+                "review", "review.html?pool=" + DemoPool.POOL, "accounts", "users.html", "account", "account.html");
+        for (String scheme : List.of("dark", "light")) {
+            theme(scheme);
+            boolean phone = scheme.equals("dark");
+            // A phone as its browser lays pages out: 390 px wide, scroll bars drawn over the page.
+            browser.driver.executeCdpCommand("Emulation.setDeviceMetricsOverride", Map.of("width", phone ? 390 : Browser.WIDTH,
+                    "height", phone ? 844 : Browser.HEIGHT, "deviceScaleFactor", 1, "mobile", phone));
+            int width = phone ? 390 : Browser.WIDTH;
+            for (Map.Entry<String, String> page : new java.util.TreeMap<>(pages).entrySet()) {
+                browser.driver.get(base + page.getValue());
+                // Each page fills itself from the API: wait until its main section shows and its lists have come.
+                browser.await(d -> (Boolean) browser.driver.executeScript("return document.readyState === 'complete'"
+                        + " && !!document.querySelector('main section:not([hidden]), main #desk:not([hidden])');"),
+                        page.getKey() + " page shown");
+                // ...and its calls have come back: the count of finished calls holds still between two looks.
+                long[] seen = {-1};
+                browser.await(d -> {
+                    long calls = ((Number) browser.driver.executeScript("return performance.getEntriesByType('resource')"
+                            + ".filter((e) => e.initiatorType === 'fetch').length;")).longValue();
+                    boolean still = calls > 0 && calls == seen[0];
+                    seen[0] = calls;
+                    return still ? true : null;
+                }, page.getKey() + " page's calls answered");
+                browser.await(d -> overflow() <= 0 ? true : null, page.getKey() + " at " + width
+                        + " px wide without sideways scrolling (" + overflow() + " px over)");
+                for (WebElement link : browser.driver.findElements(By.tagName("a"))) {
+                    String colour = link.getCssValue("color");
+                    assertTrue(!colour.equals("rgba(0, 0, 238, 1)") && !colour.equals("rgba(85, 26, 139, 1)"),
+                            "a link in the browser's own blue on the " + page.getKey() + " page: " + link.getText());
+                }
+                if (page.getKey().equals("desk") || page.getKey().equals("review")) {
+                    // Where labels can hurt someone: the model's view is a suggestion, and local rules decide.
+                    String caution = browser.driver.findElement(By.className("caution")).getText();
+                    assertTrue(caution.contains("suggestion, not ground truth")
+                            && caution.contains("local rules and licensed practice"), caution);
+                }
+                if (phone) {
+                    assertEquals("rgb(16, 21, 31)", browser.driver.executeScript(
+                            "return getComputedStyle(document.documentElement).backgroundColor;"), page.getKey());
+                }
+                browser.screenshotWholePage("18-page-" + page.getKey() + (phone ? "-phone-dark" : "-light"));
+            }
+        }
     }
 }

@@ -1,6 +1,7 @@
 package dev.dowser.web;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.dowser.TestSupport;
@@ -16,12 +17,14 @@ import java.net.http.HttpResponse;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.Comparator;
 import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.SplittableRandom;
+import java.util.function.Function;
 import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 import org.junit.jupiter.api.AfterEach;
@@ -203,6 +206,101 @@ class FirstHourBrowserTest {
         return out;
     }
 
+    /** What a labeller did at the desk: the labels that stand, the records skipped, the slips taken back. */
+    record Walk(Map<String, String> given, List<String> skipped, int undos) {
+    }
+
+    /**
+     * The labeller labels {@code BATCHES} whole batches by keyboard, answering as {@code truth} says:
+     * Space skips at two steps, and at two others a wrong key slips, is seen at once, taken back by
+     * Backspace and labelled right. Every answer of the desk shows a card (the pool has far more
+     * records than this), and a skipped record never comes back to its labeller.
+     */
+    private Walk labelBatches(String step, Function<String, String> truth, Function<String, String> keyOf,
+            Function<String, String> wrong) {
+        labeller.driver.executeScript(COUNT_EMPTY_ANSWERS);
+        Map<String, String> given = new LinkedHashMap<>();
+        List<String> skipped = new ArrayList<>();
+        int undos = 0;
+        String shown = cardId();
+        int target = BATCHES * 10;
+        for (int n = 0; given.size() < target; n++) {
+            String id = shown;
+            assertFalse(skipped.contains(id), id + " was skipped and came back to the same labeller");
+            if (n == 3 || n == 17) {
+                press(" ");
+                skipped.add(id);
+                shown = nextCard(id, "a card after skipping " + id);
+                continue;
+            }
+            String answer = truth.apply(id);
+            boolean slip = n == 8 || n == 22;
+            String pressed = slip ? wrong.apply(answer) : answer;
+            press(keyOf.apply(pressed));
+            given.put(id, pressed);
+            shown = nextCard(id, "a card after labelling " + id + " (" + given.size() + " labels)");
+            if (slip) {
+                // The slip is seen at once: Backspace takes it back and the record comes back to be labelled right.
+                press(Keys.BACK_SPACE);
+                undos++;
+                shown = labeller.await(d -> cardId().equals(id) ? id : null, "the slip on " + id + " shown again");
+                given.remove(id);
+                if (undos == 1) {
+                    shot(labeller, step + "-desk-after-undo");
+                }
+                press(keyOf.apply(answer));
+                given.put(id, answer);
+                shown = nextCard(id, "a card after labelling " + id + " again");
+            }
+        }
+        assertFalse(skipped.contains(shown), shown + " was skipped and came back to the same labeller");
+        assertEquals(2, skipped.size());
+        assertEquals(2, undos);
+        int answers = target + skipped.size() + undos;
+        labeller.await(d -> ((Number) labeller.driver.executeScript("return window.__answers;")).intValue() >= answers,
+                "the desk's answers counted");
+        assertEquals(0L, ((Number) labeller.driver.executeScript("return window.__empty;")).longValue(),
+                "answers without a card while records remain");
+        return new Walk(given, skipped, undos);
+    }
+
+    /**
+     * The reviewer overrides the label of {@code reviewed} (on the review page's first page) with
+     * another class chosen by its key, after checking that nothing was chosen for them; returns the new label.
+     */
+    private String override(String pool, String reviewed, String before, String after, String key, String step) {
+        signIn(admin, "rey", TestSupport.TEST_PASSWORD);
+        admin.driver.get(base() + "review.html?pool=" + pool);
+        WebElement card = admin.await(d -> d.findElement(By.cssSelector("[data-record='" + reviewed + "']")),
+                "the record to review");
+        assertTrue(card.findElements(By.cssSelector(".choice[aria-checked=true]")).isEmpty(), "a class preselected");
+        card.sendKeys(key);
+        card.findElement(By.className("reason")).sendKeys("a second look at the record", Keys.ENTER);
+        admin.await(d -> card.findElement(By.className("confirm")).isDisplayed(), "the confirmation");
+        assertEquals("Change the final label of " + reviewed + " from " + before + " to " + after + "?",
+                card.findElement(By.className("confirm-text")).getText());
+        shot(admin, step + "-review-confirm");
+        card.findElement(By.className("confirm-yes")).click();
+        admin.await(d -> admin.byId("review-message").getText().contains(reviewed + ": final label " + after),
+                "the override saved");
+        return after;
+    }
+
+    /** The admin's export holds exactly the labels given, the override as the reviewer's. */
+    private void exportHolds(String pool, Map<String, String> given, String reviewed) throws Exception {
+        signIn(admin, "lead", adminPassword);
+        Map<String, String[]> exported = export(pool);
+        Map<String, String> labels = new HashMap<>();
+        exported.forEach((id, row) -> labels.put(id, row[0]));
+        assertEquals(new HashMap<>(given), labels, "the export of " + pool);
+        assertEquals("rey", exported.get(reviewed)[1]);
+        for (String id : given.keySet()) {
+            if (!id.equals(reviewed)) {
+                assertEquals("lee", exported.get(id)[1], "who labelled " + id);
+            }
+        }
+    }
+
     @Test
     void aNewTeamsFirstHour() throws Exception {
         Path file = dir.resolve("plant-readings.csv");
@@ -245,80 +343,25 @@ class FirstHourBrowserTest {
         signIn(labeller, "lee", TestSupport.TEST_PASSWORD);
         labeller.driver.get(base() + "desk.html?pool=plant");
         labeller.await(d -> !cardId().isEmpty(), "the first card on the desk");
-        labeller.driver.executeScript(COUNT_EMPTY_ANSWERS);
         shot(labeller, "06-desk");
-        Map<String, String> given = new LinkedHashMap<>();
-        List<String> skipped = new ArrayList<>();
-        int undos = 0;
-        String shown = cardId();
-        int target = BATCHES * 10;
-        for (int step = 0; given.size() < target; step++) {
-            String id = shown;
-            if (step == 3 || step == 17) {
-                press(" ");
-                skipped.add(id);
-                shown = nextCard(id, "a card after skipping " + id);
-                continue;
-            }
-            String answer = truth.get(id);
-            boolean slip = step == 8 || step == 22;
-            String pressed = slip ? CONDITIONS.get((CONDITIONS.indexOf(answer) + 1) % 3) : answer;
-            press(String.valueOf(CONDITIONS.indexOf(pressed) + 1));
-            given.put(id, pressed);
-            shown = nextCard(id, "a card after labelling " + id + " (" + given.size() + " labels)");
-            if (slip) {
-                // The slip is seen at once: Backspace takes it back and the record comes back to be labelled right.
-                press(Keys.BACK_SPACE);
-                undos++;
-                shown = labeller.await(d -> cardId().equals(id) ? id : null, "the slip on " + id + " shown again");
-                given.remove(id);
-                if (undos == 1) {
-                    shot(labeller, "07-desk-after-undo");
-                }
-                press(String.valueOf(CONDITIONS.indexOf(answer) + 1));
-                given.put(id, answer);
-                shown = nextCard(id, "a card after labelling " + id + " again");
-            }
-        }
-        assertEquals(2, skipped.size());
-        assertEquals(2, undos);
+        Function<String, String> key = c -> String.valueOf(CONDITIONS.indexOf(c) + 1);
+        Function<String, String> other = c -> CONDITIONS.get((CONDITIONS.indexOf(c) + 1) % CONDITIONS.size());
+        Walk walk = labelBatches("07", truth::get, key, other);
         shot(labeller, "08-desk-three-batches");
-        labeller.await(d -> ((Number) labeller.driver.executeScript("return window.__answers;")).intValue() >= target,
-                "the answers counted");
-        assertEquals(0L, ((Number) labeller.driver.executeScript("return window.__empty;")).longValue(),
-                "answers without a card while " + (records - given.size()) + " records remain");
 
-        // 5. The reviewer overrides one label by an explicit choice.
-        signIn(admin, "rey", TestSupport.TEST_PASSWORD);
-        // The review page lists records in pool order, a page at a time: the first of them is on the first page.
+        // 5. The reviewer overrides one label by an explicit choice. The review page lists records in
+        // pool order, a page at a time: the first of them is on the first page.
+        Map<String, String> given = walk.given();
         String reviewed = given.keySet().stream().min(String::compareTo).orElseThrow();
-        String before = given.get(reviewed);
-        String after = CONDITIONS.get((CONDITIONS.indexOf(before) + 1) % 3);
-        admin.driver.get(base() + "review.html?pool=plant");
-        WebElement card = admin.await(d -> d.findElement(By.cssSelector("[data-record='" + reviewed + "']")),
-                "the record to review");
-        assertTrue(card.findElements(By.cssSelector(".choice[aria-checked=true]")).isEmpty(), "a class preselected");
-        card.sendKeys(String.valueOf(CONDITIONS.indexOf(after) + 1));
-        card.findElement(By.className("reason")).sendKeys("the trace shows the second harmonic", Keys.ENTER);
-        admin.await(d -> card.findElement(By.className("confirm")).isDisplayed(), "the confirmation");
-        assertEquals("Change the final label of " + reviewed + " from " + before + " to " + after + "?",
-                card.findElement(By.className("confirm-text")).getText());
-        shot(admin, "09-review-confirm");
-        card.findElement(By.className("confirm-yes")).click();
-        admin.await(d -> admin.byId("review-message").getText().contains(reviewed + ": final label " + after),
-                "the override saved");
-        given.put(reviewed, after);
+        String after = other.apply(given.get(reviewed));
+        given.put(reviewed, override("plant", reviewed, given.get(reviewed), after, key.apply(after), "09"));
 
         // 6. The admin exports: exactly the labels given, the override as the reviewer's.
         signIn(admin, "lead", adminPassword);
         admin.driver.get(base() + "overview.html?pool=plant");
         admin.await(d -> !admin.byId("queue").findElements(By.cssSelector("tbody tr")).isEmpty(), "the overview");
         shot(admin, "10-overview");
-        Map<String, String[]> exported = export("plant");
-        Map<String, String> labels = new LinkedHashMap<>();
-        exported.forEach((id, row) -> labels.put(id, row[0]));
-        assertEquals(new HashMap<>(given), new HashMap<>(labels));
-        assertEquals("rey", exported.get(reviewed)[1]);
+        exportHolds("plant", given, reviewed);
     }
 
     @Test
@@ -327,6 +370,7 @@ class FirstHourBrowserTest {
         List<String> lines = Files.readAllLines(digits.csv());
         signIn(admin, "lead", adminPassword);
         addAccount("lee", "labeller");
+        addAccount("rey", "reviewer");
         admin.driver.get(base());
         admin.byId("import-form").findElement(By.name("pool")).sendKeys("digits");
         admin.byId("import-form").findElement(By.name("file")).sendKeys(digits.csv().toAbsolutePath().toString());
@@ -353,20 +397,19 @@ class FirstHourBrowserTest {
         }
         assertTrue(labeller.byId("card").findElement(By.tagName("canvas")).isDisplayed(), "the 8 x 8 image");
         shot(labeller, "12-digits-desk");
-        Map<String, String> given = new LinkedHashMap<>();
-        String shown = cardId();
-        while (given.size() < 10) {
-            String id = shown;
-            // Records without an id column are named by their line in the file.
+        // Records without an id column are named by their line in the file; the file's last column is the digit.
+        Function<String, String> truth = id -> {
             String line = lines.get(Integer.parseInt(id) - 1);
-            String digit = line.substring(line.lastIndexOf(',') + 1);
-            press(digit);
-            given.put(id, digit);
-            shown = nextCard(id, "the digit after " + id);
-        }
-        signIn(admin, "lead", adminPassword);
-        Map<String, String> labels = new LinkedHashMap<>();
-        export("digits").forEach((id, row) -> labels.put(id, row[0]));
-        assertEquals(given, labels, "key 3 labels \"3\": the export holds the digits pressed");
+            return line.substring(line.lastIndexOf(',') + 1);
+        };
+        Function<String, String> next = d -> String.valueOf((Integer.parseInt(d) + 1) % 10);
+        Walk walk = labelBatches("13-digits", truth, Function.identity(), next);
+        shot(labeller, "14-digits-three-batches");
+
+        Map<String, String> given = walk.given();
+        String reviewed = given.keySet().stream().min(Comparator.comparingInt(Integer::parseInt)).orElseThrow();
+        String after = next.apply(given.get(reviewed));
+        given.put(reviewed, override("digits", reviewed, given.get(reviewed), after, after, "15-digits"));
+        exportHolds("digits", given, reviewed);
     }
 }

@@ -4,6 +4,7 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.dowser.TestSupport;
 import java.io.BufferedReader;
 import java.io.IOException;
 import java.io.InputStreamReader;
@@ -17,6 +18,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
 import java.util.TreeMap;
+import java.util.concurrent.CopyOnWriteArrayList;
 import java.util.concurrent.TimeUnit;
 import java.util.regex.Matcher;
 import java.util.regex.Pattern;
@@ -119,17 +121,37 @@ class FirstStartTest {
         return new ProcessBuilder(cmd).directory(dir.toFile());
     }
 
-    /** Reads the process's output until a line matches; returns the first group. */
-    private static String awaitLine(Process p, Pattern line) throws IOException {
-        BufferedReader out = new BufferedReader(new InputStreamReader(p.getInputStream(), StandardCharsets.UTF_8));
-        long until = System.nanoTime() + Duration.ofSeconds(60).toNanos();
-        String l;
-        while (System.nanoTime() < until && (l = out.readLine()) != null) {
+    /**
+     * The first group of the first line of the process's output that matches, within 60 s. A thread
+     * of its own reads the output to the end (so a blocking read cannot outlast the deadline, and
+     * the process never blocks on a full pipe).
+     */
+    private static String awaitLine(Process p, Pattern line) {
+        List<String> printed = new CopyOnWriteArrayList<>();
+        Thread reader = new Thread(() -> {
+            BufferedReader out = new BufferedReader(new InputStreamReader(p.getInputStream(), StandardCharsets.UTF_8));
+            try {
+                for (String l = out.readLine(); l != null; l = out.readLine()) {
+                    printed.add(l);
+                }
+            } catch (IOException ended) {
+                // The process ended.
+            }
+        }, "server-stdout");
+        reader.setDaemon(true);
+        reader.start();
+        TestSupport.await(Duration.ofSeconds(60), () -> firstMatch(printed, line) != null,
+                "the server to print a line like " + line);
+        return firstMatch(printed, line);
+    }
+
+    private static String firstMatch(List<String> lines, Pattern line) {
+        for (String l : lines) {
             Matcher m = line.matcher(l);
             if (m.find()) {
                 return m.group(1);
             }
         }
-        throw new AssertionError("the server never printed a line like " + line);
+        return null;
     }
 }

@@ -1,0 +1,251 @@
+package dev.dowser.cli;
+
+import static dev.dowser.cli.KillCampaign.ADMIN_PAUSE_MILLIS;
+import static dev.dowser.cli.KillCampaign.CLASSES;
+import static dev.dowser.cli.KillCampaign.POOL;
+import static dev.dowser.cli.KillCampaign.REVIEW_PAUSE_MILLIS;
+import static dev.dowser.cli.KillCampaign.UNDO_SHARE;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.dowser.json.Json;
+import java.io.IOException;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.net.http.HttpTimeoutException;
+import java.time.Duration;
+import java.util.ArrayList;
+import java.util.Collections;
+import java.util.List;
+import java.util.Queue;
+import java.util.SplittableRandom;
+import java.util.concurrent.atomic.AtomicBoolean;
+import java.util.concurrent.atomic.AtomicInteger;
+import java.util.concurrent.atomic.AtomicLong;
+
+/**
+ * The clients of one server life: labellers, a reviewer and an admin writing as fast as they can,
+ * each acknowledged write put in the ledger. They work until a request fails to reach the server.
+ */
+final class CampaignClients {
+
+    /** "Busy, try again": a lock not granted in time; nothing was written, and the client goes on. */
+    static final int BUSY = 503;
+
+    private final HttpClient http = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
+    private final String base;
+    private final KillCampaign.Tokens tokens;
+    private final Queue<String> members;
+    private final AckLedger ledger;
+    private final AtomicLong serverErrors;
+    private final AtomicInteger settingsCounter;
+    private final int cycle;
+    private final SplittableRandom rng;
+    private final AtomicLong busy;
+    private final AtomicLong timeouts;
+    private final AtomicBoolean down = new AtomicBoolean();
+    private volatile String firstStop;
+    private final List<Thread> threads = new ArrayList<>();
+    private final List<String> failures = Collections.synchronizedList(new ArrayList<>());
+
+    CampaignClients(int port, KillCampaign.Tokens tokens, Queue<String> members, AckLedger ledger,
+            AtomicLong serverErrors, AtomicLong busy, AtomicLong timeouts, AtomicInteger settingsCounter, int cycle, SplittableRandom rng) {
+        this.base = "http://127.0.0.1:" + port + "/api/v1/";
+        this.tokens = tokens;
+        this.members = members;
+        this.ledger = ledger;
+        this.serverErrors = serverErrors;
+        this.busy = busy;
+        this.timeouts = timeouts;
+        this.settingsCounter = settingsCounter;
+        this.cycle = cycle;
+        this.rng = rng;
+    }
+
+    void requestRound() throws IOException, InterruptedException {
+        send(tokens.admin(), "POST", "pools/" + POOL + "/rounds", "");
+    }
+
+    void start(int labellers) {
+        for (int i = 0; i < labellers; i++) {
+            int who = i;
+            SplittableRandom own = rng.split();
+            threads.add(new Thread(() -> labeller(who, own), "labeller-" + i));
+        }
+        SplittableRandom own = rng.split();
+        threads.add(new Thread(() -> reviewer(own), "reviewer"));
+        threads.add(new Thread(this::admin, "admin"));
+        threads.add(new Thread(this::addAccount, "accounts"));
+        threads.forEach(t -> t.setUncaughtExceptionHandler((thread, e) -> {
+            down.set(true);
+            failures.add(thread.getName() + ": " + e);
+        }));
+        threads.forEach(Thread::start);
+    }
+
+    /** A client found the server gone (or a request failed): the life ends; why, in case it was early. */
+    private void stopped(Exception e) {
+        if (!down.getAndSet(true)) {
+            firstStop = Thread.currentThread().getName() + ": " + e;
+        }
+    }
+
+    /**
+     * A request got no answer within its timeout: not acknowledged, so nothing to check, and the
+     * client goes on (the server is slow, not gone; a password hash under heavy load takes long).
+     */
+    private void timedOut() {
+        timeouts.incrementAndGet();
+    }
+
+    /** Why the first client stopped, or null. */
+    String firstStop() {
+        return firstStop;
+    }
+
+    /** False once a client found the server gone or failed. */
+    boolean working() {
+        return !down.get();
+    }
+
+    void join() throws InterruptedException {
+        for (Thread t : threads) {
+            t.join(Duration.ofSeconds(60).toMillis());
+            if (t.isAlive()) {
+                throw new IllegalStateException(t.getName() + " still runs a minute after the server was killed");
+            }
+        }
+        if (!failures.isEmpty()) {
+            throw new IllegalStateException("a client failed: " + failures);
+        }
+    }
+
+    private void labeller(int who, SplittableRandom rng) {
+        String token = tokens.labellers().get(who);
+        String person = tokens.labellerNames().get(who);
+        String pool = "pools/" + POOL + "/";
+        int n = 0;
+        try {
+            while (true) {
+                try {
+                    HttpResponse<String> offered = send(token, "POST", pool + "queue/next", "{}");
+                    JsonNode next = offered.statusCode() == 200 ? Json.tree(offered.body()) : null;
+                    if (next == null || !next.hasNonNull("record")) {
+                        Thread.sleep(25);
+                        continue;
+                    }
+                    String record = next.at("/record/id").asText();
+                    String label = CLASSES.get(rng.nextInt(CLASSES.size()));
+                    String note = "c" + cycle + "-" + person + "-" + n++;
+                    HttpResponse<String> r = send(token, "POST", pool + "labels", Json.write(Json.object()
+                            .put("record", record).put("label", label).put("note", note)));
+                    if (r.statusCode() != 201) {
+                        continue;
+                    }
+                    ledger.add(new AckLedger.Ack(AckLedger.Kind.LABEL, cycle, record, person, note, label));
+                    if (rng.nextDouble() < UNDO_SHARE && send(token, "POST", pool + "labels/undo",
+                            Json.write(Json.object().put("record", record))).statusCode() == 200) {
+                        ledger.add(new AckLedger.Ack(AckLedger.Kind.WITHDRAWAL, cycle, record, person, note, label));
+                    }
+                } catch (HttpTimeoutException slow) {
+                    timedOut();
+                }
+            }
+        } catch (IOException | InterruptedException e) {
+            stopped(e);
+        }
+    }
+
+    /** Overrides labels acknowledged earlier, each with a reason of its own. */
+    private void reviewer(SplittableRandom rng) {
+        int n = 0;
+        try {
+            while (!down.get()) {
+                List<AckLedger.Ack> labels = ledger.labels();
+                if (labels.isEmpty()) {
+                    Thread.sleep(50);
+                    continue;
+                }
+                AckLedger.Ack target = labels.get(rng.nextInt(labels.size()));
+                String label = CLASSES.get(rng.nextInt(CLASSES.size()));
+                String reason = "c" + cycle + "-review-" + n++;
+                try {
+                    HttpResponse<String> r = send(tokens.reviewer(), "POST", "pools/" + POOL + "/reviews",
+                            Json.write(Json.object().put("record", target.record()).put("verdict", "override")
+                                    .put("label", label).put("reason", reason)));
+                    if (r.statusCode() == 201) {
+                        ledger.add(new AckLedger.Ack(AckLedger.Kind.REVIEW, cycle, target.record(), "reviewer",
+                                reason, label));
+                    }
+                } catch (HttpTimeoutException slow) {
+                    timedOut();
+                }
+                Thread.sleep(REVIEW_PAUSE_MILLIS);
+            }
+        } catch (IOException | InterruptedException e) {
+            stopped(e);
+        }
+    }
+
+    /** Changes the lease length (each change to a value never used before) and adds and changes accounts. */
+    private void admin() {
+        int n = 0;
+        try {
+            while (!down.get()) {
+                int minutes = settingsCounter.getAndIncrement();
+                try {
+                    if (send(tokens.admin(), "PUT", "pools/" + POOL + "/settings",
+                            "{\"lease_minutes\":" + minutes + "}").statusCode() == 200) {
+                        ledger.add(new AckLedger.Ack(AckLedger.Kind.SETTINGS, cycle, null, "lead",
+                                Integer.toString(minutes), null));
+                    }
+                    String member = n++ % 2 == 0 ? members.poll() : null;
+                    if (member != null && send(tokens.admin(), "PUT", "users/" + member,
+                            "{\"role\":\"reviewer\"}").statusCode() == 200) {
+                        ledger.add(new AckLedger.Ack(AckLedger.Kind.ACCOUNT, cycle, null, "lead", member,
+                                "reviewer"));
+                    }
+                } catch (HttpTimeoutException slow) {
+                    timedOut();
+                }
+                Thread.sleep(ADMIN_PAUSE_MILLIS);
+            }
+        } catch (IOException | InterruptedException e) {
+            stopped(e);
+        }
+    }
+
+    /**
+     * Adds one account: the server hashes its password with the full PBKDF2 work, which takes a
+     * while on a busy machine, so the kill may well come first.
+     */
+    private void addAccount() {
+        String name = "added-in-life-" + cycle;
+        try {
+            if (send(tokens.admin(), "POST", "users", Json.write(Json.object().put("name", name)
+                    .put("role", "labeller").put("password", "campaign-" + name))).statusCode() == 201) {
+                ledger.add(new AckLedger.Ack(AckLedger.Kind.ACCOUNT, cycle, null, "lead", name, null));
+            }
+        } catch (HttpTimeoutException slow) {
+            timedOut();
+        } catch (IOException | InterruptedException e) {
+            stopped(e);
+        }
+    }
+
+    private HttpResponse<String> send(String token, String method, String path, String body)
+            throws IOException, InterruptedException {
+        HttpResponse<String> r = http.send(HttpRequest.newBuilder(URI.create(base + path))
+                .timeout(Duration.ofSeconds(30)).header("Authorization", "Bearer " + token)
+                .header("Content-Type", "application/json")
+                .method(method, HttpRequest.BodyPublishers.ofString(body)).build(),
+                HttpResponse.BodyHandlers.ofString());
+        if (r.statusCode() == BUSY) {
+            busy.incrementAndGet();
+        } else if (r.statusCode() >= 500) {
+            serverErrors.incrementAndGet();
+        }
+        return r;
+    }
+}

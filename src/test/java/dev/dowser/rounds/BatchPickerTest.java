@@ -1,0 +1,62 @@
+package dev.dowser.rounds;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.dowser.acquire.Pickers;
+import dev.dowser.acquire.Picks;
+import dev.dowser.acquire.PoolScorer;
+import dev.dowser.model.Activation;
+import dev.dowser.model.Architecture;
+import dev.dowser.model.Layout;
+import dev.dowser.model.Prior;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.SplittableRandom;
+import org.junit.jupiter.api.Test;
+
+/** The batch a strategy picks from scored candidates, BatchBALD's shortlist gathered from the candidates' rows. */
+class BatchPickerTest {
+
+    static final int ROWS = 300;
+    static final int INPUTS = 5;
+
+    @Test
+    void batchBaldStartsWithTheTopBaldCandidateAndPicksDistinctShortlistedRows() {
+        SplittableRandom rng = new SplittableRandom(11);
+        Layout layout = new Layout(new Architecture(INPUTS, List.of(8), 3, Activation.TANH));
+        List<float[]> draws = new ArrayList<>();
+        for (int s = 0; s < 16; s++) {
+            draws.add(Prior.start(layout, rng));
+        }
+        float[] x = new float[ROWS * INPUTS];
+        for (int i = 0; i < x.length; i++) {
+            x[i] = (float) rng.nextGaussian();
+        }
+        PoolScorer.Result scores;
+        try (PoolScorer scorer = new PoolScorer(1, 64)) {
+            scores = scorer.score(layout, draws, x, ROWS);
+        }
+        int[] byBald = Pickers.topB(scores.bald(), ROWS);
+
+        // The joint mutual information of one record is its BALD score, so BatchBALD's first pick is
+        // BALD's first (Kirsch, van Amersfoort & Gal 2019, section 3); a wrongly gathered shortlist
+        // would score other records' probabilities.
+        Picks one = BatchPicker.pick(Strategy.BATCHBALD, 1, scores, x, layout, draws, new SplittableRandom(1));
+        assertArrayEquals(new int[] {byBald[0]}, one.positions());
+
+        int b = 4;
+        Picks batch = BatchPicker.pick(Strategy.BATCHBALD, b, scores, x, layout, draws, new SplittableRandom(1));
+        int[] picked = batch.positions();
+        assertEquals(b, picked.length);
+        assertEquals(byBald[0], picked[0]);
+        assertEquals(b, Arrays.stream(picked).distinct().count(), Arrays.toString(picked));
+        List<Integer> shortlist = Arrays.stream(byBald, 0, b * BatchPicker.BATCHBALD_CANDIDATES_PER_SLOT).boxed()
+                .toList();
+        for (int p : picked) {
+            assertTrue(shortlist.contains(p), p + " is not among the " + shortlist.size() + " best by BALD");
+        }
+    }
+}

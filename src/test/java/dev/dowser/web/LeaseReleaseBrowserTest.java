@@ -1,0 +1,117 @@
+package dev.dowser.web;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+
+import dev.dowser.TestSupport;
+import dev.dowser.store.Database;
+import dev.dowser.store.QueueStore;
+import dev.dowser.team.Role;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.List;
+import java.util.Optional;
+import org.junit.jupiter.api.AfterEach;
+import org.junit.jupiter.api.BeforeEach;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.openqa.selenium.By;
+import org.openqa.selenium.Keys;
+import org.openqa.selenium.WebElement;
+import org.openqa.selenium.interactions.Actions;
+
+/**
+ * A record shown on a desk is leased to the person at it; the lease ends when the record leaves the
+ * desk without a label, not ten minutes later (issue 14): when the tab is left (the page hides) and
+ * when an undo brings back an earlier record in place of the one shown. Headless Chromium against
+ * the real server and H2 file database; the leases are read from the store.
+ */
+class LeaseReleaseBrowserTest {
+
+    static final String PERSON = "lee";
+
+    @TempDir
+    Path dir;
+    Database db;
+    WebServer server;
+    Browser browser;
+    long pool;
+
+    @BeforeEach
+    void start() {
+        db = TestSupport.openDb(dir.resolve("db"));
+        StringBuilder csv = new StringBuilder("id,reading\n");
+        for (int i = 0; i < 200; i++) {
+            csv.append('r').append(i).append(',').append(i % 17).append('\n');
+        }
+        TestSupport.importText(db, "gauges", csv.toString(), TestSupport.csv("gauges").withId("id")
+                .withClasses(List.of("ok", "fault")));
+        pool = db.pools().require("gauges").id();
+        TestSupport.tokenFor(db, PERSON, Role.LABELLER);
+        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
+                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        browser = Browser.shared();
+    }
+
+    @AfterEach
+    void stop() {
+        browser.close();
+        server.close();
+        db.close();
+    }
+
+    private String base() {
+        return "http://127.0.0.1:" + server.port() + "/";
+    }
+
+    private String cardId() {
+        WebElement card = browser.byId("card");
+        return card.isDisplayed() ? browser.byId("card-id").getText() : "";
+    }
+
+    /** Who holds the record with id {@code id} in the served queue, if anyone. */
+    private Optional<String> holder(String id) {
+        long row = Long.parseLong(id.substring(1));
+        return db.queues().served(pool).stream().map(QueueStore.Served::entry).filter(e -> e.row() == row)
+                .findFirst().map(e -> e.leasedTo());
+    }
+
+    private String nextCard(String shown, String what) {
+        return browser.await(d -> {
+            String now = cardId();
+            return now.isEmpty() || now.equals(shown) ? null : now;
+        }, what);
+    }
+
+    @Test
+    void aRecordLeavingTheDeskWithoutALabelIsFreeAtOnce() {
+        TestSupport.await(Duration.ofSeconds(60), () -> db.queues().servedRound(pool).isPresent(),
+                "the first batch, served without anyone asking");
+        browser.driver.get(base() + "login.html");
+        WebElement form = browser.await(d -> browser.byId("sign-in").isDisplayed() ? browser.byId("sign-in") : null,
+                "the sign-in form");
+        form.findElement(By.name("account")).sendKeys(PERSON);
+        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
+        browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signing in");
+
+        // The tab leaves the desk: the record shown is free again at once.
+        browser.driver.get(base() + "desk.html?pool=gauges");
+        String first = nextCard("", "the first record on the desk");
+        assertEquals(Optional.of(PERSON), holder(first), "the record shown is leased to the person at the desk");
+        browser.driver.get(base() + "overview.html?pool=gauges");
+        TestSupport.await(Duration.ofSeconds(10), () -> holder(first).isEmpty(),
+                "the lease on " + first + " ended when the desk was left");
+
+        // An undo brings back the record just labelled; the one shown after it goes back to the queue.
+        browser.driver.get(base() + "desk.html?pool=gauges");
+        String labelled = nextCard("", "a record on the desk again");
+        new Actions(browser.driver).sendKeys("1").perform();
+        String after = nextCard(labelled, "the record after the label");
+        assertEquals(Optional.of(PERSON), holder(after));
+        new Actions(browser.driver).sendKeys(Keys.BACK_SPACE).perform();
+        browser.await(d -> cardId().equals(labelled) ? labelled : null, "the label taken back, its record shown again");
+        assertEquals(Optional.of(PERSON), holder(labelled), "the record taken back is the person's again");
+        TestSupport.await(Duration.ofSeconds(10), () -> holder(after).isEmpty(),
+                "the lease on " + after + " ended when the undo replaced it");
+        browser.screenshot("lease-released-after-undo");
+    }
+}
