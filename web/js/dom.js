@@ -18,6 +18,20 @@ export function cell(row, value, className) {
   return td;
 }
 
+const two = (n) => String(n).padStart(2, '0');
+
+/** A date as the same unambiguous piece on every page and in every locale: 2026-12-02. */
+export function day(iso) {
+  const d = new Date(iso);
+  return `${d.getFullYear()}-${two(d.getMonth() + 1)}-${two(d.getDate())}`;
+}
+
+/** A moment in local time to the minute, in one unbroken piece: 2026-12-02 09:30. */
+export function stamp(iso) {
+  const d = new Date(iso);
+  return `${day(iso)}\u00a0${two(d.getHours())}:${two(d.getMinutes())}`;
+}
+
 /** Shows a message in the element with this id, as an error or not. */
 export function showMessage(id, text, isError = false) {
   const m = document.getElementById(id);

@@ -2,7 +2,7 @@
 import { showAccount } from './account.js';
 import { getJson, postJson, putJson, apiUrl } from './api.js';
 import { bandChart, barList } from './charts.js';
-import { cell, showMessage } from './dom.js';
+import { cell, showMessage, stamp } from './dom.js';
 
 const $ = (id) => document.getElementById(id);
 let pool = null;
@@ -183,7 +183,7 @@ async function showRounds() {
     const h = round.health || {};
     cell(row, String(round.round));
     cell(row, round.status + (round.round === r.served_round ? ' · served' : ''));
-    cell(row, clock(round.started_at));
+    cell(row, stamp(round.started_at));
     cell(row, round.seconds === undefined ? '…' : `${round.seconds.toFixed(1)} s`);
     cell(row, String(round.labels_at_start));
     cell(row, round.kernel || '—');
@@ -313,7 +313,7 @@ async function start() {
 start();
 
 const SETTINGS = ['batch_size', 'spot_check_share', 'double_label_share', 'lease_minutes', 'strategy', 'chains',
-  'draws', 'reburn_in_steps', 'stop_agreement'];
+  'draws', 'reburn_in_steps', 'temperature', 'stop_agreement'];
 
 /** A setting's name as the settings form says it ("labels per round"), so the history reads like the form. */
 function settingWords(form, field) {
@@ -347,7 +347,7 @@ async function showSettings() {
       .map((f) => `${settingWords(form, f)} ${c.before ? `${settingValue(form, f, c.before[f])} → ` : ''}`
         + `${settingValue(form, f, c.after[f])}`);
     const li = document.createElement('li');
-    li.textContent = `${new Date(c.at).toLocaleString()} · ${c.by} · ${changed.join(', ') || 'saved unchanged'}`;
+    li.textContent = `${stamp(c.at)} · ${c.by} · ${changed.join(', ') || 'saved unchanged'}`;
     list.append(li);
   }
   if (changes.length === 0) {
@@ -415,9 +415,3 @@ function showAgreement(a) {
   });
 }
 
-/** A round's start as the local date and time to the minute, in one short unbroken piece. */
-function clock(iso) {
-  const d = new Date(iso);
-  const two = (n) => String(n).padStart(2, '0');
-  return `${d.getFullYear()}-${two(d.getMonth() + 1)}-${two(d.getDate())}\u00a0${two(d.getHours())}:${two(d.getMinutes())}`;
-}

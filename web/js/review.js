@@ -3,7 +3,7 @@
 import { getJson, postJson } from './api.js';
 import { showAccount } from './account.js';
 import { recordBody, scalesOf } from './fields.js';
-import { el, showMessage } from './dom.js';
+import { el, showMessage, stamp } from './dom.js';
 
 const PAGE = 20;
 const $ = (id) => document.getElementById(id);
@@ -153,7 +153,7 @@ async function toggleHistory(record, box, button) {
   const { history } = await getJson(`pools/${encodeURIComponent(state.pool)}/records/${encodeURIComponent(record.id)}/history`);
   box.replaceChildren();
   for (const h of history) {
-    const line = `${new Date(h.at).toLocaleString()} · ${h.by} · ${h.kind} ${h.label}${h.note ? ` — ${h.note}` : ''}`;
+    const line = `${stamp(h.at)} · ${h.by} · ${h.kind} ${h.label}${h.note ? ` — ${h.note}` : ''}`;
     box.append(el('li', null, line));
   }
   box.hidden = false;

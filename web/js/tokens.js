@@ -1,7 +1,7 @@
 // Your account: who you are signed in as, your password, and your API tokens (made, shown once, revoked).
 import { getJson, postJson, putJson, deleteJson } from './api.js';
 import { showAccount } from './account.js';
-import { cell, showMessage } from './dom.js';
+import { cell, showMessage, stamp } from './dom.js';
 
 const $ = (id) => document.getElementById(id);
 
@@ -13,10 +13,12 @@ async function showTokens() {
   const body = $('tokens').tBodies[0];
   body.replaceChildren();
   $('tokens-none').hidden = tokens.length > 0;
+  // No header over an empty list: the sentence says there is none.
+  $('tokens').closest('.table-wrap').hidden = tokens.length === 0;
   for (const t of tokens) {
     const row = document.createElement('tr');
     row.dataset.token = t.id;
-    for (const v of [t.name, new Date(t.created_at).toLocaleString()]) cell(row, v);
+    for (const v of [t.name, stamp(t.created_at)]) cell(row, v);
     const revoke = document.createElement('button');
     revoke.type = 'button';
     revoke.textContent = 'Revoke';

@@ -2,7 +2,7 @@
 // and revoke anyone's API tokens.
 import { getJson, postJson, putJson, deleteJson } from './api.js';
 import { showAccount } from './account.js';
-import { cell, showMessage } from './dom.js';
+import { cell, day, showMessage, stamp } from './dom.js';
 
 const $ = (id) => document.getElementById(id);
 const ROLES = ['labeller', 'reviewer', 'admin'];
@@ -35,7 +35,7 @@ async function showUsers() {
     role.addEventListener('change', () => change(u.name, { role: role.value }, `${u.name} is now ${role.value}`));
     cell(row, role);
     cell(row, u.disabled ? 'disabled' : 'active');
-    cell(row, new Date(u.created_at).toLocaleDateString());
+    cell(row, day(u.created_at));
     cell(row, tokensCell(u, row));
     const actions = document.createElement('div');
     actions.className = 'inline-actions';
@@ -98,7 +98,7 @@ async function toggleTokens(name, row) {
   const list = document.createElement('ul');
   for (const t of tokens) {
     const li = document.createElement('li');
-    li.append(document.createTextNode(`“${t.name}”, made ${new Date(t.created_at).toLocaleString()} `));
+    li.append(document.createTextNode(`“${t.name}”, made ${stamp(t.created_at)} `));
     const revoke = document.createElement('button');
     revoke.type = 'button';
     revoke.textContent = 'Revoke';

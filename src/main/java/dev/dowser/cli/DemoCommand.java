@@ -1,5 +1,6 @@
 package dev.dowser.cli;
 
+import dev.dowser.data.ImportProgress;
 import dev.dowser.data.ImportResult;
 import dev.dowser.demo.DemoPool;
 import dev.dowser.store.Database;
@@ -67,7 +68,10 @@ final class DemoCommand implements Callable<Integer> {
         String adminPassword = UsersCommand.generatePassword(new SecureRandom());
         String labellerPassword = UsersCommand.generatePassword(new SecureRandom());
         try {
-            r = DemoPool.load(db, folder, records, seed);
+            Path csv = DemoPool.write(folder, records, seed);
+            System.err.println("dowser: readings written to " + csv.getFileName() + "; storing them in the database");
+            r = DemoPool.store(db, csv, ImportProgress.NONE);
+            System.err.println("dowser: " + r.records() + " readings stored; making the two demo accounts");
             // The demo signs in like any server: an admin and a labeller with fresh passwords, printed below.
             Accounts accounts = new Accounts(db, new SecureRandom(), TeamConfig.defaults());
             accounts.add(DEMO_ADMIN, Role.ADMIN, adminPassword, "demo");

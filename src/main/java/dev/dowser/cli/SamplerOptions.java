@@ -11,7 +11,7 @@ import picocli.CommandLine.Option;
 /** How the posterior is sampled, as options shared by {@code fit} and {@code simulate}; defaults are the app's. */
 final class SamplerOptions {
 
-    @Option(names = "--kernel", defaultValue = "auto", paramLabel = "auto|sgld|psgld|mala|sghmc",
+    @Option(names = "--kernel", defaultValue = SamplerConfig.DEFAULT_KERNEL_WORD, paramLabel = "auto|sgld|psgld|mala|sghmc",
             description = "Sampler kernel (default: ${DEFAULT-VALUE}: MALA up to "
                     + SamplerConfig.DEFAULT_MALA_MAX_ROWS + " labelled rows, preconditioned SGLD beyond).")
     String kernel;
@@ -20,7 +20,7 @@ final class SamplerOptions {
             description = "Hidden layer widths, e.g. 128 or 64,64 (default: ${DEFAULT-VALUE}).")
     List<Integer> hidden;
 
-    @Option(names = "--activation", defaultValue = "relu", paramLabel = "relu|tanh",
+    @Option(names = "--activation", defaultValue = SamplerConfig.DEFAULT_ACTIVATION_WORD, paramLabel = "relu|tanh",
             description = "Hidden nonlinearity (default: ${DEFAULT-VALUE}).")
     String activation;
 

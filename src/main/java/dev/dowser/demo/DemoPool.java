@@ -30,21 +30,31 @@ public final class DemoPool {
     }
 
     public static ImportResult load(Database db, Path dataDir, int records, long seed) {
+        return store(db, write(dataDir, records, seed), ImportProgress.NONE);
+    }
+
+    /** Writes the readings, truth included, to the demo's CSV in {@code dataDir}; returns the file. */
+    public static Path write(Path dataDir, int records, long seed) {
         Path csv = dataDir.resolve(FILE);
-        try {
-            try (Writer w = Files.newBufferedWriter(csv, StandardCharsets.UTF_8)) {
-                PumpTraces.write(w, records, seed);
-            }
-            ImportSpec spec = ImportSpec.defaults(POOL, FileFormat.CSV)
-                    .withId("reading")
-                    .withFeatures(PumpTraces.FEATURES)
-                    .withDisplay(PumpTraces.DISPLAY)
-                    .withClasses(PumpTraces.CONDITIONS);
-            try (InputStream in = Files.newInputStream(csv)) {
-                return new Importer(db).run(in, FILE, spec, ImportProgress.NONE);
-            }
+        try (Writer w = Files.newBufferedWriter(csv, StandardCharsets.UTF_8)) {
+            PumpTraces.write(w, records, seed);
         } catch (IOException e) {
             throw new UncheckedIOException("cannot write the demo file " + csv + ": " + e.getMessage(), e);
+        }
+        return csv;
+    }
+
+    /** Imports the demo's CSV as the demo pool, without its truth, telling {@code progress} how far it has come. */
+    public static ImportResult store(Database db, Path csv, ImportProgress progress) {
+        ImportSpec spec = ImportSpec.defaults(POOL, FileFormat.CSV)
+                .withId("reading")
+                .withFeatures(PumpTraces.FEATURES)
+                .withDisplay(PumpTraces.DISPLAY)
+                .withClasses(PumpTraces.CONDITIONS);
+        try (InputStream in = Files.newInputStream(csv)) {
+            return new Importer(db).run(in, FILE, spec, progress);
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot read the demo file " + csv + ": " + e.getMessage(), e);
         }
     }
 }

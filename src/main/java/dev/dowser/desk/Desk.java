@@ -91,8 +91,8 @@ public final class Desk {
         }
         String why = "no batch is served yet: the last round " + latest.status().word()
                 + (latest.message() == null ? "" : " (" + latest.message() + ")");
-        return why + (mayStartRounds ? "; start one from the pool's overview (Rounds, Start a round) once the cause"
-                + " is fixed" : "; ask a reviewer or an admin to start one from the pool's overview");
+        return why + (mayStartRounds ? "; once the cause is fixed, press Start a round now on the pool's overview"
+                : "; ask a reviewer or an admin to start one from the pool's overview");
     }
 
     /** Gives {@code person}'s lease on a queue place back, and does not offer them the record again while anything else is open. */

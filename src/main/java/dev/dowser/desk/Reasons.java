@@ -56,6 +56,7 @@ final class Reasons {
         return switch (strategy) {
             case RANDOM -> "Picked at random (the pool's strategy): " + view + ".";
             case ENTROPY -> "Picked because the model is unsure which class it is: " + view + ".";
+            case MARGIN -> "Picked because the model's two likeliest classes for it are close: " + view + ".";
             default -> {
                 double share = score / Math.log(classes.size());
                 String how = share >= STRONG ? "disagree strongly" : share >= CLEAR ? "disagree" : "differ a little";

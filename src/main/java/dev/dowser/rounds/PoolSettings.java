@@ -29,8 +29,14 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
     public static final double DEFAULT_SPOT_CHECK_SHARE = 0.10;
     public static final int DEFAULT_LEASE_MINUTES = 10;
     public static final double DEFAULT_DOUBLE_LABEL_SHARE = 0.10;
-    /** What a new pool picks by; {@code default} names it in settings and on the command line. */
-    public static final Strategy DEFAULT_STRATEGY = Strategy.BALD;
+    /**
+     * What a new pool picks by; {@code default} names it in settings and on the command line.
+     * Stochastic power sampling on BALD (Kirsch et al. 2023): greedy BALD's top scores crowd into
+     * outlying records early, and at the cold default temperature it trailed random on digits'
+     * learning curve, while power sampling led random on every benchmark dataset (DEVELOPERS.md,
+     * "the posterior temperature and the default strategy").
+     */
+    public static final Strategy DEFAULT_STRATEGY = Strategy.POWER;
     /** The cold start's word, for the command line's default; the method follows from it. */
     public static final String DEFAULT_COLD_START_WORD = "kmeans++";
     public static final ColdStart.Method DEFAULT_COLD_START = ColdStart.Method.parse(DEFAULT_COLD_START_WORD);
@@ -43,12 +49,16 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
      * @param chains        chains run side by side (each a thread while the round runs)
      * @param draws         draws kept in all, a multiple of the chains
      * @param reburnInSteps steps each chain takes from where the last round left it before drawing
+     * @param temperature   the posterior's temperature T, sampling p^(1/T): 1 is the true posterior,
+     *                      {@link SamplerConfig#COLD_POSTERIOR_TEMPERATURE} the default
      */
-    public record Sampling(int chains, int draws, int reburnInSteps) {
+    public record Sampling(int chains, int draws, int reburnInSteps, double temperature) {
 
         public static final int MAX_CHAINS = 16;
         public static final int MAX_DRAWS = 512;
         public static final int MAX_REBURN_IN_STEPS = 10_000;
+        /** Colder than this, the chains hardly move from one mode: a point estimate, not a posterior. */
+        public static final double MIN_TEMPERATURE = 0.01;
 
         public Sampling {
             if (chains < 1 || chains > MAX_CHAINS) {
@@ -62,16 +72,27 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
                 throw new IllegalArgumentException("reburn_in_steps (warm-up steps each round) must be 0 to " + MAX_REBURN_IN_STEPS + ", got "
                         + reburnInSteps);
             }
+            if (!(temperature >= MIN_TEMPERATURE && temperature <= SamplerConfig.TRUE_POSTERIOR_TEMPERATURE)) {
+                throw new IllegalArgumentException("temperature must lie between " + MIN_TEMPERATURE + " and "
+                        + SamplerConfig.TRUE_POSTERIOR_TEMPERATURE + " (1 samples the true posterior, "
+                        + SamplerConfig.COLD_POSTERIOR_TEMPERATURE + " is the default cold posterior), got " + temperature);
+            }
         }
 
-        /** The chains, draws and re-burn-in of a sampler. */
+        /** At the default temperature. */
+        public Sampling(int chains, int draws, int reburnInSteps) {
+            this(chains, draws, reburnInSteps, SamplerConfig.DEFAULT_TEMPERATURE);
+        }
+
+        /** The chains, draws, re-burn-in and temperature of a sampler. */
         public static Sampling of(SamplerConfig config) {
-            return new Sampling(config.chains().count(), config.chains().draws(), config.steps().reburnInSteps());
+            return new Sampling(config.chains().count(), config.chains().draws(), config.steps().reburnInSteps(),
+                    config.temperature());
         }
 
-        /** The server's sampler with this pool's chains, draws and re-burn-in. */
+        /** The server's sampler with this pool's chains, draws, re-burn-in and temperature. */
         public SamplerConfig applyTo(SamplerConfig base) {
-            return base.toBuilder().chains(chains, draws).reburnInSteps(reburnInSteps).build();
+            return base.toBuilder().chains(chains, draws).reburnInSteps(reburnInSteps).temperature(temperature).build();
         }
     }
 
@@ -107,22 +128,23 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
     }
 
     /**
-     * A change of some settings: a null field keeps its value. Naming any of chains, draws and
-     * re-burn-in gives the pool its own sampling, the others taken from what is in force.
+     * A change of some settings: a null field keeps its value. Naming any of chains, draws,
+     * re-burn-in and temperature gives the pool its own sampling, the others taken from what is in force.
      */
     public record Change(Integer batchSize, Double spotCheckShare, Integer leaseMinutes, Strategy strategy,
                          Double doubleLabelShare, Integer chains, Integer draws, Integer reburnInSteps,
-                         Double stopAgreement) {
+                         Double stopAgreement, Double temperature) {
 
         /** {@code now} with this change, checked whole; {@code server} is the sampler in force without the pool's own. */
         public PoolSettings applyTo(PoolSettings now, SamplerConfig server) {
             Sampling sampling = now.sampling(server);
-            boolean ownSampling = chains != null || draws != null || reburnInSteps != null;
+            boolean ownSampling = chains != null || draws != null || reburnInSteps != null || temperature != null;
             return new PoolSettings(or(batchSize, now.batchSize()), or(spotCheckShare, now.spotCheckShare()),
                     or(leaseMinutes, now.leaseMinutes()), or(strategy, now.strategy()),
                     or(doubleLabelShare, now.doubleLabelShare()),
                     ownSampling ? new Sampling(or(chains, sampling.chains()), or(draws, sampling.draws()),
-                            or(reburnInSteps, sampling.reburnInSteps())) : now.sampling(),
+                            or(reburnInSteps, sampling.reburnInSteps()), or(temperature, sampling.temperature()))
+                            : now.sampling(),
                     or(stopAgreement, now.stopAgreement()), now.coldStart());
         }
 
@@ -150,7 +172,7 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
         return sampling == null ? server : sampling.applyTo(server);
     }
 
-    /** The chains, draws and re-burn-in in force: the pool's own, else the server's. */
+    /** The chains, draws, re-burn-in and temperature in force: the pool's own, else the server's. */
     public Sampling sampling(SamplerConfig server) {
         return sampling == null ? Sampling.of(server) : sampling;
     }
@@ -199,8 +221,10 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
         JsonNode n = Json.tree(json == null || json.isBlank() ? "{}" : json);
         PoolSettings d = defaults();
         // The pool's own sampling is kept whole or not at all.
+        // A pool's own sampling saved before temperature was a setting takes the default temperature.
         Sampling sampling = n.has("draws") ? new Sampling(n.path("chains").asInt(), n.path("draws").asInt(),
-                n.path("reburnInSteps").asInt()) : null;
+                n.path("reburnInSteps").asInt(), n.path("temperature").asDouble(SamplerConfig.DEFAULT_TEMPERATURE))
+                : null;
         return new PoolSettings(n.path("batchSize").asInt(d.batchSize()),
                 n.path("spotCheckShare").asDouble(d.spotCheckShare()), n.path("leaseMinutes").asInt(d.leaseMinutes()),
                 n.has("strategy") ? Strategy.parse(n.get("strategy").asText()) : d.strategy(),
@@ -217,7 +241,7 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
                 .put("coldStart", coldStart.word());
         if (sampling != null) {
             n.put("chains", sampling.chains()).put("draws", sampling.draws())
-                    .put("reburnInSteps", sampling.reburnInSteps());
+                    .put("reburnInSteps", sampling.reburnInSteps()).put("temperature", sampling.temperature());
         }
         return Json.write(n);
     }

@@ -25,7 +25,8 @@ import java.util.Map;
 final class RoundsApi {
 
     static final List<String> SETTINGS = List.of("batch_size", "spot_check_share", "lease_minutes", "strategy",
-            "double_label_share", "chains", "draws", "reburn_in_steps", "stop_agreement");
+            "double_label_share", "chains", "draws", "reburn_in_steps", "stop_agreement",
+            "temperature");
 
     private final Overview overview;
     private final Desk desk;
@@ -109,7 +110,8 @@ final class RoundsApi {
                 optionalNumber(body, "spot_check_share"), optionalInt(body, "lease_minutes"),
                 body.has("strategy") ? Strategy.parse(body.get("strategy").asText()) : null,
                 optionalNumber(body, "double_label_share"), optionalInt(body, "chains"), optionalInt(body, "draws"),
-                optionalInt(body, "reburn_in_steps"), optionalNumber(body, "stop_agreement"));
+                optionalInt(body, "reburn_in_steps"), optionalNumber(body, "stop_agreement"),
+                optionalNumber(body, "temperature"));
         Responses.ok(ex, settingsJson(overview.changeSettings(param(ex, "pool"), change,
                 Gate.caller(ex, true).name())));
     }
@@ -134,7 +136,7 @@ final class RoundsApi {
         return body.has(field) ? Requests.optionalNumber(body, field, 0) : null;
     }
 
-    /** The settings as the API names them; chains, draws and re-burn-in as in force (the pool's own or the server's). */
+    /** The settings as the API names them; chains, draws, re-burn-in and temperature as in force (the pool's own or the server's). */
     private static ObjectNode settingsJson(Overview.Settings in) {
         PoolSettings s = in.settings();
         PoolSettings.Sampling sampling = in.sampling();
@@ -142,6 +144,7 @@ final class RoundsApi {
                 .put("lease_minutes", s.leaseMinutes()).put("strategy", s.strategy().word())
                 .put("double_label_share", s.doubleLabelShare()).put("chains", sampling.chains())
                 .put("draws", sampling.draws()).put("reburn_in_steps", sampling.reburnInSteps())
+                .put("temperature", sampling.temperature())
                 .put("stop_agreement", s.stopAgreement());
     }
 }

@@ -15,6 +15,7 @@ class SamplerConfigTest {
     void theBuilderStartsFromTheNamedDefaultsAndKeepsEveryValue() {
         SamplerConfig d = SamplerConfig.defaults();
         assertEquals(KernelChoice.AUTO, d.kernel().choice());
+        assertEquals(Activation.RELU, d.network().activation());
         assertEquals(List.of(Architecture.DEFAULT_HIDDEN), d.network().hidden());
         assertEquals(SamplerConfig.DEFAULT_CHAINS, d.chains().count());
         assertEquals(SamplerConfig.DEFAULT_DRAWS, d.chains().draws());

@@ -7,6 +7,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import dev.dowser.TestSupport;
 import dev.dowser.demo.DemoPool;
 import dev.dowser.store.Database;
+import dev.dowser.store.QueueStore;
 import dev.dowser.team.Accounts;
 import dev.dowser.team.Role;
 import java.nio.file.Path;
@@ -144,6 +145,23 @@ class DemoBrowserTest {
             new Actions(browser.driver).sendKeys(String.valueOf(1 + i)).perform();
             browser.await(d -> !browser.byId("card-id").getText().equals(shown), "the record after " + shown);
         }
+        // A record sent to two people, labelled by one so far: the overview's queue marks it as waiting.
+        long poolId = db.pools().require(DemoPool.POOL).id();
+        QueueStore.Served twice = db.queues().served(poolId).stream()
+                .filter(e -> e.entry().copies() == 2 && !e.labelled() && !e.awaitingSecondLabel()).findFirst()
+                .orElseThrow(() -> new AssertionError("no record of the served queue goes to two people"));
+        db.labels().add(poolId, twice.entry().row(), "healthy", "demo-labeller", null);
+        browser.driver.get(base + "overview.html?pool=" + DemoPool.POOL);
+        WebElement waiting = browser.await(d -> d.findElements(By.cssSelector("#queue tr.waiting")).stream().findFirst()
+                .orElse(null), "a queue row waiting for its second label");
+        assertTrue(waiting.getText().contains("waits for a second label"), waiting.getText());
+        // Records of the first batch were picked before any model: a dash, not a score of 0.
+        for (WebElement row : browser.driver.findElements(By.cssSelector("#queue tbody tr"))) {
+            List<WebElement> cells = row.findElements(By.tagName("td"));
+            if (cells.get(3).getText().startsWith("first batch") || cells.get(3).getText().startsWith("spot check")) {
+                assertEquals("—", cells.get(2).getText(), row.getText());
+            }
+        }
         Map<String, String> pages = Map.of("pools", "", "pool", "?pool=" + DemoPool.POOL,
                 "overview", "overview.html?pool=" + DemoPool.POOL, "desk", "desk.html?pool=" + DemoPool.POOL,
                 "review", "review.html?pool=" + DemoPool.POOL, "accounts", "users.html", "account", "account.html");
@@ -175,6 +193,15 @@ class DemoBrowserTest {
                     String colour = link.getCssValue("color");
                     assertTrue(!colour.equals("rgba(0, 0, 238, 1)") && !colour.equals("rgba(85, 26, 139, 1)"),
                             "a link in the browser's own blue on the " + page.getKey() + " page: " + link.getText());
+                }
+                if (page.getKey().equals("accounts")) {
+                    // Dates read the same in every locale: 2026-12-02, never 12/2/2026.
+                    String since = browser.driver.findElement(By.cssSelector("#users tbody tr td:nth-child(4)")).getText();
+                    assertTrue(since.matches("\\d{4}-\\d{2}-\\d{2}"), since);
+                }
+                if (page.getKey().equals("account")) {
+                    assertFalse(browser.byId("tokens").isDisplayed(), "an empty token table's header shown");
+                    assertTrue(browser.byId("tokens-none").isDisplayed());
                 }
                 if (page.getKey().equals("desk") || page.getKey().equals("review")) {
                     // Where labels can hurt someone: the model's view is a suggestion, and local rules decide.

@@ -173,6 +173,15 @@ class DeskApiTest {
         assertEquals(16, sampling.get("draws").asInt());
         assertEquals(100, sampling.get("reburn_in_steps").asInt());
         assertEquals(TestSupport.quickSampler().chains().count(), sampling.get("chains").asInt(), "the server's, kept");
+        // The true posterior stays one setting away from the cold default.
+        assertEquals(SamplerConfig.COLD_POSTERIOR_TEMPERATURE, sampling.get("temperature").asDouble());
+        JsonNode warm = ok(send("PUT", "/api/v1/pools/iris/settings", "{\"temperature\":1}"), 200);
+        assertEquals(1.0, warm.get("temperature").asDouble());
+        assertEquals(16, warm.get("draws").asInt(), "the pool's own draws, kept");
+        HttpResponse<String> frozen = send("PUT", "/api/v1/pools/iris/settings", "{\"temperature\":0}");
+        assertEquals(400, frozen.statusCode());
+        assertEquals("temperature must lie between 0.01 and 1.0 (1 samples the true posterior, 0.1 is the default cold"
+                + " posterior), got 0.0", Json.tree(frozen.body()).get("error").asText());
     }
 
     @Test

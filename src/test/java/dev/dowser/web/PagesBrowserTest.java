@@ -224,6 +224,19 @@ class PagesBrowserTest {
         browser.driver.get(base() + "overview.html?pool=wine-part");
         browser.await(d -> browser.byId("rounds").findElements(By.cssSelector("tbody tr:not(.round-note)")).size() >= 3, "three rounds listed");
         browser.await(d -> !browser.byId("health").getText().isEmpty(), "chain health");
+        // A round's note shows only where it says something the older round's did not (numbers aside):
+        // the kernel's sentence is not repeated row after row.
+        List<String> notes = new ArrayList<>();
+        for (WebElement row : browser.byId("rounds").findElements(By.cssSelector("tbody tr"))) {
+            if (row.getAttribute("class").contains("round-note")) {
+                notes.set(notes.size() - 1, row.getText().replaceAll("[0-9][0-9.,]*", "#"));
+            } else {
+                notes.add("");
+            }
+        }
+        for (int i = 1; i < notes.size(); i++) {
+            assertTrue(notes.get(i).isEmpty() || !notes.get(i).equals(notes.get(i - 1)), "a note repeated: " + notes);
+        }
         browser.screenshot("7-overview");
 
         // Export from the overview's link: exactly the labels given, the undone one as relabelled.
