@@ -5,6 +5,7 @@ import dev.dowser.data.ImportResult;
 import dev.dowser.data.ImportSpec;
 import dev.dowser.data.Importer;
 import dev.dowser.store.Database;
+import dev.dowser.words.Worded;
 import java.io.IOException;
 import java.io.InputStream;
 import java.io.UncheckedIOException;
@@ -31,8 +32,11 @@ final class ImportJobs implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(ImportJobs.class);
     static final int SPOOL_BUFFER_BYTES = 1 << 16;
 
+    /** Where an import stands; its word is what the API sends. */
+    enum State implements Worded { QUEUED, RUNNING, DONE, FAILED }
+
     /** What an import has done so far; a finished job has a result or an error. */
-    record Status(long id, String pool, String state, long records, long bytesRead, long totalBytes,
+    record Status(long id, String pool, State state, long records, long bytesRead, long totalBytes,
                   ImportResult result, String error) {
     }
 
@@ -84,21 +88,21 @@ final class ImportJobs implements AutoCloseable {
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
-        jobs.put(id, new Status(id, spec.poolName(), "queued", 0, 0, total, null, null));
+        jobs.put(id, new Status(id, spec.poolName(), State.QUEUED, 0, 0, total, null, null));
         return new Submission(id, worker.submit(() -> run(id, spooled, fileName, spec, total)));
     }
 
     private Status run(long id, Path spooled, String fileName, ImportSpec spec, long total) {
         try (InputStream in = Files.newInputStream(spooled)) {
-            jobs.put(id, new Status(id, spec.poolName(), "running", 0, 0, total, null, null));
+            jobs.put(id, new Status(id, spec.poolName(), State.RUNNING, 0, 0, total, null, null));
             ImportResult r = new Importer(db).run(in, fileName, spec, (rows, bytes) ->
-                    jobs.put(id, new Status(id, spec.poolName(), "running", rows, bytes, total, null, null)));
-            return put(new Status(id, spec.poolName(), "done", r.records(), total, total, r, null));
+                    jobs.put(id, new Status(id, spec.poolName(), State.RUNNING, rows, bytes, total, null, null)));
+            return put(new Status(id, spec.poolName(), State.DONE, r.records(), total, total, r, null));
         } catch (ImportException e) {
-            return put(new Status(id, spec.poolName(), "failed", 0, 0, total, null, e.getMessage()));
+            return put(new Status(id, spec.poolName(), State.FAILED, 0, 0, total, null, e.getMessage()));
         } catch (IOException | RuntimeException e) {
             LOG.error("import {} failed", id, e);
-            return put(new Status(id, spec.poolName(), "failed", 0, 0, total, null,
+            return put(new Status(id, spec.poolName(), State.FAILED, 0, 0, total, null,
                     "the import failed unexpectedly: " + e.getMessage()));
         } finally {
             try {

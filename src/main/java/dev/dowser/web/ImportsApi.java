@@ -55,7 +55,7 @@ final class ImportsApi {
         ImportJobs.Submission job = imports.submit(body, fileName, spec);
         if (Boolean.parseBoolean(query(ex, "wait", "false"))) {
             ImportJobs.Status done = await(job.done());
-            Responses.json(ex, "done".equals(done.state()) ? 201 : 400, statusJson(done));
+            Responses.json(ex, done.state() == ImportJobs.State.DONE ? 201 : 400, statusJson(done));
         } else {
             Responses.json(ex, 202, statusJson(imports.status(job.id())));
         }
@@ -94,7 +94,7 @@ final class ImportsApi {
     }
 
     static ObjectNode statusJson(ImportJobs.Status s) {
-        ObjectNode n = Json.object().put("id", s.id()).put("pool", s.pool()).put("state", s.state())
+        ObjectNode n = Json.object().put("id", s.id()).put("pool", s.pool()).put("state", s.state().word())
                 .put("records", s.records()).put("bytes_read", s.bytesRead()).put("total_bytes", s.totalBytes())
                 .put("error", s.error());
         if (s.result() != null) {
