@@ -32,8 +32,11 @@ import picocli.CommandLine.Spec;
             "import: a generated CSV of N rows x 64 numeric features into a fresh pool, at N/10 and at N in"
                 + " the same run; rows per second, the peak heap (what the collector let the heap grow to) and"
                 + " the live heap (the most still in use just after a collection), so memory that grows with"
-                + " the file would show. Then the same number of fields in 64, 2,000 and 20,000 columns:"
+                + " the file would show. Then the same number of fields in 64, 2,000, 10,000 and 20,000 columns:"
                 + " fields per second and each against 64 columns (1.0 when the cost is linear in the columns).",
+            "upload: a generated CSV of 1 GiB (128 MiB with --quick) sent through the API into the server run as"
+                + " its own process with -Xmx512m: seconds to send, to import and in all, and the server's peak"
+                + " resident memory.",
             "sgemm: square single-precision products through the BLAS the model uses, one per core at once"
                 + " (the machine's throughput) and on one thread.",
             "score: BALD and friends over pools of shapes (a) 100k x 64-128-10 with 64 draws, (b) 1M x"
@@ -84,7 +87,7 @@ final class BenchCommand implements Callable<Integer> {
     Path work;
 
     @Option(names = "--only", split = ",", paramLabel = "SUITE",
-            description = "Suites to run: sgemm, score, sampler, round, desk, durability, import, fuzz, labels"
+            description = "Suites to run: sgemm, score, sampler, round, desk, durability, import, upload, fuzz, labels"
                     + " (default: all but labels).")
     java.util.List<String> only;
 
@@ -134,6 +137,14 @@ final class BenchCommand implements Callable<Integer> {
                 out.printf("import_jsonl_to_csv_speed=%.2f%n", jsonl / csv);
                 importSuite(out, dir, n, "full", FileFormat.CSV);
                 WideImportBench.run(out, dir, quick);
+            } finally {
+                Folders.deleteTree(dir);
+            }
+        }
+        if (wants("upload")) {
+            Path dir = work != null ? Files.createDirectories(work.resolve("upload")) : Files.createTempDirectory("dowser-upload-");
+            try {
+                UploadBench.run(out, dir, quick);
             } finally {
                 Folders.deleteTree(dir);
             }
