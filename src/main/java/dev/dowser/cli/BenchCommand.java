@@ -32,8 +32,11 @@ import picocli.CommandLine.Spec;
             "import: a generated CSV of N rows x 64 numeric features into a fresh pool, at N/10 and at N in"
                 + " the same run; rows per second, the peak heap (what the collector let the heap grow to) and"
                 + " the live heap (the most still in use just after a collection), so memory that grows with"
-                + " the file would show. Then the same number of fields in 64, 2,000 and 20,000 columns:"
+                + " the file would show. Then the same number of fields in 64, 2,000, 10,000 and 20,000 columns:"
                 + " fields per second and each against 64 columns (1.0 when the cost is linear in the columns).",
+            "upload: a generated CSV of 1 GiB (128 MiB with --quick) sent through the API into the server run as"
+                + " its own process with -Xmx512m: seconds to send, to import and in all, and the server's peak"
+                + " resident memory.",
             "sgemm: square single-precision products through the BLAS the model uses, one per core at once"
                 + " (the machine's throughput) and on one thread.",
             "score: BALD and friends over pools of shapes (a) 100k x 64-128-10 with 64 draws, (b) 1M x"
@@ -53,7 +56,8 @@ import picocli.CommandLine.Spec;
                 + " they can, killed with SIGKILL 25 times (5 with --quick) at random moments (after 250 to 750"
                 + " acknowledged writes, then up to 0.3 s) and restarted: every"
                 + " acknowledged label, withdrawal, review, settings and account change must be there afterwards;"
-                + " prints the counts acknowledged and lost.",
+                + " prints the counts acknowledged and lost, and the desk's empty answers across the kills (the pool"
+                + " holds more records than the campaign writes).",
             "labels (only when named): the label-savings benchmark, simulate on digits, breast cancer, wine, iris,"
                 + " the demo's pumps and Fashion-MNIST (pool 60,000, test 10,000, 50 principal components) with"
                 + " paired seeds: labels to each target, random's labels over the strategy's with 90%% bootstrap"
@@ -83,7 +87,7 @@ final class BenchCommand implements Callable<Integer> {
     Path work;
 
     @Option(names = "--only", split = ",", paramLabel = "SUITE",
-            description = "Suites to run: sgemm, score, sampler, round, desk, durability, import, fuzz, labels"
+            description = "Suites to run: sgemm, score, sampler, round, desk, durability, import, upload, fuzz, labels"
                     + " (default: all but labels).")
     java.util.List<String> only;
 
@@ -133,6 +137,14 @@ final class BenchCommand implements Callable<Integer> {
                 out.printf("import_jsonl_to_csv_speed=%.2f%n", jsonl / csv);
                 importSuite(out, dir, n, "full", FileFormat.CSV);
                 WideImportBench.run(out, dir, quick);
+            } finally {
+                Folders.deleteTree(dir);
+            }
+        }
+        if (wants("upload")) {
+            Path dir = work != null ? Files.createDirectories(work.resolve("upload")) : Files.createTempDirectory("dowser-upload-");
+            try {
+                UploadBench.run(out, dir, quick);
             } finally {
                 Folders.deleteTree(dir);
             }
@@ -197,6 +209,11 @@ final class BenchCommand implements Callable<Integer> {
         out.printf("durability_server_errors=%d%ndurability_busy=%d%ndurability_timeouts=%d%n"
                 + "durability_start_median_s=%.2f%n", r.serverErrors(), r.busy(), r.timeouts(),
                 r.startSeconds().stream().sorted().toList().get(r.startSeconds().size() / 2));
+        out.printf("durability_records=%d%ndurability_desk_offered=%d%ndurability_desk_empty=%d%n"
+                + "durability_requests_resent=%d%n", campaign.records(), r.offered(), r.empty(), r.dropped());
+        if (r.firstEmpty() != null) {
+            out.println("durability_desk_first_empty=" + r.firstEmpty());
+        }
         r.check().missing().stream().limit(10).forEach(a -> out.println("durability_missing=" + a));
         out.flush();
     }

@@ -23,6 +23,7 @@ import java.util.SplittableRandom;
 import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.concurrent.atomic.AtomicInteger;
 import java.util.concurrent.atomic.AtomicLong;
+import java.util.concurrent.atomic.AtomicReference;
 
 /**
  * The clients of one server life: labellers, a reviewer and an admin writing as fast as they can,
@@ -32,6 +33,21 @@ final class CampaignClients {
 
     /** "Busy, try again": a lock not granted in time; nothing was written, and the client goes on. */
     static final int BUSY = 503;
+    /** Pause before a request that did not reach the live server is sent again (see {@link #send}). */
+    static final int RESEND_PAUSE_MILLIS = 100;
+
+    /**
+     * What the desk answered over the whole campaign: records offered, and answers without one once
+     * the first batch had been served (the pool always has unlabelled records left, so each is an
+     * empty desk), with the first such answer's message.
+     */
+    static final class Desk {
+        final AtomicLong offered = new AtomicLong();
+        final AtomicLong empty = new AtomicLong();
+        final AtomicReference<String> firstEmpty = new AtomicReference<>();
+        /** Requests that did not reach the live server and were sent again. */
+        final AtomicLong dropped = new AtomicLong();
+    }
 
     private final HttpClient http = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
     private final String base;
@@ -44,13 +60,15 @@ final class CampaignClients {
     private final SplittableRandom rng;
     private final AtomicLong busy;
     private final AtomicLong timeouts;
+    private final Desk desk;
     private final AtomicBoolean down = new AtomicBoolean();
+    private final AtomicBoolean killed = new AtomicBoolean();
     private volatile String firstStop;
     private final List<Thread> threads = new ArrayList<>();
     private final List<String> failures = Collections.synchronizedList(new ArrayList<>());
 
     CampaignClients(int port, KillCampaign.Tokens tokens, Queue<String> members, AckLedger ledger,
-            AtomicLong serverErrors, AtomicLong busy, AtomicLong timeouts, AtomicInteger settingsCounter, int cycle, SplittableRandom rng) {
+            AtomicLong serverErrors, AtomicLong busy, AtomicLong timeouts, Desk desk, AtomicInteger settingsCounter, int cycle, SplittableRandom rng) {
         this.base = "http://127.0.0.1:" + port + "/api/v1/";
         this.tokens = tokens;
         this.members = members;
@@ -58,13 +76,10 @@ final class CampaignClients {
         this.serverErrors = serverErrors;
         this.busy = busy;
         this.timeouts = timeouts;
+        this.desk = desk;
         this.settingsCounter = settingsCounter;
         this.cycle = cycle;
         this.rng = rng;
-    }
-
-    void requestRound() throws IOException, InterruptedException {
-        send(tokens.admin(), "POST", "pools/" + POOL + "/rounds", "");
     }
 
     void start(int labellers) {
@@ -104,6 +119,11 @@ final class CampaignClients {
         return firstStop;
     }
 
+    /** The campaign is about to kill the server: from now on a request that fails ends its client. */
+    void killing() {
+        killed.set(true);
+    }
+
     /** False once a client found the server gone or failed. */
     boolean working() {
         return !down.get();
@@ -132,9 +152,15 @@ final class CampaignClients {
                     HttpResponse<String> offered = send(token, "POST", pool + "queue/next", "{}");
                     JsonNode next = offered.statusCode() == 200 ? Json.tree(offered.body()) : null;
                     if (next == null || !next.hasNonNull("record")) {
+                        // Before the first batch of the campaign is served, nothing can be offered.
+                        if (next != null && desk.offered.get() > 0) {
+                            desk.empty.incrementAndGet();
+                            desk.firstEmpty.compareAndSet(null, "life " + (cycle + 1) + ": " + offered.body());
+                        }
                         Thread.sleep(25);
                         continue;
                     }
+                    desk.offered.incrementAndGet();
                     String record = next.at("/record/id").asText();
                     String label = CLASSES.get(rng.nextInt(CLASSES.size()));
                     String note = "c" + cycle + "-" + person + "-" + n++;
@@ -234,13 +260,32 @@ final class CampaignClients {
         }
     }
 
+    /**
+     * Sends a request. Until the campaign kills the server, a request that fails to reach it (a
+     * kept-alive connection the server closed just as it was reused, a connection not accepted in
+     * time on a starved machine) is counted as dropped and sent again a moment later; once the
+     * server has been killed, the failure ends this client's life.
+     */
     private HttpResponse<String> send(String token, String method, String path, String body)
             throws IOException, InterruptedException {
-        HttpResponse<String> r = http.send(HttpRequest.newBuilder(URI.create(base + path))
+        HttpRequest request = HttpRequest.newBuilder(URI.create(base + path))
                 .timeout(Duration.ofSeconds(30)).header("Authorization", "Bearer " + token)
                 .header("Content-Type", "application/json")
-                .method(method, HttpRequest.BodyPublishers.ofString(body)).build(),
-                HttpResponse.BodyHandlers.ofString());
+                .method(method, HttpRequest.BodyPublishers.ofString(body)).build();
+        HttpResponse<String> r = null;
+        while (r == null) {
+            try {
+                r = http.send(request, HttpResponse.BodyHandlers.ofString());
+            } catch (HttpTimeoutException e) {
+                throw e;
+            } catch (IOException e) {
+                if (killed.get()) {
+                    throw e;
+                }
+                desk.dropped.incrementAndGet();
+                Thread.sleep(RESEND_PAUSE_MILLIS);
+            }
+        }
         if (r.statusCode() == BUSY) {
             busy.incrementAndGet();
         } else if (r.statusCode() >= 500) {

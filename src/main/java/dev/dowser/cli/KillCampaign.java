@@ -32,7 +32,8 @@ import java.util.concurrent.atomic.AtomicLong;
  * labellers label and take labels back, a reviewer overrides, and an admin changes settings and
  * accounts, all as fast as they can; at a random moment the server gets SIGKILL, and is started
  * again on the same folder. After the last kill every write that was answered with success must
- * be in the database.
+ * be in the database. Nobody asks for the first round, as nobody would in a new team's first hour:
+ * the server serves the new pool's first batch by itself.
  *
  * <p>A kill comes once the server's life has acknowledged a number of writes drawn between
  * {@code minWrites} and {@code maxWrites}, and then up to {@link #JITTER_MILLIS} later: the moment is
@@ -48,7 +49,8 @@ import java.util.concurrent.atomic.AtomicLong;
 record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long seed) {
 
     static final String POOL = "kills";
-    static final int RECORDS = 3_000;
+    /** Records in the pool, at least; a longer campaign gets more (see {@link #records()}). */
+    static final int MIN_RECORDS = 3_000;
     static final int FEATURES = 8;
     static final List<String> CLASSES = List.of("north", "south", "east", "west");
     /** A large batch keeps the desk full between rounds, so the clients spend their time writing. */
@@ -72,10 +74,22 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
     }
 
     /**
-     * What a campaign did: the check of its acknowledged writes, the server's failures (5xx other than
-     * busy), its "busy, try again" answers, requests with no answer in time, and restart times.
+     * Records in the pool: more than the campaign can write, so that labellers never run out of
+     * unlabelled records and every answer without one is an empty desk.
      */
-    record Report(AckLedger.Check check, long serverErrors, long busy, long timeouts, List<Double> startSeconds) {
+    int records() {
+        return Math.max(MIN_RECORDS, kills * maxWrites + BATCH);
+    }
+
+    /**
+     * What a campaign did: the check of its acknowledged writes, the server's failures (5xx other than
+     * busy), its "busy, try again" answers, requests with no answer in time, restart times, and the
+     * desk's answers: those with a record, and those without one once the first batch was served
+     * (with the first such answer's message), and requests that did not reach the live server and were
+     * sent again.
+     */
+    record Report(AckLedger.Check check, long serverErrors, long busy, long timeouts, List<Double> startSeconds,
+                  long offered, long empty, String firstEmpty, long dropped) {
     }
 
     /**
@@ -89,6 +103,7 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
         AtomicLong serverErrors = new AtomicLong();
         AtomicLong busy = new AtomicLong();
         AtomicLong timeouts = new AtomicLong();
+        CampaignClients.Desk desk = new CampaignClients.Desk();
         AtomicInteger settingsCounter = new AtomicInteger(100);
         java.util.Queue<String> members = new java.util.concurrent.ConcurrentLinkedQueue<>(tokens.members());
         SplittableRandom rng = new SplittableRandom(seed);
@@ -99,10 +114,7 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
             try (ServerProcess server = ServerProcess.start(launcher, data, serverLog)) {
                 starts.add((System.nanoTime() - t0) / 1e9);
                 CampaignClients clients = new CampaignClients(server.port(), tokens, members, ledger, serverErrors,
-                        busy, timeouts, settingsCounter, cycle, rng.split());
-                if (cycle == 0) {
-                    clients.requestRound();
-                }
+                        busy, timeouts, desk, settingsCounter, cycle, rng.split());
                 long before = ledger.size();
                 long quota = minWrites + rng.nextInt(maxWrites - minWrites + 1);
                 clients.start(labellers);
@@ -112,6 +124,7 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
                     Thread.sleep(5);
                 }
                 Thread.sleep(rng.nextInt(JITTER_MILLIS + 1));
+                clients.killing();
                 server.kill();
                 clients.join();
                 if (ledger.size() - before < quota) {
@@ -126,7 +139,8 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
             }
         }
         try (Database db = Database.open(data, Clock.systemUTC())) {
-            return new Report(ledger.check(db, POOL), serverErrors.get(), busy.get(), timeouts.get(), starts);
+            return new Report(ledger.check(db, POOL), serverErrors.get(), busy.get(), timeouts.get(), starts,
+                    desk.offered.get(), desk.empty.get(), desk.firstEmpty.get(), desk.dropped.get());
         }
     }
 
@@ -151,7 +165,7 @@ record KillCampaign(int kills, int labellers, int minWrites, int maxWrites, long
                 line.append(",f").append(f);
             }
             w.write(line.append('\n').toString());
-            for (int i = 0; i < RECORDS; i++) {
+            for (int i = 0; i < records(); i++) {
                 line.setLength(0);
                 line.append("k").append(i);
                 for (int f = 0; f < FEATURES; f++) {

@@ -115,8 +115,12 @@ public final class RoundService {
             db.chains().save(pool.id(), ChainStates.toSaved(e.lastStates(), e.choice().kernel().word(), arch, round));
             db.rounds().stop(pool.id(), round, e.choice().kernel().word(), why);
             outcome = new Outcome(round, RoundStatus.STOPPED, 0, e.choice().kernel().word(), why, seconds(begun));
-        } catch (RuntimeException e) {
-            String why = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
+        } catch (RuntimeException | OutOfMemoryError e) {
+            // Out of memory in a round: its arrays are garbage once it unwinds, so the round fails with
+            // a message and the server serves on, instead of the round staying "running" for ever.
+            String why = e instanceof OutOfMemoryError ? "the server ran out of memory in this round (heap "
+                    + (Runtime.getRuntime().maxMemory() >> 20) + " MiB); start it with a larger heap (java -Xmx...)"
+                    : e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
             db.rounds().fail(pool.id(), round, why);
             outcome = new Outcome(round, RoundStatus.FAILED, 0, null, why, seconds(begun));
         }

@@ -65,9 +65,10 @@ public final class RoundWorker implements AutoCloseable {
     public void request() {
         if (queued.compareAndSet(false, true)) {
             thread.execute(() -> {
+                // Running before no longer queued, so that busy() is never false in between.
+                running.set(true);
                 queued.set(false);
                 labelsSinceRound.set(0);
-                running.set(true);
                 try {
                     if (!stop.requested()) {
                         RoundService.Outcome outcome = service.run(pool, stop);

@@ -40,6 +40,9 @@ final class Errors {
             status = api.status();
             message = api.getMessage();
         } else if (e instanceof BusyException) {
+            // One line, no stack: not a fault, but how often the database made people wait is worth seeing.
+            LOG.warn("request {} {} answered busy: {}", exchange.getRequestMethod(), exchange.getRequestPath(),
+                    e.getMessage());
             status = 503;
             message = e.getMessage();
             exchange.getResponseHeaders().put(Headers.RETRY_AFTER, BusyException.RETRY_AFTER_SECONDS);

@@ -41,7 +41,7 @@ final class ImportsApi {
                 listQuery(ex, "display"), query(ex, "label", null), listQuery(ex, "classes"),
                 listQuery(ex, "categorical"), intQuery(ex, "max_levels", ImportSpec.DEFAULT_MAX_LEVELS, 2, 1_000_000),
                 intQuery(ex, "max_field_chars", ImportSpec.DEFAULT_MAX_FIELD_CHARS, 16, Json.MAX_STRING_CHARS),
-                ImportSpec.UNLIMITED_BYTES, "import");
+                ImportSpec.UNLIMITED_BYTES, "import").withMissingTokens(missingTokens(ex));
         if (!spec.namesLabelSet()) {
             throw new ApiException(400, "a pool needs classes for people to choose from: add classes=a,b,c to"
                     + " the call, or label=COLUMN naming the column that holds labels already given");
@@ -115,5 +115,13 @@ final class ImportsApi {
         } catch (ExecutionException e) {
             throw new IllegalStateException(e.getCause());
         }
+    }
+
+    /** {@code missing=NA,?}: the values that mean missing, as import's --missing; absent, the defaults; empty, none. */
+    private static java.util.List<String> missingTokens(HttpServerExchange ex) {
+        java.util.Deque<String> given = ex.getQueryParameters().get("missing");
+        String v = given == null || given.isEmpty() ? null : given.getFirst();
+        return v == null ? ImportSpec.DEFAULT_MISSING_TOKENS
+                : java.util.Arrays.stream(v.split(",")).map(String::strip).filter(t -> !t.isEmpty()).toList();
     }
 }

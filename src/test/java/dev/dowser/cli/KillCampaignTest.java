@@ -18,7 +18,8 @@ import org.junit.jupiter.api.io.TempDir;
  * Acknowledged means durable (issue 11): the real jar serves as its own process while four
  * labellers, a reviewer and an admin write as fast as they can; it is killed with SIGKILL three
  * times at random moments and restarted on the same folder. Every label, withdrawal, review,
- * settings change and account change that was answered with success must be in the database.
+ * settings change and account change that was answered with success must be in the database, and
+ * once the first batch is served the desk never answers without a record, before or after a kill.
  * The long campaign (25 kills) is {@code dowser bench --only durability}.
  */
 class KillCampaignTest {
@@ -39,6 +40,9 @@ class KillCampaignTest {
                 .map(e -> e.getKey() + " " + e.getValue()[0] + "/" + e.getValue()[1] + " lost").toList() + "\n" + log;
         assertEquals(List.of(), r.check().missing(), "acknowledged writes lost after SIGKILL: " + counts);
         assertEquals(0, r.serverErrors(), "the server answered 5xx: " + counts);
+        // The desk keeps serving across kills: its queue, leases and reserve are in the database.
+        assertEquals(0, r.empty(), "empty desks (of " + (r.offered() + r.empty()) + " answers) while "
+                + campaign.records() + " records were mostly unlabelled, the first: " + r.firstEmpty() + "\n" + log);
         // A campaign that wrote little would prove little: each kind must have been tried.
         for (var e : r.check().counts().entrySet()) {
             assertTrue(e.getValue()[0] > 0, "no " + e.getKey() + " was acknowledged: " + counts);

@@ -51,13 +51,32 @@ class OfflineCommandsTest {
         return csv;
     }
 
+    /** The demo's file with the gaps files write: '?' for every 17th rpm and 'NA' for every 23rd flow. */
+    private Path withGaps(Path csv) throws Exception {
+        List<String> lines = Files.readAllLines(csv);
+        for (int i = 1; i < lines.size(); i++) {
+            // reading,unit,station,recorded_at,rpm,flow_lps,"[trace]",condition: the first six hold no commas.
+            String[] f = lines.get(i).split(",", 7);
+            f[4] = i % 17 == 0 ? "?" : f[4];
+            f[5] = i % 23 == 0 ? "NA" : f[5];
+            lines.set(i, String.join(",", f));
+        }
+        Path gaps = dir.resolve("pumps-with-gaps.csv");
+        Files.write(gaps, lines);
+        return gaps;
+    }
+
     @Test
     void fitAndSimulateReadTheDemosOwnFile() throws Exception {
-        Path csv = demoCsv(400);
+        Path csv = withGaps(demoCsv(400));
         String[] plain = run("fit", "--file", csv.toString(), "--label", "condition", "--id", "reading",
                 "--draws", "8", "--burn-in", "100", "--thin", "5");
         assertEquals("2", plain[0], "without --features the timestamps are a categorical column");
-        assertTrue(plain[2].contains("recorded_at"), plain[2]);
+        assertTrue(plain[2].contains("line 52, column 'recorded_at': more than 50 distinct values"), plain[2]);
+        String[] noTokens = run("fit", "--file", csv.toString(), "--label", "condition", "--id", "reading",
+                "--features", String.join(",", PumpTraces.FEATURES), "--missing=");
+        assertEquals("2", noTokens[0], noTokens[1]);
+        assertTrue(noTokens[2].contains("line 18, column 'rpm': expected a number, got '?'"), noTokens[2]);
         String features = String.join(",", PumpTraces.FEATURES);
         String[] fit = run("fit", "--file", csv.toString(), "--label", "condition", "--id", "reading",
                 "--features", features, "--draws", "8", "--burn-in", "100", "--thin", "5");

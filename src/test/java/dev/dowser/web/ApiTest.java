@@ -116,6 +116,74 @@ class ApiTest {
         assertEquals("unknown formulas choice 'strip': use escape or keep", Json.tree(wrong.body()).get("error").asText());
     }
 
+    /**
+     * Issue 11: tokens kept working after an admin set someone's password, and no admin could see or
+     * revoke another person's token. Walked here as a script would, through the API only.
+     */
+    @Test
+    void adminsListAndRevokeAnyonesTokensAndANewPasswordRevokesTheRest() throws Exception {
+        String first = TestSupport.tokenFor(db, "cy", Role.LABELLER);
+        HttpResponse<String> made = http.send(at("/api/v1/tokens").header("Authorization", "Bearer " + first)
+                .POST(HttpRequest.BodyPublishers.ofString("{\"name\":\"nightly\"}")).build(),
+                HttpResponse.BodyHandlers.ofString());
+        assertEquals(201, made.statusCode(), made.body());
+        String second = Json.tree(made.body()).get("token").asText();
+
+        JsonNode listed = Json.tree(send(at("/api/v1/users/cy/tokens")).body());
+        assertEquals("cy", listed.get("name").asText());
+        assertEquals(java.util.List.of("test", "nightly"), listed.get("tokens").findValuesAsText("name"));
+        long nightly = listed.get("tokens").get(1).get("id").asLong();
+        HttpResponse<String> revoked = send(at("/api/v1/users/cy/tokens/" + nightly).DELETE());
+        assertEquals(200, revoked.statusCode(), revoked.body());
+        assertEquals("{\"revoked\":" + nightly + ",\"name\":\"cy\"}", revoked.body());
+        assertEquals(401, as(second, "/api/v1/pools").statusCode(), "a revoked token stops at once");
+        assertEquals(200, as(first, "/api/v1/pools").statusCode(), "the other token stays");
+        assertEquals(java.util.List.of("test"), Json.tree(send(at("/api/v1/users/cy/tokens")).body()).get("tokens")
+                .findValuesAsText("name"), "a revoked token is no longer listed");
+        HttpResponse<String> again = send(at("/api/v1/users/cy/tokens/" + nightly).DELETE());
+        assertEquals(404, again.statusCode());
+        assertEquals("the account 'cy' has no live token with id " + nightly, Json.tree(again.body()).get("error").asText());
+        HttpResponse<String> notHers = send(at("/api/v1/users/ana/tokens/"
+                + Json.tree(send(at("/api/v1/users/cy/tokens")).body()).at("/tokens/0/id").asLong()).DELETE());
+        assertEquals(404, notHers.statusCode(), "a token is revoked under its own account only");
+
+        HttpResponse<String> reset = send(at("/api/v1/users/cy").PUT(HttpRequest.BodyPublishers.ofString(
+                "{\"password\":\"a new one for cy\"}")));
+        assertEquals(200, reset.statusCode(), reset.body());
+        assertEquals(401, as(first, "/api/v1/pools").statusCode(), "a new password revokes every token of the account");
+        assertEquals(0, Json.tree(send(at("/api/v1/users/cy/tokens")).body()).get("tokens").size());
+        JsonNode users = Json.tree(send(at("/api/v1/users")).body()).get("users");
+        for (JsonNode u : users) {
+            if (u.get("name").asText().equals("cy")) {
+                assertEquals(0, u.get("live_tokens").asInt(), u.toString());
+            }
+        }
+    }
+
+    private HttpResponse<String> as(String token, String path) throws IOException, InterruptedException {
+        return http.send(at(path).header("Authorization", "Bearer " + token).build(), HttpResponse.BodyHandlers.ofString());
+    }
+
+    /** Issue 14: the values files write for "missing" are missing through the API too, under import's name. */
+    @Test
+    void missingTokensAreTakenAsImportTakesThem() throws Exception {
+        String file = "id,flow,state\nu1,1.5,ok\nu2,NA,fault\nu3,?,ok\nu4,2.5,fault\n";
+        HttpResponse<String> plain = upload("pool=gauges&file_name=g.csv&id=id&label=state&wait=true", file);
+        assertEquals(201, plain.statusCode(), plain.body());
+        assertEquals(4, Json.tree(plain.body()).at("/result/records").asInt(), plain.body());
+
+        HttpResponse<String> none = upload("pool=gauges2&file_name=g.csv&id=id&label=state&missing=&wait=true", file);
+        assertEquals(400, none.statusCode(), none.body());
+        assertTrue(Json.tree(none.body()).get("error").asText().startsWith(
+                "line 3, column 'flow': expected a number, got 'NA'"), none.body());
+        HttpResponse<String> onlyNa = upload("pool=gauges3&file_name=g.csv&id=id&label=state&missing=NA&wait=true", file);
+        assertEquals(400, onlyNa.statusCode(), onlyNa.body());
+        assertTrue(Json.tree(onlyNa.body()).get("error").asText().startsWith(
+                "line 4, column 'flow': expected a number, got '?'"), onlyNa.body());
+        HttpResponse<String> both = upload("pool=gauges4&file_name=g.csv&id=id&label=state&missing=NA,%3F&wait=true", file);
+        assertEquals(201, both.statusCode(), both.body());
+    }
+
     @Test
     void errorsAreJsonWithAMessageAndLeaveDataAlone() throws Exception {
         upload("pool=kept&classes=yes,no&wait=true", "a\n1\n");

@@ -103,20 +103,22 @@ class EdgeFuzzTest {
     }
 
     // ---- the bench: random seeds, as many tries as asked ---------------------------------------
+    // No edge cases: jqwik combines the edge cases of every part of an input, which for these nested
+    // generators outgrew a 2 GiB heap before the first try (seen in the bench run of 2026-12-03).
 
-    @Property
+    @Property(edgeCases = EdgeCasesMode.NONE)
     @Tag("bench")
     void importsNeverFailOrWriteHalfAtLength(@ForAll("uploads") FuzzInputs.Upload u) {
         checkImport(u);
     }
 
-    @Property
+    @Property(edgeCases = EdgeCasesMode.NONE)
     @Tag("bench")
     void previewsNeverFailAtLength(@ForAll("heads") FuzzInputs.Upload u) {
         checkPreview(u);
     }
 
-    @Property
+    @Property(edgeCases = EdgeCasesMode.NONE)
     @Tag("bench")
     void jsonBodiesNeverFailOrWriteHalfAtLength(@ForAll("calls") FuzzInputs.Call c) {
         checkCall(c);

@@ -297,13 +297,16 @@ final class FuzzInputs {
                 : Arbitraries.frequencyOf(Tuple.of(9, Arbitraries.of("&classes=ok,fault", "&classes=a,b,c")),
                         Tuple.of(1, Arbitraries.just("&label=label")));
         Arbitrary<String> subset = Arbitraries.subsetOf(columns).map(sub -> String.join(",", sub));
+        // A table may hold nothing but its label column: then a column to name is one it lacks.
+        Arbitrary<String> column = columns.isEmpty() ? Arbitraries.just("nope") : Arbitraries.of(columns);
         Arbitrary<String> roles = Arbitraries.frequencyOf(Tuple.of(6, Arbitraries.just("")),
                 Tuple.of(1, subset.map(f -> "&features=" + enc(f))),
                 Tuple.of(1, subset.map(f -> "&display=" + enc(f))),
-                Tuple.of(1, Arbitraries.of(columns).map(c -> "&features=" + enc(c) + "&categorical=" + enc(c))),
-                Tuple.of(1, Arbitraries.of(columns).map(c -> "&id=" + enc(c))));
+                Tuple.of(1, column.map(c -> "&features=" + enc(c) + "&categorical=" + enc(c))),
+                Tuple.of(1, column.map(c -> "&id=" + enc(c))));
         Arbitrary<String> limits = Arbitraries.frequencyOf(Tuple.of(9, Arbitraries.just("")),
-                Tuple.of(1, Arbitraries.of("&max_levels=2", "&max_levels=3", "&max_field_chars=16", "&max_field_chars=20")));
+                Tuple.of(1, Arbitraries.of("&max_levels=2", "&max_levels=3", "&max_field_chars=16", "&max_field_chars=20",
+                        "&missing=", "&missing=NA,%3F", "&missing=ok", "&missing=%2C%2C")));
         return Combinators.combine(pool, labelPart, roles, limits).as((p, l, r, lim) -> "pool=" + p + l + r + lim);
     }
 
