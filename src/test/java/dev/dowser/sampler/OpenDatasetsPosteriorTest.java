@@ -8,13 +8,11 @@ import dev.dowser.data.ImportProgress;
 import dev.dowser.data.Importer;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.stats.Metrics;
-import dev.dowser.stats.Splits;
 import dev.dowser.store.Database;
 import java.io.IOException;
 import java.io.InputStream;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import dev.dowser.stats.SeedTree;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -35,14 +33,8 @@ class OpenDatasetsPosteriorTest {
                 new Importer(db).run(in, name, TestSupport.csv(name).withLabel("label"), ImportProgress.NONE);
             }
             LabelledSet all = LabelledSet.of(db, name, FeatureMatrix.load(db, name));
-            int classes = all.classes().size();
-            Splits.Split split = Splits.stratified(all.labels(), classes, 0.3, 1);
-            LabelledSet train = all.subset(split.train());
-            LabelledSet test = all.subset(split.test());
-            RoundDraws s = new PosteriorSampler(SamplerConfig.defaults()).sample(train.x(), train.labels(), classes,
-                    null, new float[0], SeedTree.of(1));
-            float[] p = Predictive.meanProbabilities(s.layout(), s.draws(), test.x(), test.rows());
-            return Metrics.accuracy(p, test.labels(), classes);
+            PointEstimateTest.Fitted fit = PointEstimateTest.Fitted.of(all);
+            return Metrics.accuracy(fit.predictive(), fit.test().labels(), all.classes().size());
         }
     }
 

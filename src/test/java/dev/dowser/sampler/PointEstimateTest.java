@@ -53,17 +53,30 @@ class PointEstimateTest {
         }
     }
 
+    /** The default sampler on a stratified 70/30 split (seed 1) of every labelled row: its draws and the split. */
+    record Fitted(LabelledSet train, LabelledSet test, RoundDraws draws) {
+
+        static Fitted of(LabelledSet all) {
+            Splits.Split split = Splits.stratified(all.labels(), all.classes().size(), 0.3, 1);
+            LabelledSet train = all.subset(split.train());
+            LabelledSet test = all.subset(split.test());
+            return new Fitted(train, test, new PosteriorSampler(SamplerConfig.defaults()).sample(train.x(),
+                    train.labels(), all.classes().size(), null, new float[0], SeedTree.of(1)));
+        }
+
+        /** The posterior predictive's probabilities on the test rows. */
+        float[] predictive() {
+            return Predictive.meanProbabilities(draws.layout(), draws.draws(), test.x(), test.rows());
+        }
+    }
+
     private Figures figures(String name) {
-        LabelledSet all = TestSupport.labelledOpenDataset(name, dir);
-        int classes = all.classes().size();
-        Splits.Split split = Splits.stratified(all.labels(), classes, 0.3, 1);
-        LabelledSet train = all.subset(split.train());
-        LabelledSet test = all.subset(split.test());
-        RoundDraws s = new PosteriorSampler(SamplerConfig.defaults()).sample(train.x(), train.labels(), classes,
-                null, new float[0], SeedTree.of(1));
-        float[] bayes = Predictive.meanProbabilities(s.layout(), s.draws(), test.x(), test.rows());
-        float[] point = Predictive.meanProbabilities(s.layout(), List.of(adamEarlyStopped(s.layout(), train, 1)),
-                test.x(), test.rows());
+        Fitted fit = Fitted.of(TestSupport.labelledOpenDataset(name, dir));
+        LabelledSet test = fit.test();
+        int classes = fit.draws().layout().architecture().classes();
+        float[] bayes = fit.predictive();
+        float[] point = Predictive.meanProbabilities(fit.draws().layout(),
+                List.of(adamEarlyStopped(fit.draws().layout(), fit.train(), 1)), test.x(), test.rows());
         Figures f = new Figures(name, test.rows(), Metrics.accuracy(bayes, test.labels(), classes),
                 Metrics.nll(bayes, test.labels(), classes), Metrics.accuracy(point, test.labels(), classes),
                 Metrics.nll(point, test.labels(), classes));
