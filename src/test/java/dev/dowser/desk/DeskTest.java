@@ -77,6 +77,7 @@ class DeskTest {
                     failing.next("g", "ana", false).message());
             assertEquals(why + "; once the cause is fixed, press Start a round now on the pool's overview",
                     failing.next("g", "lead", true).message());
+            assertEquals(1, db.rounds().list(pool).size(), "asking again started the failing round again");
         }
     }
 }
