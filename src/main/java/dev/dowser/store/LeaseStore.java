@@ -141,26 +141,17 @@ public final class LeaseStore {
     }
 
     /**
-     * Leases the record at {@code row} to {@code person} if the served queue holds it and nobody
-     * else does: after taking back a label, the record comes back to the one who gave it.
+     * Leases the record at {@code row} to {@code person} if the served queue holds it, nobody else
+     * does, and its place still wants a label from them: after taking back a label, the record comes
+     * back to the one who gave it, unless someone else took it and labelled it in the meantime.
      */
     public void leaseRow(long poolId, long row, String person, Duration lease) {
-        Instant now = clock.instant();
-        sql.connected("lease row " + row, c -> {
-            boolean queued = Sql.first(c, "SELECT 1 FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id"
-                    + " AND s.round_no = q.round_no WHERE q.pool_id = ? AND q.row_no = ?", rs -> 1, poolId, row)
-                    .isPresent();
-            if (queued) {
-                try {
-                    Sql.update(c, TAKE, poolId, row, person, now.plus(lease), now);
-                } catch (SQLException ex) {
-                    if (!UNIQUE_VIOLATION.equals(ex.getSQLState())) {
-                        throw ex;
-                    }
-                }
-            }
-            return null;
-        });
+        // The label was withdrawn in a transaction of its own, so the record may have gone to someone
+        // else and been labelled since: the same check as any lease, or two people label a single place.
+        sql.first("find row " + row + " in the served queue", "SELECT " + QueueStore.COLUMNS
+                + " FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+                + " WHERE q.pool_id = ? AND q.row_no = ?", rs -> QueueStore.entry(rs, null, null), poolId, row)
+                .ifPresent(e -> take(poolId, e, person, lease, true));
     }
 
     /** Gives {@code person}'s lease on a queue place back at once: the record is free for the next person. */

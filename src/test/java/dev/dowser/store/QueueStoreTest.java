@@ -123,6 +123,22 @@ class QueueStoreTest {
     }
 
     @Test
+    void aLabelTakenBackDoesNotBringBackARecordSomeoneElseLabelledMeanwhile() {
+        // Found by DeskUnderLoadTest under load: an undo withdraws the label, then leases the record back
+        // in a second step; in between another person took the record and labelled it, and the lease
+        // given afterwards made two people label a place meant for one.
+        publish(1, 3);
+        QueueEntry ana = lease("ana");
+        db.labels().add(pool, ana.row(), "a", "ana", null);
+        db.labels().withdraw(pool, ana.row(), "ana");
+        QueueEntry ben = lease("ben");
+        assertEquals(ana.row(), ben.row(), "a record whose label was taken back is open again");
+        db.labels().add(pool, ben.row(), "b", "ben", null);
+        db.leases().leaseRow(pool, ana.row(), "ana", LEASE);
+        assertFalse(lease("ana").row() == ana.row(), "ana was given back a record ben had labelled");
+    }
+
+    @Test
     void aNewRoundKeepsLiveLeasesAndQueuesNoRecordTwice() {
         publish(1, 5);
         QueueEntry ana = lease("ana");
