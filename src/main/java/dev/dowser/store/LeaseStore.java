@@ -149,7 +149,7 @@ public final class LeaseStore {
         // The label was withdrawn in a transaction of its own, so the record may have gone to someone
         // else and been labelled since: the same check as any lease, or two people label a single place.
         sql.first("find row " + row + " in the served queue", "SELECT " + QueueStore.COLUMNS
-                + " FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+                + " FROM " + QueueStore.SERVED_ENTRIES
                 + " WHERE q.pool_id = ? AND q.row_no = ?", rs -> QueueStore.entry(rs, null, null), poolId, row)
                 .ifPresent(e -> take(poolId, e, person, lease, true));
     }

@@ -34,6 +34,9 @@ public final class QueueStore {
     /** Queue entry q's record has the labels it asked for: enough people gave one, or a reviewer decided. */
     static final String ENOUGH = "((SELECT COUNT(*) " + LIVE_LABELS + ") >= q.copies OR EXISTS (SELECT 1 FROM labels r"
             + " WHERE r.pool_id = q.pool_id AND r.row_no = q.row_no AND r.kind <> 'label'))";
+    /** The served queue's entries, as q (to follow FROM). */
+    static final String SERVED_ENTRIES = "queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id"
+            + " AND s.round_no = q.round_no";
     /** Someone holds queue entry q's record under a lease that runs past the instant bound next. */
     static final String HELD = "EXISTS (SELECT 1 FROM leases h WHERE h.pool_id = q.pool_id AND h.row_no = q.row_no"
             + " AND h.lease_until > ?)";
@@ -166,8 +169,7 @@ public final class QueueStore {
      * places are not counted: when this falls to the low-water mark the next round should start.
      */
     public int openInBatch(long poolId) {
-        return sql.first("count the open records of pool " + poolId, "SELECT COUNT(*) FROM queue_entries q"
-                + " JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+        return sql.first("count the open records of pool " + poolId, "SELECT COUNT(*) FROM " + SERVED_ENTRIES
                 + " WHERE q.pool_id = ? AND NOT q.done AND NOT q.reserve AND NOT " + HELD,
                 rs -> rs.getInt(1), poolId, clock.instant()).orElse(0);
     }
@@ -194,8 +196,7 @@ public final class QueueStore {
     }
 
     private boolean isShort(long poolId, int shortAt) {
-        int places = sql.first("count the batch of pool " + poolId, "SELECT COUNT(*) FROM queue_entries q"
-                + " JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+        int places = sql.first("count the batch of pool " + poolId, "SELECT COUNT(*) FROM " + SERVED_ENTRIES
                 + " WHERE q.pool_id = ? AND NOT q.reserve", rs -> rs.getInt(1), poolId).orElse(0);
         int open = openInBatch(poolId);
         return shortAt >= 0 && (open <= shortAt || 2 * open <= places);
@@ -215,7 +216,7 @@ public final class QueueStore {
         Instant now = clock.instant();
         return sql.list("read the served queue of pool " + poolId, "SELECT " + COLUMNS
                 + ", h.person, h.lease_until, q.done, (SELECT COUNT(*) " + LIVE_LABELS + ")"
-                + " FROM queue_entries q JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+                + " FROM " + SERVED_ENTRIES
                 + " LEFT JOIN leases h ON h.pool_id = q.pool_id AND h.row_no = q.row_no AND h.lease_until > ?"
                 + " WHERE q.pool_id = ? AND (NOT q.reserve OR q.done OR h.person IS NOT NULL"
                 + " OR (SELECT COUNT(*) " + LIVE_LABELS + ") > 0) ORDER BY q.position",
@@ -230,8 +231,7 @@ public final class QueueStore {
 
     /** Reserve places of the served queue that nobody has taken yet. */
     public int reserveLeft(long poolId) {
-        return sql.first("count the reserve of pool " + poolId, "SELECT COUNT(*) FROM queue_entries q"
-                + " JOIN served_queues s ON s.pool_id = q.pool_id AND s.round_no = q.round_no"
+        return sql.first("count the reserve of pool " + poolId, "SELECT COUNT(*) FROM " + SERVED_ENTRIES
                 + " WHERE q.pool_id = ? AND q.reserve AND NOT q.done AND NOT " + HELD
                 + " AND (SELECT COUNT(*) " + LIVE_LABELS + ") = 0", rs -> rs.getInt(1), poolId, clock.instant())
                 .orElse(0);
