@@ -12,6 +12,8 @@ import dev.dowser.team.Accounts;
 import dev.dowser.team.Caller;
 import dev.dowser.team.Role;
 import dev.dowser.team.TeamConfig;
+import dev.dowser.web.WebConfig;
+import dev.dowser.web.WebServer;
 import java.io.ByteArrayInputStream;
 import java.io.IOException;
 import java.io.InputStream;
@@ -53,6 +55,15 @@ public final class TestSupport {
 
     /** Accounts as the server keeps them, with few PBKDF2 iterations so tests that sign in stay quick. */
     public static final TeamConfig FAST_TEAM = TeamConfig.defaults().withIterations(1_000);
+
+    /**
+     * The server most web tests run: a loopback port chosen by the system, the quick sampler, fast
+     * password hashing, and uploads up to {@code maxUploadBytes} spooled under {@code dir}/uploads.
+     */
+    public static WebServer quickServer(Database db, Path dir, long maxUploadBytes) {
+        return WebServer.start(db, new WebConfig("127.0.0.1", 0, maxUploadBytes, dir.resolve("uploads")),
+                quickSampler(), FAST_TEAM);
+    }
     public static final String TEST_PASSWORD = "test-password-1";
 
     /** Adds an account (password {@link #TEST_PASSWORD}) and returns a fresh API token for it. */

@@ -105,8 +105,7 @@ class AccessTest {
     @BeforeEach
     void start() throws Exception {
         db = TestSupport.openDb(dir.resolve("db"));
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
-                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        server = TestSupport.quickServer(db, dir, 1 << 20);
         accounts = new Accounts(db, new SecureRandom(), TestSupport.FAST_TEAM);
         for (Role r : Role.values()) {
             accounts.add(r.word() + "-1", r, TestSupport.TEST_PASSWORD, "test");

@@ -34,8 +34,7 @@ class ApiTest {
     @BeforeEach
     void start() {
         db = TestSupport.openDb(dir.resolve("db"));
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 4_096, dir.resolve("uploads")),
-                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        server = TestSupport.quickServer(db, dir, 4_096);
         admin = TestSupport.tokenFor(db, "ana", Role.ADMIN);
     }
 

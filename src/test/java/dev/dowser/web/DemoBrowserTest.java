@@ -40,8 +40,7 @@ class DemoBrowserTest {
         Accounts accounts = new Accounts(db, new SecureRandom(), TestSupport.FAST_TEAM);
         accounts.add("demo-labeller", Role.LABELLER, TestSupport.TEST_PASSWORD, "demo");
         accounts.add("demo-lead", Role.ADMIN, TestSupport.TEST_PASSWORD, "demo");
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
-                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        server = TestSupport.quickServer(db, dir, 1 << 20);
         server.requestRound(DemoPool.POOL);
         browser = Browser.shared();
     }

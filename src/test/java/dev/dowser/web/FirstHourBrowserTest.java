@@ -88,8 +88,7 @@ class FirstHourBrowserTest {
         assertTrue(m.find(), "the new admin's password is printed once: " + out);
         adminPassword = m.group(1);
         db = TestSupport.openDb(data);
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 200L << 20, dir.resolve("uploads")),
-                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        server = TestSupport.quickServer(db, dir, 200L << 20);
         admin = Browser.shared();
         labeller = new Browser(dir.resolve("profile-labeller"));
     }

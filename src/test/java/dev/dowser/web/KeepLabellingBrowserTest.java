@@ -55,8 +55,7 @@ class KeepLabellingBrowserTest {
     @BeforeEach
     void start() {
         db = TestSupport.openDb(dir.resolve("db"));
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 24, dir.resolve("uploads")),
-                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        server = TestSupport.quickServer(db, dir, 1 << 24);
         lead = TestSupport.tokenFor(db, LEAD, Role.ADMIN);
         person = TestSupport.tokenFor(db, PERSON, Role.LABELLER);
         browser = Browser.shared();

@@ -47,8 +47,7 @@ class LeaseReleaseBrowserTest {
                 .withClasses(List.of("ok", "fault")));
         pool = db.pools().require("gauges").id();
         TestSupport.tokenFor(db, PERSON, Role.LABELLER);
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
-                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        server = TestSupport.quickServer(db, dir, 1 << 20);
         browser = Browser.shared();
     }
 

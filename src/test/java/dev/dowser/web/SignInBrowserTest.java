@@ -35,8 +35,7 @@ class SignInBrowserTest {
     @BeforeEach
     void start() {
         db = TestSupport.openDb(dir.resolve("db"));
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
-                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        server = TestSupport.quickServer(db, dir, 1 << 20);
         TestSupport.tokenFor(db, "lead", Role.ADMIN);
         browser = Browser.shared();
     }

@@ -50,8 +50,7 @@ class TeamBrowserTest {
                 TestSupport.csv("gauges").withId("id").withClasses(List.of("ok", "fault")));
         db.pools().updateSettings(db.pools().require("gauges").id(), new PoolSettings(6, 0, 10,
                 PoolSettings.DEFAULT_STRATEGY, 1.0).toJson(), "test");
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
-                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        server = TestSupport.quickServer(db, dir, 1 << 20);
         tokens.put("lead", TestSupport.tokenFor(db, "lead", Role.ADMIN));
         tokens.put("rey", TestSupport.tokenFor(db, "rey", Role.REVIEWER));
         tokens.put("ana", TestSupport.tokenFor(db, "ana", Role.LABELLER));

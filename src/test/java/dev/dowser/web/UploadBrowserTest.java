@@ -49,8 +49,7 @@ class UploadBrowserTest {
     @BeforeEach
     void start() {
         db = TestSupport.openDb(dir.resolve("db"));
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 200L << 20, dir.resolve("uploads")),
-                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        server = TestSupport.quickServer(db, dir, 200L << 20);
         lead = TestSupport.tokenFor(db, "lead", Role.ADMIN);
         browser = Browser.shared();
     }
@@ -109,8 +108,7 @@ class UploadBrowserTest {
     @Test
     void pastTheLimitThePageAndTheApiSaySoBeforeSending() throws Exception {
         server.close();
-        server = WebServer.start(db, new WebConfig("127.0.0.1", 0, 1 << 20, dir.resolve("uploads")),
-                TestSupport.quickSampler(), TestSupport.FAST_TEAM);
+        server = TestSupport.quickServer(db, dir, 1 << 20);
         Path file = dir.resolve("too-big.csv");
         write(file, 30_000);
         browser.driver.get("http://127.0.0.1:" + server.port() + "/login.html");
