@@ -111,6 +111,15 @@ final class BenchCommand implements Callable<Integer> {
             description = "labels: folder for each dataset's curves and the table (default: ${DEFAULT-VALUE}).")
     Path labelsOut;
 
+    @Option(names = "--budget", paramLabel = "N",
+            description = "labels: labels at which every dataset's runs stop (default: each dataset's own budget).")
+    Integer budget;
+
+    @Option(names = "--cold-start", defaultValue = dev.dowser.rounds.PoolSettings.DEFAULT_COLD_START_WORD,
+            paramLabel = "kmeans++|typiclust", description = "labels: how the first batch is spread over the pool"
+                    + " (default: ${DEFAULT-VALUE}).")
+    String coldStart;
+
     @picocli.CommandLine.Mixin
     SamplerOptions sampler;
 
@@ -171,7 +180,8 @@ final class BenchCommand implements Callable<Integer> {
         }
         if (wants("labels")) {
             LabelsBench.run(out, datasetsDir, datasets, strategies.stream().map(dev.dowser.rounds.Strategy::parse)
-                    .distinct().toList(), seeds, sampler.config(), labelsOut);
+                    .distinct().toList(), seeds, sampler.config(), dev.dowser.rounds.PoolSettings.defaults()
+                    .withColdStart(dev.dowser.acquire.ColdStart.Method.parse(coldStart)), budget, labelsOut);
         }
         if (wants("desk")) {
             Path dir = work != null ? Files.createDirectories(work.resolve("desk")) : Files.createTempDirectory("dowser-desk-");

@@ -30,6 +30,18 @@ public final class LabelSavings {
      * How one dataset is run: the first batch, later batches, the budget and the accuracy targets.
      */
     public record Setup(String dataset, int seedLabels, int batch, int budget, List<Double> targets) {
+
+        public Setup {
+            if (budget < seedLabels) {
+                throw new IllegalArgumentException(dataset + ": the budget (" + budget
+                        + ") must be at least the first batch (" + seedLabels + " labels)");
+            }
+        }
+
+        /** The same setup stopping at {@code labels} labels (a shorter run for a first look). */
+        public Setup withBudget(int labels) {
+            return new Setup(dataset, seedLabels, batch, labels, targets);
+        }
     }
 
     /** Each dataset's setup: budgets that reach the targets, batches that suit the pool's size. */
