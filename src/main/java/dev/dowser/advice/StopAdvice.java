@@ -3,6 +3,7 @@ package dev.dowser.advice;
 import dev.dowser.stats.AccuracyEstimate;
 import dev.dowser.stats.LearningCurve;
 import dev.dowser.stats.StabilisingPredictions;
+import dev.dowser.words.Worded;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
@@ -12,18 +13,25 @@ import java.util.Locale;
  * predictions on the stop set and the learning curve, one headline in plain words (also the
  * desk's line) and a few lines of detail.
  *
- * @param state    {@code start} (no model yet), {@code early} (too little to tell), {@code paying},
- *                 {@code slowing} or {@code settled}
+ * @param state    what the card says, in one word
  * @param headline one sentence
  * @param details  supporting lines, each a sentence
  */
-public record StopAdvice(String state, String headline, List<String> details) {
+public record StopAdvice(State state, String headline, List<String> details) {
 
-    public static final String START = "start";
-    public static final String EARLY = "early";
-    public static final String PAYING = "paying";
-    public static final String SLOWING = "slowing";
-    public static final String SETTLED = "settled";
+    /** What the card says; its word is the API's {@code state} and the page's style for the card. */
+    public enum State implements Worded {
+        /** No model yet. */
+        START,
+        /** Too little to tell. */
+        EARLY,
+        /** Labels are still paying. */
+        PAYING,
+        /** Gains are small, though predictions still shift. */
+        SLOWING,
+        /** Predictions have settled: the stopping rule says stop. */
+        SETTLED
+    }
 
     /** Below this projected gain per 100 labels (in points), labels are said to pay little. */
     public static final double PAYING_POINTS_PER_100 = 1.0;
@@ -66,11 +74,11 @@ public record StopAdvice(String state, String headline, List<String> details) {
             details.add(projections(e.curve(), e.labels()));
         }
         if (e.labels() == 0 || (e.agreements().isEmpty() && !e.accuracy().known())) {
-            return new StopAdvice(START, "No model yet: the first labels teach it. Dowser can tell whether more"
+            return new StopAdvice(State.START, "No model yet: the first labels teach it. Dowser can tell whether more"
                     + " labels pay after a few rounds.", details);
         }
         if (e.rule().stable(e.agreements())) {
-            return new StopAdvice(SETTLED, "Predictions have settled: they barely changed over the last "
+            return new StopAdvice(State.SETTLED, "Predictions have settled: they barely changed over the last "
                     + e.rule().window() + " rounds" + accuracyClause(e.accuracy()) + ". More labels are unlikely to"
                     + " change it much.", details);
         }
@@ -78,18 +86,19 @@ public record StopAdvice(String state, String headline, List<String> details) {
             LearningCurve.Projection gain = e.curve().gain(e.labels(), 100);
             double points = 100 * gain.accuracy();
             if (points >= PAYING_POINTS_PER_100) {
-                return new StopAdvice(PAYING, "Labels are still paying: about +" + points(points)
+                return new StopAdvice(State.PAYING, "Labels are still paying: about +" + points(points)
                         + " points per 100 labels.", details);
             }
-            return new StopAdvice(SLOWING, "Gains are slowing: about +" + points(points) + " points per 100 labels,"
+            return new StopAdvice(State.SLOWING, "Gains are slowing: about +" + points(points) + " points per 100 labels,"
                     + " though predictions still shift between rounds.", details);
         }
         if (e.curve() != null) {
-            return new StopAdvice(SLOWING, "No gain shows in the last rounds' accuracy, though predictions still"
+            return new StopAdvice(State.SLOWING, "No gain shows in the last rounds' accuracy, though predictions still"
                     + " shift between rounds.", details);
         }
-        return new StopAdvice(EARLY, "Too early to tell: " + e.labels() + " labels so far. After a few more rounds"
-                + " Dowser can say whether labels are still paying.", details);
+        // The labels the last round learnt from, not the labels given so far: a desk's count runs ahead of it.
+        return new StopAdvice(State.EARLY, "Too early to tell: the last round learnt from " + e.labels() + " labels."
+                + " After a few more rounds Dowser can say whether labels are still paying.", details);
     }
 
     /** ", accuracy 0.93 (0.90-0.95)", or nothing while accuracy is unmeasured. */

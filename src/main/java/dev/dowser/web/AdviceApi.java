@@ -63,7 +63,7 @@ final class AdviceApi {
         String pool = param(ex, "pool");
         AdviceService.Report r = advice.report(pool);
         StopAdvice card = r.accuracy().advice();
-        ObjectNode body = Json.object().put("state", card.state()).put("headline", card.headline());
+        ObjectNode body = Json.object().put("state", card.state().word()).put("headline", card.headline());
         ArrayNode details = body.putArray("details");
         card.details().forEach(details::add);
         ArrayNode agreement = body.putArray("agreement");

@@ -111,7 +111,7 @@ class AccuracyReportTest {
         assertEquals(0.9, a.picked().accuracy(), 1e-12);
         assertNotNull(a.curve());
         // The card: predictions still shift (0.95 < 0.99); the curve is fitted to the rounds' own estimates.
-        assertTrue(List.of(StopAdvice.PAYING, StopAdvice.SLOWING).contains(a.advice().state()), a.advice().toString());
+        assertTrue(List.of(StopAdvice.State.PAYING, StopAdvice.State.SLOWING).contains(a.advice().state()), a.advice().toString());
     }
 
     @Test
@@ -119,6 +119,6 @@ class AccuracyReportTest {
         AccuracyReport a = AccuracyReport.of(List.of(), List.of(), 0, RULE);
         AccuracyEstimate none = a.best();
         assertFalse(none.known());
-        assertEquals(StopAdvice.START, a.advice().state());
+        assertEquals(StopAdvice.State.START, a.advice().state());
     }
 }

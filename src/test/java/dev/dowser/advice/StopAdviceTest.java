@@ -32,17 +32,24 @@ class StopAdviceTest {
     void atTheStartThereIsNoModel() {
         StopAdvice a = StopAdvice.of(new StopAdvice.Evidence(0, AccuracyEstimate.ofChecks(0, 0), List.of(), RULE,
                 null));
-        assertEquals(StopAdvice.START, a.state());
+        assertEquals(StopAdvice.State.START, a.state());
         assertTrue(a.headline().startsWith("No model yet"), a.headline());
+    }
+
+    @Test
+    void eachStateHasTheWordThePageStylesTheCardBy() {
+        // web/css/dowser.css colours .keep-paying, .keep-slowing and .keep-settled; overview.js adds keep-<word>.
+        assertEquals(List.of("start", "early", "paying", "slowing", "settled"),
+                dev.dowser.words.Worded.words(StopAdvice.State.class));
     }
 
     @Test
     void earlyItSaysItIsTooEarly() {
         StopAdvice a = StopAdvice.of(new StopAdvice.Evidence(30, AccuracyEstimate.ofChecks(2, 3), List.of(0.6), RULE,
                 null));
-        assertEquals(StopAdvice.EARLY, a.state());
-        assertEquals("Too early to tell: 30 labels so far. After a few more rounds Dowser can say whether labels are"
-                + " still paying.", a.headline());
+        assertEquals(StopAdvice.State.EARLY, a.state());
+        assertEquals("Too early to tell: the last round learnt from 30 labels. After a few more rounds Dowser can say"
+                + " whether labels are still paying.", a.headline());
         assertTrue(a.details().get(0).startsWith("Agreement of the last two rounds' predictions: 0.600"),
                 a.details().get(0));
     }
@@ -53,7 +60,7 @@ class StopAdviceTest {
         LearningCurve c = curve(0.95, 1.4, 0.7, 100);
         StopAdvice a = StopAdvice.of(new StopAdvice.Evidence(100, AccuracyEstimate.ofChecks(8, 10),
                 List.of(0.8, 0.9, 0.93), RULE, c));
-        assertEquals(StopAdvice.PAYING, a.state());
+        assertEquals(StopAdvice.State.PAYING, a.state());
         assertEquals("Labels are still paying: about +2 points per 100 labels.", a.headline());
         assertTrue(a.details().get(1).startsWith("Projected accuracy from the learning curve: 0."), a.details().get(1));
         assertTrue(a.details().get(1).endsWith("after 1,000 more labels."), a.details().get(1));
@@ -64,7 +71,7 @@ class StopAdviceTest {
         LearningCurve c = curve(0.95, 2, 0.7, 400);
         AccuracyEstimate acc = new AccuracyEstimate(0.93, 0.90, 0.95, 300, 250);
         StopAdvice a = StopAdvice.of(new StopAdvice.Evidence(400, acc, List.of(0.98, 0.99, 0.995, 0.992), RULE, c));
-        assertEquals(StopAdvice.SETTLED, a.state());
+        assertEquals(StopAdvice.State.SETTLED, a.state());
         assertEquals("Predictions have settled: they barely changed over the last 3 rounds; accuracy 0.93"
                 + " (0.90-0.95). More labels are unlikely to change it much.", a.headline());
     }
@@ -74,7 +81,7 @@ class StopAdviceTest {
         LearningCurve c = curve(0.95, 2, 0.7, 1000);
         StopAdvice a = StopAdvice.of(new StopAdvice.Evidence(1000, AccuracyEstimate.ofChecks(80, 90),
                 List.of(0.95, 0.96, 0.97), RULE, c));
-        assertEquals(StopAdvice.SLOWING, a.state());
+        assertEquals(StopAdvice.State.SLOWING, a.state());
         assertTrue(a.headline().startsWith("Gains are slowing: about +0."), a.headline());
     }
 }

@@ -71,7 +71,7 @@ class AdviceServiceTest {
             db.pools().updateSettings(pool.id(), PoolSettings.defaults().withStrategy(Strategy.POWER).toJson(), "test");
             RoundService rounds = new RoundService(db, TestSupport.quickSampler(), scorer);
             AdviceService advice = new AdviceService(db);
-            assertEquals(StopAdvice.START, advice.report("iris").accuracy().advice().state());
+            assertEquals(StopAdvice.State.START, advice.report("iris").accuracy().advice().state());
             for (int r = 0; r < 5; r++) {
                 assertTrue(rounds.run("iris").published());
                 labelServedQueue(db, pool);
@@ -125,7 +125,7 @@ class AdviceServiceTest {
             assertEquals(5, fifth.round());
             assertEquals(Math.max(0, Math.min(1, 1 - risk)), fifth.accuracy().accuracy(), 1e-9);
             assertNull(a.curve(), "4 rounds are too few for a learning curve");
-            assertEquals(StopAdvice.EARLY, a.advice().state());
+            assertEquals(StopAdvice.State.EARLY, a.advice().state());
         }
     }
 

@@ -6,6 +6,8 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.TestSupport;
 import dev.dowser.json.Json;
+import dev.dowser.rounds.PoolSettings;
+import dev.dowser.rounds.Strategy;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.QueueEntry;
@@ -55,10 +57,14 @@ class KeepLabellingBrowserTest {
     @BeforeEach
     void start() {
         db = TestSupport.openDb(dir.resolve("db"));
-        server = TestSupport.quickServer(db, dir, 1 << 24);
         lead = TestSupport.tokenFor(db, LEAD, Role.ADMIN);
         person = TestSupport.tokenFor(db, PERSON, Role.LABELLER);
         browser = Browser.shared();
+    }
+
+    /** Starts the server once the test has put its pools in the store as it wants them found. */
+    private void serve() {
+        server = TestSupport.quickServer(db, dir, 1 << 24);
     }
 
     @AfterEach
@@ -66,7 +72,9 @@ class KeepLabellingBrowserTest {
         if (browser != null) {
             browser.close();
         }
-        server.close();
+        if (server != null) {
+            server.close();
+        }
         db.close();
     }
 
@@ -136,9 +144,14 @@ class KeepLabellingBrowserTest {
         TestSupport.importIrisWithoutLabels(db, dir);
         // Rounds come when the test asks, not by themselves: a batch larger than what is labelled
         // here never runs low, so each round learns from a known number of labels however fast the
-        // machine is.
-        call(lead, "PUT", "pools/iris/settings", "{\"strategy\":\"power\",\"double_label_share\":0,"
-                + "\"batch_size\":100}");
+        // machine is. The settings are in place before the server starts watching the pool, so not
+        // even its first batch is drawn with the defaults.
+        PoolRow iris = db.pools().require("iris");
+        db.pools().updateSettings(iris.id(), new PoolSettings(100, PoolSettings.DEFAULT_SPOT_CHECK_SHARE,
+                PoolSettings.DEFAULT_LEASE_MINUTES, Strategy.POWER, 0).toJson(), LEAD);
+        serve();
+        JsonNode settings = call(lead, "GET", "pools/iris/settings", null);
+        assertEquals(100, settings.get("batch_size").asInt(), settings.toString());
         signIn(LEAD);
         String start = card("iris", "the card before any label", h -> h.startsWith("No model yet"));
         assertEquals("No model yet: the first labels teach it. Dowser can tell whether more labels pay after a few"
@@ -151,8 +164,9 @@ class KeepLabellingBrowserTest {
             roundAt(labels);
         }
         String early = card("iris", "the card after 30 labels", h -> h.startsWith("Too early"));
-        assertEquals("Too early to tell: 30 labels so far. After a few more rounds Dowser can say whether labels are"
-                + " still paying.", early);
+        assertEquals("Too early to tell: the last round learnt from 30 labels. After a few more rounds Dowser can say"
+                + " whether labels are still paying.", early);
+        assertEquals("early", call(lead, "GET", "pools/iris/advice", null).get("state").asText());
         String facts = browser.byId("accuracy-facts").getText();
         assertTrue(facts.contains("From every picked record, weighted by how likely it was to be picked:"), facts);
         assertTrue(facts.contains("From spot checks (drawn at random):"), facts);
@@ -166,8 +180,10 @@ class KeepLabellingBrowserTest {
         assertEquals(List.of(10, 20), learnt, accuracy.toString());
         // The desk says the same in one line.
         browser.driver.get(base() + "desk.html?pool=iris");
-        browser.await(d -> browser.byId("keep-line").getText().startsWith("Too early to tell: 30 labels"),
-                "the desk's line");
+        // The line names the labels of the last round, so it cannot be read as a count that lags the
+        // progress line's labels of this session beside it.
+        browser.await(d -> browser.byId("keep-line").getText().startsWith(
+                "Too early to tell: the last round learnt from 30 labels."), "the desk's line");
         browser.screenshot("keep-3-desk");
     }
 
@@ -177,6 +193,7 @@ class KeepLabellingBrowserTest {
         // labels the curve gains 100 * 2.5 (240^-0.6 - 340^-0.6) = 1.8 points.
         String good = "{\"rhatMax\":1.08,\"essBulkMin\":30,\"essTailMin\":24,\"divergences\":0}";
         history("midway", 12, n -> 0.98 - 2.5 * Math.pow(n, -0.6), r -> 0.6 + 0.03 * r, good);
+        serve();
         signIn(LEAD);
         String midway = card("midway", "the card midway", h -> h.startsWith("Labels are still paying"));
         assertTrue(midway.matches("Labels are still paying: about \\+[0-9.]+ points per 100 labels\\."), midway);
