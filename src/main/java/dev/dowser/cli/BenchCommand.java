@@ -63,10 +63,10 @@ import picocli.CommandLine.Spec;
                 + " records sampled and scored per round) with"
                 + " paired seeds: labels to each target, random's labels over the strategy's with 90%% bootstrap"
                 + " intervals, area-under-the-curve gains; curves and a table (labels.md) in --labels-out. Hours.",
-            "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: files to import,"
-                + " heads of files to preview, every JSON body; jqwik properties of the test sources, run through"
-                + " Maven (a source folder is needed). Counts per status; any 500, partial write or Java message"
-                + " in a refusal fails it. About half an hour on 2 quiet cores."})
+            "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: every JSON body and"
+                + " heads of files to preview (two fifths each), files to import (a fifth, last); jqwik properties"
+                + " of the test sources, run through Maven (a source folder is needed). Counts per status; any 500,"
+                + " partial write or Java message in a refusal fails it. About half an hour on 2 quiet cores."})
 final class BenchCommand implements Callable<Integer> {
 
     @Spec
