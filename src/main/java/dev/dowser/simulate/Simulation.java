@@ -2,12 +2,12 @@ package dev.dowser.simulate;
 
 import dev.dowser.acquire.PoolScorer;
 import dev.dowser.advice.AccuracyReport;
+import dev.dowser.blas.RowMajor;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.RoundService;
 import dev.dowser.rounds.RoundStep;
 import dev.dowser.rounds.Settling;
 import dev.dowser.rounds.Strategy;
-import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.sampler.Predictive;
 import dev.dowser.sampler.RoundDraws;
@@ -204,7 +204,7 @@ public final class Simulation {
             long[] stop = StabilisingPredictions.stopSet(pool.rows(), StabilisingPredictions.STOP_SET_RECORDS,
                     seeds.child(RoundService.STOP_SET).rng());
             int[] at = Arrays.stream(stop).mapToInt(r -> (int) r).toArray();
-            this.stopSet = Settling.StopSet.fresh(new RoundStep.Rows(FeatureMatrix.gather(pool.x(), pool.cols(), at),
+            this.stopSet = Settling.StopSet.fresh(new RoundStep.Rows(RowMajor.gather(pool.x(), pool.cols(), at),
                     stop, pool.cols()));
         }
 
@@ -227,7 +227,7 @@ public final class Simulation {
                     candidates[c++] = i;
                 }
             }
-            RoundStep.Rows cand = new RoundStep.Rows(FeatureMatrix.gather(pool.x(), pool.cols(), candidates),
+            RoundStep.Rows cand = new RoundStep.Rows(RowMajor.gather(pool.x(), pool.cols(), candidates),
                     Arrays.stream(candidates).asLongStream().toArray(), pool.cols());
             RoundStep.Rows none = new RoundStep.Rows(new float[0], new long[0], pool.cols());
             RoundStep.Input in = new RoundStep.Input(pool.subset(known), cand, none, chains, stopSet,
