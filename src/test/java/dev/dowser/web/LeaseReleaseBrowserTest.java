@@ -3,18 +3,13 @@ package dev.dowser.web;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import dev.dowser.TestSupport;
-import dev.dowser.store.Database;
 import dev.dowser.store.QueueStore;
 import dev.dowser.team.Role;
-import java.nio.file.Path;
 import java.time.Duration;
 import java.util.List;
 import java.util.Optional;
-import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
-import org.junit.jupiter.api.io.TempDir;
-import org.openqa.selenium.By;
 import org.openqa.selenium.Keys;
 import org.openqa.selenium.WebElement;
 import org.openqa.selenium.interactions.Actions;
@@ -25,15 +20,10 @@ import org.openqa.selenium.interactions.Actions;
  * when an undo brings back an earlier record in place of the one shown. Headless Chromium against
  * the real server and H2 file database; the leases are read from the store.
  */
-class LeaseReleaseBrowserTest {
+class LeaseReleaseBrowserTest extends BrowserFixture {
 
     static final String PERSON = "lee";
 
-    @TempDir
-    Path dir;
-    Database db;
-    WebServer server;
-    Browser browser;
     long pool;
 
     @BeforeEach
@@ -49,17 +39,6 @@ class LeaseReleaseBrowserTest {
         TestSupport.tokenFor(db, PERSON, Role.LABELLER);
         server = TestSupport.quickServer(db, dir, 1 << 20);
         browser = Browser.shared();
-    }
-
-    @AfterEach
-    void stop() {
-        browser.close();
-        server.close();
-        db.close();
-    }
-
-    private String base() {
-        return "http://127.0.0.1:" + server.port() + "/";
     }
 
     private String cardId() {
@@ -85,12 +64,7 @@ class LeaseReleaseBrowserTest {
     void aRecordLeavingTheDeskWithoutALabelIsFreeAtOnce() {
         TestSupport.await(Duration.ofSeconds(60), () -> db.queues().servedRound(pool).isPresent(),
                 "the first batch, served without anyone asking");
-        browser.driver.get(base() + "login.html");
-        WebElement form = browser.await(d -> browser.byId("sign-in").isDisplayed() ? browser.byId("sign-in") : null,
-                "the sign-in form");
-        form.findElement(By.name("account")).sendKeys(PERSON);
-        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
-        browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signing in");
+        signIn(PERSON);
 
         // The tab leaves the desk: the record shown is free again at once.
         browser.driver.get(base() + "desk.html?pool=gauges");
