@@ -59,13 +59,14 @@ import picocli.CommandLine.Spec;
                 + " prints the counts acknowledged and lost, and the desk's empty answers across the kills (the pool"
                 + " holds more records than the campaign writes).",
             "labels (only when named): the label-savings benchmark, simulate on digits, breast cancer, wine, iris,"
-                + " the demo's pumps and Fashion-MNIST (pool 60,000, test 10,000, 50 principal components) with"
+                + " the demo's pumps and Fashion-MNIST (pool 60,000, test 10,000, 50 principal components, 10,000"
+                + " records sampled and scored per round) with"
                 + " paired seeds: labels to each target, random's labels over the strategy's with 90%% bootstrap"
                 + " intervals, area-under-the-curve gains; curves and a table (labels.md) in --labels-out. Hours.",
-            "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: files to import,"
-                + " heads of files to preview, every JSON body; jqwik properties of the test sources, run through"
-                + " Maven (a source folder is needed). Counts per status; any 500, partial write or Java message"
-                + " in a refusal fails it. About half an hour on 2 quiet cores."})
+            "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: every JSON body and"
+                + " heads of files to preview (two fifths each), files to import (a fifth, last); jqwik properties"
+                + " of the test sources, run through Maven (a source folder is needed). Counts per status; any 500,"
+                + " partial write or Java message in a refusal fails it. About half an hour on 2 quiet cores."})
 final class BenchCommand implements Callable<Integer> {
 
     @Spec
@@ -110,6 +111,21 @@ final class BenchCommand implements Callable<Integer> {
     @Option(names = "--labels-out", defaultValue = "target/bench-labels", paramLabel = "DIR",
             description = "labels: folder for each dataset's curves and the table (default: ${DEFAULT-VALUE}).")
     Path labelsOut;
+
+    @Option(names = "--budget", paramLabel = "N",
+            description = "labels: labels at which every dataset's runs stop (default: each dataset's own budget).")
+    Integer budget;
+
+    @Option(names = "--candidates", paramLabel = "N",
+            description = "labels: records scored per round, drawn uniformly from the unlabelled ones afresh each round;"
+                    + " 0 scores every record, as the server does (default: each dataset's plan: "
+                    + dev.dowser.simulate.LabelSavings.FASHION_CANDIDATES + " on fashion-mnist, every record elsewhere).")
+    Integer candidates;
+
+    @Option(names = "--cold-start", defaultValue = dev.dowser.rounds.PoolSettings.DEFAULT_COLD_START_WORD,
+            paramLabel = "kmeans++|typiclust", description = "labels: how the first batch is spread over the pool"
+                    + " (default: ${DEFAULT-VALUE}).")
+    String coldStart;
 
     @picocli.CommandLine.Mixin
     SamplerOptions sampler;
@@ -171,7 +187,9 @@ final class BenchCommand implements Callable<Integer> {
         }
         if (wants("labels")) {
             LabelsBench.run(out, datasetsDir, datasets, strategies.stream().map(dev.dowser.rounds.Strategy::parse)
-                    .distinct().toList(), seeds, sampler.config(), labelsOut);
+                    .distinct().toList(), seeds, sampler.config(), dev.dowser.rounds.PoolSettings.defaults()
+                    .withColdStart(dev.dowser.acquire.ColdStart.Method.parse(coldStart)), budget, candidates,
+                    labelsOut);
         }
         if (wants("desk")) {
             Path dir = work != null ? Files.createDirectories(work.resolve("desk")) : Files.createTempDirectory("dowser-desk-");

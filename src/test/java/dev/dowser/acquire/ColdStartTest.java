@@ -3,6 +3,9 @@ package dev.dowser.acquire;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.dowser.TestSupport;
+import java.io.IOException;
+import java.nio.file.Files;
 import java.util.Arrays;
 import java.util.HashSet;
 import java.util.Set;
@@ -60,6 +63,73 @@ class ColdStartTest {
         // The D^2 weighting favours the outliers: a uniform pick would take 60 x 4 / 604 = 0.4 of them
         // in 20 batches of 3; k-means++ takes at least ten times that.
         assertTrue(outliersByKmeansPlusPlus >= 4, "k-means++ picked " + outliersByKmeansPlusPlus + " outliers");
+    }
+
+    /** Fisher's iris (1936) as Debian's python3-sklearn ships it: 150 rows of 4 measurements in cm, species 0-2. */
+    private static float[] iris(int[] species) throws IOException {
+        var lines = Files.readAllLines(TestSupport.datasetsDir().resolve("iris.csv"));
+        float[] x = new float[150 * 4];
+        for (int i = 0; i < 150; i++) {
+            String[] f = lines.get(i + 1).split(",");
+            for (int j = 0; j < 4; j++) {
+                x[i * 4 + j] = Float.parseFloat(f[j]);
+            }
+            species[i] = Integer.parseInt(f[4]);
+        }
+        return x;
+    }
+
+    /**
+     * On iris, k-means with k = 3 is a textbook case: its best partition has a within-cluster sum of
+     * squares of 78.85 (cm^2; the value scikit-learn's k-means reports on the raw measurements, from
+     * memory), puts the 50 setosa alone in one cluster (setosa is linearly separable from the others,
+     * Fisher 1936), and splits versicolor from virginica with a few errors: a cluster of about 62
+     * (mostly versicolor) and one of about 38 (mostly virginica). TypiClust with a batch of 3 should
+     * therefore take one flower of each species, the largest cluster's first, on every seed.
+     */
+    @Test
+    void onIrisTypiClustTakesOneFlowerOfEachSpeciesLargestClusterFirst() throws IOException {
+        int[] species = new int[150];
+        float[] x = iris(species);
+        for (int seed = 0; seed < 10; seed++) {
+            int[] cluster = KMeans.cluster(x, 150, 4, 3, new SplittableRandom(seed));
+            double inertia = 0;
+            int[][] members = KMeans.members(cluster, 3);
+            for (int[] m : members) {
+                inertia += withinSumOfSquares(x, m);
+            }
+            assertEquals(78.85, inertia, 0.01, "seed " + seed + ": k-means' sum of squares on iris");
+            Set<Integer> setosaClusters = new HashSet<>();
+            for (int r = 0; r < 150; r++) {
+                if (species[r] == 0) {
+                    setosaClusters.add(cluster[r]);
+                }
+            }
+            assertEquals(1, setosaClusters.size(), "setosa split over clusters " + setosaClusters);
+            int setosaCluster = setosaClusters.iterator().next();
+            assertEquals(50, members[setosaCluster].length, "setosa's cluster holds only setosa");
+
+            int[] picked = ColdStart.typiClust(x, 150, 4, 3, new SplittableRandom(seed));
+            int[] kinds = Arrays.stream(picked).map(r -> species[r]).toArray();
+            assertEquals(Set.of(0, 1, 2), Arrays.stream(kinds).boxed().collect(java.util.stream.Collectors.toSet()),
+                    "seed " + seed + ": species of the first batch " + Arrays.toString(kinds));
+            assertEquals(1, kinds[0], "seed " + seed + ": the largest cluster (mostly versicolor) comes first");
+        }
+    }
+
+    private static double withinSumOfSquares(float[] x, int[] rows) {
+        double s = 0;
+        for (int j = 0; j < 4; j++) {
+            double mean = 0;
+            for (int r : rows) {
+                mean += x[r * 4 + j];
+            }
+            mean /= rows.length;
+            for (int r : rows) {
+                s += (x[r * 4 + j] - mean) * (x[r * 4 + j] - mean);
+            }
+        }
+        return s;
     }
 
     @Test

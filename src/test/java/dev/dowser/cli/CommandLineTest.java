@@ -96,6 +96,24 @@ class CommandLineTest {
         assertTrue(exported.err().contains("metadata=" + dir.resolve("out.csv.meta.json")), exported.err());
     }
 
+    /** A first look at the label savings: one dataset, a short budget, a cold start named on the command line. */
+    @Test
+    void theLabelsBenchTakesABudgetAndAColdStart() throws Exception {
+        String datasets = dev.dowser.TestSupport.datasetsDir().toString();
+        Path out = dir.resolve("labels");
+        Run r = run("bench", "--only", "labels", "--datasets", "iris", "--datasets-dir", datasets, "--labels-out",
+                out.toString(), "--seeds", "2", "--budget", "12", "--cold-start", "typiclust", "--strategies", "power",
+                "--burn-in", "50", "--reburn-in", "20", "--draws", "8", "--chains", "2");
+        assertEquals(0, r.exit(), r.err());
+        List<String> curve = Files.readAllLines(out.resolve("iris").resolve("curves.csv"));
+        assertTrue(curve.stream().anyMatch(l -> l.contains(",12,")), "no point at 12 labels: " + curve);
+        assertTrue(curve.stream().noneMatch(l -> l.contains(",18,")), "ran past the budget: " + curve);
+        Run tooSmall = run("bench", "--only", "labels", "--datasets", "iris", "--datasets-dir", datasets,
+                "--labels-out", out.toString(), "--budget", "3");
+        assertEquals(2, tooSmall.exit());
+        assertEquals("dowser: iris: the budget (3) must be at least the first batch (6 labels)", tooSmall.err().strip());
+    }
+
     @Test
     void badInputIsOneSentenceAndExitCode2() throws Exception {
         Path csv = dir.resolve("bad.csv");
