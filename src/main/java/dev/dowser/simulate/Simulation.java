@@ -16,6 +16,7 @@ import dev.dowser.sampler.State;
 import dev.dowser.sampler.StopSignal;
 import dev.dowser.stats.AccuracyEstimate;
 import dev.dowser.stats.Metrics;
+import dev.dowser.stats.RandomVariates;
 import dev.dowser.stats.SeedTree;
 import dev.dowser.stats.StabilisingPredictions;
 import dev.dowser.stats.Splits;
@@ -286,14 +287,7 @@ public final class Simulation {
 
         /** {@code k} of the rows, uniformly without replacement (a partial Fisher-Yates shuffle), in pool order. */
         static int[] sample(int[] rows, int k, SplittableRandom rng) {
-            int[] a = rows.clone();
-            for (int i = 0; i < k; i++) {
-                int j = i + rng.nextInt(a.length - i);
-                int t = a[i];
-                a[i] = a[j];
-                a[j] = t;
-            }
-            int[] out = Arrays.copyOf(a, k);
+            int[] out = RandomVariates.sample(rows, k, rng);
             Arrays.sort(out);
             return out;
         }
