@@ -8,19 +8,14 @@ import dev.dowser.TestSupport;
 import dev.dowser.store.Database;
 import dev.dowser.store.LabelStore;
 import dev.dowser.team.Role;
-import java.nio.file.Path;
 import java.sql.Connection;
 import java.sql.DriverManager;
 import java.sql.PreparedStatement;
 import java.sql.SQLException;
 import java.time.Duration;
 import java.util.List;
-import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
-import org.junit.jupiter.api.io.TempDir;
-import org.openqa.selenium.By;
-import org.openqa.selenium.Keys;
 import org.openqa.selenium.WebElement;
 import org.openqa.selenium.interactions.Actions;
 
@@ -31,15 +26,10 @@ import org.openqa.selenium.interactions.Actions;
  * test holds a row lock in the real H2 file database, through a connection of its own, until the
  * server has answered busy once. Headless Chromium against the real server.
  */
-class BusyDeskBrowserTest {
+class BusyDeskBrowserTest extends BrowserFixture {
 
     static final String PERSON = "lee";
 
-    @TempDir
-    Path dir;
-    Database db;
-    WebServer server;
-    Browser browser;
     long pool;
 
     @BeforeEach
@@ -57,13 +47,6 @@ class BusyDeskBrowserTest {
         browser = Browser.shared();
     }
 
-    @AfterEach
-    void stop() {
-        browser.close();
-        server.close();
-        db.close();
-    }
-
     private String cardId() {
         WebElement card = browser.byId("card");
         return card.isDisplayed() ? browser.byId("card-id").getText() : "";
@@ -73,14 +56,8 @@ class BusyDeskBrowserTest {
     void aLabelAnsweredBusyIsSentAgainAndGoesThrough() throws Exception {
         TestSupport.await(Duration.ofSeconds(60), () -> db.queues().servedRound(pool).isPresent(),
                 "the first batch, served without anyone asking");
-        String base = "http://127.0.0.1:" + server.port() + "/";
-        browser.driver.get(base + "login.html");
-        WebElement form = browser.await(d -> browser.byId("sign-in").isDisplayed() ? browser.byId("sign-in") : null,
-                "the sign-in form");
-        form.findElement(By.name("account")).sendKeys(PERSON);
-        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
-        browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signing in");
-        browser.driver.get(base + "desk.html?pool=gauges");
+        signIn(PERSON);
+        browser.driver.get(base() + "desk.html?pool=gauges");
         String first = browser.await(d -> cardId().isEmpty() ? null : cardId(), "a record on the desk");
         long row = Long.parseLong(first.substring(1));
 
