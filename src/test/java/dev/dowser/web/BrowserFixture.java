@@ -2,7 +2,9 @@ package dev.dowser.web;
 
 import dev.dowser.TestSupport;
 import dev.dowser.store.Database;
+import dev.dowser.team.Role;
 import java.nio.file.Path;
+import java.util.List;
 import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.io.TempDir;
 import org.openqa.selenium.By;
@@ -33,6 +35,30 @@ abstract class BrowserFixture {
         if (db != null) {
             db.close();
         }
+    }
+
+    /**
+     * Pool "gauges" (200 readings r0 to r199, classes ok and fault) with {@code labeller} on the team,
+     * then the server and the shared browser; returns the pool's id.
+     */
+    long openGauges(String labeller) {
+        db = TestSupport.openDb(dir.resolve("db"));
+        StringBuilder csv = new StringBuilder("id,reading\n");
+        for (int i = 0; i < 200; i++) {
+            csv.append('r').append(i).append(',').append(i % 17).append('\n');
+        }
+        TestSupport.importText(db, "gauges", csv.toString(), TestSupport.csv("gauges").withId("id")
+                .withClasses(List.of("ok", "fault")));
+        TestSupport.tokenFor(db, labeller, Role.LABELLER);
+        server = TestSupport.quickServer(db, dir, 1 << 20);
+        browser = Browser.shared();
+        return db.pools().require("gauges").id();
+    }
+
+    /** The id on the desk's card, or "" while none shows. */
+    String cardId() {
+        WebElement card = browser.byId("card");
+        return card.isDisplayed() ? browser.byId("card-id").getText() : "";
     }
 
     /** The server's address, with its closing slash. */

@@ -7,7 +7,6 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import dev.dowser.TestSupport;
 import dev.dowser.store.Database;
 import dev.dowser.store.LabelStore;
-import dev.dowser.team.Role;
 import java.sql.Connection;
 import java.sql.DriverManager;
 import java.sql.PreparedStatement;
@@ -34,22 +33,7 @@ class BusyDeskBrowserTest extends BrowserFixture {
 
     @BeforeEach
     void start() {
-        db = TestSupport.openDb(dir.resolve("db"));
-        StringBuilder csv = new StringBuilder("id,reading\n");
-        for (int i = 0; i < 200; i++) {
-            csv.append('r').append(i).append(',').append(i % 17).append('\n');
-        }
-        TestSupport.importText(db, "gauges", csv.toString(), TestSupport.csv("gauges").withId("id")
-                .withClasses(List.of("ok", "fault")));
-        pool = db.pools().require("gauges").id();
-        TestSupport.tokenFor(db, PERSON, Role.LABELLER);
-        server = TestSupport.quickServer(db, dir, 1 << 20);
-        browser = Browser.shared();
-    }
-
-    private String cardId() {
-        WebElement card = browser.byId("card");
-        return card.isDisplayed() ? browser.byId("card-id").getText() : "";
+        pool = openGauges(PERSON);
     }
 
     @Test

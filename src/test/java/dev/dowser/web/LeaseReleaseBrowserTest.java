@@ -4,14 +4,11 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import dev.dowser.TestSupport;
 import dev.dowser.store.QueueStore;
-import dev.dowser.team.Role;
 import java.time.Duration;
-import java.util.List;
 import java.util.Optional;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
 import org.openqa.selenium.Keys;
-import org.openqa.selenium.WebElement;
 import org.openqa.selenium.interactions.Actions;
 
 /**
@@ -28,22 +25,7 @@ class LeaseReleaseBrowserTest extends BrowserFixture {
 
     @BeforeEach
     void start() {
-        db = TestSupport.openDb(dir.resolve("db"));
-        StringBuilder csv = new StringBuilder("id,reading\n");
-        for (int i = 0; i < 200; i++) {
-            csv.append('r').append(i).append(',').append(i % 17).append('\n');
-        }
-        TestSupport.importText(db, "gauges", csv.toString(), TestSupport.csv("gauges").withId("id")
-                .withClasses(List.of("ok", "fault")));
-        pool = db.pools().require("gauges").id();
-        TestSupport.tokenFor(db, PERSON, Role.LABELLER);
-        server = TestSupport.quickServer(db, dir, 1 << 20);
-        browser = Browser.shared();
-    }
-
-    private String cardId() {
-        WebElement card = browser.byId("card");
-        return card.isDisplayed() ? browser.byId("card-id").getText() : "";
+        pool = openGauges(PERSON);
     }
 
     /** Who holds the record with id {@code id} in the served queue, if anyone. */

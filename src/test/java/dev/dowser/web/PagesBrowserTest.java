@@ -81,12 +81,6 @@ class PagesBrowserTest extends BrowserFixture {
         return truth;
     }
 
-    private String cardId() {
-        WebElement card = browser.byId("card");
-        return card.isDisplayed() ? browser.byId("card-id").getText() : "";
-    }
-
-    /** Signs in through the sign-in page (after signing out whoever is signed in) and waits to leave it. */
     /** Signs out through the page when someone is signed in, then signs {@code name} in. */
     @Override
     void signIn(String name) {
