@@ -84,7 +84,7 @@ class OverviewTest {
         assertEquals(PoolSettings.Sampling.of(server), start.sampling(), "the server's sampling until the pool has its own");
 
         Overview.Settings batch = overview.changeSettings("p",
-                new PoolSettings.Change(4, null, null, Strategy.POWER, null, null, null, null, null, null), "lead");
+                new PoolSettings.Change(4, null, null, Strategy.POWER, null, null, null, null, null, null, null), "lead");
         assertEquals(4, batch.settings().batchSize());
         assertEquals(Strategy.POWER, batch.settings().strategy());
         assertEquals(PoolSettings.DEFAULT_LEASE_MINUTES, batch.settings().leaseMinutes());
@@ -93,11 +93,11 @@ class OverviewTest {
 
         // Draws alone: the chains and warm-up in force (the server's) come with them.
         Overview.Settings draws = overview.changeSettings("p",
-                new PoolSettings.Change(null, null, null, null, null, null, 16, null, null, null), "lead");
+                new PoolSettings.Change(null, null, null, null, null, null, 16, null, null, null, null), "lead");
         assertEquals(new PoolSettings.Sampling(server.chains().count(), 16, server.steps().reburnInSteps()), draws.sampling());
 
         IllegalArgumentException uneven = assertThrows(IllegalArgumentException.class, () -> overview.changeSettings(
-                "p", new PoolSettings.Change(null, null, null, null, null, 4, 30, null, null, null), "lead"));
+                "p", new PoolSettings.Change(null, null, null, null, null, 4, 30, null, null, null, null), "lead"));
         assertEquals("draws must be a multiple of the chains (4) from 4 to 512, so every chain keeps as many; got 30",
                 uneven.getMessage());
         assertEquals(draws, overview.settings("p"), "a refused change changes nothing");
