@@ -44,8 +44,8 @@ import picocli.CommandLine.Spec;
                 + " products only, 2 N S (d h + h C).",
             "sampler: preconditioned SGLD on a 64-128-10 network, 1000 labelled rows, mini-batch 128, 4"
                 + " chains: chain-steps per second, the share of sgemm reached, and a warm round timed.",
-            "round: a whole round on a 100,000-row pool with 1000 labels: continue the chains, score the"
-                + " pool with 64 draws, pick 10.",
+            "round: the app's round step at a new pool's defaults (strategy, temperature, kernel rule, draws) on a"
+                + " 100,000-row pool with 1000 labels: continue the chains, score the other 99,000 records, pick a batch.",
             "desk: 20 simulated labellers on loopback submit a label and ask for the next record (200 ms"
                 + " apart) while rounds run on a 100,000-row pool (batch 100), with commits written before they"
                 + " return and delayed (H2's default) in the same run: p50 and p99 of submit-and-next, their ratio,"
