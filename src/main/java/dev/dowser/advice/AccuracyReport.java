@@ -82,8 +82,7 @@ public record AccuracyReport(int modelRound, long modelLabels, int firstRound, A
         return picked.worth() >= checked.worth() ? picked : checked;
     }
 
-    public static AccuracyReport of(List<Round> rounds, List<Scored> scored, long labelsNow,
-                                    StabilisingPredictions rule) {
+    public static AccuracyReport of(List<Round> rounds, List<Scored> scored, StabilisingPredictions rule) {
         Map<Integer, List<Scored>> byRound = new TreeMap<>();
         for (Scored s : scored) {
             byRound.computeIfAbsent(s.round(), r -> new ArrayList<>()).add(s);
@@ -106,8 +105,10 @@ public record AccuracyReport(int modelRound, long modelLabels, int firstRound, A
             }
         }
         AccuracyEstimate none = AccuracyEstimate.ofChecks(0, 0);
+        // The card speaks of the newest round's model: the labels it learnt from, not those given since.
+        int learnt = rounds.isEmpty() ? 0 : (int) rounds.get(rounds.size() - 1).labels();
         if (terms.isEmpty()) {
-            StopAdvice card = StopAdvice.of(new StopAdvice.Evidence((int) labelsNow, none, agreements, rule, null));
+            StopAdvice card = StopAdvice.of(new StopAdvice.Evidence(learnt, none, agreements, rule, null));
             return new AccuracyReport(0, 0, 0, none, none, perRound, null, agreements, card);
         }
         // The window: newest rounds back to those that learnt from two thirds as many labels, and at least 30 scored.
@@ -124,7 +125,7 @@ public record AccuracyReport(int modelRound, long modelLabels, int firstRound, A
         AccuracyEstimate picked = Terms.pooledLure(window);
         AccuracyEstimate checked = Terms.pooledChecks(window);
         AccuracyEstimate best = picked.worth() >= checked.worth() ? picked : checked;
-        StopAdvice card = StopAdvice.of(new StopAdvice.Evidence((int) labelsNow, best, agreements, rule, curve));
+        StopAdvice card = StopAdvice.of(new StopAdvice.Evidence(learnt, best, agreements, rule, curve));
         return new AccuracyReport(newest.round.round(), newest.round.labels(), window.get(0).round.round(), picked,
                 checked, perRound, curve, agreements, card);
     }

@@ -70,7 +70,7 @@ public final class AdviceService {
                 checkLabel.add(given);
             }
         }
-        AccuracyReport report = AccuracyReport.of(rounds, scored, finals.size(), settings.stopRule());
+        AccuracyReport report = AccuracyReport.of(rounds, scored, settings.stopRule());
         return new Report(report, ece(checkBelief, checkLabel, classes.size()), evidence);
     }
 

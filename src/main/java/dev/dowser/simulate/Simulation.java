@@ -194,7 +194,7 @@ public final class Simulation {
                                 pick.spotCheck(), right));
                     }
                 }
-                AccuracyReport report = AccuracyReport.of(rounds, scored, labels, rule);
+                AccuracyReport report = AccuracyReport.of(rounds, scored, rule);
                 curve.add(new Point(strategy, seed, labels, Metrics.accuracy(p, test.labels(), classes),
                         Metrics.nll(p, test.labels(), classes), Metrics.ece(p, test.labels(), classes),
                         (System.nanoTime() - begun) / 1e9, r.settling().agreement(), rule.stable(report.agreements()),

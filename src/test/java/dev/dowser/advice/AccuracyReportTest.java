@@ -41,7 +41,7 @@ class AccuracyReportTest {
         for (int r = 1; r <= 3; r++) {
             scored.addAll(uniformRound(r, 100, 1, true));
         }
-        AccuracyReport a = AccuracyReport.of(rounds, scored, 40, RULE);
+        AccuracyReport a = AccuracyReport.of(rounds, scored, RULE);
         assertEquals(3, a.modelRound());
         assertEquals(1, a.firstRound());
         assertEquals(0.9, a.picked().accuracy(), 1e-12);
@@ -60,7 +60,7 @@ class AccuracyReportTest {
         List<AccuracyReport.Scored> scored = new ArrayList<>(uniformRound(1, 100, 0, false));
         AccuracyReport.Scored hole = scored.get(3);
         scored.set(3, new AccuracyReport.Scored(1, hole.order(), hole.probability(), false, null));
-        AccuracyReport a = AccuracyReport.of(List.of(new AccuracyReport.Round(1, 10, 100, Double.NaN)), scored, 10,
+        AccuracyReport a = AccuracyReport.of(List.of(new AccuracyReport.Round(1, 10, 100, Double.NaN)), scored,
                 RULE);
         assertEquals(3, a.picked().labels());
     }
@@ -73,7 +73,7 @@ class AccuracyReportTest {
             scored.add(new AccuracyReport.Scored(1, m, 1.0, false, false));
         }
         scored.add(new AccuracyReport.Scored(1, 10, 1.0 / 91, true, true));
-        AccuracyReport a = AccuracyReport.of(List.of(new AccuracyReport.Round(1, 10, 100, Double.NaN)), scored, 10,
+        AccuracyReport a = AccuracyReport.of(List.of(new AccuracyReport.Round(1, 10, 100, Double.NaN)), scored,
                 RULE);
         assertFalse(a.picked().known());
         assertEquals(1, a.checked().labels());
@@ -88,7 +88,7 @@ class AccuracyReportTest {
         // accuracy = 1 - (v_2 * 1) / 2 = 0.666667.
         List<AccuracyReport.Scored> scored = List.of(new AccuracyReport.Scored(1, 1, 0.7, false, true),
                 new AccuracyReport.Scored(1, 2, 0.5, false, false));
-        AccuracyReport a = AccuracyReport.of(List.of(new AccuracyReport.Round(1, 5, 4, Double.NaN)), scored, 7, RULE);
+        AccuracyReport a = AccuracyReport.of(List.of(new AccuracyReport.Round(1, 5, 4, Double.NaN)), scored, RULE);
         double[] v = Lure.weights(new double[] {0.7, 0.5}, 4);
         assertEquals(1 + 2.0 / 3 * (1 / 2.8 - 1), v[0], 1e-12);
         assertEquals(1 - v[1] / 2, a.picked().accuracy(), 1e-12);
@@ -105,7 +105,7 @@ class AccuracyReportTest {
             rounds.add(new AccuracyReport.Round(r, 10L * r, 1000, 0.95));
             scored.addAll(uniformRound(r, 1000, r < 15 ? 3 : 1, false));
         }
-        AccuracyReport a = AccuracyReport.of(rounds, scored, 310, RULE);
+        AccuracyReport a = AccuracyReport.of(rounds, scored, RULE);
         assertEquals(20, a.firstRound());
         assertEquals(110, a.picked().labels());
         assertEquals(0.9, a.picked().accuracy(), 1e-12);
@@ -116,9 +116,22 @@ class AccuracyReportTest {
 
     @Test
     void nothingScoredYet() {
-        AccuracyReport a = AccuracyReport.of(List.of(), List.of(), 0, RULE);
+        AccuracyReport a = AccuracyReport.of(List.of(), List.of(), RULE);
         AccuracyEstimate none = a.best();
         assertFalse(none.known());
         assertEquals(StopAdvice.State.START, a.advice().state());
+    }
+
+    @Test
+    void earlyTheCardNamesTheLabelsTheNewestRoundLearntFrom() {
+        // Round 2 learnt from 20 labels; however many were given since, that is the count the card
+        // (and the desk's line, refreshed at rounds) gives.
+        List<AccuracyReport.Round> rounds = List.of(new AccuracyReport.Round(1, 10, 100, Double.NaN),
+                new AccuracyReport.Round(2, 20, 90, 0.7));
+        List<AccuracyReport.Scored> scored = new ArrayList<>(uniformRound(1, 100, 0, false));
+        AccuracyReport a = AccuracyReport.of(rounds, scored, RULE);
+        assertEquals(StopAdvice.State.EARLY, a.advice().state());
+        assertTrue(a.advice().headline().startsWith("Too early to tell: the last round learnt from 20 labels."),
+                a.advice().headline());
     }
 }
