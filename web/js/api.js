@@ -27,20 +27,36 @@ export async function getJson(path) {
   return unwrap(response);
 }
 
-async function send(method, path, body, contentType) {
+// A busy answer (503) changed nothing. A call that is safe to repeat waits as the server asks
+// (Retry-After, at most BUSY_WAIT_MAX_MS) and goes again, up to BUSY_RETRIES times, before the
+// person sees the message.
+const BUSY_RETRIES = 3;
+const BUSY_WAIT_MAX_MS = 5000;
+
+function busyWaitMs(response, retry) {
+  const seconds = Number(response.headers.get('Retry-After'));
+  const ms = Number.isFinite(seconds) && seconds > 0 ? seconds * 1000 : 1000 * retry;
+  return Math.min(ms, BUSY_WAIT_MAX_MS);
+}
+
+async function send(method, path, body, contentType, { retryBusy = false } = {}) {
   const { csrf } = await session();
   const headers = { Accept: 'application/json', [CSRF_HEADER]: csrf };
   if (contentType) headers['Content-Type'] = contentType;
-  const response = await fetch(`${BASE}/${path}`, { method, headers, body });
-  return unwrap(response);
+  for (let retry = 1; ; retry += 1) {
+    const response = await fetch(`${BASE}/${path}`, { method, headers, body });
+    if (response.status !== 503 || !retryBusy || retry > BUSY_RETRIES) return unwrap(response);
+    await new Promise((resolve) => { setTimeout(resolve, busyWaitMs(response, retry)); });
+  }
 }
 
 export function postBody(path, body, contentType) {
   return send('POST', path, body, contentType);
 }
 
-export function postJson(path, value) {
-  return send('POST', path, JSON.stringify(value), 'application/json');
+/** POSTs JSON; with { retryBusy: true } a busy answer is tried again (only for calls safe to repeat). */
+export function postJson(path, value, options) {
+  return send('POST', path, JSON.stringify(value), 'application/json', options);
 }
 
 export function putJson(path, value) {

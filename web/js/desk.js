@@ -6,6 +6,9 @@ import { el, showMessage } from './dom.js';
 
 const $ = (id) => document.getElementById(id);
 const BELIEF_KEY = 'dowser.showBelief';
+// Calls that change nothing when the server answers busy, and may simply be sent again (not undo:
+// it takes a label back and then leases the record, two steps).
+const REPEATABLE = { retryBusy: true };
 
 const state = {
   pool: null,
@@ -135,7 +138,7 @@ function show(assignment) {
 }
 
 async function next() {
-  const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/queue/next`, {});
+  const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/queue/next`, {}, REPEATABLE);
   showProgress(reply.progress);
   if (!reply.record) {
     show(null);
@@ -198,7 +201,7 @@ function label(name) {
     const body = { record: a.record.id, label: name };
     const note = $('note').value.trim();
     if (note) body.note = note;
-    const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/labels`, body);
+    const reply = await postJson(`pools/${encodeURIComponent(state.pool)}/labels`, body, REPEATABLE);
     state.labelledThisSession += 1;
     state.recent = [{ record: a.record.id, label: name, at: reply.labelled_at }, ...state.recent
       .filter((g) => g.record !== a.record.id)].slice(0, 10);
@@ -215,7 +218,7 @@ function skip() {
     if (!a || !a.record) return;
     if (a.round !== undefined) {
       await postJson(`pools/${encodeURIComponent(state.pool)}/queue/skip`,
-        { round: a.round, position: a.position });
+        { round: a.round, position: a.position }, REPEATABLE);
     }
     say(a.relabel ? `${a.record.id} stays without your label; it goes back to the queue.`
       : `${a.record.id} skipped; it goes back to the queue for someone else.`);
@@ -240,11 +243,12 @@ function undo(recordId) {
       if (current.relabel) state.relabel.push(current);
       else if (current.round !== undefined) {
         // The record we moved on to goes back to the queue (not a skip: it may come back to us).
-        await postJson(`pools/${enc}/queue/release`, { round: current.round, position: current.position });
+        await postJson(`pools/${enc}/queue/release`, { round: current.round, position: current.position },
+          REPEATABLE);
       }
     }
     // The server hands a taken-back record to its labeller first while the served queue holds it.
-    const again = await postJson(`pools/${enc}/queue/next`, {});
+    const again = await postJson(`pools/${enc}/queue/next`, {}, REPEATABLE);
     let shown;
     if (again.record && again.record.id === target) {
       shown = { ...again, relabel: true };

@@ -313,7 +313,9 @@ async function start() {
 start();
 
 const SETTINGS = ['batch_size', 'spot_check_share', 'double_label_share', 'lease_minutes', 'strategy', 'chains',
-  'draws', 'reburn_in_steps', 'temperature', 'stop_agreement'];
+  'draws', 'reburn_in_steps', 'temperature', 'stop_agreement', 'cold_start'];
+/** Settings sent as words; the rest are numbers. */
+const WORD_SETTINGS = ['strategy', 'cold_start'];
 
 /** A setting's name as the settings form says it ("labels per round"), so the history reads like the form. */
 function settingWords(form, field) {
@@ -361,7 +363,7 @@ async function saveSettings(event) {
   event.preventDefault();
   const form = event.target;
   const body = {};
-  for (const f of SETTINGS) body[f] = f === 'strategy' ? form.elements[f].value : Number(form.elements[f].value);
+  for (const f of SETTINGS) body[f] = WORD_SETTINGS.includes(f) ? form.elements[f].value : Number(form.elements[f].value);
   try {
     await putJson(`pools/${encodeURIComponent(pool)}/settings`, body);
     showMessage('settings-message', 'Saved; the next round uses them.');

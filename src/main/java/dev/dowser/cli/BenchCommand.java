@@ -44,8 +44,8 @@ import picocli.CommandLine.Spec;
                 + " products only, 2 N S (d h + h C).",
             "sampler: preconditioned SGLD on a 64-128-10 network, 1000 labelled rows, mini-batch 128, 4"
                 + " chains: chain-steps per second, the share of sgemm reached, and a warm round timed.",
-            "round: a whole round on a 100,000-row pool with 1000 labels: continue the chains, score the"
-                + " pool with 64 draws, pick 10.",
+            "round: the app's round step at a new pool's defaults (strategy, temperature, kernel rule, draws) on a"
+                + " 100,000-row pool with 1000 labels: continue the chains, score the other 99,000 records, pick a batch.",
             "desk: 20 simulated labellers on loopback submit a label and ask for the next record (200 ms"
                 + " apart) while rounds run on a 100,000-row pool (batch 100), with commits written before they"
                 + " return and delayed (H2's default) in the same run: p50 and p99 of submit-and-next, their ratio,"
@@ -59,13 +59,14 @@ import picocli.CommandLine.Spec;
                 + " prints the counts acknowledged and lost, and the desk's empty answers across the kills (the pool"
                 + " holds more records than the campaign writes).",
             "labels (only when named): the label-savings benchmark, simulate on digits, breast cancer, wine, iris,"
-                + " the demo's pumps and Fashion-MNIST (pool 60,000, test 10,000, 50 principal components) with"
+                + " the demo's pumps and Fashion-MNIST (pool 60,000, test 10,000, 50 principal components, 10,000"
+                + " records sampled and scored per round) with"
                 + " paired seeds: labels to each target, random's labels over the strategy's with 90%% bootstrap"
                 + " intervals, area-under-the-curve gains; curves and a table (labels.md) in --labels-out. Hours.",
-            "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: files to import,"
-                + " heads of files to preview, every JSON body; jqwik properties of the test sources, run through"
-                + " Maven (a source folder is needed). Counts per status; any 500, partial write or Java message"
-                + " in a refusal fails it. About half an hour on 2 quiet cores."})
+            "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: every JSON body and"
+                + " heads of files to preview (two fifths each), files to import (a fifth, last); jqwik properties"
+                + " of the test sources, run through Maven (a source folder is needed). Counts per status; any 500,"
+                + " partial write or Java message in a refusal fails it. About half an hour on 2 quiet cores."})
 final class BenchCommand implements Callable<Integer> {
 
     @Spec
@@ -114,6 +115,12 @@ final class BenchCommand implements Callable<Integer> {
     @Option(names = "--budget", paramLabel = "N",
             description = "labels: labels at which every dataset's runs stop (default: each dataset's own budget).")
     Integer budget;
+
+    @Option(names = "--candidates", paramLabel = "N",
+            description = "labels: records scored per round, drawn uniformly from the unlabelled ones afresh each round;"
+                    + " 0 scores every record, as the server does (default: each dataset's plan: "
+                    + dev.dowser.simulate.LabelSavings.FASHION_CANDIDATES + " on fashion-mnist, every record elsewhere).")
+    Integer candidates;
 
     @Option(names = "--cold-start", defaultValue = dev.dowser.rounds.PoolSettings.DEFAULT_COLD_START_WORD,
             paramLabel = "kmeans++|typiclust", description = "labels: how the first batch is spread over the pool"
@@ -181,7 +188,8 @@ final class BenchCommand implements Callable<Integer> {
         if (wants("labels")) {
             LabelsBench.run(out, datasetsDir, datasets, strategies.stream().map(dev.dowser.rounds.Strategy::parse)
                     .distinct().toList(), seeds, sampler.config(), dev.dowser.rounds.PoolSettings.defaults()
-                    .withColdStart(dev.dowser.acquire.ColdStart.Method.parse(coldStart)), budget, labelsOut);
+                    .withColdStart(dev.dowser.acquire.ColdStart.Method.parse(coldStart)), budget, candidates,
+                    labelsOut);
         }
         if (wants("desk")) {
             Path dir = work != null ? Files.createDirectories(work.resolve("desk")) : Files.createTempDirectory("dowser-desk-");

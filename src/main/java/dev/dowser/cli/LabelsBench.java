@@ -19,12 +19,16 @@ final class LabelsBench {
     }
 
     static void run(PrintWriter out, Path datasets, List<String> names, List<Strategy> strategies, int seeds,
-                    SamplerConfig sampler, PoolSettings settings, Integer budget, Path dir) throws IOException {
+                    SamplerConfig sampler, PoolSettings settings, Integer budget, Integer candidates, Path dir)
+            throws IOException {
         Files.createDirectories(dir);
         List<LabelSavings.Result> results = new ArrayList<>();
         for (String name : names) {
             LabelSavings.Setup setup = budget == null ? LabelSavings.setup(name)
                     : LabelSavings.setup(name).withBudget(budget);
+            if (candidates != null) {
+                setup = setup.withCandidates(candidates);
+            }
             ProgressBar bar = new ProgressBar(System.err, "rounds of " + name);
             AtomicInteger done = new AtomicInteger();
             int total = seeds * (strategies.size() + 1) * (2 + (setup.budget() - setup.seedLabels()) / setup.batch());

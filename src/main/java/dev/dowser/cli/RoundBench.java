@@ -1,20 +1,26 @@
 package dev.dowser.cli;
 
-import dev.dowser.acquire.Pickers;
 import dev.dowser.acquire.PoolScorer;
-import dev.dowser.sampler.KernelChoice;
-import dev.dowser.sampler.PosteriorSampler;
-import dev.dowser.sampler.RoundDraws;
+import dev.dowser.blas.RowMajor;
+import dev.dowser.data.LabelledSet;
+import dev.dowser.rounds.PoolSettings;
+import dev.dowser.rounds.RoundStep;
+import dev.dowser.rounds.Settling;
 import dev.dowser.sampler.SamplerConfig;
+import dev.dowser.sampler.StopSignal;
 import dev.dowser.stats.SeedTree;
+import dev.dowser.stats.StabilisingPredictions;
 import java.io.PrintWriter;
 import java.util.Arrays;
 import java.util.List;
 import java.util.SplittableRandom;
+import java.util.stream.IntStream;
 
 /**
- * A whole round, timed as the app runs it: continue the chains on 1000 labels (warm start), score
- * a 100,000-row pool with 64 draws, pick a batch of 10.
+ * A whole round, timed as the app runs it: the round step at a new pool's defaults (the default
+ * strategy, temperature, kernel rule, chains and draws) on 1000 labels with the chains of the round
+ * before (a warm start), scoring the other 99,000 records of a 100,000-row pool of 64 features and
+ * picking a batch with its spot checks.
  */
 final class RoundBench {
 
@@ -24,6 +30,15 @@ final class RoundBench {
     static final int CLASSES = 10;
 
     private RoundBench() {
+    }
+
+    /**
+     * The CPU time of this whole process: beside the wall time, it tells what a round costs when
+     * other programs share the cores (wall time then mostly measures the wait).
+     */
+    static long processCpuNanos() {
+        return ((com.sun.management.OperatingSystemMXBean) java.lang.management.ManagementFactory
+                .getOperatingSystemMXBean()).getProcessCpuTime();
     }
 
     static void run(PrintWriter out, boolean quick) {
@@ -40,26 +55,38 @@ final class RoundBench {
                 x[i * INPUTS + j] = (float) (rng.nextGaussian() + (j % CLASSES == k ? 1 : 0));
             }
         }
-        float[] labelledX = Arrays.copyOf(x, LABELLED * INPUTS);
-        SamplerConfig config = SamplerConfig.builder().kernel(KernelChoice.PSGLD).hidden(List.of(128)).build();
-        PosteriorSampler sampler = new PosteriorSampler(config);
-        RoundDraws previous = sampler.sample(labelledX, y, CLASSES, null, new float[0], SeedTree.of(0));
+        List<String> classes = IntStream.range(0, CLASSES).mapToObj(Integer::toString).toList();
+        LabelledSet labelled = new LabelledSet(Arrays.copyOf(x, LABELLED * INPUTS), y,
+                IntStream.range(0, LABELLED).asLongStream().toArray(), INPUTS, classes);
+        int[] unlabelled = IntStream.range(LABELLED, pool).toArray();
+        RoundStep.Rows candidates = new RoundStep.Rows(RowMajor.gather(x, INPUTS, unlabelled),
+                Arrays.stream(unlabelled).asLongStream().toArray(), INPUTS);
+        RoundStep.Rows none = new RoundStep.Rows(new float[0], new long[0], INPUTS);
+        long[] stop = StabilisingPredictions.stopSet(pool, StabilisingPredictions.STOP_SET_RECORDS, rng);
+        Settling.StopSet stopSet = Settling.StopSet.fresh(new RoundStep.Rows(RowMajor.gather(x, INPUTS,
+                Arrays.stream(stop).mapToInt(r -> (int) r).toArray()), stop, INPUTS));
+        PoolSettings settings = PoolSettings.defaults();
+        SamplerConfig sampler = settings.sampler(SamplerConfig.defaults());
+        SeedTree seeds = SeedTree.of(0);
         try (PoolScorer scorer = PoolScorer.withAllCores()) {
-            scorer.score(previous.layout(), previous.draws(), x, Math.min(pool, 10_000));
+            // The round before: a full burn-in on the same labels, whose chains the timed round continues.
+            RoundStep.Result before = RoundStep.run(new RoundStep.Input(labelled, candidates, none, null, stopSet,
+                    settings, sampler, seeds.child(1), 1), scorer, StopSignal.never());
+            long cpu0 = processCpuNanos();
             long t0 = System.nanoTime();
-            RoundDraws round = sampler.sample(labelledX, y, CLASSES, previous.lastStates(), new float[0], SeedTree.of(1));
+            RoundStep.Result round = RoundStep.run(new RoundStep.Input(labelled, candidates, none,
+                    before.draws().lastStates(), stopSet.after(before.settling()), settings, sampler, seeds.child(2), 2),
+                    scorer, StopSignal.never());
             long t1 = System.nanoTime();
-            PoolScorer.Result scores = scorer.score(round.layout(), round.draws(), x, pool);
-            long t2 = System.nanoTime();
-            int[] batch = Pickers.topB(scores.bald(), 10);
-            long t3 = System.nanoTime();
-            out.printf("round_pool_rows=%d%nround_labelled=%d%nround_draws=%d%nround_sample_seconds=%.3f%n"
-                            + "round_score_seconds=%.3f%nround_pick_seconds=%.3f%nround_seconds=%.3f%n",
-                    pool, LABELLED, round.draws().size(), (t1 - t0) / 1e9, (t2 - t1) / 1e9, (t3 - t2) / 1e9,
-                    (t3 - t0) / 1e9);
+            long cpu1 = processCpuNanos();
+            out.printf("round_pool_rows=%d%nround_labelled=%d%nround_strategy=%s%nround_temperature=%s%n"
+                            + "round_kernel=%s%nround_draws=%d%nround_seconds=%.3f%nround_cpu_seconds=%.3f%n",
+                    pool, LABELLED, settings.strategy().word(), sampler.temperature(), round.kernel(),
+                    round.draws().draws().size(), (t1 - t0) / 1e9,
+                    (cpu1 - cpu0) / 1e9);
             out.flush();
-            if (batch.length != 10) {
-                throw new IllegalStateException("the round picked " + batch.length + " records");
+            if (round.queue().size() != settings.batchSize()) {
+                throw new IllegalStateException("the round queued " + round.queue().size() + " records");
             }
         }
     }

@@ -75,6 +75,42 @@ public final class Json {
         return MAPPER.createArrayNode();
     }
 
+    /** The whole number in {@code object}'s {@code field}, null when the field is absent; any other value is refused. */
+    public static Integer wholeNumber(JsonNode object, String field) {
+        JsonNode v = object.get(field);
+        if (v == null) {
+            return null;
+        }
+        if (!v.isIntegralNumber() || !v.canConvertToInt()) {
+            throw new IllegalArgumentException("field '" + field + "' must be a whole number, got " + v);
+        }
+        return v.asInt();
+    }
+
+    /** The number in {@code object}'s {@code field}, null when the field is absent; any other value is refused. */
+    public static Double number(JsonNode object, String field) {
+        JsonNode v = object.get(field);
+        if (v == null) {
+            return null;
+        }
+        if (!v.isNumber()) {
+            throw new IllegalArgumentException("field '" + field + "' must be a number, got " + v);
+        }
+        return v.asDouble();
+    }
+
+    /** The string in {@code object}'s {@code field}, null when the field is absent; any other value is refused. */
+    public static String text(JsonNode object, String field) {
+        JsonNode v = object.get(field);
+        if (v == null) {
+            return null;
+        }
+        if (!v.isTextual()) {
+            throw new IllegalArgumentException("field '" + field + "' must be a string, got " + v);
+        }
+        return v.asText();
+    }
+
     /** Appends {@code s} to {@code out} as a JSON string literal, quotes included. */
     public static void appendString(StringBuilder out, String s) {
         out.append('"');

@@ -1,6 +1,7 @@
 package dev.dowser.rounds;
 
 import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
 import dev.dowser.acquire.BatchBald;
 import dev.dowser.acquire.ColdStart;
 import dev.dowser.json.Json;
@@ -8,7 +9,8 @@ import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.stats.StabilisingPredictions;
 
 /**
- * A pool's settings, kept as JSON with the pool; a missing field takes its default.
+ * A pool's settings, kept as JSON with the pool in the names the API uses ({@link SettingsJson}); a
+ * missing field takes its default.
  *
  * @param batchSize        records a round picks, and labels that start the next round
  * @param spotCheckShare   share of each queue drawn at random for honest accuracy estimates
@@ -139,7 +141,12 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
      */
     public record Change(Integer batchSize, Double spotCheckShare, Integer leaseMinutes, Strategy strategy,
                          Double doubleLabelShare, Integer chains, Integer draws, Integer reburnInSteps,
-                         Double stopAgreement, Double temperature) {
+                         Double stopAgreement, Double temperature, ColdStart.Method coldStart) {
+
+        /** A change as the API takes it, in the document's names; an unknown field or a wrong type is refused. */
+        public static Change parse(JsonNode body) {
+            return SettingsJson.readChange(body);
+        }
 
         /** {@code now} with this change, checked whole; {@code server} is the sampler in force without the pool's own. */
         public PoolSettings applyTo(PoolSettings now, SamplerConfig server) {
@@ -151,7 +158,7 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
                     ownSampling ? new Sampling(or(chains, sampling.chains()), or(draws, sampling.draws()),
                             or(reburnInSteps, sampling.reburnInSteps()), or(temperature, sampling.temperature()))
                             : now.sampling(),
-                    or(stopAgreement, now.stopAgreement()), now.coldStart());
+                    or(stopAgreement, now.stopAgreement()), or(coldStart, now.coldStart()));
         }
 
         private static <T> T or(T value, T kept) {
@@ -223,32 +230,18 @@ public record PoolSettings(int batchSize, double spotCheckShare, int leaseMinute
                 DEFAULT_DOUBLE_LABEL_SHARE);
     }
 
+    /** The settings kept as {@code json} (see {@link #toJson}); a missing field takes its default. */
     public static PoolSettings parse(String json) {
-        JsonNode n = Json.tree(json == null || json.isBlank() ? "{}" : json);
-        PoolSettings d = defaults();
-        // The pool's own sampling is kept whole or not at all.
-        // A pool's own sampling saved before temperature was a setting takes the default temperature.
-        Sampling sampling = n.has("draws") ? new Sampling(n.path("chains").asInt(), n.path("draws").asInt(),
-                n.path("reburnInSteps").asInt(), n.path("temperature").asDouble(SamplerConfig.DEFAULT_TEMPERATURE))
-                : null;
-        return new PoolSettings(n.path("batchSize").asInt(d.batchSize()),
-                n.path("spotCheckShare").asDouble(d.spotCheckShare()), n.path("leaseMinutes").asInt(d.leaseMinutes()),
-                n.has("strategy") ? Strategy.parse(n.get("strategy").asText()) : d.strategy(),
-                n.path("doubleLabelShare").asDouble(d.doubleLabelShare()), sampling,
-                n.path("stopAgreement").asDouble(d.stopAgreement()),
-                n.has("coldStart") ? ColdStart.Method.parse(n.get("coldStart").asText()) : d.coldStart());
+        return SettingsJson.read(json);
     }
 
-    /** The document kept with the pool, read back by {@link #parse}. */
+    /** The document kept with the pool, with each round and in the history, in the API's names. */
     public String toJson() {
-        var n = Json.object().put("batchSize", batchSize).put("spotCheckShare", spotCheckShare)
-                .put("leaseMinutes", leaseMinutes).put("strategy", strategy.word())
-                .put("doubleLabelShare", doubleLabelShare).put("stopAgreement", stopAgreement)
-                .put("coldStart", coldStart.word());
-        if (sampling != null) {
-            n.put("chains", sampling.chains()).put("draws", sampling.draws())
-                    .put("reburnInSteps", sampling.reburnInSteps()).put("temperature", sampling.temperature());
-        }
-        return Json.write(n);
+        return Json.write(SettingsJson.write(this, sampling));
+    }
+
+    /** The same document as the API shows it, with the chains, draws, re-burn-in and temperature in force. */
+    public ObjectNode shown(Sampling inForce) {
+        return SettingsJson.write(this, inForce);
     }
 }

@@ -100,6 +100,15 @@ public final class RoundWorkers implements AutoCloseable {
         }
     }
 
+    /**
+     * Stops looking for new pools to serve: from now on a pool gets rounds only when asked for, or
+     * from its desk. For a long fuzz campaign, which makes thousands of pools and tests the server's
+     * edge, not their rounds.
+     */
+    public void stopWatching() {
+        watcher.shutdownNow();
+    }
+
     @Override
     public void close() {
         watcher.shutdownNow();

@@ -237,8 +237,12 @@ public final class LearningCurves {
         return wins;
     }
 
-    /** Accuracy or NLL at a grid count, over seeds: mean and quartiles (type 7). */
-    public record Spread(double mean, double q25, double q75) {
+    /**
+     * Accuracy or NLL at a grid count, over seeds: the median inside its quartiles (type 7), so the
+     * centre always lies in the band, as on the plots (a mean can fall outside the middle half when
+     * one seed lags far behind).
+     */
+    public record Spread(double median, double q25, double q75) {
     }
 
     public Spread accuracyAt(Strategy s, int labels) {
@@ -258,9 +262,8 @@ public final class LearningCurves {
         for (int seed = 0; seed < seeds; seed++) {
             v[seed] = bySeed[seed][g];
         }
-        double mean = Arrays.stream(v).average().orElseThrow();
         Arrays.sort(v);
-        return new Spread(mean, quantile(v, 0.25), quantile(v, 0.75));
+        return new Spread(quantile(v, 0.5), quantile(v, 0.25), quantile(v, 0.75));
     }
 
     /** Type-7 quantile of sorted values. */

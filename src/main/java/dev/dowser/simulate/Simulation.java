@@ -2,12 +2,12 @@ package dev.dowser.simulate;
 
 import dev.dowser.acquire.PoolScorer;
 import dev.dowser.advice.AccuracyReport;
+import dev.dowser.blas.RowMajor;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.RoundService;
 import dev.dowser.rounds.RoundStep;
 import dev.dowser.rounds.Settling;
 import dev.dowser.rounds.Strategy;
-import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.sampler.Predictive;
 import dev.dowser.sampler.RoundDraws;
@@ -16,12 +16,15 @@ import dev.dowser.sampler.State;
 import dev.dowser.sampler.StopSignal;
 import dev.dowser.stats.AccuracyEstimate;
 import dev.dowser.stats.Metrics;
+import dev.dowser.stats.RandomVariates;
 import dev.dowser.stats.SeedTree;
 import dev.dowser.stats.StabilisingPredictions;
 import dev.dowser.stats.Splits;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
+import java.util.SplittableRandom;
+import java.util.function.BiConsumer;
 import java.util.function.IntConsumer;
 
 /**
@@ -36,6 +39,8 @@ public final class Simulation {
     /** Branches of a seed's node in the seed tree. */
     static final int SPLIT = 0;
     static final int LOOP = 1;
+    /** Branch of a round's node for its candidate sample: one the round step does not use. */
+    static final int CANDIDATES = 16;
 
     /**
      * One point of a learning curve: the model trained on {@code labels} labels, scored on the test
@@ -63,9 +68,15 @@ public final class Simulation {
      * @param settings     the pool settings every round uses (its strategy is replaced by each compared)
      * @param sampler      how the posterior is sampled
      * @param seed         the root of the seed tree
+     * @param candidates   records scored per round, drawn uniformly from the unlabelled ones afresh
+     *                     each round ({@link #EVERY_RECORD}: all of them, as the server does); a
+     *                     benchmark's plan for a large pool, not a pool setting
      */
     public record Plan(List<Strategy> strategies, int seeds, int seedLabels, int budget, double testFraction,
-                       PoolSettings settings, SamplerConfig sampler, long seed) {
+                       PoolSettings settings, SamplerConfig sampler, long seed, int candidates) {
+
+        /** Every unlabelled record is scored each round. */
+        public static final int EVERY_RECORD = 0;
 
         /** Paired seeds: ten, the fewest over which the report's intervals mean much (common practice here). */
         public static final int DEFAULT_SEEDS = 10;
@@ -88,9 +99,25 @@ public final class Simulation {
                 throw new IllegalArgumentException("the budget (" + budget + ") must be at least the seed labels ("
                         + seedLabels + ")");
             }
+            if (candidates != EVERY_RECORD && candidates < Math.max(seedLabels, settings.batchSize())) {
+                throw new IllegalArgumentException("a candidate sample of " + candidates + " records cannot fill a batch"
+                        + " of " + Math.max(seedLabels, settings.batchSize()) + ": sample at least that many, or "
+                        + EVERY_RECORD + " for every record");
+            }
+        }
+
+        /** Every unlabelled record scored each round, as the server does. */
+        public Plan(List<Strategy> strategies, int seeds, int seedLabels, int budget, double testFraction,
+                    PoolSettings settings, SamplerConfig sampler, long seed) {
+            this(strategies, seeds, seedLabels, budget, testFraction, settings, sampler, seed, EVERY_RECORD);
         }
 
         /** Rounds per strategy and seed, for a progress bar: the cold start, then one per batch and the last. */
+        /** The same plan with {@code n} seeds (the first n of this one's). */
+        public Plan withSeeds(int n) {
+            return new Plan(strategies, n, seedLabels, budget, testFraction, settings, sampler, seed, candidates);
+        }
+
         public int roundsEach() {
             return 2 + (budget - seedLabels + settings.batchSize() - 1) / settings.batchSize();
         }
@@ -109,6 +136,12 @@ public final class Simulation {
      * and is scored on {@code test}, else each seed holds out its own stratified share of the pool.
      */
     public static List<Point> run(LabelledSet pool, LabelledSet test, Plan plan, IntConsumer tick) {
+        return run(pool, test, plan, tick, (seedsDone, points) -> { });
+    }
+
+    /** As above; {@code afterSeed} is given the seeds done and their points after each seed, for a partial report. */
+    public static List<Point> run(LabelledSet pool, LabelledSet test, Plan plan, IntConsumer tick,
+                                  BiConsumer<Integer, List<Point>> afterSeed) {
         List<Point> out = new ArrayList<>();
         int classes = pool.classes().size();
         SeedTree root = SeedTree.of(plan.seed());
@@ -126,6 +159,7 @@ public final class Simulation {
                 for (Strategy strategy : plan.strategies()) {
                     out.addAll(curve(strategy, seed, train, held, plan, node.child(LOOP), scorer, tick));
                 }
+                afterSeed.accept(seed + 1, List.copyOf(out));
             }
         }
         return out;
@@ -136,7 +170,8 @@ public final class Simulation {
         int classes = train.classes().size();
         List<Point> curve = new ArrayList<>();
         long begun = System.nanoTime();
-        Labeller run = new Labeller(train, plan.settings().withStrategy(strategy), plan.sampler(), seeds);
+        Labeller run = new Labeller(train, plan.settings().withStrategy(strategy), plan.sampler(), seeds,
+                plan.candidates());
         StabilisingPredictions rule = plan.settings().stopRule();
         List<AccuracyReport.Round> rounds = new ArrayList<>();
         List<AccuracyReport.Scored> scored = new ArrayList<>();
@@ -183,6 +218,7 @@ public final class Simulation {
         private final PoolSettings settings;
         private final SamplerConfig sampler;
         private final SeedTree seeds;
+        private final int candidateSample;
         private final boolean[] labelled;
         private Settling.StopSet stopSet;
         private List<State<?>> chains;
@@ -195,16 +231,22 @@ public final class Simulation {
          * @param seeds    the pool's node of the seed tree: round r draws from its child r
          */
         public Labeller(LabelledSet pool, PoolSettings settings, SamplerConfig sampler, SeedTree seeds) {
+            this(pool, settings, sampler, seeds, Plan.EVERY_RECORD);
+        }
+
+        /** As above, each round scoring a uniform sample of {@code candidates} unlabelled records (see {@link Plan}). */
+        public Labeller(LabelledSet pool, PoolSettings settings, SamplerConfig sampler, SeedTree seeds, int candidates) {
             this.pool = pool;
             this.settings = settings;
             this.sampler = settings.sampler(sampler);
             this.seeds = seeds;
+            this.candidateSample = candidates;
             this.labelled = new boolean[pool.rows()];
             // The pool's stop set, fixed for the run, from the branch rounds never use (they count from 1).
             long[] stop = StabilisingPredictions.stopSet(pool.rows(), StabilisingPredictions.STOP_SET_RECORDS,
                     seeds.child(RoundService.STOP_SET).rng());
             int[] at = Arrays.stream(stop).mapToInt(r -> (int) r).toArray();
-            this.stopSet = Settling.StopSet.fresh(new RoundStep.Rows(FeatureMatrix.gather(pool.x(), pool.cols(), at),
+            this.stopSet = Settling.StopSet.fresh(new RoundStep.Rows(RowMajor.gather(pool.x(), pool.cols(), at),
                     stop, pool.cols()));
         }
 
@@ -227,7 +269,10 @@ public final class Simulation {
                     candidates[c++] = i;
                 }
             }
-            RoundStep.Rows cand = new RoundStep.Rows(FeatureMatrix.gather(pool.x(), pool.cols(), candidates),
+            if (candidateSample != Plan.EVERY_RECORD && candidates.length > candidateSample) {
+                candidates = sample(candidates, candidateSample, seeds.child(round).child(CANDIDATES).rng());
+            }
+            RoundStep.Rows cand = new RoundStep.Rows(RowMajor.gather(pool.x(), pool.cols(), candidates),
                     Arrays.stream(candidates).asLongStream().toArray(), pool.cols());
             RoundStep.Rows none = new RoundStep.Rows(new float[0], new long[0], pool.cols());
             RoundStep.Input in = new RoundStep.Input(pool.subset(known), cand, none, chains, stopSet,
@@ -238,6 +283,13 @@ public final class Simulation {
                 stopSet = stopSet.after(r.settling());
             }
             return r;
+        }
+
+        /** {@code k} of the rows, uniformly without replacement (a partial Fisher-Yates shuffle), in pool order. */
+        static int[] sample(int[] rows, int k, SplittableRandom rng) {
+            int[] out = RandomVariates.sample(rows, k, rng);
+            Arrays.sort(out);
+            return out;
         }
 
         /** Every record the round queued is labelled. */

@@ -20,19 +20,13 @@ import org.slf4j.LoggerFactory;
  * arrive: what is there is read at once, the rest by the connection's I/O thread as it comes. A
  * body must arrive whole within a deadline; a late or abandoned one ends the connection with one
  * line in the log, and one over its limit is refused with 413 as soon as that is known (before a
- * byte is read when the client declares its length).
+ * byte is read when the client declares its length), the rest of it dropped by {@link LingeringClose}.
  */
 final class Bodies {
 
     static final AttachmentKey<byte[]> BODY = AttachmentKey.create(byte[].class);
     private static final Logger LOG = LoggerFactory.getLogger(Bodies.class);
     private static final int CHUNK_BYTES = 8_192;
-    /**
-     * A body found too large as it arrives (no declared length) is read on and dropped up to this
-     * much more, so that a client still sending can read the refusal: closing on unread bytes would
-     * reset the connection and lose it.
-     */
-    static final int DISCARD_BYTES = 1 << 20;
 
     private Bodies() {
     }
@@ -96,7 +90,6 @@ final class Bodies {
         private final ByteBuffer chunk = ByteBuffer.allocate(CHUNK_BYTES);
         private XnioExecutor.Key deadline;
         private boolean finished;
-        private long dropped = -1;
 
         Reading(HttpServerExchange ex, int limit, long timeoutMillis, Executor executor, HttpHandler next) {
             this.ex = ex;
@@ -104,7 +97,7 @@ final class Bodies {
             this.timeoutMillis = timeoutMillis;
             this.executor = executor;
             this.next = next;
-            this.channel = ex.getRequestChannel();
+            this.channel = LingeringClose.take(ex);
             long declared = ex.getRequestContentLength();
             this.body = new ByteArrayOutputStream(declared > 0 ? (int) Math.min(declared, limit) : 512);
         }
@@ -150,21 +143,18 @@ final class Bodies {
                 if (n == 0) {
                     return false;
                 }
-                if (n < 0 || dropped >= DISCARD_BYTES) {
+                if (n < 0) {
                     finish();
-                    if (dropped >= 0) {
-                        Errors.send(ex, tooLarge(ex, limit));
-                    } else {
-                        ex.putAttachment(BODY, body.toByteArray());
-                        run(ex, executor, next, onIoThread);
-                    }
+                    ex.putAttachment(BODY, body.toByteArray());
+                    run(ex, executor, next, onIoThread);
                     return true;
                 }
-                if (dropped >= 0 || body.size() + n > limit) {
-                    dropped = Math.max(0, dropped) + n;
-                } else {
-                    body.write(chunk.array(), 0, n);
+                if (body.size() + n > limit) {
+                    finish();
+                    Errors.send(ex, tooLarge(ex, limit));
+                    return true;
                 }
+                body.write(chunk.array(), 0, n);
             }
         }
 

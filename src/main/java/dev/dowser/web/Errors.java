@@ -64,11 +64,12 @@ final class Errors {
             exchange.endExchange();
             return;
         }
-        if (!exchange.isRequestComplete()) {
-            // The rest of the body is not wanted: close the connection after the answer rather than read it.
-            exchange.setPersistent(false);
-        }
         var body = Json.object().put("error", message);
+        if (!exchange.isRequestComplete()) {
+            // The rest of the body is not wanted, but the client may still be sending it: answer, then close in stages.
+            LingeringClose.send(exchange, status, Json.write(body));
+            return;
+        }
         Responses.json(exchange, status, body);
     }
 }

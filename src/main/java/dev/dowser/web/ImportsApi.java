@@ -50,7 +50,7 @@ final class ImportsApi {
         if (declared > 0) {
             imports.checkRoom(declared);
         }
-        UploadStream body = new UploadStream(ex.getRequestChannel(), config.limits().uploadStallMillis(),
+        UploadStream body = new UploadStream(LingeringClose.take(ex), config.limits().uploadStallMillis(),
                 received -> ImportJobs.tooLarge("over " + Bytes.text(config.maxUploadBytes()), config));
         ImportJobs.Submission job = imports.submit(body, fileName, spec);
         if (Boolean.parseBoolean(query(ex, "wait", "false"))) {

@@ -110,33 +110,10 @@ final class Requests {
 
     /** A required whole-number field. */
     static int requiredInt(JsonNode body, String field) {
-        if (body.get(field) == null) {
+        Integer v = Json.wholeNumber(body, field);
+        if (v == null) {
             throw new ApiException(400, "field '" + field + "' is required and must be a whole number");
         }
-        return optionalInt(body, field, 0);
-    }
-
-    /** A whole number in {@code field}, or {@code fallback} when the field is absent. */
-    static int optionalInt(JsonNode body, String field, int fallback) {
-        JsonNode v = body.get(field);
-        if (v == null) {
-            return fallback;
-        }
-        if (!v.isIntegralNumber() || !v.canConvertToInt()) {
-            throw new ApiException(400, "field '" + field + "' must be a whole number, got " + v);
-        }
-        return v.asInt();
-    }
-
-    /** A number in {@code field}, or {@code fallback} when the field is absent. */
-    static double optionalNumber(JsonNode body, String field, double fallback) {
-        JsonNode v = body.get(field);
-        if (v == null) {
-            return fallback;
-        }
-        if (!v.isNumber()) {
-            throw new ApiException(400, "field '" + field + "' must be a number, got " + v);
-        }
-        return v.asDouble();
+        return v;
     }
 }

@@ -14,10 +14,20 @@ final class Responses {
     }
 
     static void json(HttpServerExchange exchange, int status, Object body) {
+        jsonText(exchange, status, Json.write(body));
+    }
+
+    /** Sends JSON already written as text. */
+    static void jsonText(HttpServerExchange exchange, int status, String json) {
+        jsonHeaders(exchange, status);
+        exchange.getResponseSender().send(json, StandardCharsets.UTF_8);
+    }
+
+    /** The status and headers of a JSON answer, for a caller that writes the body itself. */
+    static void jsonHeaders(HttpServerExchange exchange, int status) {
         exchange.setStatusCode(status);
         exchange.getResponseHeaders().put(Headers.CONTENT_TYPE, JSON);
         exchange.getResponseHeaders().put(Headers.CACHE_CONTROL, "no-store");
-        exchange.getResponseSender().send(Json.write(body), StandardCharsets.UTF_8);
     }
 
     static void ok(HttpServerExchange exchange, Object body) {

@@ -3,7 +3,6 @@ package dev.dowser.web;
 import static dev.dowser.web.Requests.jsonBody;
 import static dev.dowser.web.Requests.param;
 
-import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import dev.dowser.desk.Desk;
@@ -11,22 +10,15 @@ import dev.dowser.desk.Overview;
 import dev.dowser.desk.QueuePlace;
 import dev.dowser.json.Json;
 import dev.dowser.rounds.PoolSettings;
-import dev.dowser.rounds.Strategy;
 import dev.dowser.store.QueueEntry;
 import dev.dowser.store.RoundStore;
 import dev.dowser.team.Role;
 import io.undertow.server.HttpServerExchange;
 import java.io.IOException;
-import java.util.Iterator;
 import java.util.List;
-import java.util.Map;
 
 /** What the overview shows of a pool's rounds: their list and chain health, the served queue, settings. */
 final class RoundsApi {
-
-    static final List<String> SETTINGS = List.of("batch_size", "spot_check_share", "lease_minutes", "strategy",
-            "double_label_share", "chains", "draws", "reburn_in_steps", "stop_agreement",
-            "temperature");
 
     private final Overview overview;
     private final Desk desk;
@@ -98,20 +90,7 @@ final class RoundsApi {
 
     /** Changes some of the settings; fields not named keep their value, unknown fields are refused. */
     void changeSettings(HttpServerExchange ex) throws IOException {
-        JsonNode body = jsonBody(ex, "a settings change");
-        for (Iterator<Map.Entry<String, JsonNode>> it = body.fields(); it.hasNext(); ) {
-            String field = it.next().getKey();
-            if (!SETTINGS.contains(field)) {
-                throw new ApiException(400, "unknown setting '" + field + "'; the settings are "
-                        + String.join(", ", SETTINGS));
-            }
-        }
-        PoolSettings.Change change = new PoolSettings.Change(optionalInt(body, "batch_size"),
-                optionalNumber(body, "spot_check_share"), optionalInt(body, "lease_minutes"),
-                body.has("strategy") ? Strategy.parse(body.get("strategy").asText()) : null,
-                optionalNumber(body, "double_label_share"), optionalInt(body, "chains"), optionalInt(body, "draws"),
-                optionalInt(body, "reburn_in_steps"), optionalNumber(body, "stop_agreement"),
-                optionalNumber(body, "temperature"));
+        PoolSettings.Change change = PoolSettings.Change.parse(jsonBody(ex, "a settings change"));
         Responses.ok(ex, settingsJson(overview.changeSettings(param(ex, "pool"), change,
                 Gate.caller(ex, true).name())));
     }
@@ -127,24 +106,8 @@ final class RoundsApi {
         Responses.ok(ex, Json.object().set("changes", changes));
     }
 
-    /** A field that may be absent: null then. */
-    private static Integer optionalInt(JsonNode body, String field) {
-        return body.has(field) ? Requests.optionalInt(body, field, 0) : null;
-    }
-
-    private static Double optionalNumber(JsonNode body, String field) {
-        return body.has(field) ? Requests.optionalNumber(body, field, 0) : null;
-    }
-
-    /** The settings as the API names them; chains, draws, re-burn-in and temperature as in force (the pool's own or the server's). */
+    /** The settings' one document, with chains, draws, re-burn-in and temperature as in force (the pool's own or the server's). */
     private static ObjectNode settingsJson(Overview.Settings in) {
-        PoolSettings s = in.settings();
-        PoolSettings.Sampling sampling = in.sampling();
-        return Json.object().put("batch_size", s.batchSize()).put("spot_check_share", s.spotCheckShare())
-                .put("lease_minutes", s.leaseMinutes()).put("strategy", s.strategy().word())
-                .put("double_label_share", s.doubleLabelShare()).put("chains", sampling.chains())
-                .put("draws", sampling.draws()).put("reburn_in_steps", sampling.reburnInSteps())
-                .put("temperature", sampling.temperature())
-                .put("stop_agreement", s.stopAgreement());
+        return in.settings().shown(in.sampling());
     }
 }

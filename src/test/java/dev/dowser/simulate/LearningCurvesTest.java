@@ -49,8 +49,44 @@ class LearningCurvesTest {
         // random's area: a straight line's trapezoid area over its span is its mean, (first + last) / 2.
         assertEquals((0.425 + 0.875) / 2, lc.meanArea(Strategy.RANDOM), 1e-9);
         assertEquals(4, lc.areaWins(Strategy.BALD, Strategy.RANDOM));
-        // At 50 labels bald's seeds stand at 1, 1, 1 and 0.97 (accuracy is capped at 1).
-        assertEquals((3 + 0.97) / 4, lc.accuracyAt(Strategy.BALD, 50).mean(), 1e-9);
+        // At 50 labels bald's seeds stand at 0.97, 1, 1 and 1 (accuracy is capped at 1): median 1, quartiles
+        // by type 7 (Hyndman & Fan 1996), the lower at h = 0.75: 0.97 + 0.75 (1 - 0.97).
+        LearningCurves.Spread at50 = lc.accuracyAt(Strategy.BALD, 50);
+        assertEquals(1.0, at50.median(), 1e-9);
+        assertEquals(0.97 + 0.75 * 0.03, at50.q25(), 1e-9);
+        assertEquals(1.0, at50.q75(), 1e-9);
+    }
+
+    /**
+     * Accuracy at a fixed count prints a centre inside its band: with one seed far behind the
+     * others the mean (0.74) lies below the middle half (0.9 to 0.9), so the centre printed is the
+     * median, as the plots draw it. The old report printed the mean there and fails this.
+     */
+    @Test
+    void theCentreLiesInsideItsBand() {
+        List<Simulation.Point> pts = new ArrayList<>();
+        for (int seed = 0; seed < 5; seed++) {
+            double start = seed == 0 ? 0.1 : 0.9;
+            line(pts, Strategy.POWER, seed, start, 0);
+            line(pts, Strategy.RANDOM, seed, start, 0);
+        }
+        Simulation.Plan plan = new Simulation.Plan(List.of(Strategy.POWER, Strategy.RANDOM), 5, 10, 100, 0.3,
+                dev.dowser.rounds.PoolSettings.defaults(), dev.dowser.sampler.SamplerConfig.defaults(), 1);
+        StringWriter text = new StringWriter();
+        SimulationReport.summary(new PrintWriter(text), pts, plan, List.of(0.8));
+        String s = text.toString();
+        assertTrue(s.contains("accuracy_at_50_power=0.9000 (0.9000..0.9000)"), s);
+        assertTrue(s.contains("accuracy_at_100_random=0.9000 (0.9000..0.9000)"), s);
+        java.util.regex.Matcher m = java.util.regex.Pattern.compile(
+                "(?m)^(?:accuracy|nll)_at_\\d+_\\w+=([0-9.]+) \\(([0-9.]+)\\.\\.([0-9.]+)\\)$").matcher(s);
+        int lines = 0;
+        while (m.find()) {
+            lines++;
+            double centre = Double.parseDouble(m.group(1));
+            assertTrue(Double.parseDouble(m.group(2)) <= centre && centre <= Double.parseDouble(m.group(3)), m.group());
+        }
+        assertEquals(2 * 2 * 2, lines, "accuracy and NLL, two strategies, at 50 and at 100 (the budget): " + s);
+        assertTrue(!s.contains("NaN"), s);
     }
 
     /** The report never prints NaN or a count that did not occur. */

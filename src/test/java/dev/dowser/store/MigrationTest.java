@@ -108,4 +108,45 @@ class MigrationTest {
             assertEquals(2L, db.pools().list().get(0).labelledCount());
         }
     }
+
+    /**
+     * Settings kept in the code's old camelCase names (pools, rounds, history) read in the API's names
+     * after the renaming migration; rounds' SettingsJsonTest reads the renamed document.
+     */
+    @Test
+    void settingsKeptInTheOldNamesAreRenamed() throws Exception {
+        String old = "{\"batchSize\":4,\"spotCheckShare\":0.2,\"leaseMinutes\":15,\"strategy\":\"bald\","
+                + "\"doubleLabelShare\":0.0,\"stopAgreement\":0.95,\"coldStart\":\"typiclust\",\"chains\":2,"
+                + "\"draws\":8,\"reburnInSteps\":50,\"temperature\":0.5}";
+        String renamed = "{\"batch_size\":4,\"spot_check_share\":0.2,\"lease_minutes\":15,\"strategy\":\"bald\","
+                + "\"double_label_share\":0.0,\"stop_agreement\":0.95,\"cold_start\":\"typiclust\",\"chains\":2,"
+                + "\"draws\":8,\"reburn_in_steps\":50,\"temperature\":0.5}";
+        JdbcDataSource ds = dataSource(dir);
+        Database.migrate(ds, String.valueOf(version("settings_in_api_names") - 1));
+        try (Connection c = ds.getConnection()) {
+            c.createStatement().execute("INSERT INTO pools (id, name, label_set, column_roles, feature_schema, settings,"
+                    + " record_count, created_at) VALUES (1, 'old', '[]', '{}', '{}', '" + old + "', 0, CURRENT_TIMESTAMP)");
+            c.createStatement().execute("INSERT INTO rounds (pool_id, round_no, status, started_at, labels_at_start,"
+                    + " seed, settings) VALUES (1, 1, 'published', CURRENT_TIMESTAMP, 0, 7, '" + old + "')");
+            c.createStatement().execute("INSERT INTO history (pool_id, subject, change_kind, actor, changed_at,"
+                    + " before_value, after_value) VALUES (1, 'settings', 'settings-changed', 'lead', CURRENT_TIMESTAMP,"
+                    + " '" + old + "', '" + old + "')");
+        }
+        try (Database db = TestSupport.openDb(dir)) {
+            assertEquals(renamed, db.pools().require("old").settingsJson());
+            assertEquals(renamed, db.rounds().inputs(1L, 1).orElseThrow().settingsJson());
+            HistoryStore.Change change = db.history().of(1L, "settings").get(0);
+            assertEquals(renamed, change.before());
+            assertEquals(renamed, change.after());
+        }
+    }
+
+    private static int version(String description) throws IOException, URISyntaxException {
+        Path folder = Path.of(MigrationTest.class.getClassLoader().getResource("migrations").toURI());
+        try (Stream<Path> files = Files.list(folder)) {
+            return files.map(f -> VERSION.matcher(f.getFileName().toString()))
+                    .filter(m -> m.matches() && m.group(0).contains(description))
+                    .mapToInt(m -> Integer.parseInt(m.group(1))).findFirst().orElseThrow();
+        }
+    }
 }

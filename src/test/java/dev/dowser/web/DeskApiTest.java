@@ -184,6 +184,28 @@ class DeskApiTest {
                 + " posterior), got 0.0", Json.tree(frozen.body()).get("error").asText());
     }
 
+    /** Every setting, cold start and temperature included, goes through the API and is kept in the same shape. */
+    @Test
+    void everySettingRoundTripsThroughTheApi() throws Exception {
+        JsonNode before = ok(send("GET", "/api/v1/pools/iris/settings", ""), 200);
+        assertEquals("typiclust", before.get("cold_start").asText());
+        String every = "{\"batch_size\":7,\"spot_check_share\":0.25,\"lease_minutes\":12,\"strategy\":\"bald\","
+                + "\"double_label_share\":0.0,\"stop_agreement\":0.97,\"cold_start\":\"kmeans++\",\"chains\":2,"
+                + "\"draws\":12,\"reburn_in_steps\":40,\"temperature\":0.5}";
+        JsonNode changed = ok(send("PUT", "/api/v1/pools/iris/settings", every), 200);
+        assertEquals(Json.tree(every), changed, "every field as sent, in the same names");
+        assertEquals(Json.tree(every), ok(send("GET", "/api/v1/pools/iris/settings", ""), 200));
+        assertEquals(Json.tree(every), Json.tree(db.pools().require("iris").settingsJson()),
+                "the stored document is the one the API shows");
+        // What GET shows, sent back as it is, changes nothing.
+        assertEquals(Json.tree(every), ok(send("PUT", "/api/v1/pools/iris/settings",
+                send("GET", "/api/v1/pools/iris/settings", "").body()), 200));
+        JsonNode history = ok(send("GET", "/api/v1/pools/iris/settings/history", ""), 200).get("changes");
+        assertEquals(before, history.get(0).get("before"));
+        assertEquals(Json.tree(every), history.get(0).get("after"));
+        assertEquals(Json.tree(every), history.get(1).get("after"));
+    }
+
     @Test
     void previewSuggestsRolesFromTheHeadOfAFile() throws Exception {
         // The head is cut in the middle of its fourth record, as a browser's slice of a file would be.

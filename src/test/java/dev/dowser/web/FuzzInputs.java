@@ -327,7 +327,7 @@ final class FuzzInputs {
     /** The field names the API reads, so that generated objects get past the first check. */
     static final List<String> FIELDS = List.of("name", "password", "current", "record", "label", "note", "round",
             "position", "verdict", "reason", "role", "disabled", "batch_size", "spot_check_share",
-            "double_label_share", "lease_minutes", "strategy");
+            "double_label_share", "lease_minutes", "strategy", "cold_start", "temperature");
 
     static Arbitrary<String> apiValue() {
         return Arbitraries.frequencyOf(
@@ -371,7 +371,9 @@ final class FuzzInputs {
                     "reason", List.of("\"looked again\"", "\"\""))),
             java.util.Map.entry("PUT /api/v1/pools/{pool}/settings", java.util.Map.of("batch_size", List.of("10", "0", "100000"),
                     "spot_check_share", List.of("0.1", "1.5", "-0.1"), "double_label_share", List.of("0.2", "2"),
-                    "lease_minutes", List.of("10", "0", "100000"), "strategy", List.of("\"bald\"", "\"random\"", "\"best\""))));
+                    "lease_minutes", List.of("10", "0", "100000"), "strategy", List.of("\"bald\"", "\"random\"", "\"best\""),
+                    "cold_start", List.of("\"kmeans++\"", "\"typiclust\"", "\"middle\""),
+                    "temperature", List.of("0.1", "1", "0", "\"warm\""))));
 
     /** A body for {@code call}: its own fields with fitting values, some dropped, changed or added. */
     static Arbitrary<String> bodyFor(String call) {

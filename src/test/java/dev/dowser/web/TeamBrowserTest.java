@@ -7,21 +7,17 @@ import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.TestSupport;
 import dev.dowser.json.Json;
 import dev.dowser.rounds.PoolSettings;
-import dev.dowser.store.Database;
 import dev.dowser.team.Role;
 import java.net.URI;
 import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
-import java.nio.file.Path;
 import java.time.Duration;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
-import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
-import org.junit.jupiter.api.io.TempDir;
 import org.openqa.selenium.By;
 import org.openqa.selenium.Keys;
 import org.openqa.selenium.WebElement;
@@ -31,13 +27,8 @@ import org.openqa.selenium.support.ui.Select;
  * The team pages in the real browser: what a labeller may not reach or see, a reviewer settling a
  * disagreement between two labellers, agreement on the overview, and an admin managing accounts.
  */
-class TeamBrowserTest {
+class TeamBrowserTest extends BrowserFixture {
 
-    @TempDir
-    Path dir;
-    Database db;
-    WebServer server;
-    Browser browser;
     final HttpClient http = HttpClient.newHttpClient();
     final Map<String, String> tokens = new HashMap<>();
 
@@ -73,29 +64,16 @@ class TeamBrowserTest {
         }
     }
 
-    @AfterEach
-    void stop() {
-        browser.close();
-        server.close();
-        db.close();
-    }
-
     private HttpResponse<String> call(String who, String method, String path, String body) throws Exception {
         return http.send(HttpRequest.newBuilder(URI.create(base() + path)).header("Authorization", "Bearer " + tokens.get(who))
                 .method(method, HttpRequest.BodyPublishers.ofString(body)).build(), HttpResponse.BodyHandlers.ofString());
     }
 
-    private String base() {
-        return "http://127.0.0.1:" + server.port() + "/";
-    }
-
-    private void signIn(String name) {
+    /** Forgets whoever was signed in, then signs {@code name} in. */
+    @Override
+    void signIn(String name) {
         browser.driver.manage().deleteAllCookies();
-        browser.driver.get(base() + "login.html");
-        WebElement form = browser.await(d -> browser.byId("sign-in").isDisplayed() ? browser.byId("sign-in") : null, "the sign-in form");
-        form.findElement(By.name("account")).sendKeys(name);
-        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
-        browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signing in as " + name);
+        super.signIn(name);
     }
 
     @Test
@@ -252,8 +230,14 @@ class TeamBrowserTest {
         }, "the settings form");
         batch.clear();
         batch.sendKeys("7");
+        new Select(browser.byId("settings").findElement(By.name("cold_start"))).selectByValue("kmeans++");
         browser.byId("settings-save").click();
         browser.await(d -> browser.byId("settings-history").getText().contains("lead · labels per round 6 → 7"), "the change listed");
+        // Every setting is in the form, the first batch's spread too, and kept in the API's names.
+        assertTrue(browser.byId("settings-history").getText().contains(
+                "first batch spread by typical records of clusters (TypiClust) → k-means++ seeding"),
+                browser.byId("settings-history").getText());
+        assertEquals("kmeans++", Json.tree(db.pools().require("gauges").settingsJson()).get("cold_start").asText());
         // The setting made through the API before is listed too, with its before and after.
         assertTrue(browser.byId("settings-history").getText().contains("share sent to two people 0.1 → 1"),
                 browser.byId("settings-history").getText());
