@@ -1,5 +1,6 @@
 package dev.dowser.acquire;
 
+import dev.dowser.stats.RandomVariates;
 import dev.dowser.words.Worded;
 import java.util.Arrays;
 import java.util.SplittableRandom;
@@ -143,14 +144,7 @@ public final class ColdStart {
     static int mostTypical(float[] x, int cols, int[] members, SplittableRandom rng) {
         int[] pool = members;
         if (members.length > TYPICALITY_SAMPLE) {
-            pool = members.clone();
-            for (int i = 0; i < TYPICALITY_SAMPLE; i++) {
-                int j = i + rng.nextInt(pool.length - i);
-                int t = pool[i];
-                pool[i] = pool[j];
-                pool[j] = t;
-            }
-            pool = Arrays.copyOf(pool, TYPICALITY_SAMPLE);
+            pool = RandomVariates.sample(members, TYPICALITY_SAMPLE, rng);
         }
         int k = Math.min(NEIGHBOURS, pool.length - 1);
         if (k < 1) {

@@ -1,5 +1,6 @@
 package dev.dowser.acquire;
 
+import dev.dowser.blas.RowMajor;
 import java.util.Arrays;
 import java.util.SplittableRandom;
 
@@ -26,10 +27,7 @@ final class KMeans {
     /** Each record's cluster, 0..k-1. */
     static int[] cluster(float[] x, int rows, int cols, int k, SplittableRandom rng) {
         int[] fit = sample(rows, Math.min(rows, FIT_ROWS), rng);
-        float[] fx = new float[fit.length * cols];
-        for (int i = 0; i < fit.length; i++) {
-            System.arraycopy(x, fit[i] * cols, fx, i * cols, cols);
-        }
+        float[] fx = RowMajor.gather(x, cols, fit);
         double[] best = null;
         double bestInertia = Double.POSITIVE_INFINITY;
         for (int restart = 0; restart < RESTARTS; restart++) {

@@ -1,6 +1,6 @@
 package dev.dowser.acquire;
 
-import java.util.Arrays;
+import dev.dowser.stats.RandomVariates;
 import java.util.SplittableRandom;
 
 /** Batch pickers that work from one score per candidate. */
@@ -193,19 +193,14 @@ public final class Pickers {
         return uniformAmong(all, b, rng);
     }
 
-    /** The first k places of a partial Fisher-Yates shuffle of {@code among}: a uniform ordered sample. */
+    /** A uniform ordered sample of {@code among}, each pick with the probability it was drawn with. */
     private static Picks uniformAmong(int[] among, int b, SplittableRandom rng) {
-        int[] pool = among.clone();
-        int k = Math.min(b, pool.length);
-        double[] q = new double[k];
-        for (int m = 0; m < k; m++) {
-            int j = m + rng.nextInt(pool.length - m);
-            int t = pool[m];
-            pool[m] = pool[j];
-            pool[j] = t;
-            q[m] = 1.0 / (pool.length - m);
+        int[] picks = RandomVariates.sample(among, b, rng);
+        double[] q = new double[picks.length];
+        for (int m = 0; m < picks.length; m++) {
+            q[m] = 1.0 / (among.length - m);
         }
-        return new Picks(java.util.Arrays.copyOf(pool, k), q);
+        return new Picks(picks, q);
     }
 
     private static int[] zeroScored(double[] scores) {

@@ -1,5 +1,6 @@
 package dev.dowser.advice;
 
+import dev.dowser.words.Worded;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
@@ -18,17 +19,23 @@ import java.util.Locale;
  * usual 1.01). R-hat is computed in function space (the log-likelihood and predictions of the
  * draws), since a network's weights are only identified up to relabelled hidden units.
  *
- * @param level    {@code good}, {@code note} (worth knowing, nothing wrong) or {@code act} (a setting would help)
+ * @param level    good, note (worth knowing, nothing wrong) or act (a setting would help)
  * @param summary  one sentence for the overview
  * @param points   the points in plain words, each with the setting it names
  * @param rhatCeiling the R-hat above which the chains count as disagreeing, for the draws kept
  * @param essFloor    the effective sample size below which the draws count as too few, for the draws kept
  */
-public record ChainAdvice(String level, String summary, List<Point> points, double rhatCeiling, double essFloor) {
+public record ChainAdvice(Level level, String summary, List<Point> points, double rhatCeiling, double essFloor) {
 
-    public static final String GOOD = "good";
-    public static final String NOTE = "note";
-    public static final String ACT = "act";
+    /** How much the chains' health asks of the admin, by its word in the API. */
+    public enum Level implements Worded {
+        /** Nothing to do. */
+        GOOD,
+        /** Worth knowing; nothing is wrong. */
+        NOTE,
+        /** A setting would help. */
+        ACT
+    }
 
     /** The share of the draws that should count as independent (see the class comment). */
     public static final double ESS_SHARE = 0.1;
@@ -84,7 +91,7 @@ public record ChainAdvice(String level, String summary, List<Point> points, doub
         int m = chains;
         int s = draws;
         if (!Double.isFinite(rhat) || !Double.isFinite(essBulk)) {
-            return new ChainAdvice(GOOD, "Too few draws per chain to judge the chains; nothing to do.", List.of(),
+            return new ChainAdvice(Level.GOOD, "Too few draws per chain to judge the chains; nothing to do.", List.of(),
                     rhatCeiling(m, s), essFloor(s));
         }
         double ess = Double.isFinite(essTail) ? Math.min(essBulk, essTail) : essBulk;
@@ -92,7 +99,7 @@ public record ChainAdvice(String level, String summary, List<Point> points, doub
         boolean disagree = rhat > rhatCeiling(m, s);
         boolean correlated = ess < essFloor(s);
         String summary = null;
-        String level = NOTE;
+        Level level = Level.NOTE;
         if (correlated) {
             String worth = String.format(Locale.ROOT, "The %d draws behave like about %d independent ones.", s,
                     Math.max(1, Math.round(ess)));
@@ -104,16 +111,16 @@ public record ChainAdvice(String level, String summary, List<Point> points, doub
                 int more = Math.min(knobs.maxDraws(), 2 * knobs.draws());
                 points.add(new Point(worth + " Keeping more draws each round (" + more + ") makes predictions"
                         + " and scores steadier, at the cost of a longer round.", "draws", more));
-                level = ACT;
+                level = Level.ACT;
             } else if (knobs.chains() < knobs.maxChains()) {
                 int more = Math.min(knobs.maxChains(), 2 * knobs.chains());
                 points.add(new Point(worth + " More chains (" + more + ") add independent draws.", "chains", more));
-                level = ACT;
+                level = Level.ACT;
             } else {
                 points.add(new Point(worth + " Draws and chains are at their largest already.", null, 0));
                 summary = "The draws lean on few independent ones; nothing more can be set to help.";
             }
-            if (level.equals(ACT)) {
+            if (level == Level.ACT) {
                 summary = "Predictions rest on few independent draws; a setting below would help.";
             }
         }
@@ -135,7 +142,7 @@ public record ChainAdvice(String level, String summary, List<Point> points, doub
             }
         }
         if (points.isEmpty()) {
-            return new ChainAdvice(GOOD, "The chains agree and their draws are varied enough; nothing to do.",
+            return new ChainAdvice(Level.GOOD, "The chains agree and their draws are varied enough; nothing to do.",
                     List.of(), rhatCeiling(m, s), essFloor(s));
         }
         // A note says what is so; only a point a setting can help is a call to act.

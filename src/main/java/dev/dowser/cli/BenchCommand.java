@@ -63,6 +63,12 @@ import picocli.CommandLine.Spec;
                 + " records sampled and scored per round) with"
                 + " paired seeds: labels to each target, random's labels over the strategy's with 90%% bootstrap"
                 + " intervals, area-under-the-curve gains; curves and a table (labels.md) in --labels-out. Hours.",
+            "stopping (only when named): the stopping rule's proof, simulate on digits with the default strategy and"
+                + " settings, 10 paired seeds, batches of 10 up to 600 labels: seeds in which the rule fired, test"
+                + " accuracy at the stop and at 600 (medians), the median gap with its 90%% bootstrap interval over"
+                + " seeds, the share of rounds whose estimate held the test accuracy, and stopping_holds (fired in"
+                + " every seed, within a point, 90%% of rounds held); curves in --labels-out/stopping/digits. About half an"
+                + " hour on 2 quiet cores.",
             "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: every JSON body and"
                 + " heads of files to preview (two fifths each), files to import (a fifth, last); jqwik properties"
                 + " of the test sources, run through Maven (a source folder is needed). Counts per status; any 500,"
@@ -88,8 +94,8 @@ final class BenchCommand implements Callable<Integer> {
     Path work;
 
     @Option(names = "--only", split = ",", paramLabel = "SUITE",
-            description = "Suites to run: sgemm, score, sampler, round, desk, durability, import, upload, fuzz, labels"
-                    + " (default: all but labels).")
+            description = "Suites to run: sgemm, score, sampler, round, desk, durability, import, upload, fuzz, labels,"
+                    + " stopping (default: all but labels and stopping).")
     java.util.List<String> only;
 
     @Option(names = "--datasets", split = ",", paramLabel = "NAME",
@@ -101,15 +107,16 @@ final class BenchCommand implements Callable<Integer> {
             description = "labels: strategies besides random, the first one in the table (default: default).")
     java.util.List<String> strategies = java.util.List.of(dev.dowser.rounds.Strategy.DEFAULT_WORD);
 
-    @Option(names = "--seeds", defaultValue = "" + Simulation.Plan.DEFAULT_SEEDS, paramLabel = "N", description = "labels: paired seeds (default: ${DEFAULT-VALUE}).")
+    @Option(names = "--seeds", defaultValue = "" + Simulation.Plan.DEFAULT_SEEDS, paramLabel = "N", description = "labels, stopping: paired seeds (default: ${DEFAULT-VALUE}).")
     int seeds;
 
     @Option(names = "--datasets-dir", defaultValue = "target/datasets", paramLabel = "DIR",
-            description = "labels: where ./dowser test unpacked the open datasets (default: ${DEFAULT-VALUE}).")
+            description = "labels, stopping: where ./dowser test unpacked the open datasets (default: ${DEFAULT-VALUE}).")
     Path datasetsDir;
 
     @Option(names = "--labels-out", defaultValue = "target/bench-labels", paramLabel = "DIR",
-            description = "labels: folder for each dataset's curves and the table (default: ${DEFAULT-VALUE}).")
+            description = "labels: folder for each dataset's curves and the table; stopping: its curves in the"
+                    + " folder's stopping/digits (default: ${DEFAULT-VALUE}).")
     Path labelsOut;
 
     @Option(names = "--budget", paramLabel = "N",
@@ -131,7 +138,7 @@ final class BenchCommand implements Callable<Integer> {
     SamplerOptions sampler;
 
     private boolean wants(String suite) {
-        return only == null ? !suite.equals("labels") : only.contains(suite);
+        return only == null ? !suite.equals("labels") && !suite.equals("stopping") : only.contains(suite);
     }
 
     @Override
@@ -190,6 +197,9 @@ final class BenchCommand implements Callable<Integer> {
                     .distinct().toList(), seeds, sampler.config(), dev.dowser.rounds.PoolSettings.defaults()
                     .withColdStart(dev.dowser.acquire.ColdStart.Method.parse(coldStart)), budget, candidates,
                     labelsOut);
+        }
+        if (wants("stopping")) {
+            StopBench.run(out, datasetsDir, seeds, sampler.config(), labelsOut.resolve("stopping"));
         }
         if (wants("desk")) {
             Path dir = work != null ? Files.createDirectories(work.resolve("desk")) : Files.createTempDirectory("dowser-desk-");

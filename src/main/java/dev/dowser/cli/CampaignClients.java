@@ -35,6 +35,8 @@ final class CampaignClients {
     static final int BUSY = 503;
     /** Pause before a request that did not reach the live server is sent again (see {@link #send}). */
     static final int RESEND_PAUSE_MILLIS = 100;
+    /** How long a labeller waits before asking again when nothing was offered. */
+    static final int EMPTY_PAUSE_MILLIS = 25;
 
     /**
      * What the desk answered over the whole campaign: records offered, and answers without one once
@@ -141,105 +143,103 @@ final class CampaignClients {
         }
     }
 
+    /** One turn of a client: its requests for one step of its work. */
+    @FunctionalInterface
+    private interface Turn {
+        void take() throws IOException, InterruptedException;
+    }
+
+    /**
+     * Takes turns until the life ends, {@code pauseMillis} apart. A request that times out is counted
+     * and the client goes on; one that finds the server gone ends the life, for every client.
+     */
+    private void turns(Turn turn, long pauseMillis) {
+        try {
+            while (!down.get()) {
+                try {
+                    turn.take();
+                } catch (HttpTimeoutException slow) {
+                    timedOut();
+                }
+                Thread.sleep(pauseMillis);
+            }
+        } catch (IOException | InterruptedException e) {
+            stopped(e);
+        }
+    }
+
     private void labeller(int who, SplittableRandom rng) {
         String token = tokens.labellers().get(who);
         String person = tokens.labellerNames().get(who);
         String pool = "pools/" + POOL + "/";
-        int n = 0;
-        try {
-            while (true) {
-                try {
-                    HttpResponse<String> offered = send(token, "POST", pool + "queue/next", "{}");
-                    JsonNode next = offered.statusCode() == 200 ? Json.tree(offered.body()) : null;
-                    if (next == null || !next.hasNonNull("record")) {
-                        // Before the first batch of the campaign is served, nothing can be offered.
-                        if (next != null && desk.offered.get() > 0) {
-                            desk.empty.incrementAndGet();
-                            desk.firstEmpty.compareAndSet(null, "life " + (cycle + 1) + ": " + offered.body());
-                        }
-                        Thread.sleep(25);
-                        continue;
-                    }
-                    desk.offered.incrementAndGet();
-                    String record = next.at("/record/id").asText();
-                    String label = CLASSES.get(rng.nextInt(CLASSES.size()));
-                    String note = "c" + cycle + "-" + person + "-" + n++;
-                    HttpResponse<String> r = send(token, "POST", pool + "labels", Json.write(Json.object()
-                            .put("record", record).put("label", label).put("note", note)));
-                    if (r.statusCode() != 201) {
-                        continue;
-                    }
-                    ledger.add(new AckLedger.Ack(AckLedger.Kind.LABEL, cycle, record, person, note, label));
-                    if (rng.nextDouble() < UNDO_SHARE && send(token, "POST", pool + "labels/undo",
-                            Json.write(Json.object().put("record", record))).statusCode() == 200) {
-                        ledger.add(new AckLedger.Ack(AckLedger.Kind.WITHDRAWAL, cycle, record, person, note, label));
-                    }
-                } catch (HttpTimeoutException slow) {
-                    timedOut();
+        AtomicInteger n = new AtomicInteger();
+        turns(() -> {
+            HttpResponse<String> offered = send(token, "POST", pool + "queue/next", "{}");
+            JsonNode next = offered.statusCode() == 200 ? Json.tree(offered.body()) : null;
+            if (next == null || !next.hasNonNull("record")) {
+                // Before the first batch of the campaign is served, nothing can be offered.
+                if (next != null && desk.offered.get() > 0) {
+                    desk.empty.incrementAndGet();
+                    desk.firstEmpty.compareAndSet(null, "life " + (cycle + 1) + ": " + offered.body());
                 }
+                Thread.sleep(EMPTY_PAUSE_MILLIS);
+                return;
             }
-        } catch (IOException | InterruptedException e) {
-            stopped(e);
-        }
+            desk.offered.incrementAndGet();
+            String record = next.at("/record/id").asText();
+            String label = CLASSES.get(rng.nextInt(CLASSES.size()));
+            String note = "c" + cycle + "-" + person + "-" + n.getAndIncrement();
+            HttpResponse<String> r = send(token, "POST", pool + "labels", Json.write(Json.object()
+                    .put("record", record).put("label", label).put("note", note)));
+            if (r.statusCode() != 201) {
+                return;
+            }
+            ledger.add(new AckLedger.Ack(AckLedger.Kind.LABEL, cycle, record, person, note, label));
+            if (rng.nextDouble() < UNDO_SHARE && send(token, "POST", pool + "labels/undo",
+                    Json.write(Json.object().put("record", record))).statusCode() == 200) {
+                ledger.add(new AckLedger.Ack(AckLedger.Kind.WITHDRAWAL, cycle, record, person, note, label));
+            }
+        }, 0);
     }
 
     /** Overrides labels acknowledged earlier, each with a reason of its own. */
     private void reviewer(SplittableRandom rng) {
-        int n = 0;
-        try {
-            while (!down.get()) {
-                List<AckLedger.Ack> labels = ledger.labels();
-                if (labels.isEmpty()) {
-                    Thread.sleep(50);
-                    continue;
-                }
-                AckLedger.Ack target = labels.get(rng.nextInt(labels.size()));
-                String label = CLASSES.get(rng.nextInt(CLASSES.size()));
-                String reason = "c" + cycle + "-review-" + n++;
-                try {
-                    HttpResponse<String> r = send(tokens.reviewer(), "POST", "pools/" + POOL + "/reviews",
-                            Json.write(Json.object().put("record", target.record()).put("verdict", "override")
-                                    .put("label", label).put("reason", reason)));
-                    if (r.statusCode() == 201) {
-                        ledger.add(new AckLedger.Ack(AckLedger.Kind.REVIEW, cycle, target.record(), "reviewer",
-                                reason, label));
-                    }
-                } catch (HttpTimeoutException slow) {
-                    timedOut();
-                }
-                Thread.sleep(REVIEW_PAUSE_MILLIS);
+        AtomicInteger n = new AtomicInteger();
+        turns(() -> {
+            List<AckLedger.Ack> labels = ledger.labels();
+            if (labels.isEmpty()) {
+                return;
             }
-        } catch (IOException | InterruptedException e) {
-            stopped(e);
-        }
+            AckLedger.Ack target = labels.get(rng.nextInt(labels.size()));
+            String label = CLASSES.get(rng.nextInt(CLASSES.size()));
+            String reason = "c" + cycle + "-review-" + n.getAndIncrement();
+            HttpResponse<String> r = send(tokens.reviewer(), "POST", "pools/" + POOL + "/reviews",
+                    Json.write(Json.object().put("record", target.record()).put("verdict", "override")
+                            .put("label", label).put("reason", reason)));
+            if (r.statusCode() == 201) {
+                ledger.add(new AckLedger.Ack(AckLedger.Kind.REVIEW, cycle, target.record(), "reviewer",
+                        reason, label));
+            }
+        }, REVIEW_PAUSE_MILLIS);
     }
 
     /** Changes the lease length (each change to a value never used before) and adds and changes accounts. */
     private void admin() {
-        int n = 0;
-        try {
-            while (!down.get()) {
-                int minutes = settingsCounter.getAndIncrement();
-                try {
-                    if (send(tokens.admin(), "PUT", "pools/" + POOL + "/settings",
-                            "{\"lease_minutes\":" + minutes + "}").statusCode() == 200) {
-                        ledger.add(new AckLedger.Ack(AckLedger.Kind.SETTINGS, cycle, null, "lead",
-                                Integer.toString(minutes), null));
-                    }
-                    String member = n++ % 2 == 0 ? members.poll() : null;
-                    if (member != null && send(tokens.admin(), "PUT", "users/" + member,
-                            "{\"role\":\"reviewer\"}").statusCode() == 200) {
-                        ledger.add(new AckLedger.Ack(AckLedger.Kind.ACCOUNT, cycle, null, "lead", member,
-                                "reviewer"));
-                    }
-                } catch (HttpTimeoutException slow) {
-                    timedOut();
-                }
-                Thread.sleep(ADMIN_PAUSE_MILLIS);
+        AtomicInteger n = new AtomicInteger();
+        turns(() -> {
+            int minutes = settingsCounter.getAndIncrement();
+            if (send(tokens.admin(), "PUT", "pools/" + POOL + "/settings",
+                    "{\"lease_minutes\":" + minutes + "}").statusCode() == 200) {
+                ledger.add(new AckLedger.Ack(AckLedger.Kind.SETTINGS, cycle, null, "lead",
+                        Integer.toString(minutes), null));
             }
-        } catch (IOException | InterruptedException e) {
-            stopped(e);
-        }
+            String member = n.getAndIncrement() % 2 == 0 ? members.poll() : null;
+            if (member != null && send(tokens.admin(), "PUT", "users/" + member,
+                    "{\"role\":\"reviewer\"}").statusCode() == 200) {
+                ledger.add(new AckLedger.Ack(AckLedger.Kind.ACCOUNT, cycle, null, "lead", member,
+                        "reviewer"));
+            }
+        }, ADMIN_PAUSE_MILLIS);
     }
 
     /**

@@ -1,7 +1,7 @@
 package dev.dowser.cli;
 
 import dev.dowser.acquire.PoolScorer;
-import dev.dowser.data.FeatureMatrix;
+import dev.dowser.blas.RowMajor;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.RoundStep;
@@ -59,11 +59,11 @@ final class RoundBench {
         LabelledSet labelled = new LabelledSet(Arrays.copyOf(x, LABELLED * INPUTS), y,
                 IntStream.range(0, LABELLED).asLongStream().toArray(), INPUTS, classes);
         int[] unlabelled = IntStream.range(LABELLED, pool).toArray();
-        RoundStep.Rows candidates = new RoundStep.Rows(FeatureMatrix.gather(x, INPUTS, unlabelled),
+        RoundStep.Rows candidates = new RoundStep.Rows(RowMajor.gather(x, INPUTS, unlabelled),
                 Arrays.stream(unlabelled).asLongStream().toArray(), INPUTS);
         RoundStep.Rows none = new RoundStep.Rows(new float[0], new long[0], INPUTS);
         long[] stop = StabilisingPredictions.stopSet(pool, StabilisingPredictions.STOP_SET_RECORDS, rng);
-        Settling.StopSet stopSet = Settling.StopSet.fresh(new RoundStep.Rows(FeatureMatrix.gather(x, INPUTS,
+        Settling.StopSet stopSet = Settling.StopSet.fresh(new RoundStep.Rows(RowMajor.gather(x, INPUTS,
                 Arrays.stream(stop).mapToInt(r -> (int) r).toArray()), stop, INPUTS));
         PoolSettings settings = PoolSettings.defaults();
         SamplerConfig sampler = settings.sampler(SamplerConfig.defaults());

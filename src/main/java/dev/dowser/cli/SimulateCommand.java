@@ -7,7 +7,6 @@ import dev.dowser.rounds.Strategy;
 import dev.dowser.simulate.Simulation;
 import dev.dowser.simulate.SimulationReport;
 import dev.dowser.stats.Splits;
-import dev.dowser.stats.StabilisingPredictions;
 import java.io.IOException;
 import java.io.PrintWriter;
 import java.nio.file.Path;
@@ -83,7 +82,7 @@ final class SimulateCommand implements Callable<Integer> {
             description = "Test accuracies to report the labels needed for (default: ${DEFAULT-VALUE}).")
     List<Double> targets;
 
-    @Option(names = "--stop-agreement", defaultValue = "" + StabilisingPredictions.DEFAULT_THRESHOLD, paramLabel = "K",
+    @Option(names = "--stop-agreement", defaultValue = "" + PoolSettings.DEFAULT_STOP_AGREEMENT, paramLabel = "K",
             description = "Mean agreement (Cohen's kappa) of the last 3 rounds' predictions on the stop set at which"
                     + " they count as settled (default: ${DEFAULT-VALUE}).")
     double stopAgreement;

@@ -147,7 +147,7 @@ public final class Exporter {
                     add(cells, kinds, v, kindOf(v));
                 }
                 add(cells, kinds, r.label(), Kind.TEXT);
-                add(cells, kinds, resolution.status(), Kind.TEXT);
+                add(cells, kinds, resolution.status().word(), Kind.TEXT);
                 add(cells, kinds, r.labelledBy(), Kind.TEXT);
                 add(cells, kinds, (r.labelled() ? r.labelledAt() : resolution.lastAt()).toString(), Kind.TEXT);
                 add(cells, kinds, r.labelled() ? r.note() : resolution.notes(), Kind.TEXT);

@@ -1,5 +1,6 @@
 package dev.dowser.data;
 
+import dev.dowser.blas.RowMajor;
 import dev.dowser.json.Json;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
@@ -57,15 +58,6 @@ public record FeatureMatrix(float[] values, int rows, int cols, FeatureSchema sc
 
     /** The given rows of this matrix, in that order, row-major. */
     public float[] rows(int[] which) {
-        return gather(values, cols, which);
-    }
-
-    /** The given rows of a row-major matrix of {@code cols} columns, in that order: the one way rows are gathered. */
-    public static float[] gather(float[] x, int cols, int[] rows) {
-        float[] out = new float[rows.length * cols];
-        for (int i = 0; i < rows.length; i++) {
-            System.arraycopy(x, rows[i] * cols, out, i * cols, cols);
-        }
-        return out;
+        return RowMajor.gather(values, cols, which);
     }
 }

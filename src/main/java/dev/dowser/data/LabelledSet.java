@@ -1,5 +1,6 @@
 package dev.dowser.data;
 
+import dev.dowser.blas.RowMajor;
 import dev.dowser.store.Database;
 import dev.dowser.store.PoolRow;
 import java.util.ArrayList;
@@ -45,7 +46,7 @@ public record LabelledSet(float[] x, int[] labels, long[] poolRows, int cols, Li
 
     /** The rows at the given indices of this set. */
     public LabelledSet subset(int[] which) {
-        float[] sx = FeatureMatrix.gather(x, cols, which);
+        float[] sx = RowMajor.gather(x, cols, which);
         int[] sy = new int[which.length];
         long[] sr = new long[which.length];
         for (int i = 0; i < which.length; i++) {

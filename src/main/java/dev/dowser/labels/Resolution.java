@@ -1,5 +1,6 @@
 package dev.dowser.labels;
 
+import dev.dowser.words.Worded;
 import java.time.Instant;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
@@ -14,10 +15,17 @@ import java.util.Map;
  */
 public record Resolution(long row, List<Opinion> opinions, Review review) {
 
-    public static final String SINGLE = "single";
-    public static final String AGREED = "agreed";
-    public static final String REVIEWED = "reviewed";
-    public static final String UNRESOLVED = "unresolved";
+    /** Where the record stands, by its word in the API and the export. */
+    public enum Status implements Worded {
+        /** One person's label, no review. */
+        SINGLE,
+        /** Several people gave the same label. */
+        AGREED,
+        /** A reviewer decided. */
+        REVIEWED,
+        /** People disagree and no reviewer has decided yet. */
+        UNRESOLVED
+    }
 
     /** One person's current label of the record. */
     public record Opinion(String person, String label, Instant at, String note) {
@@ -61,15 +69,14 @@ public record Resolution(long row, List<Opinion> opinions, Review review) {
         return opinions.stream().map(Opinion::label).distinct().count() > 1;
     }
 
-    /** single, agreed, reviewed or unresolved. */
-    public String status() {
+    public Status status() {
         if (review != null) {
-            return REVIEWED;
+            return Status.REVIEWED;
         }
         if (peopleDisagree()) {
-            return UNRESOLVED;
+            return Status.UNRESOLVED;
         }
-        return opinions.size() == 1 ? SINGLE : AGREED;
+        return opinions.size() == 1 ? Status.SINGLE : Status.AGREED;
     }
 
     /** The final label with who decided it, or null while unresolved. */

@@ -1,6 +1,7 @@
 package dev.dowser.model;
 
 import dev.dowser.blas.Blas;
+import dev.dowser.blas.RowMajor;
 
 /**
  * The network's forward pass and the gradient of its log-likelihood, hand-derived, batched over
@@ -85,14 +86,7 @@ public final class Mlp {
     }
 
     private void gather(float[] x, int[] rows, int from, int n) {
-        int d = arch.inputs();
-        if (rows == null) {
-            System.arraycopy(x, from * d, acts[0], 0, n * d);
-        } else {
-            for (int i = 0; i < n; i++) {
-                System.arraycopy(x, rows[from + i] * d, acts[0], i * d, d);
-            }
-        }
+        RowMajor.gather(x, arch.inputs(), rows, from, n, acts[0]);
     }
 
     private void forward(float[] theta, int n) {

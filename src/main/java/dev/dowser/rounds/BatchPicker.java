@@ -4,7 +4,7 @@ import dev.dowser.acquire.BatchBald;
 import dev.dowser.acquire.Pickers;
 import dev.dowser.acquire.Picks;
 import dev.dowser.acquire.PoolScorer;
-import dev.dowser.data.FeatureMatrix;
+import dev.dowser.blas.RowMajor;
 import dev.dowser.model.Layout;
 import dev.dowser.sampler.Predictive;
 import java.util.List;
@@ -40,7 +40,7 @@ final class BatchPicker {
     private static int[] batchBald(int b, PoolScorer.Result scores, float[] cx, Layout layout, List<float[]> draws,
                                    SplittableRandom rng) {
         int[] shortlist = Pickers.topB(scores.bald(), Math.min(scores.bald().length, b * BATCHBALD_CANDIDATES_PER_SLOT));
-        float[] rows = FeatureMatrix.gather(cx, layout.architecture().inputs(), shortlist);
+        float[] rows = RowMajor.gather(cx, layout.architecture().inputs(), shortlist);
         float[] probs = Predictive.perDraw(layout, draws, rows, shortlist.length);
         int[] picked = new BatchBald(probs, shortlist.length, draws.size(), layout.architecture().classes())
                 .pick(b, rng);

@@ -2,7 +2,7 @@ package dev.dowser.rounds;
 
 import dev.dowser.acquire.Pickers;
 import dev.dowser.acquire.PoolScorer;
-import java.util.Arrays;
+import dev.dowser.stats.RandomVariates;
 import java.util.SplittableRandom;
 
 /**
@@ -56,15 +56,7 @@ final class NextBest {
                     free[at++] = i;
                 }
             }
-            // The first k places of a partial Fisher-Yates shuffle: a uniform ordered sample.
-            int m = Math.min(k, free.length);
-            for (int i = 0; i < m; i++) {
-                int j = i + rng.nextInt(free.length - i);
-                int t = free[i];
-                free[i] = free[j];
-                free[j] = t;
-            }
-            return Arrays.copyOf(free, m);
+            return RandomVariates.sample(free, k, rng);
         }
         double[] masked = score.clone();
         for (int q : queued) {

@@ -5,7 +5,7 @@ import dev.dowser.acquire.Pickers;
 import dev.dowser.acquire.Picks;
 import dev.dowser.acquire.PoolScorer;
 import dev.dowser.acquire.SpotChecks;
-import dev.dowser.data.FeatureMatrix;
+import dev.dowser.blas.RowMajor;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.sampler.PosteriorSampler;
 import dev.dowser.sampler.Predictive;
@@ -177,7 +177,7 @@ public final class RoundStep {
                 pickRng);
         List<SpotChecks.Entry> mixed = SpotChecks.mix(picks, cand.count(), b, settings.spotCheckShare(), spotRng);
         int[] at = mixed.stream().mapToInt(SpotChecks.Entry::candidate).toArray();
-        Predictive.Belief belief = Predictive.belief(draws.layout(), draws.draws(), FeatureMatrix.gather(cand.x(), cand.cols(), at),
+        Predictive.Belief belief = Predictive.belief(draws.layout(), draws.draws(), RowMajor.gather(cand.x(), cand.cols(), at),
                 at.length);
         List<Pick> queue = new ArrayList<>();
         for (int i = 0; i < mixed.size(); i++) {
@@ -192,7 +192,7 @@ public final class RoundStep {
         int[] next = NextBest.ranked(rankBy, cand.count(), at, NextBest.size(b, cand.count() - at.length),
                 in.seeds().child(RESERVE).rng());
         Predictive.Belief nextBelief = Predictive.belief(draws.layout(), draws.draws(),
-                FeatureMatrix.gather(cand.x(), cand.cols(), next), next.length);
+                RowMajor.gather(cand.x(), cand.cols(), next), next.length);
         List<Pick> reserve = new ArrayList<>(next.length);
         for (int i = 0; i < next.length; i++) {
             reserve.add(new Pick(cand.rows()[next[i]], next[i], scores.bald()[next[i]], false, Double.NaN, 0, 1,

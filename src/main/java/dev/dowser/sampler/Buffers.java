@@ -37,4 +37,13 @@ final class Buffers {
     float[] extra(int set) {
         return extra[set];
     }
+
+    /**
+     * The state one step on from {@code from}, at the position the kernel wrote into {@code set}:
+     * the target evaluated there, with its gradient written into the set. Every kernel's step ends so.
+     */
+    <E extends KernelState> State<E> next(int set, State<?> from, Target target, Batch batch, E extra) {
+        double logp = target.logDensity(position[set], from.hyper(), batch, gradient[set]);
+        return new State<>(position[set], gradient[set], logp, from.hyper(), from.stepSize(), from.step() + 1, extra);
+    }
 }

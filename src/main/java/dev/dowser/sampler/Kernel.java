@@ -13,8 +13,10 @@ public interface Kernel<E extends KernelState> {
 
     State<E> step(State<E> state, Batch batch, SplittableRandom rng);
 
-    /** Whether each step needs the whole data set rather than a mini-batch. */
-    boolean fullBatch();
+    /** Whether each step needs the whole data set rather than a mini-batch; a mini-batch unless the kernel says so. */
+    default boolean fullBatch() {
+        return false;
+    }
 
     /** A short name for reports: sgld, psgld, mala, sghmc. */
     String name();

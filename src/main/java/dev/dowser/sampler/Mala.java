@@ -63,14 +63,14 @@ public final class Mala implements Kernel<Mala.Counts> {
         for (int i = 0; i < x.length; i++) {
             y[i] = (float) (x[i] + eps / 2 * invT * gx[i] + sd * RandomVariates.normal(rng));
         }
-        float[] gy = buffers.gradient(set);
-        double logpY = target.logDensity(y, s.hyper(), Batch.full(target.dataSize()), gy);
-        double logRatio = invT * (logpY - s.logDensity()) + logQ(x, y, gy, eps, invT) - logQ(y, x, gx, eps, invT);
-        boolean accept = Double.isFinite(logpY) && Math.log(rng.nextDouble()) < logRatio;
         Counts c = s.extra();
-        if (accept) {
-            return new State<>(y, gy, logpY, s.hyper(), s.stepSize(), s.step() + 1,
-                    new Counts(c.accepted() + 1, c.proposed() + 1));
+        State<Counts> proposed = buffers.next(set, s, target, Batch.full(target.dataSize()),
+                new Counts(c.accepted() + 1, c.proposed() + 1));
+        double logpY = proposed.logDensity();
+        double logRatio = invT * (logpY - s.logDensity()) + logQ(x, y, proposed.gradient(), eps, invT)
+                - logQ(y, x, gx, eps, invT);
+        if (Double.isFinite(logpY) && Math.log(rng.nextDouble()) < logRatio) {
+            return proposed;
         }
         return new State<>(x, gx, s.logDensity(), s.hyper(), s.stepSize(), s.step() + 1,
                 new Counts(c.accepted(), c.proposed() + 1));

@@ -82,14 +82,7 @@ public final class PreconditionedSgld implements Kernel<PreconditionedSgld.Preco
         for (int i = 0; i < x.length; i++) {
             next[i] += (float) (sd[i] * RandomVariates.normal(rng));
         }
-        float[] grad = buffers.gradient(set);
-        double logp = target.logDensity(next, s.hyper(), batch, grad);
-        return new State<>(next, grad, logp, s.hyper(), s.stepSize(), s.step() + 1, new Preconditioner(nextV));
-    }
-
-    @Override
-    public boolean fullBatch() {
-        return false;
+        return buffers.next(set, s, target, batch, new Preconditioner(nextV));
     }
 
     @Override

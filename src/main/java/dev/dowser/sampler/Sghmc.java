@@ -68,14 +68,7 @@ public final class Sghmc implements Kernel<Sghmc.Momentum> {
             nextV[i] = vi;
             next[i] = x[i] + vi;
         }
-        float[] grad = buffers.gradient(set);
-        double logp = target.logDensity(next, s.hyper(), batch, grad);
-        return new State<>(next, grad, logp, s.hyper(), s.stepSize(), s.step() + 1, new Momentum(nextV));
-    }
-
-    @Override
-    public boolean fullBatch() {
-        return false;
+        return buffers.next(set, s, target, batch, new Momentum(nextV));
     }
 
     @Override

@@ -48,14 +48,7 @@ public final class Sgld implements Kernel<Sgld.Plain> {
         for (int i = 0; i < x.length; i++) {
             next[i] = (float) (x[i] + half * g[i] + sd * RandomVariates.normal(rng));
         }
-        float[] grad = buffers.gradient(set);
-        double logp = target.logDensity(next, s.hyper(), batch, grad);
-        return new State<>(next, grad, logp, s.hyper(), s.stepSize(), s.step() + 1, Plain.INSTANCE);
-    }
-
-    @Override
-    public boolean fullBatch() {
-        return false;
+        return buffers.next(set, s, target, batch, Plain.INSTANCE);
     }
 
     @Override

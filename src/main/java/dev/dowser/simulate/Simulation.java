@@ -2,12 +2,12 @@ package dev.dowser.simulate;
 
 import dev.dowser.acquire.PoolScorer;
 import dev.dowser.advice.AccuracyReport;
+import dev.dowser.blas.RowMajor;
 import dev.dowser.rounds.PoolSettings;
 import dev.dowser.rounds.RoundService;
 import dev.dowser.rounds.RoundStep;
 import dev.dowser.rounds.Settling;
 import dev.dowser.rounds.Strategy;
-import dev.dowser.data.FeatureMatrix;
 import dev.dowser.data.LabelledSet;
 import dev.dowser.sampler.Predictive;
 import dev.dowser.sampler.RoundDraws;
@@ -16,6 +16,7 @@ import dev.dowser.sampler.State;
 import dev.dowser.sampler.StopSignal;
 import dev.dowser.stats.AccuracyEstimate;
 import dev.dowser.stats.Metrics;
+import dev.dowser.stats.RandomVariates;
 import dev.dowser.stats.SeedTree;
 import dev.dowser.stats.StabilisingPredictions;
 import dev.dowser.stats.Splits;
@@ -245,7 +246,7 @@ public final class Simulation {
             long[] stop = StabilisingPredictions.stopSet(pool.rows(), StabilisingPredictions.STOP_SET_RECORDS,
                     seeds.child(RoundService.STOP_SET).rng());
             int[] at = Arrays.stream(stop).mapToInt(r -> (int) r).toArray();
-            this.stopSet = Settling.StopSet.fresh(new RoundStep.Rows(FeatureMatrix.gather(pool.x(), pool.cols(), at),
+            this.stopSet = Settling.StopSet.fresh(new RoundStep.Rows(RowMajor.gather(pool.x(), pool.cols(), at),
                     stop, pool.cols()));
         }
 
@@ -271,7 +272,7 @@ public final class Simulation {
             if (candidateSample != Plan.EVERY_RECORD && candidates.length > candidateSample) {
                 candidates = sample(candidates, candidateSample, seeds.child(round).child(CANDIDATES).rng());
             }
-            RoundStep.Rows cand = new RoundStep.Rows(FeatureMatrix.gather(pool.x(), pool.cols(), candidates),
+            RoundStep.Rows cand = new RoundStep.Rows(RowMajor.gather(pool.x(), pool.cols(), candidates),
                     Arrays.stream(candidates).asLongStream().toArray(), pool.cols());
             RoundStep.Rows none = new RoundStep.Rows(new float[0], new long[0], pool.cols());
             RoundStep.Input in = new RoundStep.Input(pool.subset(known), cand, none, chains, stopSet,
@@ -286,14 +287,7 @@ public final class Simulation {
 
         /** {@code k} of the rows, uniformly without replacement (a partial Fisher-Yates shuffle), in pool order. */
         static int[] sample(int[] rows, int k, SplittableRandom rng) {
-            int[] a = rows.clone();
-            for (int i = 0; i < k; i++) {
-                int j = i + rng.nextInt(a.length - i);
-                int t = a[i];
-                a[i] = a[j];
-                a[j] = t;
-            }
-            int[] out = Arrays.copyOf(a, k);
+            int[] out = RandomVariates.sample(rows, k, rng);
             Arrays.sort(out);
             return out;
         }

@@ -1,5 +1,6 @@
 package dev.dowser.stats;
 
+import java.util.Arrays;
 import java.util.SplittableRandom;
 
 /** Random draws from standard distributions, from a caller's seeded generator. */
@@ -106,6 +107,23 @@ public final class RandomVariates {
                 return d * v / rate;
             }
         }
+    }
+
+    /**
+     * {@code k} of {@code among} (all of them when there are fewer), uniformly without replacement, in
+     * the order drawn: the first k places of a partial Fisher-Yates shuffle of a copy (Knuth, TAOCP
+     * vol. 2, Algorithm P), so the i-th is drawn with probability 1 / (among.length - i).
+     */
+    public static int[] sample(int[] among, int k, SplittableRandom rng) {
+        int[] a = among.clone();
+        int m = Math.min(k, a.length);
+        for (int i = 0; i < m; i++) {
+            int j = i + rng.nextInt(a.length - i);
+            int t = a[i];
+            a[i] = a[j];
+            a[j] = t;
+        }
+        return Arrays.copyOf(a, m);
     }
 
     /** Shuffles {@code a} in place, every order equally likely (Fisher-Yates; Knuth, TAOCP vol. 2, Algorithm P). */

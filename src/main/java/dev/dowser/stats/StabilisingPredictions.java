@@ -12,15 +12,18 @@ import java.util.SplittableRandom;
  * Stopping", CoNLL): keep a stop set of unlabelled records fixed from the start, compare each
  * round's predicted classes on it with the previous round's by Cohen's kappa, and stop once the
  * mean kappa of the last {@code window} comparisons reaches {@code threshold}. The paper uses a
- * window of 3 and a threshold of 0.99 (from memory), and a stop set of a few thousand records.
+ * window of 3 and a threshold of 0.99 (from memory), and a stop set of a few thousand records; a
+ * pool's own threshold is its {@code stop_agreement} setting.
  *
  * @param window    comparisons averaged
  * @param threshold the mean kappa at which predictions count as stable
  */
 public record StabilisingPredictions(int window, double threshold) {
 
+    /** The paper's window: comparisons averaged. */
     public static final int DEFAULT_WINDOW = 3;
-    public static final double DEFAULT_THRESHOLD = 0.99;
+    /** The paper's threshold; a pool's default is stricter (PoolSettings.DEFAULT_STOP_AGREEMENT). */
+    public static final double PUBLISHED_THRESHOLD = 0.99;
     /** Records in the stop set, at most (the paper's sets held about 2,000). */
     public static final int STOP_SET_RECORDS = 2_000;
 
@@ -33,8 +36,9 @@ public record StabilisingPredictions(int window, double threshold) {
         }
     }
 
-    public static StabilisingPredictions defaults() {
-        return new StabilisingPredictions(DEFAULT_WINDOW, DEFAULT_THRESHOLD);
+    /** The rule as published: the mean of the last 3 kappas at least 0.99. */
+    public static StabilisingPredictions published() {
+        return new StabilisingPredictions(DEFAULT_WINDOW, PUBLISHED_THRESHOLD);
     }
 
     /**

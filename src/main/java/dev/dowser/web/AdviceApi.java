@@ -80,7 +80,7 @@ final class AdviceApi {
 
     /** A round's chain health in plain words, as the rounds list shows it. */
     static ObjectNode chains(ObjectNode n, ChainAdvice c) {
-        n.put("level", c.level()).put("summary", c.summary()).put("rhat_ceiling", c.rhatCeiling())
+        n.put("level", c.level().word()).put("summary", c.summary()).put("rhat_ceiling", c.rhatCeiling())
                 .put("ess_floor", c.essFloor());
         ArrayNode points = n.putArray("points");
         for (ChainAdvice.Point p : c.points()) {

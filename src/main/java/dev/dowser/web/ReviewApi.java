@@ -96,7 +96,7 @@ final class ReviewApi {
     }
 
     static void resolutionJson(ObjectNode n, Resolution r) {
-        n.put("status", r.status());
+        n.put("status", r.status().word());
         var fin = r.finalLabel();
         n.put("final_label", fin == null ? null : fin.label()).put("decided_by", fin == null ? null : fin.labelledBy());
         ArrayNode ops = n.putArray("opinions");

@@ -20,7 +20,7 @@ import org.junit.jupiter.api.Test;
  */
 class AccuracyReportTest {
 
-    private static final StabilisingPredictions RULE = StabilisingPredictions.defaults();
+    private static final StabilisingPredictions RULE = StabilisingPredictions.published();
 
     /** A round of 10 picks from n candidates drawn uniformly (q = 1 / (n + 1 - m)), the first {@code wrong} wrong. */
     private static List<AccuracyReport.Scored> uniformRound(int round, int n, int wrong, boolean spotLast) {

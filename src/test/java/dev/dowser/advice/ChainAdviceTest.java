@@ -50,7 +50,7 @@ class ChainAdviceTest {
         SplittableRandom rng = new SplittableRandom(31);
         int good = 0;
         for (int t = 0; t < 400; t++) {
-            good += ChainAdvice.GOOD.equals(judge(rng, 0, 0).level()) ? 1 : 0;
+            good += ChainAdvice.Level.GOOD == judge(rng, 0, 0).level() ? 1 : 0;
         }
         System.out.println("ideal chains read healthy in " + good + " of 400");
         assertTrue(good >= 396, "healthy in " + good + " of 400");
@@ -61,7 +61,7 @@ class ChainAdviceTest {
         // rho = 0.97: the integrated autocorrelation time is (1 + rho) / (1 - rho) = 66, so 64
         // draws are worth about one each chain, far under 0.1 x 64.
         ChainAdvice a = judge(new SplittableRandom(32), 0.97, 0);
-        assertEquals(ChainAdvice.ACT, a.level());
+        assertEquals(ChainAdvice.Level.ACT, a.level());
         assertEquals("draws", a.points().get(0).setting());
         assertEquals(128, a.points().get(0).suggest());
         assertTrue(a.points().get(0).text().startsWith("The 64 draws behave like about "), a.points().get(0).text());
@@ -79,7 +79,7 @@ class ChainAdviceTest {
     void nothingIsAskedThatNoSettingAllows() {
         ChainAdvice.Knobs maxed = new ChainAdvice.Knobs(16, 512, 5_000, 16, 512, 5_000);
         ChainAdvice a = ChainAdvice.of(2.0, 3, 3, 16, 512, maxed);
-        assertEquals(ChainAdvice.NOTE, a.level());
+        assertEquals(ChainAdvice.Level.NOTE, a.level());
         assertTrue(a.points().stream().allMatch(p -> p.setting() == null), a.toString());
     }
 

@@ -12,7 +12,7 @@ import org.junit.jupiter.api.Test;
 /** The card's wording in each state, from evidence made to order. */
 class StopAdviceTest {
 
-    private static final StabilisingPredictions RULE = StabilisingPredictions.defaults();
+    private static final StabilisingPredictions RULE = StabilisingPredictions.published();
 
     /** A curve a - b n^-c fitted to exact points, so its gains are the curve's own. */
     private static LearningCurve curve(double a, double b, double c, int upTo) {

@@ -5,43 +5,29 @@ import static org.junit.jupiter.api.Assertions.assertNull;
 
 import dev.dowser.TestSupport;
 import dev.dowser.rounds.RoundWorkers;
-import dev.dowser.store.Database;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.store.RoundStatus;
-import java.nio.file.Path;
 import java.time.Duration;
 import java.util.List;
-import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
-import org.junit.jupiter.api.io.TempDir;
 
 /**
  * A desk with nothing served says so plainly, with the way out for the person's role (issue 14,
  * blocker 2): while the first batch is being picked, and when the last round failed.
  */
-class DeskTest {
+class DeskTest extends PoolFixture {
 
-    @TempDir
-    Path dir;
-    Database db;
-    RoundWorkers rounds;
     Desk desk;
+
+    @Override
+    String records() {
+        return "r1,0.5\nr2,1.5\nr3,2.5\n";
+    }
 
     @BeforeEach
     void open() {
-        db = TestSupport.openDb(dir.resolve("db"));
-        // Workers that are not watching: no round starts unless asked, so each state stays as set.
-        rounds = new RoundWorkers(db, TestSupport.quickSampler());
         desk = new Desk(db, rounds, LabelEvents.NONE);
-        TestSupport.importText(db, "p", "id,x\nr1,0.5\nr2,1.5\nr3,2.5\n", TestSupport.csv("p").withId("id")
-                .withClasses(List.of("a", "b")));
-    }
-
-    @AfterEach
-    void close() {
-        rounds.close();
-        db.close();
     }
 
     @Test

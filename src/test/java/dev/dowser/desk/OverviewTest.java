@@ -7,47 +7,33 @@ import static org.junit.jupiter.api.Assertions.assertThrows;
 
 import dev.dowser.TestSupport;
 import dev.dowser.rounds.PoolSettings;
-import dev.dowser.rounds.RoundWorkers;
 import dev.dowser.rounds.Strategy;
 import dev.dowser.sampler.SamplerConfig;
-import dev.dowser.store.Database;
 import dev.dowser.store.NotFoundException;
 import dev.dowser.store.PoolRow;
 import dev.dowser.store.RoundStore;
-import java.nio.file.Path;
 import java.util.List;
-import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
-import org.junit.jupiter.api.io.TempDir;
 
 /** The overview's service: rounds page by page with chain health, settings changed field by field, records. */
-class OverviewTest {
+class OverviewTest extends PoolFixture {
 
-    @TempDir
-    Path dir;
-    Database db;
-    RoundWorkers rounds;
     Overview overview;
     final SamplerConfig server = TestSupport.quickSampler();
 
-    @BeforeEach
-    void open() {
-        db = TestSupport.openDb(dir.resolve("db"));
-        rounds = new RoundWorkers(db, server);
-        overview = new Overview(db, rounds);
-        StringBuilder csv = new StringBuilder("id,x\n");
+    @Override
+    String records() {
+        StringBuilder csv = new StringBuilder();
         for (int i = 0; i < 12; i++) {
             csv.append("r").append(i).append(',').append(i * 0.5).append('\n');
         }
-        TestSupport.importText(db, "p", csv.toString(), TestSupport.csv("p").withId("id")
-                .withClasses(List.of("a", "b")));
+        return csv.toString();
     }
 
-    @AfterEach
-    void close() {
-        rounds.close();
-        db.close();
+    @BeforeEach
+    void open() {
+        overview = new Overview(db, rounds);
     }
 
     @Test

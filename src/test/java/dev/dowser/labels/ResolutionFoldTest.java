@@ -33,7 +33,7 @@ class ResolutionFoldTest {
         Resolution r = Resolution.fold(7, List.of(label("ana", "a", 1), label("ben", "b", 2), label("ana", "b", 3)));
         // ana's newer label replaces hers and moves her opinion last, in the order opinions were last given.
         assertEquals(List.of("ben", "ana"), r.opinions().stream().map(Resolution.Opinion::person).toList());
-        assertEquals(Resolution.AGREED, r.status());
+        assertEquals(Resolution.Status.AGREED, r.status());
         assertEquals("b", r.finalLabel().label());
         assertEquals("ben & ana", r.finalLabel().labelledBy());
         Resolution back = Resolution.fold(7, List.of(label("ana", "a", 1), withdrawal("ana", "a", 2)));
@@ -44,12 +44,12 @@ class ResolutionFoldTest {
     @Test
     void peopleWhoDisagreeWaitForAReviewAndTheNewestReviewIsInForce() {
         List<LabelEvent> split = List.of(label("ana", "a", 1), label("ben", "b", 2));
-        assertEquals(Resolution.UNRESOLVED, Resolution.fold(7, split).status());
+        assertEquals(Resolution.Status.UNRESOLVED, Resolution.fold(7, split).status());
         assertNull(Resolution.fold(7, split).finalLabel(), "disagreement is never settled by order");
         Resolution decided = Resolution.fold(7, List.of(split.get(0), split.get(1),
                 review("rey", Verdict.OVERRIDE, "c", "scale reads 7.2", 3),
                 review("ria", Verdict.OVERRIDE, "a", "second look", 4)));
-        assertEquals(Resolution.REVIEWED, decided.status());
+        assertEquals(Resolution.Status.REVIEWED, decided.status());
         assertEquals("a", decided.finalLabel().label());
         assertEquals("ria", decided.finalLabel().labelledBy());
         assertEquals("second look", decided.finalLabel().note());

@@ -168,13 +168,13 @@ class AdviceServiceTest {
         PoolSettings.Sampling now = new PoolSettings.Sampling(4, 64, 300);
         String health = "{\"rhatMax\":1.6,\"essBulkMin\":4,\"essTailMin\":5}";
         ChainAdvice a = AdviceService.chains(health, "{\"chains\":4,\"draws\":64}", now);
-        assertEquals(ChainAdvice.ACT, a.level());
+        assertEquals(ChainAdvice.Level.ACT, a.level());
         assertEquals(Map.of("draws", 128), Map.of(a.points().get(0).setting(), a.points().get(0).suggest()));
         // After an admin raised the draws, the same round's advice says so instead of asking again.
         ChainAdvice raised = AdviceService.chains(health, "{\"chains\":4,\"draws\":64}", new PoolSettings.Sampling(4, 128,
                 300));
         assertTrue(raised.points().get(0).text().contains("the next round uses them"), raised.toString());
-        assertEquals(ChainAdvice.NOTE, raised.level());
+        assertEquals(ChainAdvice.Level.NOTE, raised.level());
         assertEquals("Predictions rested on few independent draws; the settings have been raised since.",
                 raised.summary());
     }

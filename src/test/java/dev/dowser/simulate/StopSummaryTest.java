@@ -1,6 +1,7 @@
 package dev.dowser.simulate;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.dowser.rounds.Strategy;
@@ -60,5 +61,31 @@ class StopSummaryTest {
         StopSummary.print(new PrintWriter(none), StopSummary.seeds(points, List.of(Strategy.POWER), 5),
                 List.of(Strategy.POWER));
         assertTrue(none.toString().contains("stop_at_power=none\n"), none.toString());
+    }
+
+    @Test
+    void theVerdictAsksForEverySeedToStopWithinAPointAndAnHonestEstimate() {
+        // Accuracy at the budget 0.94; seeds stop at 0.935 (gap 0.5), 0.93 (1.0) and 0.92 (2.0 points).
+        double[] acc = {0.70, 0.85, 0.90, 0.92, 0.93, 0.935, 0.94, 0.94};
+        List<Simulation.Point> points = new ArrayList<>();
+        points.addAll(run(0, acc, 60));
+        points.addAll(run(1, acc, 50));
+        points.addAll(run(2, acc, 40));
+        List<StopSummary.Seed> seeds = StopSummary.seeds(points, List.of(Strategy.POWER), 3);
+        StopSummary.Verdict v = StopSummary.verdict(seeds, Strategy.POWER, StopSummary.BOOTSTRAP_SEED);
+        assertEquals(3, v.fired());
+        assertEquals(1.0, v.gapPoints(), 1e-9, "the median of 0.5, 1.0 and 2.0");
+        // Medians of resampled seeds can only be one of the seeds' own gaps.
+        assertTrue(v.gapInterval().lower() >= 0.5 - 1e-9 && v.gapInterval().upper() <= 2.0 + 1e-9, v.toString());
+        assertEquals(6.0 / 7, v.covers(), 1e-12);
+        assertFalse(v.holds(), "the first round's estimate missed: 6 of 7 rounds is under 90%");
+        assertTrue(new StopSummary.Verdict(Strategy.POWER, 3, 3, 1.0, v.gapInterval(), 0.9).holds());
+        assertFalse(new StopSummary.Verdict(Strategy.POWER, 3, 2, 0.5, v.gapInterval(), 1).holds(),
+                "a seed that never stopped");
+        assertFalse(new StopSummary.Verdict(Strategy.POWER, 3, 3, 1.1, v.gapInterval(), 1).holds(), "over a point");
+        StringWriter w = new StringWriter();
+        StopSummary.print(new PrintWriter(w), seeds, List.of(Strategy.POWER));
+        assertTrue(w.toString().contains("stop_fired_power=3/3\nstop_gap_power=1.00\nstop_gap_power_interval=0."),
+                w.toString());
     }
 }

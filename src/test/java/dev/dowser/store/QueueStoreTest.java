@@ -172,7 +172,7 @@ class QueueStoreTest {
         Resolution r = db.labels().resolution(pool, ben.row());
         assertEquals(List.of("ana", "ben"), r.opinions().stream().map(Resolution.Opinion::person).toList(),
                 "no work is thrown away: both labels are kept");
-        assertEquals(Resolution.UNRESOLVED, r.status(), "they disagree, so a reviewer decides");
+        assertEquals(Resolution.Status.UNRESOLVED, r.status(), "they disagree, so a reviewer decides");
     }
 
     @Test
@@ -288,7 +288,7 @@ class QueueStoreTest {
         assertFalse(done.awaitingSecondLabel());
         assertFalse(lease("dee").row() == 5);
         Resolution r = db.labels().resolution(pool, 5);
-        assertEquals(Resolution.UNRESOLVED, r.status());
+        assertEquals(Resolution.Status.UNRESOLVED, r.status());
         assertEquals(List.of("ana", "cy"), r.opinions().stream().map(Resolution.Opinion::person).toList());
     }
 }

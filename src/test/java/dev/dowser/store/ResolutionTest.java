@@ -45,18 +45,18 @@ class ResolutionTest {
     @Test
     void onePersonAgreeingPeopleAndAReviewer() {
         label(0, "a", "ana");
-        assertEquals(Resolution.SINGLE, db.labels().resolution(pool, 0).status());
+        assertEquals(Resolution.Status.SINGLE, db.labels().resolution(pool, 0).status());
         label(0, "b", "ana");
         assertEquals("b", db.labels().resolution(pool, 0).finalLabel().label(), "a person's newer label replaces theirs");
         label(0, "b", "ben");
         Resolution agreed = db.labels().resolution(pool, 0);
-        assertEquals(Resolution.AGREED, agreed.status());
+        assertEquals(Resolution.Status.AGREED, agreed.status());
         assertEquals("ana & ben", agreed.finalLabel().labelledBy());
 
         label(1, "a", "ana");
         label(1, "c", "ben");
         Resolution split = db.labels().resolution(pool, 1);
-        assertEquals(Resolution.UNRESOLVED, split.status());
+        assertEquals(Resolution.Status.UNRESOLVED, split.status());
         assertNull(split.finalLabel());
         ConflictException accept = assertThrows(ConflictException.class,
                 () -> db.labels().review(pool, 1, "rey", Verdict.ACCEPT, null, null));
@@ -65,7 +65,7 @@ class ResolutionTest {
         assertEquals("an override needs a reason, kept with the label", assertThrows(IllegalArgumentException.class,
                 () -> db.labels().review(pool, 1, "rey", Verdict.OVERRIDE, "c", " ")).getMessage());
         Resolution decided = db.labels().review(pool, 1, "rey", Verdict.OVERRIDE, "c", "scale reads 7.2");
-        assertEquals(Resolution.REVIEWED, decided.status());
+        assertEquals(Resolution.Status.REVIEWED, decided.status());
         assertEquals("c", decided.finalLabel().label());
         assertEquals("rey", decided.finalLabel().labelledBy());
         // A later label does not undo the reviewer's decision.
@@ -76,7 +76,7 @@ class ResolutionTest {
         assertEquals(Map.of("b", 1L, "c", 1L), db.labels().counts(pool));
         // Withdrawing one's label leaves the other person's.
         db.labels().withdraw(pool, 0, "ben");
-        assertEquals(Resolution.SINGLE, db.labels().resolution(pool, 0).status());
+        assertEquals(Resolution.Status.SINGLE, db.labels().resolution(pool, 0).status());
         // Nothing was changed in place: every step is a row of the history.
         List<LabelStore.Entry> history = db.labels().history(pool, 1);
         assertEquals(List.of("label", "label", "override", "label"), history.stream().map(LabelStore.Entry::kind).toList());

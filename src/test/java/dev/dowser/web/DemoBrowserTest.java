@@ -6,32 +6,21 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.dowser.TestSupport;
 import dev.dowser.demo.DemoPool;
-import dev.dowser.store.Database;
 import dev.dowser.store.QueueStore;
 import dev.dowser.team.Accounts;
 import dev.dowser.team.Role;
-import java.nio.file.Path;
 import java.security.SecureRandom;
 import java.util.List;
 import java.util.Map;
-import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
-import org.junit.jupiter.api.io.TempDir;
 import org.openqa.selenium.By;
 import org.openqa.selenium.Dimension;
-import org.openqa.selenium.Keys;
 import org.openqa.selenium.WebElement;
 import org.openqa.selenium.interactions.Actions;
 
 /** The demo's first minute as a newcomer lives it: sign in, land on the desk, see a pump trace, label it. */
-class DemoBrowserTest {
-
-    @TempDir
-    Path dir;
-    Database db;
-    WebServer server;
-    Browser browser;
+class DemoBrowserTest extends BrowserFixture {
 
     @BeforeEach
     void start() {
@@ -45,22 +34,12 @@ class DemoBrowserTest {
         browser = Browser.shared();
     }
 
-    @AfterEach
-    void stop() {
-        browser.close();
-        server.close();
-        db.close();
-    }
-
     @Test
     void theDeskAddressLeadsThroughSignInToAPumpTrace() {
-        String base = "http://127.0.0.1:" + server.port() + "/";
+        String base = base();
         // The address the demo prints; signing in brings the person back to it.
         browser.driver.get(base + "desk.html?pool=" + DemoPool.POOL);
-        WebElement form = browser.await(d -> d.getCurrentUrl().contains("login.html") && browser.byId("sign-in").isDisplayed()
-                ? browser.byId("sign-in") : null, "the sign-in page");
-        form.findElement(By.name("account")).sendKeys("demo-labeller");
-        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
+        signInHere("demo-labeller");
         browser.await(d -> d.getCurrentUrl().contains("desk.html?pool=" + DemoPool.POOL), "back at the desk");
         String first = browser.await(d -> browser.byId("card").isDisplayed() ? browser.byId("card-id").getText() : null,
                 "the first record");
@@ -129,13 +108,8 @@ class DemoBrowserTest {
      */
     @Test
     void everyPageFitsAPhoneInBothThemes() {
-        String base = "http://127.0.0.1:" + server.port() + "/";
-        browser.driver.get(base + "login.html");
-        WebElement form = browser.await(d -> browser.byId("sign-in").isDisplayed() ? browser.byId("sign-in") : null,
-                "the sign-in page");
-        form.findElement(By.name("account")).sendKeys("demo-lead");
-        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
-        browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signed in");
+        String base = base();
+        signIn("demo-lead");
         // A few labels, so that the review page and the overview have something to show.
         browser.driver.get(base + "desk.html?pool=" + DemoPool.POOL);
         for (int i = 0; i < 3; i++) {

@@ -10,7 +10,6 @@ import dev.dowser.TestSupport;
 import dev.dowser.json.Json;
 import dev.dowser.sampler.KernelChoice;
 import dev.dowser.sampler.SamplerConfig;
-import dev.dowser.store.Database;
 import dev.dowser.store.RoundStatus;
 import dev.dowser.team.Role;
 import java.io.BufferedReader;
@@ -27,10 +26,8 @@ import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
-import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
-import org.junit.jupiter.api.io.TempDir;
 import org.openqa.selenium.By;
 import org.openqa.selenium.Keys;
 import org.openqa.selenium.WebElement;
@@ -42,17 +39,12 @@ import org.openqa.selenium.support.ui.Select;
  * the UCI wine data (Forina et al., as shipped by Debian's python3-sklearn 1.2.1) with most labels
  * removed; its known classes play the labeller, who answers by keyboard.
  */
-class PagesBrowserTest {
+class PagesBrowserTest extends BrowserFixture {
 
     static final String PERSON = "labeller-a";
     static final String LEAD = "lead";
     static final int KNOWN_PER_CLASS = 2;
 
-    @TempDir
-    Path dir;
-    Database db;
-    WebServer server;
-    Browser browser;
     /** The admin's API token, for calls the test makes around the browser. */
     String lead;
     final HttpClient http = HttpClient.newHttpClient();
@@ -68,15 +60,6 @@ class PagesBrowserTest {
         TestSupport.tokenFor(db, PERSON, Role.LABELLER);
         TestSupport.tokenFor(db, "labeller-b", Role.LABELLER);
         browser = Browser.shared();
-    }
-
-    @AfterEach
-    void stop() {
-        if (browser != null) {
-            browser.close();
-        }
-        server.close();
-        db.close();
     }
 
     /** The wine data with only the first few records of each class labelled; returns each line's true class. */
@@ -98,27 +81,16 @@ class PagesBrowserTest {
         return truth;
     }
 
-    private String base() {
-        return "http://127.0.0.1:" + server.port() + "/";
-    }
-
-    private String cardId() {
-        WebElement card = browser.byId("card");
-        return card.isDisplayed() ? browser.byId("card-id").getText() : "";
-    }
-
-    /** Signs in through the sign-in page (after signing out whoever is signed in) and waits to leave it. */
-    private void signIn(String name) {
-        if (!browser.driver.findElements(By.id("sign-out")).isEmpty()) {
-            browser.byId("sign-out").click();
-            browser.await(d -> d.getCurrentUrl().contains("login.html"), "signing out");
-        } else {
-            browser.driver.get(base() + "login.html");
+    /** Signs out through the page when someone is signed in, then signs {@code name} in. */
+    @Override
+    void signIn(String name) {
+        if (browser.driver.findElements(By.id("sign-out")).isEmpty()) {
+            super.signIn(name);
+            return;
         }
-        WebElement form = browser.await(d -> browser.byId("sign-in").isDisplayed() ? browser.byId("sign-in") : null, "the sign-in form");
-        form.findElement(By.name("account")).sendKeys(name);
-        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
-        browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signing in as " + name);
+        browser.byId("sign-out").click();
+        browser.await(d -> d.getCurrentUrl().contains("login.html"), "signing out");
+        signInHere(name);
     }
 
     private HttpRequest.Builder asLead(String path) {

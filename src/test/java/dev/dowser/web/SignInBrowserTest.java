@@ -4,7 +4,6 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.dowser.TestSupport;
-import dev.dowser.store.Database;
 import dev.dowser.team.Role;
 import java.net.URI;
 import java.net.URLEncoder;
@@ -12,24 +11,15 @@ import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
 import java.nio.charset.StandardCharsets;
-import java.nio.file.Path;
 import java.util.List;
-import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
-import org.junit.jupiter.api.io.TempDir;
 import org.openqa.selenium.By;
-import org.openqa.selenium.Keys;
 import org.openqa.selenium.WebElement;
 
 /** Signing in in the real browser: where it leads afterwards, and an admin revoking someone's API token. */
-class SignInBrowserTest {
+class SignInBrowserTest extends BrowserFixture {
 
-    @TempDir
-    Path dir;
-    Database db;
-    WebServer server;
-    Browser browser;
     final HttpClient http = HttpClient.newHttpClient();
 
     @BeforeEach
@@ -40,17 +30,6 @@ class SignInBrowserTest {
         browser = Browser.shared();
     }
 
-    @AfterEach
-    void stop() {
-        browser.close();
-        server.close();
-        db.close();
-    }
-
-    private String base() {
-        return "http://127.0.0.1:" + server.port() + "/";
-    }
-
     /** Signs in from {@code login.html?next=NEXT} (NEXT encoded here); returns where the browser went. */
     private String signInWithNext(String next) {
         return signInFrom("login.html?next=" + URLEncoder.encode(next, StandardCharsets.UTF_8));
@@ -58,14 +37,9 @@ class SignInBrowserTest {
 
     /** Signs in from {@code page} (its query as given); returns where the browser went. */
     private String signInFrom(String page) {
-        String next = page;
         browser.driver.manage().deleteAllCookies();
         browser.driver.get(base() + page);
-        WebElement form = browser.await(d -> browser.byId("sign-in").isDisplayed() ? browser.byId("sign-in") : null,
-                "the sign-in form");
-        form.findElement(By.name("account")).sendKeys("lead");
-        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
-        browser.await(d -> !d.getCurrentUrl().contains("login.html"), "leaving the sign-in page for " + next);
+        signInHere("lead");
         return browser.driver.getCurrentUrl();
     }
 

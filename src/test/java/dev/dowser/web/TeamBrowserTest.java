@@ -7,21 +7,17 @@ import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.TestSupport;
 import dev.dowser.json.Json;
 import dev.dowser.rounds.PoolSettings;
-import dev.dowser.store.Database;
 import dev.dowser.team.Role;
 import java.net.URI;
 import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
-import java.nio.file.Path;
 import java.time.Duration;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
-import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
-import org.junit.jupiter.api.io.TempDir;
 import org.openqa.selenium.By;
 import org.openqa.selenium.Keys;
 import org.openqa.selenium.WebElement;
@@ -31,13 +27,8 @@ import org.openqa.selenium.support.ui.Select;
  * The team pages in the real browser: what a labeller may not reach or see, a reviewer settling a
  * disagreement between two labellers, agreement on the overview, and an admin managing accounts.
  */
-class TeamBrowserTest {
+class TeamBrowserTest extends BrowserFixture {
 
-    @TempDir
-    Path dir;
-    Database db;
-    WebServer server;
-    Browser browser;
     final HttpClient http = HttpClient.newHttpClient();
     final Map<String, String> tokens = new HashMap<>();
 
@@ -73,29 +64,16 @@ class TeamBrowserTest {
         }
     }
 
-    @AfterEach
-    void stop() {
-        browser.close();
-        server.close();
-        db.close();
-    }
-
     private HttpResponse<String> call(String who, String method, String path, String body) throws Exception {
         return http.send(HttpRequest.newBuilder(URI.create(base() + path)).header("Authorization", "Bearer " + tokens.get(who))
                 .method(method, HttpRequest.BodyPublishers.ofString(body)).build(), HttpResponse.BodyHandlers.ofString());
     }
 
-    private String base() {
-        return "http://127.0.0.1:" + server.port() + "/";
-    }
-
-    private void signIn(String name) {
+    /** Forgets whoever was signed in, then signs {@code name} in. */
+    @Override
+    void signIn(String name) {
         browser.driver.manage().deleteAllCookies();
-        browser.driver.get(base() + "login.html");
-        WebElement form = browser.await(d -> browser.byId("sign-in").isDisplayed() ? browser.byId("sign-in") : null, "the sign-in form");
-        form.findElement(By.name("account")).sendKeys(name);
-        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
-        browser.await(d -> !d.getCurrentUrl().contains("login.html"), "signing in as " + name);
+        super.signIn(name);
     }
 
     @Test

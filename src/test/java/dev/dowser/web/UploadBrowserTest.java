@@ -5,7 +5,6 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.dowser.TestSupport;
 import dev.dowser.json.Json;
-import dev.dowser.store.Database;
 import dev.dowser.team.Role;
 import java.io.IOException;
 import java.io.Writer;
@@ -19,13 +18,9 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
-import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
-import org.junit.jupiter.api.io.TempDir;
 import org.openqa.selenium.By;
-import org.openqa.selenium.Keys;
-import org.openqa.selenium.WebElement;
 
 /**
  * Issue 14: uploads over 2 MiB failed with a 500. A generated file of about 50 MB goes through the
@@ -33,16 +28,11 @@ import org.openqa.selenium.WebElement;
  * past the limit, the page says so before sending and the API answers 413 naming the limit and the
  * option that raises it. A gigabyte into a 512 MiB heap is measured by hand (notes).
  */
-class UploadBrowserTest {
+class UploadBrowserTest extends BrowserFixture {
 
     /** Rows of the generated file: an id, eight readings and a condition, about 50 MB. */
     static final int ROWS = 600_000;
 
-    @TempDir
-    Path dir;
-    Database db;
-    WebServer server;
-    Browser browser;
     String lead;
     final HttpClient http = HttpClient.newHttpClient();
 
@@ -54,13 +44,6 @@ class UploadBrowserTest {
         browser = Browser.shared();
     }
 
-    @AfterEach
-    void stop() {
-        browser.close();
-        server.close();
-        db.close();
-    }
-
     @Test
     void fiftyMegabytesThroughThePageAndTheApi() throws Exception {
         Path file = dir.resolve("pump-readings.csv");
@@ -68,16 +51,7 @@ class UploadBrowserTest {
         long size = Files.size(file);
         assertTrue(size > 45_000_000, "the file is " + size + " bytes");
 
-        browser.driver.get("http://127.0.0.1:" + server.port() + "/login.html");
-        WebElement form = browser.await(d -> browser.byId("sign-in"), "the sign-in form");
-        form.findElement(By.name("account")).sendKeys("lead");
-        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
-        browser.await(d -> browser.byId("pools-empty").isDisplayed(), "the empty pool list");
-        browser.byId("import-form").findElement(By.name("pool")).sendKeys("readings");
-        browser.byId("import-form").findElement(By.name("file")).sendKeys(file.toAbsolutePath().toString());
-        browser.byId("preview-button").click();
-        browser.await(d -> browser.byId("mapping").isDisplayed(), "the mapping step");
-        browser.byId("import-button").click();
+        importThroughThePage("readings", file);
         // Both stages show on the page with the bar: the file going up, then the records going in.
         List<String> seen = new ArrayList<>();
         browser.await(d -> {
@@ -97,8 +71,8 @@ class UploadBrowserTest {
         assertEquals(ROWS, db.pools().require("readings").recordCount());
 
         // The same file through the API.
-        HttpResponse<String> api = http.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + server.port()
-                        + "/api/v1/imports?pool=readings2&file_name=r.csv&id=id&label=condition&wait=true"))
+        HttpResponse<String> api = http.send(HttpRequest.newBuilder(URI.create(base()
+                        + "api/v1/imports?pool=readings2&file_name=r.csv&id=id&label=condition&wait=true"))
                 .header("Authorization", "Bearer " + lead).POST(HttpRequest.BodyPublishers.ofFile(file)).build(),
                 HttpResponse.BodyHandlers.ofString());
         assertEquals(201, api.statusCode(), api.body());
@@ -111,16 +85,7 @@ class UploadBrowserTest {
         server = TestSupport.quickServer(db, dir, 1 << 20);
         Path file = dir.resolve("too-big.csv");
         write(file, 30_000);
-        browser.driver.get("http://127.0.0.1:" + server.port() + "/login.html");
-        WebElement form = browser.await(d -> browser.byId("sign-in"), "the sign-in form");
-        form.findElement(By.name("account")).sendKeys("lead");
-        form.findElement(By.name("password")).sendKeys(TestSupport.TEST_PASSWORD, Keys.ENTER);
-        browser.await(d -> browser.byId("pools-empty").isDisplayed(), "the empty pool list");
-        browser.byId("import-form").findElement(By.name("pool")).sendKeys("big");
-        browser.byId("import-form").findElement(By.name("file")).sendKeys(file.toAbsolutePath().toString());
-        browser.byId("preview-button").click();
-        browser.await(d -> browser.byId("mapping").isDisplayed(), "the mapping step");
-        browser.byId("import-button").click();
+        importThroughThePage("big", file);
         browser.await(d -> browser.byId("import-message").getText().endsWith("larger than this server takes: 1 MiB"
                 + " (raise it with dowser serve --max-upload-mib)."), "the refusal before sending");
 
@@ -156,5 +121,16 @@ class UploadBrowserTest {
                 w.write(line.toString());
             }
         }
+    }
+
+    /** Signs the lead in, chooses {@code file} for a new pool on the empty pools page, previews it and imports it. */
+    private void importThroughThePage(String pool, Path file) {
+        signIn("lead");
+        browser.await(d -> browser.byId("pools-empty").isDisplayed(), "the empty pool list");
+        browser.byId("import-form").findElement(By.name("pool")).sendKeys(pool);
+        browser.byId("import-form").findElement(By.name("file")).sendKeys(file.toAbsolutePath().toString());
+        browser.byId("preview-button").click();
+        browser.await(d -> browser.byId("mapping").isDisplayed(), "the mapping step");
+        browser.byId("import-button").click();
     }
 }
