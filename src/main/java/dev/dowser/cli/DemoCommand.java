@@ -82,7 +82,7 @@ final class DemoCommand implements Callable<Integer> {
             throw e;
         }
         System.err.println("dowser: starting the server; the first round runs in the background");
-        // The first round (a batch spread over the pool by k-means++) is ready before anyone looks.
+        // The first round (the most typical record of each cluster of the pool) is ready before anyone looks.
         ServerRunner.runUntilStopped(server, db, folder, "Dowser demo: " + r.records() + " pump readings in pool '"
                 + r.poolName() + "'\nLabel at  {address}desk.html?pool=" + r.poolName()
                 + "\nOverview  {address}overview.html?pool=" + r.poolName()

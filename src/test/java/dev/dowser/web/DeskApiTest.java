@@ -188,9 +188,9 @@ class DeskApiTest {
     @Test
     void everySettingRoundTripsThroughTheApi() throws Exception {
         JsonNode before = ok(send("GET", "/api/v1/pools/iris/settings", ""), 200);
-        assertEquals("kmeans++", before.get("cold_start").asText());
+        assertEquals("typiclust", before.get("cold_start").asText());
         String every = "{\"batch_size\":7,\"spot_check_share\":0.25,\"lease_minutes\":12,\"strategy\":\"bald\","
-                + "\"double_label_share\":0.0,\"stop_agreement\":0.97,\"cold_start\":\"typiclust\",\"chains\":2,"
+                + "\"double_label_share\":0.0,\"stop_agreement\":0.97,\"cold_start\":\"kmeans++\",\"chains\":2,"
                 + "\"draws\":12,\"reburn_in_steps\":40,\"temperature\":0.5}";
         JsonNode changed = ok(send("PUT", "/api/v1/pools/iris/settings", every), 200);
         assertEquals(Json.tree(every), changed, "every field as sent, in the same names");

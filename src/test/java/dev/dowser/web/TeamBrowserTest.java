@@ -230,14 +230,14 @@ class TeamBrowserTest extends BrowserFixture {
         }, "the settings form");
         batch.clear();
         batch.sendKeys("7");
-        new Select(browser.byId("settings").findElement(By.name("cold_start"))).selectByValue("typiclust");
+        new Select(browser.byId("settings").findElement(By.name("cold_start"))).selectByValue("kmeans++");
         browser.byId("settings-save").click();
         browser.await(d -> browser.byId("settings-history").getText().contains("lead · labels per round 6 → 7"), "the change listed");
         // Every setting is in the form, the first batch's spread too, and kept in the API's names.
         assertTrue(browser.byId("settings-history").getText().contains(
-                "first batch spread by k-means++ seeding → typical records of clusters (TypiClust)"),
+                "first batch spread by typical records of clusters (TypiClust) → k-means++ seeding"),
                 browser.byId("settings-history").getText());
-        assertEquals("typiclust", Json.tree(db.pools().require("gauges").settingsJson()).get("cold_start").asText());
+        assertEquals("kmeans++", Json.tree(db.pools().require("gauges").settingsJson()).get("cold_start").asText());
         // The setting made through the API before is listed too, with its before and after.
         assertTrue(browser.byId("settings-history").getText().contains("share sent to two people 0.1 → 1"),
                 browser.byId("settings-history").getText());
