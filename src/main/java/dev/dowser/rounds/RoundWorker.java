@@ -61,13 +61,19 @@ public final class RoundWorker implements AutoCloseable {
         });
     }
 
-    /** Asks for a round: now, or right after the one running. */
-    public void request() {
+    /**
+     * Asks for a round: now, or right after the one running. A round's start and end change the
+     * worker's state under its lock, so that {@link #requestIfStillQuiet} can tell whether one
+     * started or ended since {@link #quietAfter}.
+     */
+    public synchronized void request() {
         if (queued.compareAndSet(false, true)) {
             thread.execute(() -> {
-                // Running before no longer queued, so that busy() is never false in between.
-                running.set(true);
-                queued.set(false);
+                synchronized (this) {
+                    // Running before no longer queued, so that busy() is never false in between.
+                    running.set(true);
+                    queued.set(false);
+                }
                 labelsSinceRound.set(0);
                 try {
                     if (!stop.requested()) {
@@ -78,17 +84,41 @@ public final class RoundWorker implements AutoCloseable {
                         }
                     }
                 } finally {
-                    running.set(false);
-                    roundsRun.incrementAndGet();
+                    synchronized (this) {
+                        // Counted before no longer running, so that a quiet worker's count covers every round that ended.
+                        roundsRun.incrementAndGet();
+                        running.set(false);
+                    }
                 }
             });
         }
     }
 
     /** Asks for a round unless one is running or waiting, or the last failed within {@link #RETRY_AFTER_FAILURE}. */
-    public void requestUnlessFailing() {
+    public synchronized void requestUnlessFailing() {
         if (!busy() && System.nanoTime() - failedAt.get() > RETRY_AFTER_FAILURE.toNanos()) {
             request();
+        }
+    }
+
+    /**
+     * The rounds this worker has ended so far, or -1 while one runs or waits: taken before reading
+     * from the store whether the pool needs a round, and handed to {@link #requestIfStillQuiet}.
+     */
+    public synchronized int quietAfter() {
+        return busy() ? -1 : roundsRun.get();
+    }
+
+    /**
+     * Asks for a round as {@link #requestUnlessFailing} does, but only if no round has waited, run
+     * or ended since {@link #quietAfter} gave {@code seen}: only a round publishes a queue, so what
+     * the caller read from the store in between still holds. Without this, a look at the store
+     * taken while a round ran ("nothing served") would start another round right after that round
+     * had served a full batch.
+     */
+    public synchronized void requestIfStillQuiet(int seen) {
+        if (seen >= 0 && seen == roundsRun.get()) {
+            requestUnlessFailing();
         }
     }
 

@@ -4,6 +4,8 @@ import dev.dowser.acquire.PoolScorer;
 import dev.dowser.sampler.SamplerConfig;
 import dev.dowser.store.Database;
 import java.time.Duration;
+import java.util.HashMap;
+import java.util.Map;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.Executors;
 import java.util.concurrent.ScheduledExecutorService;
@@ -81,9 +83,7 @@ public final class RoundWorkers implements AutoCloseable {
         if (interrupted > 0) {
             LOG.info("{} round(s) left running by the last server were marked interrupted", interrupted);
         }
-        for (String pool : db.queues().poolsToServe(RoundWorker.LOW_WATER_PER_LABELLER)) {
-            worker(pool).requestUnlessFailing();
-        }
+        serve(RoundWorker.LOW_WATER_PER_LABELLER);
         // The id index of each pool is built now, off the desk's path, rather than at the first label.
         watcher.execute(() -> db.pools().ids().values().forEach(db.records()::warmKeys));
         watcher.scheduleWithFixedDelay(this::serveNewPools, WATCH_PERIOD.toMillis(), WATCH_PERIOD.toMillis(),
@@ -92,11 +92,23 @@ public final class RoundWorkers implements AutoCloseable {
 
     private void serveNewPools() {
         try {
-            for (String pool : db.queues().poolsToServe(-1)) {
-                worker(pool).requestUnlessFailing();
-            }
+            serve(-1);
         } catch (RuntimeException e) {
             LOG.warn("cannot look for pools to serve", e);
+        }
+    }
+
+    /**
+     * Starts a round for every pool that {@link dev.dowser.store.QueueStore#poolsToServe} names
+     * ({@code shortAt} as there), unless its worker started or ended a round while the store was
+     * read: that round served the pool, and a second would start with its batch full.
+     */
+    private void serve(int shortAt) {
+        Map<String, Integer> quiet = new HashMap<>();
+        workers.forEach((pool, w) -> quiet.put(pool, w.quietAfter()));
+        for (String pool : db.queues().poolsToServe(shortAt)) {
+            // A worker made since has ended no round before it was looked at: 0, as a new one reports.
+            worker(pool).requestIfStillQuiet(quiet.getOrDefault(pool, 0));
         }
     }
 

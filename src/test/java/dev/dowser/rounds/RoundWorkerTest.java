@@ -66,6 +66,36 @@ class RoundWorkerTest {
     }
 
     @Test
+    void aLookAtTheStoreTakenWhileARoundRanStartsNoRoundAfterIt() throws IOException, InterruptedException {
+        // Iris (Fisher 1936, as shipped by Debian's python3-sklearn), imported without its labels.
+        TestSupport.OpenDataset iris = TestSupport.openDataset("iris", dir);
+        try (Database db = TestSupport.openDb(dir.resolve("db")); PoolScorer scorer = new PoolScorer(2, 64)) {
+            try (InputStream in = Files.newInputStream(iris.csv())) {
+                new Importer(db).run(in, "iris.csv", TestSupport.csv("iris").withFeatures(List.of("f0", "f1", "f2", "f3"))
+                        .withClasses(List.of("setosa", "versicolor", "virginica")), ImportProgress.NONE);
+            }
+            PoolRow pool = db.pools().require("iris");
+            try (RoundWorker worker = new RoundWorker(new RoundService(db, RoundServiceTest.small(), scorer), "iris", 5)) {
+                // The watcher's order: note the worker, read the store (nothing served), ask. Here the
+                // first round runs and serves a full batch between the look and the asking.
+                int seen = worker.quietAfter();
+                assertEquals(0, seen);
+                assertTrue(db.queues().servedRound(pool.id()).isEmpty());
+                worker.request();
+                assertEquals(-1, worker.quietAfter(), "a worker with a round waiting or running is not quiet");
+                await(() -> worker.roundsRun() == 1, "the first round");
+                worker.requestIfStillQuiet(seen);
+                Thread.sleep(200);
+                assertEquals(1, worker.roundsRun(), "a look taken before the round ended must not start another");
+                assertEquals(1, db.rounds().list(pool.id()).size());
+                // A look taken now still holds: it asks for the round.
+                worker.requestIfStillQuiet(worker.quietAfter());
+                await(() -> worker.roundsRun() == 2, "the round asked for by a look that still holds");
+            }
+        }
+    }
+
+    @Test
     void closingStopsARunningRoundAtASafePointAndSavesItsChains() throws IOException, InterruptedException {
         // Iris (Fisher 1936, as shipped by Debian's python3-sklearn), with its labels.
         TestSupport.OpenDataset iris = TestSupport.openDataset("iris", dir);

@@ -90,27 +90,47 @@ class KeepLabellingBrowserTest extends BrowserFixture {
         }
     }
 
+    /** The newest round of the iris pool (null before any). */
+    private JsonNode newestRound() throws Exception {
+        return call(lead, "GET", "pools/iris/rounds?limit=1", null).path("rounds").path(0);
+    }
+
+    /** Waits until the newest round is round {@code round}, published, and learnt from {@code labels} labels. */
+    private void published(int round, int labels) throws Exception {
+        TestSupport.await(Duration.ofSeconds(120), () -> {
+            JsonNode newest = newestRound();
+            return newest.path("round").asInt() == round && "published".equals(newest.path("status").asText())
+                    && newest.path("labels_at_start").asInt() == labels;
+        }, "round " + round + " published from " + labels + " labels");
+    }
+
     /**
-     * Asks for a round and waits until the newest round is published and learnt from exactly
-     * {@code labels} labels. No label is given meanwhile, so however many rounds a busy machine
-     * folds together, the last one reads all of them.
+     * Asks for a round and waits until that round, the one after the newest before asking, is
+     * published having learnt from exactly {@code labels} labels. No label is given meanwhile and no
+     * other round waits when it is asked for, so it starts next and reads them all.
      */
     private void roundAt(int labels) throws Exception {
+        int before = newestRound().path("round").asInt();
         call(lead, "POST", "pools/iris/rounds", "{}");
-        TestSupport.await(Duration.ofSeconds(120), () -> {
-            JsonNode newest = call(lead, "GET", "pools/iris/rounds?limit=1", null).path("rounds").path(0);
-            return "published".equals(newest.path("status").asText())
-                    && newest.path("labels_at_start").asInt() == labels;
-        }, "a round published from " + labels + " labels");
+        published(before + 1, labels);
     }
 
     @Test
     void atTheStartItIsTooEarlyToTell() throws Exception {
         TestSupport.importIrisWithoutLabels(db, dir);
-        // Rounds come when the test asks, not by themselves: a batch larger than what is labelled
-        // here never runs low, so each round learns from a known number of labels however fast the
-        // machine is. The settings are in place before the server starts watching the pool, so not
-        // even its first batch is drawn with the defaults.
+        // Each round must learn from a known number of labels however slow the machine is. Rounds
+        // start by themselves in three ways, and the set-up rules each out but the first:
+        // - the server gives a pool with nothing served its first round as it starts (RoundWorkers.watch):
+        //   that round is the test's first batch, from 0 labels; the test waits for it rather than asking
+        //   for one (asking while it ran queued a second round that read however many labels the test had
+        //   given by the time it started: 7 under load);
+        // - every batch of new labels: the batch here is 100, above the 30 labels given;
+        // - the low-water mark of the served batch (2 open places per labeller): a batch of 100 of iris's
+        //   150 records keeps at least 70 open.
+        // The watcher's later looks start a round only for a pool with nothing served, and never after a
+        // round that served it while they looked (RoundWorker.requestIfStillQuiet). The settings are in
+        // place before the server starts watching the pool, so not even its first batch is drawn with
+        // the defaults.
         PoolRow iris = db.pools().require("iris");
         db.pools().updateSettings(iris.id(), new PoolSettings(100, PoolSettings.DEFAULT_SPOT_CHECK_SHARE,
                 PoolSettings.DEFAULT_LEASE_MINUTES, Strategy.POWER, 0).toJson(), LEAD);
@@ -122,8 +142,8 @@ class KeepLabellingBrowserTest extends BrowserFixture {
         assertEquals("No model yet: the first labels teach it. Dowser can tell whether more labels pay after a few"
                 + " rounds.", start);
         browser.screenshot("keep-1-start");
-        // The first batch, then three rounds with a model, after 10, 20 and 30 labels.
-        roundAt(0);
+        // The server's first batch, then three rounds with a model, asked for after 10, 20 and 30 labels.
+        published(1, 0);
         for (int labels = 10; labels <= 30; labels += 10) {
             label(10);
             roundAt(labels);
@@ -143,6 +163,11 @@ class KeepLabellingBrowserTest extends BrowserFixture {
         List<Integer> learnt = new ArrayList<>();
         accuracy.get("rounds").forEach(r -> learnt.add(r.get("model_labels").asInt()));
         assertEquals(List.of(10, 20), learnt, accuracy.toString());
+        // And no other round ran: none started by itself with its batch still full.
+        JsonNode rounds = call(lead, "GET", "pools/iris/rounds", null);
+        List<Integer> atStart = new ArrayList<>();
+        rounds.get("rounds").forEach(r -> atStart.add(r.get("labels_at_start").asInt()));
+        assertEquals(List.of(30, 20, 10, 0), atStart, rounds.toString());
         // The desk says the same in one line.
         browser.driver.get(base() + "desk.html?pool=iris");
         // The line names the labels of the last round, so it cannot be read as a count that lags the
