@@ -16,10 +16,14 @@ import dev.dowser.store.RoundStore;
 import dev.dowser.store.SavedChain;
 import java.io.IOException;
 import java.io.InputStream;
+import java.lang.management.ManagementFactory;
+import java.lang.management.ThreadMXBean;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.List;
+import java.util.Set;
+import java.util.stream.Collectors;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -106,10 +110,13 @@ class RoundWorkerTest {
             PoolRow pool = db.pools().require("iris");
             // Far more steps than the test waits for: only the stop can end this round in time.
             SamplerConfig endless = RoundServiceTest.small().toBuilder().burnInSteps(50_000_000).build();
+            Set<Thread> before = chainThreads();
             RoundWorker worker = new RoundWorker(new RoundService(db, endless, scorer), "iris", 5);
             worker.request();
             await(() -> !db.rounds().list(pool.id()).isEmpty(), "the round to start");
-            Thread.sleep(300);
+            // Close once every chain of this round has run for a while (a step on iris takes microseconds):
+            // a fixed 300 ms sleep was outlasted on a loaded machine, and a chain saved at step 0.
+            await(() -> chainThreadsBusy(before, endless.chains().count()), "every chain to take steps");
             long begun = System.nanoTime();
             worker.close();
             double seconds = (System.nanoTime() - begun) / 1e9;
@@ -124,5 +131,18 @@ class RoundWorkerTest {
                 assertTrue(c.step() > 0, "chain " + c.chain() + " saved before any step");
             }
         }
+    }
+
+    /** The sampler's chain threads alive now (ChainSet names them dowser-chain). */
+    private static Set<Thread> chainThreads() {
+        return Thread.getAllStackTraces().keySet().stream()
+                .filter(t -> t.isAlive() && t.getName().equals("dowser-chain")).collect(Collectors.toSet());
+    }
+
+    /** Whether {@code chains} chain threads started since {@code before} have each used 50 ms of CPU. */
+    private static boolean chainThreadsBusy(Set<Thread> before, int chains) {
+        ThreadMXBean mx = ManagementFactory.getThreadMXBean();
+        return chainThreads().stream().filter(t -> !before.contains(t))
+                .filter(t -> mx.getThreadCpuTime(t.getId()) > 50_000_000L).count() >= chains;
     }
 }

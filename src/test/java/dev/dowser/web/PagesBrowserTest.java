@@ -170,7 +170,8 @@ class PagesBrowserTest extends BrowserFixture {
         browser.await(d -> browser.byId("mine-list").getText().startsWith(last), "my last labels, newest first");
         press(Keys.BACK_SPACE);
         browser.await(d -> cardId().equals(last), "the taken-back record shown again");
-        assertTrue(browser.byId("desk-message").getText().contains("Took back"), browser.byId("desk-message").getText());
+        // The card and the message are written one after the other: wait for the message, as for the card.
+        browser.await(d -> browser.byId("desk-message").getText().contains("Took back"), "the desk saying it took the label back");
         press(Keys.BACK_SPACE);
         browser.await(d -> cardId().equals(before), "the label before it taken back too");
         assertTrue(browser.byId("card-why").getText().startsWith("Taken back (your label was " + given.get(before)),
