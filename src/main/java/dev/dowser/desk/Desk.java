@@ -63,11 +63,14 @@ public final class Desk {
      */
     public Offer next(String poolName, String person, boolean mayStartRounds) {
         PoolRow pool = db.pools().require(poolName);
+        // Read before the lease, so that the words for an empty desk describe what the lease saw: the
+        // round this call asks for may publish before they are written.
+        boolean served = db.queues().servedRound(pool.id()).isPresent();
         Optional<QueueEntry> next = db.leases().lease(pool.id(), person, lease(pool));
         RoundWorker worker = rounds.worker(pool.name());
         worker.deskActive(person, db.queues().openInBatch(pool.id()));
         if (next.isEmpty()) {
-            return Offer.none(nothingLeft(pool, worker, mayStartRounds), progress(pool));
+            return Offer.none(nothingLeft(pool, worker, served, mayStartRounds), progress(pool));
         }
         QueueEntry e = next.get();
         // Another person's label is not shown: a second labeller must judge on their own.
@@ -81,12 +84,14 @@ public final class Desk {
     }
 
     /** Why a desk is empty, and the way out. */
-    private String nothingLeft(PoolRow pool, RoundWorker worker, boolean mayStartRounds) {
-        if (db.queues().servedRound(pool.id()).isPresent()) {
+    private String nothingLeft(PoolRow pool, RoundWorker worker, boolean served, boolean mayStartRounds) {
+        if (served) {
             return db.labels().labelledRecords(pool.id()) >= pool.recordCount() ? ALL_LABELLED : NOTHING_FOR_YOU;
         }
         RoundStore.RoundRow latest = db.rounds().latest(pool.id()).orElse(null);
-        if (worker.busy() || latest == null || latest.status() == RoundStatus.RUNNING) {
+        // Published since the lease looked: the first batch is there, and the page shows it by itself.
+        if (worker.busy() || latest == null || latest.status() == RoundStatus.RUNNING
+                || latest.status() == RoundStatus.PUBLISHED) {
             return "the first batch of this pool is being picked; it appears here by itself in a moment";
         }
         String why = "no batch is served yet: the last round " + latest.status().word()
