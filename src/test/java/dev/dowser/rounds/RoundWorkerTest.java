@@ -40,12 +40,8 @@ class RoundWorkerTest {
     @Test
     void roundsFollowRequestsAndBatchesOfLabels() throws IOException, InterruptedException {
         // Iris (Fisher 1936, as shipped by Debian's python3-sklearn), imported without its labels.
-        TestSupport.OpenDataset iris = TestSupport.openDataset("iris", dir);
         try (Database db = TestSupport.openDb(dir.resolve("db")); PoolScorer scorer = new PoolScorer(2, 64)) {
-            try (InputStream in = Files.newInputStream(iris.csv())) {
-                new Importer(db).run(in, "iris.csv", TestSupport.csv("iris").withFeatures(List.of("f0", "f1", "f2", "f3"))
-                        .withClasses(List.of("setosa", "versicolor", "virginica")), ImportProgress.NONE);
-            }
+            TestSupport.importIrisWithoutLabels(db, dir);
             PoolRow pool = db.pools().require("iris");
             try (RoundWorker worker = new RoundWorker(new RoundService(db, RoundServiceTest.small(), scorer), "iris", 5)) {
                 worker.request();
@@ -72,12 +68,8 @@ class RoundWorkerTest {
     @Test
     void aLookAtTheStoreTakenWhileARoundRanStartsNoRoundAfterIt() throws IOException, InterruptedException {
         // Iris (Fisher 1936, as shipped by Debian's python3-sklearn), imported without its labels.
-        TestSupport.OpenDataset iris = TestSupport.openDataset("iris", dir);
         try (Database db = TestSupport.openDb(dir.resolve("db")); PoolScorer scorer = new PoolScorer(2, 64)) {
-            try (InputStream in = Files.newInputStream(iris.csv())) {
-                new Importer(db).run(in, "iris.csv", TestSupport.csv("iris").withFeatures(List.of("f0", "f1", "f2", "f3"))
-                        .withClasses(List.of("setosa", "versicolor", "virginica")), ImportProgress.NONE);
-            }
+            TestSupport.importIrisWithoutLabels(db, dir);
             PoolRow pool = db.pools().require("iris");
             try (RoundWorker worker = new RoundWorker(new RoundService(db, RoundServiceTest.small(), scorer), "iris", 5)) {
                 // The watcher's order: note the worker, read the store (nothing served), ask. Here the
