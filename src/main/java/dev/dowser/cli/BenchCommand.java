@@ -99,7 +99,8 @@ final class BenchCommand implements Callable<Integer> {
     java.util.List<String> only;
 
     @Option(names = "--datasets", split = ",", paramLabel = "NAME",
-            description = "labels: datasets (default: digits,breast_cancer,wine,iris,pumps,fashion-mnist).")
+            description = "labels: datasets (default: digits,breast_cancer,wine,iris,pumps,fashion-mnist; fashion-mnist-pixels, its"
+                    + " raw pixels to check the principal components against, only when named).")
     java.util.List<String> datasets = java.util.List.of("digits", "breast_cancer", "wine", "iris", "pumps",
             "fashion-mnist");
 

@@ -26,6 +26,7 @@ import java.util.List;
 import java.util.SplittableRandom;
 import java.util.function.BiConsumer;
 import java.util.function.IntConsumer;
+import java.util.stream.LongStream;
 
 /**
  * The whole picking loop offline, with a file's known labels acting as the labellers: round after
@@ -236,7 +237,10 @@ public final class Simulation {
 
         /** As above, each round scoring a uniform sample of {@code candidates} unlabelled records (see {@link Plan}). */
         public Labeller(LabelledSet pool, PoolSettings settings, SamplerConfig sampler, SeedTree seeds, int candidates) {
-            this.pool = pool;
+            // Records are named by their place in this pool, as the round step expects of every row it is given,
+            // even when the pool is a split of a larger set whose rows it still carries.
+            this.pool = new LabelledSet(pool.x(), pool.labels(), LongStream.range(0, pool.rows()).toArray(),
+                    pool.cols(), pool.classes());
             this.settings = settings;
             this.sampler = settings.sampler(sampler);
             this.seeds = seeds;
