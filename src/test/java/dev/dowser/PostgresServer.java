@@ -22,6 +22,9 @@ import java.util.concurrent.TimeUnit;
 import java.util.concurrent.atomic.AtomicInteger;
 import java.util.stream.Stream;
 import org.junit.jupiter.api.Assumptions;
+import org.junit.jupiter.api.extension.AfterAllCallback;
+import org.junit.jupiter.api.extension.BeforeAllCallback;
+import org.junit.jupiter.api.extension.ExtensionContext;
 
 /**
  * A throw-away PostgreSQL cluster for the tests of the PostgreSQL path: Debian's {@code postgresql}
@@ -228,6 +231,32 @@ public final class PostgresServer implements AutoCloseable {
             close();
         } catch (IOException | InterruptedException | RuntimeException e) {
             System.err.println("could not stop the test PostgreSQL in " + dir + ": " + e.getMessage());
+        }
+    }
+
+    /**
+     * One cluster for a test class: {@code @RegisterExtension static final PostgresServer.ForClass
+     * PG = new PostgresServer.ForClass();} starts it before the class's first test and closes it
+     * after its last, whatever the tests did.
+     */
+    public static final class ForClass implements BeforeAllCallback, AfterAllCallback {
+        private PostgresServer server;
+
+        @Override
+        public void beforeAll(ExtensionContext context) throws Exception {
+            server = start();
+        }
+
+        @Override
+        public void afterAll(ExtensionContext context) throws Exception {
+            if (server != null) {
+                server.close();
+                server = null;
+            }
+        }
+
+        public PostgresServer server() {
+            return server;
         }
     }
 }

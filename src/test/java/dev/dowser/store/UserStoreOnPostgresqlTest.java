@@ -2,28 +2,16 @@ package dev.dowser.store;
 
 import dev.dowser.PostgresServer;
 import java.time.Clock;
-import org.junit.jupiter.api.AfterAll;
-import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.extension.RegisterExtension;
 
 /** Every test of {@link UserStoreTest}, on a real PostgreSQL server ({@link PostgresServer}). */
 class UserStoreOnPostgresqlTest extends UserStoreTest {
 
-    static PostgresServer server;
-
-    @BeforeAll
-    static void startServer() throws Exception {
-        server = PostgresServer.start();
-    }
-
-    @AfterAll
-    static void stopServer() throws Exception {
-        if (server != null) {
-            server.close();
-        }
-    }
+    @RegisterExtension
+    static final PostgresServer.ForClass PG = new PostgresServer.ForClass();
 
     @Override
     Database database(Clock clock) {
-        return server.open(clock);
+        return PG.server().open(clock);
     }
 }
