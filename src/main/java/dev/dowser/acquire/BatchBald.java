@@ -93,11 +93,13 @@ public final class BatchBald {
         for (int step = 0; step < n; step++) {
             int best = -1;
             double bestGain = Double.NEGATIVE_INFINITY;
+            ByDraw view = byDraw(configs);
+            double[] joint = new double[classes * view.count()];
             for (int i = 0; i < candidates; i++) {
                 if (used[i]) {
                     continue;
                 }
-                double mi = jointEntropyWith(configs, i) - sumExpected - expected[i];
+                double mi = jointEntropyWith(configs, view, i, joint) - sumExpected - expected[i];
                 if (mi > bestGain) {
                     bestGain = mi;
                     best = i;
@@ -235,26 +237,76 @@ public final class BatchBald {
         return h;
     }
 
-    /** H(y_batch, y_i): exact sum over configurations, or the sampled estimate. */
-    private double jointEntropyWith(Configurations c, int i) {
+    /**
+     * The configurations laid out by draw, {@code t[s * count + r] = P_s(c_r)}, with each one's
+     * mean over the draws: the candidates' loop reads them once per step, along configurations.
+     */
+    private record ByDraw(double[] t, double[] mass, int count) {
+    }
+
+    private ByDraw byDraw(Configurations c) {
+        double[][] rows = c.perDraw();
+        int count = rows.length;
+        double[] t = new double[draws * count];
+        double[] mass = new double[count];
+        for (int r = 0; r < count; r++) {
+            for (int s = 0; s < draws; s++) {
+                t[s * count + r] = rows[r][s];
+            }
+            mass[r] = mean(rows[r]);
+        }
+        return new ByDraw(t, mass, count);
+    }
+
+    /**
+     * H(y_batch, y_i): exact sum over configurations, or the sampled estimate. p(c, y) = 1/S sum_s
+     * P_s(c) p_s(y) is summed over the draws in order, in loops along the configurations, which the
+     * JIT vectorises: the sums are those of a loop over draws per configuration, bit for bit, at
+     * about a third of its cost (measured: the speed notes); {@code joint} is work space.
+     */
+    private double jointEntropyWith(Configurations c, ByDraw v, int i, double[] joint) {
+        int count = v.count();
+        double[] t = v.t();
+        java.util.Arrays.fill(joint, 0, classes * count, 0);
+        int s = 0;
+        // Four draws a pass, added one after the other as a loop over draws adds them: a quarter of the stores.
+        for (; s + 4 <= draws; s += 4) {
+            for (int k = 0; k < classes; k++) {
+                double q0 = p(i, s, k);
+                double q1 = p(i, s + 1, k);
+                double q2 = p(i, s + 2, k);
+                double q3 = p(i, s + 3, k);
+                int o = k * count;
+                int b0 = s * count;
+                for (int r = 0; r < count; r++) {
+                    joint[o + r] = joint[o + r] + t[b0 + r] * q0 + t[b0 + count + r] * q1
+                            + t[b0 + 2 * count + r] * q2 + t[b0 + 3 * count + r] * q3;
+                }
+            }
+        }
+        for (; s < draws; s++) {
+            for (int k = 0; k < classes; k++) {
+                double q = p(i, s, k);
+                int o = k * count;
+                int b = s * count;
+                for (int r = 0; r < count; r++) {
+                    joint[o + r] += t[b + r] * q;
+                }
+            }
+        }
         double h = 0;
-        for (int r = 0; r < c.perDraw().length; r++) {
-            double[] row = c.perDraw()[r];
-            double pc = mean(row);
+        for (int r = 0; r < count; r++) {
+            double pc = v.mass()[r];
             if (pc <= 0) {
                 continue;
             }
             for (int k = 0; k < classes; k++) {
-                double joint = 0;
-                for (int s = 0; s < draws; s++) {
-                    joint += row[s] * p(i, s, k);
-                }
-                joint /= draws;
-                if (joint <= 0) {
+                double pcy = joint[k * count + r] / draws;
+                if (pcy <= 0) {
                     continue;
                 }
                 // Exact: -sum p(c, y) log p(c, y). Sampled: c ~ p(c), so weight p(c, y) / p(c) / M.
-                h -= c.sampled() ? c.weight()[r] * joint / pc * Math.log(joint) : joint * Math.log(joint);
+                h -= c.sampled() ? c.weight()[r] * pcy / pc * Math.log(pcy) : pcy * Math.log(pcy);
             }
         }
         return h;

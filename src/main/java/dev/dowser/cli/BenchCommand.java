@@ -70,9 +70,9 @@ import picocli.CommandLine.Spec;
                 + " every seed, within a point, 90%% of rounds held); curves in --labels-out/stopping/digits. About half an"
                 + " hour on 2 quiet cores.",
             "fuzz: 100,200 generated inputs (3,000 with --quick) against the real server: every JSON body and"
-                + " heads of files to preview (two fifths each), files to import (a fifth, last); jqwik properties"
-                + " of the test sources, run through Maven (a source folder is needed). Counts per status; any 500,"
-                + " partial write or Java message in a refusal fails it. About half an hour on 2 quiet cores."})
+                + " heads of files to preview (two fifths each), files to import (a fifth, last); our seeded"
+                + " generators in the test sources, run through Maven (a source folder is needed). Counts per status and"
+                + " the root seed; any 500, partial write or Java message in a refusal fails it. About half an hour on 2 quiet cores."})
 final class BenchCommand implements Callable<Integer> {
 
     @Spec
@@ -99,7 +99,8 @@ final class BenchCommand implements Callable<Integer> {
     java.util.List<String> only;
 
     @Option(names = "--datasets", split = ",", paramLabel = "NAME",
-            description = "labels: datasets (default: digits,breast_cancer,wine,iris,pumps,fashion-mnist).")
+            description = "labels: datasets (default: digits,breast_cancer,wine,iris,pumps,fashion-mnist; fashion-mnist-pixels, its"
+                    + " raw pixels to check the principal components against, only when named).")
     java.util.List<String> datasets = java.util.List.of("digits", "breast_cancer", "wine", "iris", "pumps",
             "fashion-mnist");
 

@@ -12,10 +12,11 @@ import java.util.Map;
 import java.util.TreeMap;
 
 /**
- * The long fuzz campaign: the jqwik properties of the test sources tagged {@code bench}
+ * The long fuzz campaign: the fuzz tests of the test sources tagged {@code bench}
  * ({@code EdgeFuzzTest}: every JSON body, heads of files to preview, and files to import, against
- * the real server and database), run through Maven with fresh random seeds, since jqwik is a test
- * library and not part of the jar. Each property runs in a Maven run of its own, with its share of
+ * the real server and database), run through Maven, since the generators and checks are test code
+ * and not part of the jar. One fresh root seed, printed as {@code fuzz_seed}, is the root of every
+ * input's seed; a failure names the seed of its smallest failing input. Each property runs in a Maven run of its own, with its share of
  * the inputs: an import costs about ten times a JSON call (it spools a file and makes a pool), so
  * imports get a fifth and go last. Maven's own output goes to standard error; the campaign's counts
  * come back as {@code fuzz_*} lines, summed over the three runs.
@@ -40,13 +41,15 @@ final class FuzzBench {
         Map<String, Long> counts = new TreeMap<>();
         boolean passed = true;
         long started = System.nanoTime();
+        long seed = new java.util.SplittableRandom().nextLong();
+        out.printf("fuzz_seed=%d%n", seed);
         for (Share share : SHARES) {
             int tries = inputs / 5 * share.fifths();
             Path report = Files.createTempFile("dowser-fuzz-", ".txt");
             try {
                 List<String> command = List.of("mvn", "-B", "-q", "-Dstyle.color=never", "test",
                         "-Dtest=EdgeFuzzTest#" + share.property(), "-Dgroups=bench", "-Ddowser.excludedGroups=",
-                        "-Djqwik.tries.default=" + tries, "-Ddowser.fuzz.report=" + report, "-Ddowser.fuzz.bench=true",
+                        "-Ddowser.fuzz.tries=" + tries, "-Ddowser.fuzz.seed=" + seed, "-Ddowser.fuzz.report=" + report, "-Ddowser.fuzz.bench=true",
                         "-Dsurefire.failIfNoSpecifiedTests=false");
                 long t0 = System.nanoTime();
                 Process maven = new ProcessBuilder(command).directory(project.toFile()).redirectErrorStream(true).start();

@@ -18,6 +18,7 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import java.util.SplittableRandom;
+import java.util.stream.LongStream;
 
 /**
  * One round, values in and values out: the labelled set (final labels), the chains' states from
@@ -62,7 +63,8 @@ public final class RoundStep {
     /**
      * What a round starts from.
      *
-     * @param labelled   the records with a final label, in pool order: what the model learns from
+     * @param labelled   the records with a final label, in pool order: what the model learns from (its
+     *                   {@code poolRows} name records as the candidates' rows do)
      * @param candidates the records nobody has labelled, in pool order: what the round picks from
      * @param judged     the records anyone has labelled, resolved or not, whose predictions the
      *                   round reports (the review page compares them with people's labels)
@@ -170,7 +172,8 @@ public final class RoundStep {
         LabelledSet known = in.labelled();
         int classes = known.classes().size();
         float[] probe = Arrays.copyOf(cand.x(), Math.min(PROBE_ROWS, cand.count()) * cand.cols());
-        RoundDraws draws = new PosteriorSampler(in.sampler()).sample(known.x(), known.labels(), classes, in.chains(),
+        // The chains take as many threads as scoring does: one budget of cores for the whole round.
+        RoundDraws draws = new PosteriorSampler(in.sampler(), scorer.threads()).sample(known.x(), known.labels(), classes, in.chains(),
                 probe, in.seeds().child(CHAINS), stop);
         PoolScorer.Result scores = scorer.score(draws.layout(), draws.draws(), cand.x(), cand.count());
         Picks picks = BatchPicker.pick(settings.strategy(), b, scores, cand.x(), known, draws.layout(), draws.draws(),
@@ -199,7 +202,10 @@ public final class RoundStep {
                     Arrays.copyOfRange(nextBelief.mean(), i * classes, (i + 1) * classes),
                     Arrays.copyOfRange(nextBelief.sd(), i * classes, (i + 1) * classes)));
         }
-        Settling settling = Settling.of(draws, in.stopSet(), cand, scores.bald(), b, classes);
+        // The server's candidates are exactly the records nobody labelled; a benchmark's may be a sample of them.
+        long[] labelled = LongStream.concat(Arrays.stream(known.poolRows()),
+                Arrays.stream(in.judged().rows())).toArray();
+        Settling settling = Settling.of(draws, in.stopSet(), labelled, cand.count(), scores.bald(), b, classes);
         return new Result(in.round(), withCopies(queue, settings.doubleLabelShare(), in), reserve, draws,
                 draws.choice().kernel().word(), draws.choice().why(), judgedMean, settling);
     }

@@ -53,10 +53,20 @@ public record Settling(long[] stopRows, int[] stopClasses, double agreement, int
         }
     }
 
-    /** The stop set's predictions and their agreement with the round before's, and the pool's information. */
-    static Settling of(RoundDraws draws, StopSet stop, RoundStep.Rows candidates, double[] bald, int b, int classes) {
+    /**
+     * The stop set's predictions and their agreement with the round before's, and the pool's information.
+     *
+     * @param labelled the records anyone has labelled (final or awaiting review), in any order: the
+     *                 stop-set records among them are not compared. The candidates do not decide it,
+     *                 because a benchmark may score only a sample of the unlabelled records, while
+     *                 the agreement stays measured on the whole stop set as the server measures it.
+     */
+    static Settling of(RoundDraws draws, StopSet stop, long[] labelled, int candidates, double[] bald, int b,
+                       int classes) {
         RoundStep.Rows rows = stop.rows();
         float[] p = Predictive.meanProbabilities(draws.layout(), draws.draws(), rows.x(), rows.count());
+        long[] taken = labelled.clone();
+        Arrays.sort(taken);
         int[] now = new int[rows.count()];
         int compared = 0;
         int[] before = new int[rows.count()];
@@ -64,7 +74,7 @@ public record Settling(long[] stopRows, int[] stopClasses, double agreement, int
         for (int i = 0; i < now.length; i++) {
             now[i] = Metrics.argmax(p, i, classes);
             // Only records still unlabelled count: a labelled record's prediction is pinned by its label.
-            if (stop.previous()[i] >= 0 && Arrays.binarySearch(candidates.rows(), rows.rows()[i]) >= 0) {
+            if (stop.previous()[i] >= 0 && Arrays.binarySearch(taken, rows.rows()[i]) < 0) {
                 before[compared] = stop.previous()[i];
                 after[compared] = now[i];
                 compared++;
@@ -80,6 +90,6 @@ public record Settling(long[] stopRows, int[] stopClasses, double agreement, int
         for (int i : Pickers.topB(bald, Math.min(b, bald.length))) {
             top += bald[i];
         }
-        return new Settling(rows.rows(), now, kappa, compared, candidates.count(), sum, top);
+        return new Settling(rows.rows(), now, kappa, compared, candidates, sum, top);
     }
 }

@@ -69,7 +69,9 @@ public final class LabelSavings {
             new Setup("wine", 6, 6, 60, List.of(0.9, 0.95)),
             new Setup("iris", 6, 6, 60, List.of(0.9, 0.95)),
             new Setup(BenchmarkData.PUMPS, 20, 10, 300, List.of(0.9)),
-            new Setup(BenchmarkData.FASHION, 20, 20, 1_000, List.of(0.8), FASHION_CANDIDATES));
+            new Setup(BenchmarkData.FASHION, 20, 20, 1_000, List.of(0.8), FASHION_CANDIDATES),
+            // Not in the default run: the check that the principal components leave the strategies' order as it is.
+            new Setup(BenchmarkData.FASHION_PIXELS, 20, 20, 1_000, List.of(0.8), FASHION_CANDIDATES));
 
     private LabelSavings() {
     }

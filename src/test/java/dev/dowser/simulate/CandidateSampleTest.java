@@ -53,6 +53,36 @@ class CandidateSampleTest {
                 "a sample of every row is every row");
     }
 
+    /**
+     * The stopping figures under a candidate sample: Bloodgood & Vijay-Shanker (2009) compare the
+     * predictions on a fixed stop set, all of it but the records labelled since. On Fisher's iris the
+     * stop set is every record, so with 30 sampled candidates a round after the first with a model
+     * compares 100 - labelled records of a 100-row split (rows 50 to 149 of the file, which the
+     * labeller names 0 to 99), not only the stop-set records that happen to be in its sample (at
+     * most 30, as before).
+     */
+    @Test
+    void theAgreementIsMeasuredOnTheWholeStopSet() {
+        LabelledSet iris = TestSupport.labelledOpenDataset("iris", null);
+        LabelledSet split = iris.subset(java.util.stream.IntStream.range(50, 150).toArray());
+        PoolSettings settings = PoolSettings.defaults().withBatchSize(6);
+        try (PoolScorer scorer = PoolScorer.withAllCores()) {
+            Simulation.Labeller run = new Simulation.Labeller(split, settings, TestSupport.quickSampler(),
+                    SeedTree.of(4), 30);
+            for (int round = 1; round <= 4; round++) {
+                int labels = run.labelled();
+                RoundStep.Result r = run.round(6, scorer);
+                if (round == 2) {
+                    assertEquals(0, r.settling().compared(), "the first round with a model has nothing to compare with");
+                } else if (round > 2) {
+                    assertEquals(30, r.settling().candidates());
+                    assertEquals(100 - labels, r.settling().compared(), "round " + round + " after " + labels + " labels");
+                }
+                run.reveal(r);
+            }
+        }
+    }
+
     /** On Fisher's iris (150 rows): each round scores 30 sampled records; every seed's points reach afterSeed. */
     @Test
     void eachRoundScoresItsSampleAndEachSeedIsReported() {

@@ -44,4 +44,40 @@ class FashionMnistTest {
         assertTrue(accuracy >= MLP_256_128_100 - BELOW_MLP, "accuracy " + accuracy + " is more than "
                 + BELOW_MLP + " below the README's MLP 256-128-100 (0.8833)");
     }
+
+    /**
+     * The raw-pixel plan that the principal components are checked against: 28 x 28 = 784 pixels
+     * (the IDX header's dimensions), each pool column with mean 0 and population SD 1, or SD 0 where
+     * every image has the same value there; the test images keep their own spread, not refitted.
+     */
+    @Test
+    void thePixelPlanStandardisesEachPixelOnThePool() {
+        BenchmarkData.Dataset data = BenchmarkData.load(BenchmarkData.FASHION_PIXELS, TestSupport.datasetsDir());
+        assertEquals(784, data.pool().cols());
+        assertEquals(784, data.test().cols());
+        assertEquals(60_000, data.pool().rows());
+        assertEquals(10_000, data.test().rows());
+        int cols = 784;
+        double testSquares = 0;
+        for (int j = 0; j < cols; j++) {
+            double sum = 0;
+            double squares = 0;
+            for (int i = 0; i < data.pool().rows(); i++) {
+                double v = data.pool().x()[i * cols + j];
+                sum += v;
+                squares += v * v;
+            }
+            double mean = sum / data.pool().rows();
+            double var = squares / data.pool().rows() - mean * mean;
+            assertEquals(0, mean, 1e-4, "pixel " + j + "'s mean");
+            assertTrue(Math.abs(var - 1) < 1e-3 || var < 1e-9, "pixel " + j + "'s variance " + var);
+            for (int i = 0; i < data.test().rows(); i++) {
+                double v = data.test().x()[i * cols + j];
+                testSquares += v * v;
+            }
+        }
+        // The test images come from the same distribution: their mean square per pixel is near 1, not exactly 1.
+        double perPixel = testSquares / data.test().rows() / cols;
+        assertTrue(perPixel > 0.9 && perPixel < 1.1 && Math.abs(perPixel - 1) > 1e-6, "test mean square " + perPixel);
+    }
 }

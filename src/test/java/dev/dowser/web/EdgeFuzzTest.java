@@ -21,33 +21,36 @@ import java.util.Map;
 import java.util.TreeMap;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.atomic.AtomicLong;
-import net.jqwik.api.Arbitrary;
-import net.jqwik.api.EdgeCasesMode;
-import net.jqwik.api.ForAll;
-import net.jqwik.api.Property;
-import net.jqwik.api.Provide;
-import net.jqwik.api.Tag;
-import net.jqwik.api.lifecycle.AfterContainer;
-import net.jqwik.api.lifecycle.BeforeContainer;
+import java.util.function.Consumer;
+import java.util.function.ToIntFunction;
+import org.junit.jupiter.api.AfterAll;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Tag;
+import org.junit.jupiter.api.Test;
 
 /**
  * Generated input against the real server on a loopback port and its H2 file database: files to
- * import and to preview, and every JSON body of the API, from every kind of caller (jqwik's
- * property-based testing; the generators are in {@link FuzzInputs}). No input may get a 500, and
- * an input refused (any 4xx) must leave the stored data exactly as it was: no partial write.
+ * import and to preview, and every JSON body of the API, from every kind of caller (our own seeded
+ * generators: {@link FuzzInputs}, {@link FuzzCalls}, {@link HostileText}; run by {@link Tries}). No
+ * input may get a 500, and an input refused (any 4xx) must leave the stored data exactly as it
+ * was: no partial write.
  *
- * <p>{@code ./dowser test} runs the properties without the {@code bench} tag: a fixed seed and a
- * few hundred tries each, the same inputs every run. {@code dowser bench --only fuzz} runs the
- * tagged ones, on fresh random seeds, with {@code jqwik.tries.default} tries each (100,000 in all),
- * new pools getting no first round by themselves ({@code dowser.fuzz.bench}), and writes its counts
- * to the file named by {@code dowser.fuzz.report} (with {@code -Ddowser.fuzz.messages=1}, also how
- * often each kind of refusal came, to tune the generators).
+ * <p>{@code ./dowser test} runs the tests without the {@code bench} tag: one fixed root seed and a
+ * few hundred inputs each, the same inputs every run. {@code dowser bench --only fuzz} runs the
+ * tagged ones with the seed in {@code dowser.fuzz.seed} (a fresh one, printed) and
+ * {@code dowser.fuzz.tries} inputs each (100,000 in all), new pools getting no first round by
+ * themselves ({@code dowser.fuzz.bench}), and writes its counts to the file named by
+ * {@code dowser.fuzz.report} (with {@code -Ddowser.fuzz.messages=1}, also how often each kind of
+ * refusal came, to compare and tune the generators). A failure names the seed of the smallest
+ * failing input; {@code -Ddowser.fuzz.replay=SEED} runs that one input again.
  */
 class EdgeFuzzTest {
 
-    static final String SUITE_SEED = "20261203";
+    static final long SUITE_SEED = 20261203L;
     static final int SUITE_TRIES = 300;
     static final int REPORT_EVERY = 1_000;
+    /** The properties, in the order of their seeds under the root seed. */
+    static final List<String> PROPERTIES = List.of("imports", "previews", "json");
 
     private static Path dir;
     private static Database db;
@@ -57,7 +60,7 @@ class EdgeFuzzTest {
     private static final Map<String, String> TOKENS = new ConcurrentHashMap<>();
     private static final Map<String, AtomicLong> COUNTS = new ConcurrentHashMap<>();
 
-    @BeforeContainer
+    @BeforeAll
     static void start() throws IOException {
         dir = Files.createTempDirectory("dowser-fuzz-");
         db = TestSupport.openDb(dir.resolve("db"));
@@ -76,7 +79,7 @@ class EdgeFuzzTest {
         }
     }
 
-    @AfterContainer
+    @AfterAll
     static void stop() throws IOException {
         writeReport();
         fingerprint.close();
@@ -85,58 +88,71 @@ class EdgeFuzzTest {
         TestSupport.deleteTree(dir);
     }
 
-    // ---- the suite: fixed seeds, a few hundred tries each --------------------------------------
+    // ---- the suite: one fixed root seed, a few hundred inputs each -------------------------------
 
-    @Property(tries = SUITE_TRIES, seed = SUITE_SEED, edgeCases = EdgeCasesMode.NONE)
-    void importsNeverFailOrWriteHalf(@ForAll("uploads") FuzzInputs.Upload u) {
-        checkImport(u);
+    @Test
+    void importsNeverFailOrWriteHalf() {
+        run("imports", "importsNeverFailOrWriteHalf", SUITE_SEED, SUITE_TRIES,
+                FuzzInputs.uploads(), FuzzInputs.Upload::size, EdgeFuzzTest::checkImport);
     }
 
-    @Property(tries = SUITE_TRIES, seed = SUITE_SEED, edgeCases = EdgeCasesMode.NONE)
-    void previewsNeverFail(@ForAll("heads") FuzzInputs.Upload u) {
-        checkPreview(u);
+    @Test
+    void previewsNeverFail() {
+        run("previews", "previewsNeverFail", SUITE_SEED, SUITE_TRIES,
+                FuzzInputs.heads(), FuzzInputs.Upload::size, EdgeFuzzTest::checkPreview);
     }
 
-    @Property(tries = SUITE_TRIES, seed = SUITE_SEED, edgeCases = EdgeCasesMode.NONE)
-    void jsonBodiesNeverFailOrWriteHalf(@ForAll("calls") FuzzInputs.Call c) {
-        checkCall(c);
+    @Test
+    void jsonBodiesNeverFailOrWriteHalf() {
+        run("json", "jsonBodiesNeverFailOrWriteHalf", SUITE_SEED, SUITE_TRIES,
+                FuzzCalls.calls(), FuzzInputs.Call::size, EdgeFuzzTest::checkCall);
     }
 
-    // ---- the bench: random seeds, as many tries as asked ---------------------------------------
-    // No edge cases: jqwik combines the edge cases of every part of an input, which for these nested
-    // generators outgrew a 2 GiB heap before the first try (seen in the bench run of 2026-12-03).
+    // ---- the bench: the seed and the number of inputs it is given ------------------------------
 
-    @Property(edgeCases = EdgeCasesMode.NONE)
+    @Test
     @Tag("bench")
-    void importsNeverFailOrWriteHalfAtLength(@ForAll("uploads") FuzzInputs.Upload u) {
-        checkImport(u);
+    void importsNeverFailOrWriteHalfAtLength() {
+        run("imports", "importsNeverFailOrWriteHalf", benchSeed(), benchTries(),
+                FuzzInputs.uploads(), FuzzInputs.Upload::size, EdgeFuzzTest::checkImport);
     }
 
-    @Property(edgeCases = EdgeCasesMode.NONE)
+    @Test
     @Tag("bench")
-    void previewsNeverFailAtLength(@ForAll("heads") FuzzInputs.Upload u) {
-        checkPreview(u);
+    void previewsNeverFailAtLength() {
+        run("previews", "previewsNeverFail", benchSeed(), benchTries(),
+                FuzzInputs.heads(), FuzzInputs.Upload::size, EdgeFuzzTest::checkPreview);
     }
 
-    @Property(edgeCases = EdgeCasesMode.NONE)
+    @Test
     @Tag("bench")
-    void jsonBodiesNeverFailOrWriteHalfAtLength(@ForAll("calls") FuzzInputs.Call c) {
-        checkCall(c);
+    void jsonBodiesNeverFailOrWriteHalfAtLength() {
+        run("json", "jsonBodiesNeverFailOrWriteHalf", benchSeed(), benchTries(),
+                FuzzCalls.calls(), FuzzInputs.Call::size, EdgeFuzzTest::checkCall);
     }
 
-    @Provide
-    Arbitrary<FuzzInputs.Upload> uploads() {
-        return FuzzInputs.uploads();
+    private static long benchSeed() {
+        String seed = System.getProperty("dowser.fuzz.seed");
+        if (seed == null || seed.isBlank()) {
+            throw new IllegalStateException("the bench's fuzz tests need -Ddowser.fuzz.seed (dowser bench --only fuzz sets it)");
+        }
+        return Long.parseLong(seed.trim());
     }
 
-    @Provide
-    Arbitrary<FuzzInputs.Upload> heads() {
-        return FuzzInputs.heads();
+    private static int benchTries() {
+        return Integer.getInteger("dowser.fuzz.tries", SUITE_TRIES);
     }
 
-    @Provide
-    Arbitrary<FuzzInputs.Call> calls() {
-        return FuzzInputs.calls();
+    /** Runs one property under its branch of the seed tree, and writes the seed of a failure to the report too. */
+    private static <T> void run(String property, String suiteTest, long root, int tries, Gen<T> gen,
+            ToIntFunction<T> size, Consumer<T> check) {
+        long seed = Tries.propertySeed(root, PROPERTIES.indexOf(property));
+        try {
+            Tries.run("EdgeFuzzTest#" + suiteTest, seed, tries, gen, size, check);
+        } catch (Tries.Failed e) {
+            COUNTS.computeIfAbsent("failing_seed_" + property, k -> new AtomicLong()).set(e.seed);
+            throw e;
+        }
     }
 
     // ---- the checks ----------------------------------------------------------------------------

@@ -1,13 +1,13 @@
 package dev.dowser.web;
 
+import static dev.dowser.web.Gen.w;
+
 import java.net.URLEncoder;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
-import net.jqwik.api.Arbitraries;
-import net.jqwik.api.Arbitrary;
-import net.jqwik.api.Combinators;
-import net.jqwik.api.Tuple;
+import java.util.SplittableRandom;
 
 /**
  * The generators of {@link EdgeFuzzTest}: files that are nearly right (real headers and rows with
@@ -23,6 +23,10 @@ final class FuzzInputs {
 
     /** A file and the query of the call that sends it. */
     record Upload(String query, byte[] body) {
+        int size() {
+            return query.length() + body.length;
+        }
+
         @Override
         public String toString() {
             return "query " + query + ", body (" + body.length + " bytes):\n"
@@ -32,6 +36,10 @@ final class FuzzInputs {
 
     /** One API call with a JSON body (or something that should be one). */
     record Call(String caller, String method, String path, byte[] body) {
+        int size() {
+            return path.length() + body.length;
+        }
+
         @Override
         public String toString() {
             return caller + " " + method + " " + path + " " + new String(body, StandardCharsets.UTF_8);
@@ -40,44 +48,47 @@ final class FuzzInputs {
 
     // ---- files ---------------------------------------------------------------------------------
 
-    /** Column names: plain, repeated, empty, quoted, numeric-looking, long, non-ASCII. */
-    static Arbitrary<String> columnName() {
-        return Arbitraries.frequencyOf(
-                Tuple.of(6, Arbitraries.of("id", "flow", "site", "label", "trace", "note", "x", "y", "class")),
-                Tuple.of(2, Arbitraries.of("", " ", "\"a,b\"", "\"q\"\"q\"", "1", "2.5", "Ünï", "名前", "a\tb", "id ")),
-                Tuple.of(1, Arbitraries.strings().ofMinLength(1).ofMaxLength(300).withCharRange(' ', '~')));
+    /** Column names: plain, repeated, empty, quoted, numeric-looking, long, non-ASCII, hostile. */
+    static Gen<String> columnName() {
+        return Gen.frequency(
+                w(6, Gen.of("id", "flow", "site", "label", "trace", "note", "x", "y", "class")),
+                w(2, Gen.of("", " ", "\"a,b\"", "\"q\"\"q\"", "1", "2.5", "Ünï", "名前", "a\tb", "id ")),
+                w(1, HostileText.chars(' ', '~', 1, 300)),
+                w(1, HostileText.text(3)));
     }
 
     /** Field values: numbers of every spelling, missing tokens, JSON arrays, quotes, breaks, control characters. */
-    static Arbitrary<String> field() {
-        return Arbitraries.frequencyOf(
-                Tuple.of(6, Arbitraries.doubles().between(-1e6, 1e6).map(d -> Double.toString(d))),
-                Tuple.of(3, Arbitraries.of("ok", "fault", "north", "south", "a", "b", "c")),
-                Tuple.of(3, Arbitraries.of("", "NaN", "inf", "-Infinity", "1e999", "-0", "0x1F", "1,5", "?", "NA",
+    static Gen<String> field() {
+        return Gen.frequency(
+                w(6, Gen.doubles(-1e6, 1e6, -1).map(d -> Double.toString(d))),
+                w(3, Gen.of("ok", "fault", "north", "south", "a", "b", "c")),
+                w(3, Gen.of("", "NaN", "inf", "-Infinity", "1e999", "-0", "0x1F", "1,5", "?", "NA",
                         "null", "true", "[1,2,3]", "[1,", "[]", "[[1]]", "[\"a\"]", "{\"a\":1}", "\"", "a\"b",
                         "two\nlines", "x,y", "=cmd|' /C calc'!A0", "\u0000", "\u001b[31m",
                         "\uFEFF", "\uD83D\uDE00", "\r", "9".repeat(400))),
-                Tuple.of(1, Arbitraries.strings().ofMaxLength(200)));
+                w(1, HostileText.token()),
+                w(1, HostileText.text(6)));
     }
 
     /** What a column holds: numbers (some missing), words, arrays of numbers of one length, or anything at all. */
     enum Kind { NUMBER, WORD, EMBEDDING, ANYTHING }
 
     /** A value of a column of {@code kind}; embeddings have {@code width} numbers. */
-    static Arbitrary<String> value(Kind kind, int width) {
+    static Gen<String> value(Kind kind, int width) {
         return switch (kind) {
-            case NUMBER -> Arbitraries.frequencyOf(
-                    Tuple.of(12, Arbitraries.doubles().between(-1e6, 1e6).ofScale(3).map(d -> Double.toString(d))),
-                    Tuple.of(2, Arbitraries.integers().between(-1000, 1000).map(i -> Integer.toString(i))),
-                    Tuple.of(1, Arbitraries.of("", "NA", "?", "1e5", "-0", ".5", "NaN", "1e999")));
-            case WORD -> Arbitraries.frequencyOf(
-                    Tuple.of(10, Arbitraries.of("north", "south", "east", "west", "pump a", "Ünïcödé ✓", "名前")),
-                    Tuple.of(2, Arbitraries.of("", "say \"hi\"", "a, b", "two\nlines", "=SUM(A1)", " padded ")),
-                    Tuple.of(1, Arbitraries.strings().ofMinLength(1).ofMaxLength(40)));
-            case EMBEDDING -> Arbitraries.frequencyOf(
-                    Tuple.of(12, Arbitraries.doubles().between(-5, 5).ofScale(2).list().ofSize(width)
+            case NUMBER -> Gen.frequency(
+                    w(12, Gen.doubles(-1e6, 1e6, 3).map(d -> Double.toString(d))),
+                    w(2, Gen.ints(-1000, 1000).map(i -> Integer.toString(i))),
+                    w(1, Gen.of("", "NA", "?", "1e5", "-0", ".5", "NaN", "1e999")),
+                    w(1, Gen.of(HostileText.NUMBERS)));
+            case WORD -> Gen.frequency(
+                    w(10, Gen.of("north", "south", "east", "west", "pump a", "Ünïcödé ✓", "名前")),
+                    w(2, Gen.of("", "say \"hi\"", "a, b", "two\nlines", "=SUM(A1)", " padded ")),
+                    w(1, HostileText.text(3).map(t -> t.isEmpty() ? "w" : t)));
+            case EMBEDDING -> Gen.frequency(
+                    w(12, Gen.doubles(-5, 5, 2).list(width)
                             .map(l -> "[" + String.join(",", l.stream().map(d -> Double.toString(d)).toList()) + "]")),
-                    Tuple.of(1, Arbitraries.of("[]", "[1,", "[\"a\"]", "[[1]]", "", "[1e999]")));
+                    w(1, Gen.of("[]", "[1,", "[\"a\"]", "[[1]]", "", "[1e999]", "[NaN]", "[1e308,-1e308]")));
             case ANYTHING -> field();
         };
     }
@@ -86,31 +97,36 @@ final class FuzzInputs {
     record Table(List<String> names, List<List<String>> rows, boolean hasLabel) {
     }
 
-    static Arbitrary<Table> table() {
-        Arbitrary<List<String>> names = Arbitraries.frequencyOf(
-                Tuple.of(10, Arbitraries.of("flow", "site", "trace", "note", "speed_mm_s", "grade", "when", "x")
-                        .list().uniqueElements().ofMinSize(1).ofMaxSize(6)),
-                Tuple.of(1, columnName().list().ofMinSize(1).ofMaxSize(6)));
-        Arbitrary<Kind> kind = Arbitraries.frequency(Tuple.of(6, Kind.NUMBER), Tuple.of(3, Kind.WORD),
-                Tuple.of(1, Kind.EMBEDDING), Tuple.of(1, Kind.ANYTHING));
-        return Combinators.combine(names, Arbitraries.of(true, false), Arbitraries.integers().between(1, 12))
-                .flatAs((cols, label, n) -> kind.list().ofSize(cols.size()).flatMap(kinds ->
-                        Arbitraries.integers().between(1, 4).list().ofSize(cols.size()).flatMap(widths -> {
-                            List<Arbitrary<String>> perColumn = new ArrayList<>();
-                            for (int c = 0; c < cols.size(); c++) {
-                                perColumn.add(value(kinds.get(c), widths.get(c)));
-                            }
-                            if (label) {
-                                perColumn.add(Arbitraries.frequencyOf(Tuple.of(5, Arbitraries.of("ok", "fault")),
-                                        Tuple.of(2, Arbitraries.just("")), Tuple.of(1, Arbitraries.of("maybe", " ok "))));
-                            }
-                            List<String> header = new ArrayList<>(cols);
-                            if (label) {
-                                header.add("label");
-                            }
-                            Arbitrary<List<String>> row = Combinators.combine(perColumn).as(List::copyOf);
-                            return row.list().ofSize(n).map(rows -> new Table(header, rows, label));
-                        })));
+    static Gen<Table> table() {
+        Gen<List<String>> names = Gen.frequency(
+                w(10, Gen.of("flow", "site", "trace", "note", "speed_mm_s", "grade", "when", "x").uniqueList(1, 6)),
+                w(1, columnName().list(1, 6)));
+        Gen<Kind> kind = Gen.frequency(w(6, Gen.constant(Kind.NUMBER)), w(3, Gen.constant(Kind.WORD)),
+                w(1, Gen.constant(Kind.EMBEDDING)), w(1, Gen.constant(Kind.ANYTHING)));
+        Gen<String> labelValue = Gen.frequency(w(5, Gen.of("ok", "fault")), w(2, Gen.constant("")),
+                w(1, Gen.of("maybe", " ok ")));
+        return r -> {
+            List<String> cols = names.next(r);
+            boolean label = r.nextBoolean();
+            // One row now and then, as often as the bounds themselves come up in hand-picked tests.
+            int n = r.nextInt(5) == 0 ? 1 : 1 + r.nextInt(12);
+            List<Gen<String>> perColumn = new ArrayList<>();
+            for (int c = 0; c < cols.size(); c++) {
+                perColumn.add(value(kind.next(r), 1 + r.nextInt(4)));
+            }
+            if (label) {
+                perColumn.add(labelValue);
+            }
+            List<String> header = new ArrayList<>(cols);
+            if (label) {
+                header.add("label");
+            }
+            List<List<String>> rows = new ArrayList<>(n);
+            for (int i = 0; i < n; i++) {
+                rows.add(perColumn.stream().map(g -> g.next(r)).toList());
+            }
+            return new Table(header, rows, label);
+        };
     }
 
     /**
@@ -118,27 +134,32 @@ final class FuzzInputs {
      * written as a careful program would (fields quoted where RFC 4180 needs it); the rest join the
      * raw values, as a careless one would, and a few rows may be short or long.
      */
-    static Arbitrary<String> csv() {
+    static Gen<String> csv() {
         return table().flatMap(FuzzInputs::csv);
     }
 
-    static Arbitrary<String> csv(Table table) {
-        return Combinators.combine(Arbitraries.just(table), Arbitraries.of("\n", "\r\n", "\r"), Arbitraries.of("", "\uFEFF"),
-                        Arbitraries.frequency(Tuple.of(1, -1), Tuple.of(20, 0), Tuple.of(1, 1)),
-                        Arbitraries.frequency(Tuple.of(15, true), Tuple.of(1, false)))
-                .as((t, end, bom, ragged, careful) -> {
-                    StringBuilder s = new StringBuilder(bom).append(row(t.names(), careful)).append(end);
-                    for (List<String> row : t.rows()) {
-                        List<String> r = new ArrayList<>(row);
-                        if (ragged < 0 && !r.isEmpty()) {
-                            r.remove(r.size() - 1);
-                        } else if (ragged > 0) {
-                            r.add("extra");
-                        }
-                        s.append(row(r, careful)).append(end);
-                    }
-                    return s.toString();
-                });
+    static Gen<String> csv(Table t) {
+        Gen<String> ends = Gen.of("\n", "\r\n", "\r");
+        Gen<String> boms = Gen.of("", "\uFEFF");
+        Gen<Integer> raggedness = Gen.frequency(w(1, Gen.constant(-1)), w(20, Gen.constant(0)), w(1, Gen.constant(1)));
+        Gen<Boolean> carefulness = Gen.frequency(w(15, Gen.constant(true)), w(1, Gen.constant(false)));
+        return r -> {
+            String end = ends.next(r);
+            String bom = boms.next(r);
+            int ragged = raggedness.next(r);
+            boolean careful = carefulness.next(r);
+            StringBuilder s = new StringBuilder(bom).append(row(t.names(), careful)).append(end);
+            for (List<String> row : t.rows()) {
+                List<String> cells = new ArrayList<>(row);
+                if (ragged < 0 && !cells.isEmpty()) {
+                    cells.remove(cells.size() - 1);
+                } else if (ragged > 0) {
+                    cells.add("extra");
+                }
+                s.append(row(cells, careful)).append(end);
+            }
+            return s.toString();
+        };
     }
 
     private static String row(List<String> values, boolean careful) {
@@ -154,80 +175,90 @@ final class FuzzInputs {
     }
 
     /** A JSON Lines file of a {@link #table()}: numbers as numbers, arrays as arrays, missing as null or absent. */
-    static Arbitrary<String> jsonLinesOfTable() {
+    static Gen<String> jsonLinesOfTable() {
         return table().flatMap(FuzzInputs::jsonLines);
     }
 
-    static Arbitrary<String> jsonLines(Table table) {
-        return Combinators.combine(Arbitraries.just(table), Arbitraries.frequency(Tuple.of(15, true), Tuple.of(1, false)))
-                .as((t, clean) -> {
-                    StringBuilder s = new StringBuilder();
-                    for (List<String> row : t.rows()) {
-                        List<String> parts = new ArrayList<>();
-                        for (int c = 0; c < row.size(); c++) {
-                            String v = row.get(c);
-                            if (v.isEmpty() && clean && c > 0) {
-                                continue;
-                            }
-                            boolean raw = v.startsWith("[") || v.matches("-?\\d+(\\.\\d+)?") || v.equals("null");
-                            parts.add(quote(t.names().get(c)) + ":" + (raw || !clean ? v.isEmpty() ? "null" : v : quote(v)));
-                        }
-                        s.append("{").append(String.join(",", parts)).append("}\n");
+    static Gen<String> jsonLines(Table t) {
+        Gen<Boolean> cleanness = Gen.frequency(w(15, Gen.constant(true)), w(1, Gen.constant(false)));
+        return r -> {
+            boolean clean = cleanness.next(r);
+            StringBuilder s = new StringBuilder();
+            for (List<String> row : t.rows()) {
+                List<String> parts = new ArrayList<>();
+                for (int c = 0; c < row.size(); c++) {
+                    String v = row.get(c);
+                    if (v.isEmpty() && clean && c > 0) {
+                        continue;
                     }
-                    return s.toString();
-                });
+                    boolean raw = v.startsWith("[") || v.matches("-?\\d+(\\.\\d+)?") || v.equals("null");
+                    parts.add(quote(t.names().get(c)) + ":" + (raw || !clean ? v.isEmpty() ? "null" : v : quote(v)));
+                }
+                s.append("{").append(String.join(",", parts)).append("}\n");
+            }
+            return s.toString();
+        };
     }
 
-    /** A JSON value as text, nested a little. */
-    static Arbitrary<String> jsonValue() {
-        Arbitrary<String> leaf = Arbitraries.frequencyOf(
-                Tuple.of(4, Arbitraries.doubles().between(-1e9, 1e9).map(d -> Double.toString(d))),
-                Tuple.of(3, Arbitraries.integers().map(i -> Integer.toString(i))),
-                Tuple.of(3, field().map(FuzzInputs::quote)),
-                Tuple.of(2, Arbitraries.of("null", "true", "false", "1e999", "-1e999", "123456789012345678901234567890",
-                        "0.1e-400", "\"\\ud800\"", "\"\\u0000\"", "-0")));
-        return Arbitraries.lazyOf(
-                () -> leaf,
-                () -> leaf,
-                () -> leaf,
-                () -> jsonValue().list().ofMaxSize(4).map(l -> "[" + String.join(",", l) + "]"),
-                () -> Combinators.combine(columnName(), jsonValue()).as((k, v) -> quote(k) + ":" + v)
-                        .list().ofMaxSize(4).map(l -> "{" + String.join(",", l) + "}"));
+    /** A JSON value as text, nested at most {@code depth} more levels. */
+    static Gen<String> jsonValue(int depth) {
+        Gen<String> leaf = Gen.frequency(
+                w(4, Gen.doubles(-1e9, 1e9, -1).map(d -> Double.toString(d))),
+                w(3, Gen.anyInt().map(i -> Integer.toString(i))),
+                w(3, field().map(FuzzInputs::quote)),
+                w(2, Gen.of("null", "true", "false", "1e999", "-1e999", "123456789012345678901234567890",
+                        "0.1e-400", "\"\\ud800\"", "\"\\u0000\"", "-0")),
+                w(1, Gen.of(HostileText.NUMBERS)),
+                w(1, Gen.of(HostileText.BROKEN_JSON)));
+        if (depth <= 0) {
+            return leaf;
+        }
+        return Gen.frequency(w(3, leaf),
+                w(1, r -> "[" + String.join(",", jsonValue(depth - 1).list(0, 4).next(r)) + "]"),
+                w(1, r -> "{" + String.join(",", member(columnName(), jsonValue(depth - 1)).list(0, 4).next(r)) + "}"));
+    }
+
+    static Gen<String> jsonValue() {
+        return jsonValue(3);
+    }
+
+    static Gen<String> member(Gen<String> key, Gen<String> value) {
+        return r -> quote(key.next(r)) + ":" + value.next(r);
     }
 
     /** A JSON Lines file: objects over a few keys, some lines broken. */
-    static Arbitrary<String> jsonLines() {
-        Arbitrary<String> line = Arbitraries.frequencyOf(
-                Tuple.of(8, Combinators.combine(columnName(), jsonValue()).as((k, v) -> quote(k) + ":" + v)
-                        .list().ofMinSize(1).ofMaxSize(6).map(l -> "{" + String.join(",", l) + "}")),
-                Tuple.of(1, jsonValue()),
-                Tuple.of(1, Arbitraries.of("", "{", "}", "{\"a\":", "not json", "{\"a\":1}{\"b\":2}", "\uFEFF{}")));
-        return line.list().ofMinSize(0).ofMaxSize(10).map(l -> String.join("\n", l) + "\n");
+    static Gen<String> jsonLines() {
+        Gen<String> line = Gen.frequency(
+                w(8, member(columnName(), jsonValue()).list(1, 6).map(l -> "{" + String.join(",", l) + "}")),
+                w(1, jsonValue()),
+                w(1, Gen.of("", "{", "}", "{\"a\":", "not json", "{\"a\":1}{\"b\":2}", "\uFEFF{}")),
+                w(1, Gen.of(HostileText.BROKEN_JSON)));
+        return line.list(0, 10).map(l -> String.join("\n", l) + "\n");
     }
 
     /** Bytes changed the ways files get damaged: cut, spliced, overwritten, sprayed with non-UTF-8. */
-    static Arbitrary<byte[]> damaged(Arbitrary<String> text) {
-        return Combinators.combine(text, Arbitraries.integers().between(0, 15), Arbitraries.longs())
-                .as((t, how, seed) -> {
-                    byte[] b = t.getBytes(StandardCharsets.UTF_8);
-                    java.util.SplittableRandom rng = new java.util.SplittableRandom(seed);
-                    return switch (how) {
-                        case 1 -> java.util.Arrays.copyOf(b, b.length == 0 ? 0 : rng.nextInt(b.length));
-                        case 2 -> {
-                            for (int k = 0; k < 3 && b.length > 0; k++) {
-                                b[rng.nextInt(b.length)] = (byte) rng.nextInt(256);
-                            }
-                            yield b;
-                        }
-                        case 3 -> splice(b, rng, new byte[] {(byte) 0xC3, (byte) 0x28, (byte) 0xFF, (byte) 0xFE});
-                        case 4 -> splice(b, rng, "\",\"\n\"".getBytes(StandardCharsets.UTF_8));
-                        default -> b;
-                    };
-                });
+    static Gen<byte[]> damaged(Gen<String> text) {
+        return r -> {
+            byte[] b = text.next(r).getBytes(StandardCharsets.UTF_8);
+            return switch (r.nextInt(16)) {
+                case 1 -> Arrays.copyOf(b, b.length == 0 ? 0 : r.nextInt(b.length));
+                case 2 -> {
+                    for (int k = 0; k < 3 && b.length > 0; k++) {
+                        b[r.nextInt(b.length)] = (byte) r.nextInt(256);
+                    }
+                    yield b;
+                }
+                case 3 -> splice(b, r, new byte[] {(byte) 0xC3, (byte) 0x28, (byte) 0xFF, (byte) 0xFE});
+                case 4 -> splice(b, r, "\",\"\n\"".getBytes(StandardCharsets.UTF_8));
+                // CESU-style bytes of a lone surrogate and an overlong NUL: not UTF-8 either.
+                case 5 -> splice(b, r, new byte[] {(byte) 0xED, (byte) 0xA0, (byte) 0x80, (byte) 0xC0, (byte) 0x80});
+                default -> b;
+            };
+        };
     }
 
-    private static byte[] splice(byte[] b, java.util.SplittableRandom rng, byte[] add) {
-        int at = b.length == 0 ? 0 : rng.nextInt(b.length + 1);
+    private static byte[] splice(byte[] b, SplittableRandom r, byte[] add) {
+        int at = b.length == 0 ? 0 : r.nextInt(b.length + 1);
         byte[] out = new byte[b.length + add.length];
         System.arraycopy(b, 0, out, 0, at);
         System.arraycopy(add, 0, out, at, add.length);
@@ -235,41 +266,46 @@ final class FuzzInputs {
         return out;
     }
 
+    /** A file's body and the kind of file it was made as (csv, jsonl, or bin for noise). */
+    record File(String kind, byte[] body) {
+    }
+
     /** The body of an upload: a CSV or JSON Lines file, now and then damaged, or noise. */
-    static Arbitrary<Tuple.Tuple2<String, byte[]>> file() {
-        return Arbitraries.frequencyOf(
-                Tuple.of(6, damaged(csv()).map(b -> Tuple.of("csv", b))),
-                Tuple.of(3, damaged(jsonLinesOfTable()).map(b -> Tuple.of("jsonl", b))),
-                Tuple.of(1, damaged(jsonLines()).map(b -> Tuple.of("jsonl", b))),
-                Tuple.of(1, Arbitraries.bytes().array(byte[].class).ofMaxSize(600).map(b -> Tuple.of("bin", b))));
+    static Gen<File> file() {
+        return Gen.frequency(
+                w(6, damaged(csv()).map(b -> new File("csv", b))),
+                w(3, damaged(jsonLinesOfTable()).map(b -> new File("jsonl", b))),
+                w(1, damaged(jsonLines()).map(b -> new File("jsonl", b))),
+                w(1, Gen.bytes(600).map(b -> new File("bin", b))));
     }
 
     /** Upload parameters: a pool name, a file name, and column roles taken from names that may or may not be there. */
-    static Arbitrary<String> importQuery(String kind) {
-        Arbitrary<String> names = Arbitraries.frequencyOf(Tuple.of(3, Arbitraries.just("")),
-                Tuple.of(1, columnName().list().ofMaxSize(4).map(l -> String.join(",", l))));
-        Arbitrary<String> pool = Arbitraries.frequencyOf(
-                Tuple.of(12, Arbitraries.strings().withCharRange('a', 'z').ofMinLength(1).ofMaxLength(12)),
-                Tuple.of(1, Arbitraries.of("", "p", "../x", "a b", "Ünï", "x".repeat(300), "con", "%00")));
-        Arbitrary<String> number = Arbitraries.frequencyOf(Tuple.of(8, Arbitraries.just("")),
-                Tuple.of(1, Arbitraries.of("0", "1", "2", "16", "50", "-5", "99999999999", "x", "1.5")));
-        Arbitrary<String> classes = Arbitraries.frequencyOf(Tuple.of(6, Arbitraries.of("ok,fault", "a,b,c")),
-                Tuple.of(2, Arbitraries.just("")), Tuple.of(1, Arbitraries.of("a,a", " ", "x".repeat(250), ",,")));
-        return Combinators.combine(pool, Arbitraries.of(kind, kind, kind, "csv", "jsonl", "json", "txt", ""), names,
-                        names, classes, names, number, number)
-                .as((p, ext, features, display, cls, categorical, levels, chars) -> {
-                    StringBuilder q = new StringBuilder("pool=").append(enc(p)).append("&file_name=f.").append(enc(ext));
-                    q.append("&features=").append(enc(features)).append("&display=").append(enc(display));
-                    q.append("&classes=").append(enc(cls)).append("&categorical=").append(enc(categorical));
-                    q.append("&max_levels=").append(enc(levels)).append("&max_field_chars=").append(enc(chars));
-                    return q.toString();
-                })
-                .flatMap(q -> Combinators.combine(
-                        Arbitraries.frequencyOf(Tuple.of(6, Arbitraries.just("")),
-                                Tuple.of(1, Arbitraries.of("id", "flow", "nope", "label", "x"))),
-                        Arbitraries.frequencyOf(Tuple.of(3, Arbitraries.just("")), Tuple.of(4, Arbitraries.just("label")),
-                                Tuple.of(1, Arbitraries.of("class", "id", "nope", "y")))).as((id, label) ->
-                        q + (id.isEmpty() ? "" : "&id=" + id) + (label.isEmpty() ? "" : "&label=" + label)));
+    static Gen<String> importQuery(String kind) {
+        Gen<String> names = Gen.frequency(w(3, Gen.constant("")),
+                w(1, columnName().list(0, 4).map(l -> String.join(",", l))));
+        Gen<String> pool = Gen.frequency(
+                w(12, HostileText.chars('a', 'z', 1, 12)),
+                w(1, Gen.of("", "p", "../x", "a b", "Ünï", "x".repeat(300), "con", "%00")),
+                w(1, HostileText.token()));
+        Gen<String> number = Gen.frequency(w(8, Gen.constant("")),
+                w(1, Gen.of("0", "1", "2", "16", "50", "-5", "99999999999", "x", "1.5")),
+                w(1, Gen.of(HostileText.NUMBERS)));
+        Gen<String> classes = Gen.frequency(w(6, Gen.of("ok,fault", "a,b,c")),
+                w(2, Gen.constant("")), w(1, Gen.of("a,a", " ", "x".repeat(250), ",,")));
+        Gen<String> ext = Gen.of(kind, kind, kind, "csv", "jsonl", "json", "txt", "");
+        Gen<String> id = Gen.frequency(w(6, Gen.constant("")), w(1, Gen.of("id", "flow", "nope", "label", "x")));
+        Gen<String> label = Gen.frequency(w(3, Gen.constant("")), w(4, Gen.constant("label")),
+                w(1, Gen.of("class", "id", "nope", "y")));
+        return r -> {
+            StringBuilder q = new StringBuilder("pool=").append(enc(pool.next(r))).append("&file_name=f.")
+                    .append(enc(ext.next(r)));
+            q.append("&features=").append(enc(names.next(r))).append("&display=").append(enc(names.next(r)));
+            q.append("&classes=").append(enc(classes.next(r))).append("&categorical=").append(enc(names.next(r)));
+            q.append("&max_levels=").append(enc(number.next(r))).append("&max_field_chars=").append(enc(number.next(r)));
+            String i = id.next(r);
+            String l = label.next(r);
+            return q + (i.isEmpty() ? "" : "&id=" + i) + (l.isEmpty() ? "" : "&label=" + l);
+        };
     }
 
     /**
@@ -277,145 +313,49 @@ final class FuzzInputs {
      * column named when there is one, else the classes; now and then a choice of features), so that
      * many imports succeed and the checks past the first are reached; the rest anything at all.
      */
-    static Arbitrary<Upload> uploads() {
-        return Arbitraries.frequencyOf(
-                Tuple.of(7, table().flatMap(t -> Combinators.combine(
-                        Arbitraries.frequencyOf(Tuple.of(2, damaged(csv(t)).map(b -> Tuple.of("csv", b))),
-                                Tuple.of(1, damaged(jsonLines(t)).map(b -> Tuple.of("jsonl", b)))),
-                        fittingQuery(t)).as((f, q) -> new Upload("file_name=f." + f.get1() + "&" + q, f.get2())))),
-                Tuple.of(3, file().flatMap(f -> importQuery(f.get1()).map(q -> new Upload(q, f.get2())))));
+    static Gen<Upload> uploads() {
+        Gen<Upload> fitting = table().flatMap(t -> {
+            Gen<File> f = Gen.frequency(w(2, damaged(csv(t)).map(b -> new File("csv", b))),
+                    w(1, damaged(jsonLines(t)).map(b -> new File("jsonl", b))));
+            Gen<String> query = fittingQuery(t);
+            return r -> {
+                File file = f.next(r);
+                return new Upload("file_name=f." + file.kind() + "&" + query.next(r), file.body());
+            };
+        });
+        Gen<Upload> any = file().flatMap(f -> importQuery(f.kind()).map(q -> new Upload(q, f.body())));
+        return Gen.frequency(w(7, fitting), w(3, any));
     }
 
     /** Parameters that fit the table, but for a slip now and then. */
-    static Arbitrary<String> fittingQuery(Table t) {
+    static Gen<String> fittingQuery(Table t) {
         List<String> columns = t.names().stream().filter(n -> !n.equals("label")).toList();
-        Arbitrary<String> pool = Arbitraries.strings().withCharRange('a', 'z').ofMinLength(1).ofMaxLength(12);
-        Arbitrary<String> labelPart = t.hasLabel()
-                ? Arbitraries.frequencyOf(Tuple.of(8, Arbitraries.just("&label=label")),
-                        Tuple.of(1, Arbitraries.just("&label=label&classes=ok,fault")),
-                        Tuple.of(1, Arbitraries.just("&classes=ok,fault")))
-                : Arbitraries.frequencyOf(Tuple.of(9, Arbitraries.of("&classes=ok,fault", "&classes=a,b,c")),
-                        Tuple.of(1, Arbitraries.just("&label=label")));
-        Arbitrary<String> subset = Arbitraries.subsetOf(columns).map(sub -> String.join(",", sub));
+        // Now and then a name taken already: the fixture's pool, or one an earlier input made.
+        Gen<String> pool = Gen.frequency(w(30, HostileText.chars('a', 'z', 1, 12)), w(1, Gen.of("p", "again", "a")));
+        Gen<String> labelPart = t.hasLabel()
+                ? Gen.frequency(w(8, Gen.constant("&label=label")),
+                        w(1, Gen.constant("&label=label&classes=ok,fault")),
+                        w(1, Gen.constant("&classes=ok,fault")))
+                : Gen.frequency(w(9, Gen.of("&classes=ok,fault", "&classes=a,b,c")),
+                        w(1, Gen.constant("&label=label")));
+        Gen<String> subset = Gen.subsetOf(columns).map(sub -> String.join(",", sub));
         // A table may hold nothing but its label column: then a column to name is one it lacks.
-        Arbitrary<String> column = columns.isEmpty() ? Arbitraries.just("nope") : Arbitraries.of(columns);
-        Arbitrary<String> roles = Arbitraries.frequencyOf(Tuple.of(6, Arbitraries.just("")),
-                Tuple.of(1, subset.map(f -> "&features=" + enc(f))),
-                Tuple.of(1, subset.map(f -> "&display=" + enc(f))),
-                Tuple.of(1, column.map(c -> "&features=" + enc(c) + "&categorical=" + enc(c))),
-                Tuple.of(1, column.map(c -> "&id=" + enc(c))));
-        Arbitrary<String> limits = Arbitraries.frequencyOf(Tuple.of(9, Arbitraries.just("")),
-                Tuple.of(1, Arbitraries.of("&max_levels=2", "&max_levels=3", "&max_field_chars=16", "&max_field_chars=20",
+        Gen<String> column = columns.isEmpty() ? Gen.constant("nope") : Gen.of(columns);
+        Gen<String> roles = Gen.frequency(w(6, Gen.constant("")),
+                w(1, subset.map(f -> "&features=" + enc(f))),
+                w(1, subset.map(f -> "&display=" + enc(f))),
+                w(1, column.map(c -> "&features=" + enc(c) + "&categorical=" + enc(c))),
+                w(1, column.map(c -> "&id=" + enc(c))));
+        Gen<String> limits = Gen.frequency(w(9, Gen.constant("")),
+                w(1, Gen.of("&max_levels=2", "&max_levels=3", "&max_field_chars=16", "&max_field_chars=20",
                         "&missing=", "&missing=NA,%3F", "&missing=ok", "&missing=%2C%2C")));
-        return Combinators.combine(pool, labelPart, roles, limits).as((p, l, r, lim) -> "pool=" + p + l + r + lim);
+        return r -> "pool=" + pool.next(r) + labelPart.next(r) + roles.next(r) + limits.next(r);
     }
 
     /** The head of a file for the mapping step's preview. */
-    static Arbitrary<Upload> heads() {
-        return file().flatMap(f -> Arbitraries.of("f.csv", "f.jsonl", "f.ndjson", "f", "f.json", "")
-                .map(name -> new Upload("file_name=" + enc(name), f.get2())));
-    }
-
-    // ---- JSON bodies -----------------------------------------------------------------------------
-
-    /** Every call that takes a JSON body, with the pool p of the fixture or a name that is not there. */
-    static final List<String> JSON_CALLS = List.of(
-            "POST /api/v1/session", "PUT /api/v1/session/password", "POST /api/v1/tokens", "POST /api/v1/users",
-            "PUT /api/v1/users/{name}", "POST /api/v1/pools/{pool}/queue/next", "POST /api/v1/pools/{pool}/queue/skip",
-            "POST /api/v1/pools/{pool}/labels", "POST /api/v1/pools/{pool}/labels/undo",
-            "POST /api/v1/pools/{pool}/reviews", "PUT /api/v1/pools/{pool}/settings");
-    /** The field names the API reads, so that generated objects get past the first check. */
-    static final List<String> FIELDS = List.of("name", "password", "current", "record", "label", "note", "round",
-            "position", "verdict", "reason", "role", "disabled", "batch_size", "spot_check_share",
-            "double_label_share", "lease_minutes", "strategy", "cold_start", "temperature");
-
-    static Arbitrary<String> apiValue() {
-        return Arbitraries.frequencyOf(
-                Tuple.of(4, Arbitraries.of("\"ok\"", "\"fault\"", "\"a1\"", "\"a2\"", "\"ana\"", "\"leo\"", "\"admin\"",
-                        "\"labeller\"", "\"accept\"", "\"override\"", "\"bald\"", "\"random\"", "\"a long new password\"",
-                        "\"test-password-1\"", "0", "1", "2", "10", "-1", "0.5", "1.0", "true", "false", "null")),
-                Tuple.of(3, jsonValue()));
-    }
-
-    static Arbitrary<String> jsonBody() {
-        Arbitrary<String> object = Combinators.combine(Arbitraries.of(FIELDS), apiValue())
-                .as((k, v) -> quote(k) + ":" + v).list().ofMaxSize(5).map(l -> "{" + String.join(",", l) + "}");
-        return Arbitraries.frequencyOf(
-                Tuple.of(8, object),
-                Tuple.of(1, jsonValue()),
-                Tuple.of(1, Arbitraries.of("", "{", "{\"name\":", "[", "\"", "{}}", "nul", "{\"a\":1,}",
-                        "[".repeat(100) + "]".repeat(100), "{\"a\":".repeat(80) + "1" + "}".repeat(80), "\u0000{}")));
-    }
-
-    /** What each call reads, each field with values that fit it, so that most bodies get past the first checks. */
-    static final java.util.Map<String, java.util.Map<String, List<String>>> SHAPES = java.util.Map.ofEntries(
-            java.util.Map.entry("POST /api/v1/session", java.util.Map.of("name", List.of("\"ana\"", "\"leo\"", "\"nobody\""),
-                    "password", List.of("\"test-password-1\"", "\"wrong one!\""))),
-            java.util.Map.entry("PUT /api/v1/session/password", java.util.Map.of(
-                    "current", List.of("\"test-password-1\"", "\"wrong one!\""),
-                    "password", List.of("\"a long new password\"", "\"short\""))),
-            java.util.Map.entry("POST /api/v1/tokens", java.util.Map.of("name", List.of("\"script\"", "\"\"", "\"" + "x".repeat(120) + "\""))),
-            java.util.Map.entry("POST /api/v1/users", java.util.Map.of("name", List.of("\"cleo\"", "\"ana\"", "\" x\"", "\"<b>\""),
-                    "role", List.of("\"labeller\"", "\"admin\"", "\"boss\""),
-                    "password", List.of("\"a long first password\"", "\"short\""))),
-            java.util.Map.entry("PUT /api/v1/users/{name}", java.util.Map.of("role", List.of("\"reviewer\"", "\"boss\""),
-                    "disabled", List.of("true", "false", "\"yes\""), "password", List.of("\"a long new password\"", "\"x\""))),
-            java.util.Map.entry("POST /api/v1/pools/{pool}/queue/next", java.util.Map.of()),
-            java.util.Map.entry("POST /api/v1/pools/{pool}/queue/skip", java.util.Map.of("round", List.of("1", "0", "-1", "99"),
-                    "position", List.of("0", "1", "-1", "99999"))),
-            java.util.Map.entry("POST /api/v1/pools/{pool}/labels", java.util.Map.of("record", List.of("\"a1\"", "\"a2\"", "\"zz\""),
-                    "label", List.of("\"ok\"", "\"fault\"", "\"maybe\""), "note", List.of("\"seen\"", "null", "\"\""))),
-            java.util.Map.entry("POST /api/v1/pools/{pool}/labels/undo", java.util.Map.of("record", List.of("\"a1\"", "\"a2\"", "\"zz\""))),
-            java.util.Map.entry("POST /api/v1/pools/{pool}/reviews", java.util.Map.of("record", List.of("\"a1\"", "\"a2\"", "\"zz\""),
-                    "verdict", List.of("\"accept\"", "\"override\"", "\"maybe\""), "label", List.of("\"ok\"", "\"fault\"", "\"x\""),
-                    "reason", List.of("\"looked again\"", "\"\""))),
-            java.util.Map.entry("PUT /api/v1/pools/{pool}/settings", java.util.Map.of("batch_size", List.of("10", "0", "100000"),
-                    "spot_check_share", List.of("0.1", "1.5", "-0.1"), "double_label_share", List.of("0.2", "2"),
-                    "lease_minutes", List.of("10", "0", "100000"), "strategy", List.of("\"bald\"", "\"random\"", "\"best\""),
-                    "cold_start", List.of("\"kmeans++\"", "\"typiclust\"", "\"middle\""),
-                    "temperature", List.of("0.1", "1", "0", "\"warm\""))));
-
-    /** A body for {@code call}: its own fields with fitting values, some dropped, changed or added. */
-    static Arbitrary<String> bodyFor(String call) {
-        java.util.Map<String, List<String>> shape = SHAPES.get(call);
-        List<String> keys = new ArrayList<>(new java.util.TreeSet<>(shape.keySet()));
-        Arbitrary<String> fitting = Arbitraries.integers().between(0, 1 << 20).list().ofSize(keys.size())
-                .flatMap(picks -> Combinators.combine(
-                        Arbitraries.integers().between(0, 9).list().ofSize(keys.size()),
-                        apiValue().list().ofSize(keys.size()),
-                        Arbitraries.frequencyOf(Tuple.of(4, Arbitraries.just("")), Tuple.of(1, Combinators.combine(
-                                Arbitraries.of(FIELDS), apiValue()).as((k, v) -> quote(k) + ":" + v))))
-                        .as((how, other, extra) -> {
-                            List<String> parts = new ArrayList<>();
-                            for (int i = 0; i < keys.size(); i++) {
-                                List<String> values = shape.get(keys.get(i));
-                                if (how.get(i) == 0) {
-                                    continue; // dropped
-                                }
-                                String v = how.get(i) == 1 ? other.get(i) : values.get(picks.get(i) % values.size());
-                                parts.add(quote(keys.get(i)) + ":" + v);
-                            }
-                            if (!extra.isEmpty()) {
-                                parts.add(extra);
-                            }
-                            return "{" + String.join(",", parts) + "}";
-                        }));
-        return Arbitraries.frequencyOf(Tuple.of(7, fitting), Tuple.of(3, jsonBody()));
-    }
-
-    static Arbitrary<Call> calls() {
-        Arbitrary<String> name = Arbitraries.frequencyOf(Tuple.of(4, Arbitraries.of("leo", "cleo")),
-                Tuple.of(1, Arbitraries.of("ana", "nobody", "a b", "Ünï", "..", "x".repeat(200))));
-        Arbitrary<String> pool = Arbitraries.frequencyOf(Tuple.of(8, Arbitraries.just("p")),
-                Tuple.of(1, Arbitraries.of("nope", "..", "a b", "%2F", "Ünï")));
-        Arbitrary<String> caller = Arbitraries.frequencyOf(Tuple.of(6, Arbitraries.just("admin")),
-                Tuple.of(3, Arbitraries.just("labeller")), Tuple.of(1, Arbitraries.just("nobody")));
-        return Arbitraries.of(JSON_CALLS).flatMap(call -> Combinators.combine(name, pool, bodyFor(call), caller)
-                .as((n, p, body, who) -> {
-                    String[] mp = call.split(" ");
-                    String path = mp[1].replace("{name}", enc(n)).replace("{pool}", enc(p));
-                    return new Call(who, mp[0], path, body.getBytes(StandardCharsets.UTF_8));
-                }));
+    static Gen<Upload> heads() {
+        return file().flatMap(f -> Gen.of("f.csv", "f.jsonl", "f.ndjson", "f", "f.json", "")
+                .map(name -> new Upload("file_name=" + enc(name), f.body())));
     }
 
     // ---- text helpers --------------------------------------------------------------------------
