@@ -21,6 +21,8 @@ public final class Database implements AutoCloseable {
     /** Where the migration scripts are packaged inside the jar. */
     public static final String MIGRATIONS = "classpath:migrations";
     static final int DEFAULT_POOL_SIZE = 8;
+    /** How long a statement on PostgreSQL waits for a lock before it is busy: H2's default lock timeout. */
+    static final int LOCK_TIMEOUT_SECONDS = 10;
 
     private final HikariDataSource dataSource;
     private final Clock clock;
@@ -114,6 +116,9 @@ public final class Database implements AutoCloseable {
         config.setPassword(password);
         config.setMaximumPoolSize(DEFAULT_POOL_SIZE);
         config.setPoolName("dowser-postgresql");
+        // PostgreSQL waits for a lock without limit by default; H2 gives up after its lock timeout, and
+        // the store reports that as busy (55P03 here), so that a person is answered "try again".
+        config.setConnectionInitSql("SET lock_timeout = '" + LOCK_TIMEOUT_SECONDS + "s'");
         config.setAutoCommit(true);
         HikariDataSource ds;
         try {
