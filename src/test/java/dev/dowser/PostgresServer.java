@@ -185,7 +185,15 @@ public final class PostgresServer implements AutoCloseable {
      * The database called {@code key} (letters and digits), made empty the first time: a test that
      * closes and opens its database again (a restart) gets the same one back.
      */
-    public synchronized Database open(String key, Clock clock) {
+    public Database open(String key, Clock clock) {
+        return Database.connect(create(key), USER, "", clock);
+    }
+
+    /**
+     * The address of the database called {@code key}, made empty (no tables) the first time, as a
+     * team's administrator makes one before Dowser first connects to it.
+     */
+    public synchronized String create(String key) {
         String name = "d_" + key.toLowerCase(java.util.Locale.ROOT).replaceAll("[^a-z0-9]", "_");
         if (made.add(name)) {
             try (Connection c = DriverManager.getConnection(url("postgres"), USER, "");
@@ -195,7 +203,38 @@ public final class PostgresServer implements AutoCloseable {
                 throw new AssertionError("cannot make database " + name + ": " + e.getMessage(), e);
             }
         }
-        return Database.connect(url(name), USER, "", clock);
+        return url(name);
+    }
+
+    /**
+     * The address of a new database {@code key} owned by the login role {@code role}, which reaches
+     * it over TCP only with {@code password} (SCRAM, as a team's server would ask), not as the
+     * cluster's other databases are reached (trust).
+     */
+    public synchronized String createWithPassword(String key, String role, String password)
+            throws IOException, InterruptedException {
+        String name = "d_" + key.toLowerCase(java.util.Locale.ROOT).replaceAll("[^a-z0-9]", "_");
+        try (Connection c = DriverManager.getConnection(url("postgres"), USER, "");
+             Statement s = c.createStatement()) {
+            s.execute("CREATE ROLE " + role + " LOGIN PASSWORD '" + password.replace("'", "''") + "'");
+            s.execute("CREATE DATABASE " + name + " OWNER " + role);
+            made.add(name);
+            // The first matching line of pg_hba.conf decides; initdb's trust lines come after this one.
+            Path hba = dir.resolve("data").resolve("pg_hba.conf");
+            Files.writeString(hba, "host " + name + " " + role + " 127.0.0.1/32 scram-sha-256\n" + Files.readString(hba));
+            s.execute("SELECT pg_reload_conf()");
+        } catch (SQLException e) {
+            throw new AssertionError("cannot make database " + name + " for " + role + ": " + e.getMessage(), e);
+        }
+        String url = url(name);
+        dev.dowser.TestSupport.await(java.time.Duration.ofSeconds(DEADLINE_SECONDS), () -> {
+            try (Connection c = DriverManager.getConnection(url, role, "")) {
+                return false;
+            } catch (SQLException refused) {
+                return true;
+            }
+        }, "the server to ask " + role + " for a password after reloading pg_hba.conf");
+        return url;
     }
 
     /** True while the server answers on its port. */

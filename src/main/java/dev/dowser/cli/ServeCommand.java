@@ -14,8 +14,10 @@ import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 
 @Command(name = "serve", mixinStandardHelpOptions = true,
-        description = {"Runs the web app on the database in --data until stopped (Ctrl-C).",
-            "The database needs an admin first: dowser users add NAME --role admin --data DIR.",
+        description = {"Runs the web app on the database in --data (or on the PostgreSQL server given by --database-url)"
+                + " until stopped (Ctrl-C).",
+            "The database needs an admin first: dowser users add NAME --role admin --data DIR (with the same"
+                + " --database-url and --database-user when on PostgreSQL).",
             "Listens on loopback by default; put it behind your own network and TLS before letting others"
                 + " reach it."})
 final class ServeCommand implements Callable<Integer> {
@@ -66,7 +68,7 @@ final class ServeCommand implements Callable<Integer> {
             config = config.withTls(new TlsConfig(tlsKeystore, password));
         }
         // Nothing is written before the port is bound: a fresh folder is refused untouched, a busy port found first.
-        if (!Database.exists(data.dir)) {
+        if (!data.shared() && !Database.exists(data.dir)) {
             throw new IllegalArgumentException(noAdmin("there is no database in " + data.dir + " yet"));
         }
         WebServer server = WebServer.listen(config);
@@ -74,18 +76,18 @@ final class ServeCommand implements Callable<Integer> {
         if (!new Accounts(db, new SecureRandom(), TeamConfig.defaults()).hasAdmin()) {
             server.close();
             db.close();
-            throw new IllegalArgumentException(noAdmin("the database in " + data.dir + " has no enabled admin"));
+            throw new IllegalArgumentException(noAdmin(data.where() + " has no enabled admin"));
         }
-        ServerRunner.runUntilStopped(server, db, data.dir, "Dowser is serving {address}  (data: "
-                + data.dir.toAbsolutePath() + ")", s -> { });
+        String where = data.shared() ? "database: " + data.url + "; uploads: " + data.dir.toAbsolutePath()
+                : "data: " + data.dir.toAbsolutePath();
+        ServerRunner.runUntilStopped(server, db, data.dir, "Dowser is serving {address}  (" + where + ")", s -> { });
         return 0;
     }
 
     /** The refusal to serve without an admin, with the command that makes one. */
     private String noAdmin(String why) {
-        String folder = data.dir.toString().contains(" ") ? "'" + data.dir + "'" : data.dir.toString();
         return why + ", and a server needs an admin to manage it. Make the first one here with\n"
-                + "  dowser users add NAME --role admin --data " + folder + "\n"
+                + "  dowser users add NAME --role admin " + data.asArguments() + "\n"
                 + "(it prints a password to sign in with), then start dowser serve again.";
     }
 }

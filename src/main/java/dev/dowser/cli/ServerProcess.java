@@ -11,6 +11,7 @@ import java.nio.file.StandardOpenOption;
 import java.time.Duration;
 import java.util.ArrayList;
 import java.util.List;
+import java.util.Map;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.ExecutionException;
 import java.util.concurrent.TimeUnit;
@@ -51,9 +52,18 @@ final class ServerProcess implements AutoCloseable {
 
     /** Runs {@code launcher} + {@code serve --data DIR --port 0} and waits until it listens. */
     static ServerProcess start(List<String> launcher, Path dataDir, Path log) throws IOException {
+        return start(launcher, dataDir, log, Map.of());
+    }
+
+    /** As {@link #start(List, Path, Path)}, with {@code options} (name, value, ...) in the environment and after serve. */
+    static ServerProcess start(List<String> launcher, Path dataDir, Path log, Map<String, String> environment,
+            String... options) throws IOException {
         List<String> cmd = new ArrayList<>(launcher);
         cmd.addAll(List.of("serve", "--data", dataDir.toString(), "--port", "0"));
-        Process p = new ProcessBuilder(cmd).redirectError(ProcessBuilder.Redirect.appendTo(log.toFile())).start();
+        cmd.addAll(List.of(options));
+        ProcessBuilder builder = new ProcessBuilder(cmd).redirectError(ProcessBuilder.Redirect.appendTo(log.toFile()));
+        builder.environment().putAll(environment);
+        Process p = builder.start();
         CompletableFuture<Integer> listening = CompletableFuture.supplyAsync(() -> readPort(p, log));
         try {
             return new ServerProcess(p, listening.get(START_DEADLINE.toSeconds(), TimeUnit.SECONDS));
