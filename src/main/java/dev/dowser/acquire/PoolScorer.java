@@ -63,6 +63,11 @@ public final class PoolScorer implements AutoCloseable {
         return new PoolScorer(Runtime.getRuntime().availableProcessors(), DEFAULT_BLOCK_ROWS);
     }
 
+    /** The threads it scores on: also the round's budget for its chains ({@code RoundStep}). */
+    public int threads() {
+        return threads;
+    }
+
     /** Scores rows {@code 0..rows} of x (row-major, the network's inputs per row). */
     public Result score(Layout layout, List<float[]> draws, float[] x, int rows) {
         Architecture a = layout.architecture();

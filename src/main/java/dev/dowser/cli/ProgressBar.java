@@ -30,8 +30,11 @@ final class ProgressBar {
         this.lastDraw = begun;
     }
 
-    /** Shows {@code done} of {@code total} (total unknown when 0 or less); {@code items} is what is counted. */
-    void show(long done, long total, long items) {
+    /**
+     * Shows {@code done} of {@code total} (total unknown when 0 or less); {@code items} is what is
+     * counted. Several threads may call it (simulate runs curves side by side).
+     */
+    synchronized void show(long done, long total, long items) {
         long now = System.nanoTime();
         long interval = terminal ? MIN_INTERVAL_NANOS : LINE_INTERVAL_NANOS;
         if (now - lastDraw < interval && !(terminal && done >= total && total > 0)) {

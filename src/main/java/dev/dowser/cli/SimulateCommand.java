@@ -87,11 +87,17 @@ final class SimulateCommand implements Callable<Integer> {
                     + " they count as settled (default: ${DEFAULT-VALUE}).")
     double stopAgreement;
 
+    @Option(names = "--threads", paramLabel = "N",
+            description = "Curves (a strategy on a seed) run at once, each on its share of the cores; the results"
+                    + " are the same whatever the number (default: one per core, here ${DEFAULT-VALUE}).")
+    int threads = Simulation.defaultThreads();
+
     @Option(names = "--out", required = true, paramLabel = "DIR", description = "Folder for curves.csv, .svg and .png.")
     Path out;
 
     @Override
     public Integer call() throws IOException {
+        Simulation.checkThreads(threads);
         List<Strategy> chosen = strategies.stream().map(Strategy::parse).distinct().toList();
         PoolSettings settings = PoolSettings.defaults().withBatchSize(batch).withSpotCheckShare(spotCheckShare)
                 .withColdStart(ColdStart.Method.parse(coldStart)).withStopAgreement(stopAgreement);
@@ -101,7 +107,8 @@ final class SimulateCommand implements Callable<Integer> {
         int total = plan.roundsEach() * chosen.size() * seeds;
         ProgressBar bar = new ProgressBar(System.err, "rounds");
         AtomicInteger done = new AtomicInteger();
-        List<Simulation.Point> points = Simulation.run(all, plan, k -> bar.show(done.addAndGet(k), total, done.get()));
+        List<Simulation.Point> points = Simulation.run(all, null, plan, threads,
+                k -> bar.show(done.addAndGet(k), total, done.get()), (seedsDone, so) -> { });
         bar.finish();
         SimulationReport.write(out, input.fileName(), points, plan);
         PrintWriter w = command.commandLine().getOut();

@@ -172,7 +172,8 @@ public final class RoundStep {
         LabelledSet known = in.labelled();
         int classes = known.classes().size();
         float[] probe = Arrays.copyOf(cand.x(), Math.min(PROBE_ROWS, cand.count()) * cand.cols());
-        RoundDraws draws = new PosteriorSampler(in.sampler()).sample(known.x(), known.labels(), classes, in.chains(),
+        // The chains take as many threads as scoring does: one budget of cores for the whole round.
+        RoundDraws draws = new PosteriorSampler(in.sampler(), scorer.threads()).sample(known.x(), known.labels(), classes, in.chains(),
                 probe, in.seeds().child(CHAINS), stop);
         PoolScorer.Result scores = scorer.score(draws.layout(), draws.draws(), cand.x(), cand.count());
         Picks picks = BatchPicker.pick(settings.strategy(), b, scores, cand.x(), draws.layout(), draws.draws(),

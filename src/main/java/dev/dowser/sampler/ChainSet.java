@@ -47,11 +47,6 @@ public final class ChainSet implements AutoCloseable {
         });
     }
 
-    /** Threads to use by default: one per core, no more than there are chains. */
-    public static int defaultThreads(int chains) {
-        return Math.max(1, Math.min(chains, Runtime.getRuntime().availableProcessors()));
-    }
-
     public List<ChainRun> run(List<Job<?>> jobs, ChainConfig config) {
         return run(jobs, config, StopSignal.never());
     }

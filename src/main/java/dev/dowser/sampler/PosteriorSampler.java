@@ -16,9 +16,20 @@ import java.util.SplittableRandom;
 public final class PosteriorSampler {
 
     private final SamplerConfig config;
+    private final int threads;
 
+    /** Chains run on up to one thread per core. */
     public PosteriorSampler(SamplerConfig config) {
+        this(config, Runtime.getRuntime().availableProcessors());
+    }
+
+    /** Chains run on up to {@code threads} threads (fewer when there are fewer chains). */
+    public PosteriorSampler(SamplerConfig config, int threads) {
+        if (threads < 1) {
+            throw new IllegalArgumentException("a sampler needs at least one thread, got " + threads);
+        }
         this.config = config;
+        this.threads = threads;
     }
 
     public SamplerConfig config() {
@@ -108,7 +119,7 @@ public final class PosteriorSampler {
             }
         }
         List<ChainRun> runs;
-        try (ChainSet set = new ChainSet(ChainSet.defaultThreads(config.chains().count()))) {
+        try (ChainSet set = new ChainSet(Math.min(threads, config.chains().count()))) {
             runs = set.run(jobs, chainConfig, stop);
         }
         if (stop.requested()) {

@@ -24,6 +24,12 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import java.util.SplittableRandom;
+import java.util.concurrent.ArrayBlockingQueue;
+import java.util.concurrent.BlockingQueue;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.Future;
 import java.util.function.BiConsumer;
 import java.util.function.IntConsumer;
 import java.util.stream.LongStream;
@@ -143,10 +149,51 @@ public final class Simulation {
     /** As above; {@code afterSeed} is given the seeds done and their points after each seed, for a partial report. */
     public static List<Point> run(LabelledSet pool, LabelledSet test, Plan plan, IntConsumer tick,
                                   BiConsumer<Integer, List<Point>> afterSeed) {
+        return run(pool, test, plan, defaultThreads(), tick, afterSeed);
+    }
+
+    /** Curves run at once by default: one per core. */
+    public static int defaultThreads() {
+        return Runtime.getRuntime().availableProcessors();
+    }
+
+    /** Refuses a number of threads that cannot run a curve. */
+    public static int checkThreads(int threads) {
+        if (threads < 1) {
+            throw new IllegalArgumentException("threads (curves run at once) must be at least 1, got " + threads);
+        }
+        return threads;
+    }
+
+    /**
+     * As above, with up to {@code threads} curves (a strategy on a seed) running at once, each
+     * round of a curve on its share of the cores (its chains and its scoring): curves side by side
+     * keep the cores busy through the parts of a round that run on one thread (picking, the test
+     * split's predictions) and spare the hand-overs between threads inside each round. Each curve draws only from its own seed's node of the
+     * seed tree, so the points are the same, in the same order, whatever the number of threads;
+     * {@code afterSeed} still comes in seed order, and {@code tick} may be called from any thread.
+     */
+    public static List<Point> run(LabelledSet pool, LabelledSet test, Plan plan, int threads, IntConsumer tick,
+                                  BiConsumer<Integer, List<Point>> afterSeed) {
+        checkThreads(threads);
         List<Point> out = new ArrayList<>();
         int classes = pool.classes().size();
         SeedTree root = SeedTree.of(plan.seed());
-        try (PoolScorer scorer = PoolScorer.withAllCores()) {
+        int running = Math.min(threads, plan.seeds() * plan.strategies().size());
+        ExecutorService workers = Executors.newFixedThreadPool(running, r -> {
+            Thread t = new Thread(r, "dowser-simulate");
+            t.setDaemon(true);
+            return t;
+        });
+        // One scorer per running curve, each with its share of the cores (its chains take the same).
+        int share = Math.max(1, defaultThreads() / running);
+        List<PoolScorer> each = new ArrayList<>();
+        for (int i = 0; i < running; i++) {
+            each.add(new PoolScorer(share, PoolScorer.DEFAULT_BLOCK_ROWS));
+        }
+        BlockingQueue<PoolScorer> scorers = new ArrayBlockingQueue<>(running, false, each);
+        try {
+            List<List<Future<List<Point>>>> bySeed = new ArrayList<>();
             for (int seed = 0; seed < plan.seeds(); seed++) {
                 SeedTree node = root.child(seed);
                 LabelledSet train = pool;
@@ -157,13 +204,47 @@ public final class Simulation {
                     train = pool.subset(split.train());
                     held = pool.subset(split.test());
                 }
+                List<Future<List<Point>>> curves = new ArrayList<>();
                 for (Strategy strategy : plan.strategies()) {
-                    out.addAll(curve(strategy, seed, train, held, plan, node.child(LOOP), scorer, tick));
+                    int s = seed;
+                    LabelledSet trainSet = train;
+                    LabelledSet testSet = held;
+                    curves.add(workers.submit(() -> {
+                        PoolScorer scorer = scorers.take();
+                        try {
+                            return curve(strategy, s, trainSet, testSet, plan, node.child(LOOP), scorer, tick);
+                        } finally {
+                            scorers.add(scorer);
+                        }
+                    }));
+                }
+                bySeed.add(curves);
+            }
+            for (int seed = 0; seed < bySeed.size(); seed++) {
+                for (Future<List<Point>> curve : bySeed.get(seed)) {
+                    out.addAll(await(curve));
                 }
                 afterSeed.accept(seed + 1, List.copyOf(out));
             }
+        } finally {
+            workers.shutdownNow();
+            each.forEach(PoolScorer::close);
         }
         return out;
+    }
+
+    private static List<Point> await(Future<List<Point>> curve) {
+        try {
+            return curve.get();
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            throw new IllegalStateException("interrupted while simulating", e);
+        } catch (ExecutionException e) {
+            if (e.getCause() instanceof RuntimeException re) {
+                throw re;
+            }
+            throw new IllegalStateException("a simulated curve failed: " + e.getCause(), e.getCause());
+        }
     }
 
     private static List<Point> curve(Strategy strategy, int seed, LabelledSet train, LabelledSet test, Plan plan,
