@@ -27,7 +27,7 @@ import picocli.CommandLine.Spec;
                 + " key=value lines: accuracy, nll, ece (" + Metrics.ECE_BINS + " bins), rhat_max, ess_min, kernel,"
                 + " draws, prior_chosen, seconds.",
             "Unless --prior-scale or --temperature is given, the prior's width and the temperature are chosen"
-                + " on 15% of the training rows held out (the lowest held-out NLL), then the posterior is sampled"
+                + " on 15%% of the training rows held out (the lowest held-out NLL), then the posterior is sampled"
                 + " on every training row."})
 final class FitCommand implements Callable<Integer> {
 

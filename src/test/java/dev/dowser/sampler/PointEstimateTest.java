@@ -31,7 +31,9 @@ import org.junit.jupiter.params.provider.ValueSource;
  * split seeds, since one split's test NLL turns on a few rows (iris' Adam NLL runs from 0.077 to
  * 0.270 over split seeds 1-5). Issue 15 asks that the posterior be at least as accurate, here on
  * average over the splits with one test row of slack (1.9 to 2.2 points on the small sets, 0.19 on
- * digits), and have a lower NLL, here a lower mean test NLL over the same splits: it holds on iris
+ * digits), and have a lower NLL, here a lower mean test NLL over the same splits and a lower test
+ * NLL on most of them (the pool default, without the choice, fails that on iris: lower on 2 of 5
+ * splits, though its mean 0.129 is below Adam's 0.141). It holds on iris
  * (lower on 8 of 10 splits, mean 0.0876 against 0.1402), not yet on the other three (below).
  */
 class PointEstimateTest {
@@ -49,12 +51,13 @@ class PointEstimateTest {
 
     /** Mean test accuracy and NLL over the split seeds, of the chosen posterior and of the point estimate. */
     record Figures(String dataset, int testRows, double accBayes, double nllBayes, double accPoint, double nllPoint,
-                   String perSplit) {
+                   int splits, int lowerSplits, String perSplit) {
 
         @Override
         public String toString() {
             return String.format(Locale.ROOT, "%s, means over the splits: posterior accuracy %.4f NLL %.4f, Adam"
-                    + " accuracy %.4f NLL %.4f%s", dataset, accBayes, nllBayes, accPoint, nllPoint, perSplit);
+                    + " accuracy %.4f NLL %.4f; posterior NLL lower on %d of %d splits%s", dataset, accBayes, nllBayes,
+                    accPoint, nllPoint, lowerSplits, splits, perSplit);
         }
     }
 
@@ -84,6 +87,7 @@ class PointEstimateTest {
         int classes = all.classes().size();
         double accB = 0, nllB = 0, accP = 0, nllP = 0;
         int testRows = 0;
+        int lower = 0;
         StringBuilder per = new StringBuilder();
         List<Long> seeds = SPLIT_SEEDS.get(name);
         for (long seed : seeds) {
@@ -105,11 +109,12 @@ class PointEstimateTest {
             nllB += nb;
             accP += ap;
             nllP += np;
+            lower += nb < np ? 1 : 0;
             per.append(String.format(Locale.ROOT, "%n  split %d: posterior %.4f / %.4f (%s), Adam %.4f / %.4f", seed,
                     ab, nb, chosen.why(), ap, np));
         }
         int k = seeds.size();
-        Figures f = new Figures(name, testRows, accB / k, nllB / k, accP / k, nllP / k, per.toString());
+        Figures f = new Figures(name, testRows, accB / k, nllB / k, accP / k, nllP / k, k, lower, per.toString());
         System.out.println(f);
         return f;
     }
@@ -128,14 +133,16 @@ class PointEstimateTest {
     @ValueSource(strings = {"iris"})
     void posteriorPredictiveHasLowerNllThanAdam(String name) {
         Figures f = figures(name, dir);
-        assertTrue(f.nllBayes() < f.nllPoint(), f.toString());
+        // Adam's NLL is heavy-tailed over splits (iris split 2: 0.27), so the mean alone could be won by one split.
+        assertTrue(f.nllBayes() < f.nllPoint() && 2 * f.lowerSplits() > f.splits(), f.toString());
     }
 
     /**
      * Not yet in the suite: over more split seeds (calib notes) the chosen posterior's test NLL is
      * lower than the point estimate's on only 6 of 10 wine splits (mean 0.0640 against 0.0879, but
      * 0.0662 against 0.0574 on splits 1-5: this check fails there), 5 of 10 breast cancer splits
-     * (0.0856 against 0.0881) and 2 of 5 digits splits (0.1031 against 0.1009). Run with
+     * (0.0856 against 0.0881; it passes on splits 1-3) and 2 of 5 digits splits (0.1031 against
+     * 0.1009; 1 of splits 1-2). Run with
      * {@code ./dowser test -Dtest=PointEstimateTest -Ddowser.excludedGroups=}.
      */
     @Tag("bench")
