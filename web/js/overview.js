@@ -53,8 +53,9 @@ async function showAccuracy() {
       listItem(facts, `From every picked record, weighted by how likely it was to be picked: ${interval(a.picked)},`
         + ` ${a.picked.labels} labels.`);
     } else {
-      const li = listItem(facts, 'Picked records cannot tell: this pool picks the best scores outright, and such picks'
-        + ' cannot be weighted back to the whole pool. ');
+      const li = listItem(facts, 'Picked records cannot tell: these rounds picked records outright (the best scores,'
+        + ' or the typical records that come first while labels are few), and such picks cannot be weighted back to'
+        + ' the whole pool. ');
       const link = document.createElement('a');
       link.href = '#settings';
       link.textContent = 'Pick by power sampling';

@@ -68,7 +68,9 @@ public final class Desk {
         boolean served = db.queues().servedRound(pool.id()).isPresent();
         Optional<QueueEntry> next = db.leases().lease(pool.id(), person, lease(pool));
         RoundWorker worker = rounds.worker(pool.name());
-        worker.deskActive(person, db.queues().openInBatch(pool.id()));
+        // The worker's marker before the store's count: a round that publishes between them voids the ask.
+        int quiet = worker.quietAfter();
+        worker.deskActive(person, quiet, db.queues().openInBatch(pool.id()));
         if (next.isEmpty()) {
             return Offer.none(nothingLeft(pool, worker, served, mayStartRounds), progress(pool));
         }
@@ -124,7 +126,8 @@ public final class Desk {
         db.labels().add(pool.id(), row, label, person, note == null || note.isBlank() ? null : note);
         RoundWorker worker = rounds.worker(pool.name());
         worker.labelAdded();
-        worker.deskActive(person, db.queues().openInBatch(pool.id()));
+        int quiet = worker.quietAfter();
+        worker.deskActive(person, quiet, db.queues().openInBatch(pool.id()));
         events.labelChanged(pool.name(), record, "added", worker.labelsToNextRound());
         return new Labelled(view(pool, row), progress(pool));
     }

@@ -36,10 +36,33 @@ final class Reasons {
         if (b == null || b.mean().length != classes.size() || classes.size() < 2) {
             return "First batch: picked to cover the pool before the model has labels to learn from." + pair;
         }
+        if (strategy == Strategy.TYPICLUST_POWER && e.pickProbability() != null && e.pickProbability() == 1) {
+            // Power sampling draws with probability below 1; a pick made outright is the low-budget phase's.
+            return "Picked as the most typical record of a part of the pool that has no label yet: while labels are"
+                    + " few, covering the common cases teaches the model most. " + capitalised(view(b, classes)) + "."
+                    + pair;
+        }
         return picked(e.score(), b, strategy, classes) + pair;
     }
 
     private static String picked(double score, QueuedBelief b, Strategy strategy, List<String> classes) {
+        String view = view(b, classes);
+        return switch (strategy) {
+            case RANDOM -> "Picked at random (the pool's strategy): " + view + ".";
+            case ENTROPY -> "Picked because the model is unsure which class it is: " + view + ".";
+            case MARGIN -> "Picked because the model's two likeliest classes for it are close: " + view + ".";
+            default -> {
+                double share = score / Math.log(classes.size());
+                String how = share >= STRONG ? "disagree strongly" : share >= CLEAR ? "disagree" : "differ a little";
+                yield "Picked because the model's posterior draws " + how + " about it: " + view
+                        + String.format(Locale.ROOT, " (information %.2f nats). A label here teaches the model most.",
+                        score);
+            }
+        };
+    }
+
+    /** What the draws believe of the record: the two likeliest classes, and how far single draws spread. */
+    private static String view(QueuedBelief b, List<String> classes) {
         int top = b.top();
         int second = top == 0 ? 1 : 0;
         for (int c = 0; c < classes.size(); c++) {
@@ -53,18 +76,11 @@ final class Reasons {
             view += "; single draws put " + classes.get(top) + " about " + Math.round(100 * b.sd()[top])
                     + " points either side of that";
         }
-        return switch (strategy) {
-            case RANDOM -> "Picked at random (the pool's strategy): " + view + ".";
-            case ENTROPY -> "Picked because the model is unsure which class it is: " + view + ".";
-            case MARGIN -> "Picked because the model's two likeliest classes for it are close: " + view + ".";
-            default -> {
-                double share = score / Math.log(classes.size());
-                String how = share >= STRONG ? "disagree strongly" : share >= CLEAR ? "disagree" : "differ a little";
-                yield "Picked because the model's posterior draws " + how + " about it: " + view
-                        + String.format(Locale.ROOT, " (information %.2f nats). A label here teaches the model most.",
-                        score);
-            }
-        };
+        return view;
+    }
+
+    private static String capitalised(String s) {
+        return Character.toUpperCase(s.charAt(0)) + s.substring(1);
     }
 
     private static String percent(double p) {

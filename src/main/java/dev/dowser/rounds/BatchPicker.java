@@ -4,7 +4,9 @@ import dev.dowser.acquire.BatchBald;
 import dev.dowser.acquire.Pickers;
 import dev.dowser.acquire.Picks;
 import dev.dowser.acquire.PoolScorer;
+import dev.dowser.acquire.TypiClust;
 import dev.dowser.blas.RowMajor;
+import dev.dowser.data.LabelledSet;
 import dev.dowser.model.Layout;
 import dev.dowser.sampler.Predictive;
 import java.util.List;
@@ -23,11 +25,15 @@ final class BatchPicker {
     /**
      * The batch among the candidates, with each pick's probability. {@code scores} are the
      * candidates' scores and {@code cx} their features (row-major), which BatchBALD needs for each
-     * draw's probabilities.
+     * draw's probabilities and TypiClust, with the labelled records {@code known}, clusters.
      */
-    static Picks pick(Strategy strategy, int b, PoolScorer.Result scores, float[] cx, Layout layout,
+    static Picks pick(Strategy strategy, int b, PoolScorer.Result scores, float[] cx, LabelledSet known, Layout layout,
                       List<float[]> draws, SplittableRandom rng) {
         return switch (strategy) {
+            case TYPICLUST_POWER -> TypiClust.lowBudget(known.rows(), known.classes().size())
+                    ? Picks.greedy(TypiClust.nextBatch(known.x(), known.rows(), cx, scores.bald().length, known.cols(), b,
+                    rng))
+                    : Pickers.power(scores.bald(), b, POWER_BETA, rng);
             case BALD -> Picks.greedy(Pickers.topB(scores.bald(), b));
             case ENTROPY -> Picks.greedy(Pickers.topB(scores.entropy(), b));
             case MARGIN -> Picks.greedy(Pickers.topB(scores.margin(), b));

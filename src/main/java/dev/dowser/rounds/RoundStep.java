@@ -176,7 +176,7 @@ public final class RoundStep {
         RoundDraws draws = new PosteriorSampler(in.sampler(), scorer.threads()).sample(known.x(), known.labels(), classes, in.chains(),
                 probe, in.seeds().child(CHAINS), stop);
         PoolScorer.Result scores = scorer.score(draws.layout(), draws.draws(), cand.x(), cand.count());
-        Picks picks = BatchPicker.pick(settings.strategy(), b, scores, cand.x(), draws.layout(), draws.draws(),
+        Picks picks = BatchPicker.pick(settings.strategy(), b, scores, cand.x(), known, draws.layout(), draws.draws(),
                 pickRng);
         List<SpotChecks.Entry> mixed = SpotChecks.mix(picks, cand.count(), b, settings.spotCheckShare(), spotRng);
         int[] at = mixed.stream().mapToInt(SpotChecks.Entry::candidate).toArray();

@@ -138,12 +138,14 @@ public final class RoundWorker implements AutoCloseable {
     /**
      * {@code person} is at the desk, and {@code openInBatch} places of the served batch are still
      * free for anyone: at the low-water mark, the next round starts (see the class comment). With
-     * nothing served at all, the first round does.
+     * nothing served at all, the first round does. {@code quietSince} is {@link #quietAfter} as it
+     * was before the caller read {@code openInBatch}: a round that published in between made the
+     * count stale, and asks nothing (see {@link #requestIfStillQuiet}).
      */
-    public void deskActive(String person, int openInBatch) {
+    public void deskActive(String person, int quietSince, int openInBatch) {
         seen.put(person, System.nanoTime());
         if (openInBatch <= LOW_WATER_PER_LABELLER * activeLabellers()) {
-            requestUnlessFailing();
+            requestIfStillQuiet(quietSince);
         }
     }
 

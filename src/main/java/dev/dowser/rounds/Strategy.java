@@ -10,6 +10,17 @@ public enum Strategy implements Worded {
     BALD,
     /** Stochastic power sampling on BALD (beta = 1). */
     POWER,
+    /**
+     * TypiClust's typical records while the pool has fewer than 10 labels per class, then power
+     * sampling: for small budgets (on digits 90% at 80 labels against power's 120), at a cost later
+     * and on imbalanced pools (DEVELOPERS.md, "the low-budget phase").
+     */
+    TYPICLUST_POWER {
+        @Override
+        public String word() {
+            return "typiclust-power";
+        }
+    },
     /** Greedy BatchBALD over the best BALD candidates. */
     BATCHBALD,
     /** The b highest predictive entropies. */

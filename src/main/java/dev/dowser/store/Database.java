@@ -10,9 +10,9 @@ import javax.sql.DataSource;
 import org.flywaydb.core.Flyway;
 
 /**
- * The embedded H2 file database of one data folder: a connection pool in front of it and the
- * schema brought up to date by Flyway from {@code migrations/} on the class path. Nothing else in
- * the project creates or alters tables.
+ * The embedded H2 file database of one data folder, or a team's PostgreSQL server: a connection
+ * pool in front of it and the schema brought up to date by Flyway from {@code migrations/} on the
+ * class path. Nothing else in the project creates or alters tables.
  */
 public final class Database implements AutoCloseable {
 
@@ -21,6 +21,8 @@ public final class Database implements AutoCloseable {
     /** Where the migration scripts are packaged inside the jar. */
     public static final String MIGRATIONS = "classpath:migrations";
     static final int DEFAULT_POOL_SIZE = 8;
+    /** How long a statement on PostgreSQL waits for a lock before it is busy: H2's default lock timeout. */
+    static final int LOCK_TIMEOUT_SECONDS = 10;
 
     private final HikariDataSource dataSource;
     private final Clock clock;
@@ -94,6 +96,41 @@ public final class Database implements AutoCloseable {
         } catch (RuntimeException e) {
             ds.close();
             throw new StoreException("cannot bring the database in " + dataDir + " up to date: " + rootMessage(e), e);
+        }
+        return new Database(ds, clock);
+    }
+
+    /**
+     * Opens the PostgreSQL database at {@code jdbcUrl} ({@code jdbc:postgresql://host:port/name}), a
+     * team's shared server, and applies pending migrations: the same scripts as on H2, read as
+     * PostgreSQL spells their types ({@link Migrations}).
+     */
+    public static Database connect(String jdbcUrl, String user, String password, Clock clock) {
+        if (jdbcUrl == null || !jdbcUrl.startsWith("jdbc:postgresql:")) {
+            throw new IllegalArgumentException("a shared database is a PostgreSQL one: give its address as"
+                    + " jdbc:postgresql://host:port/name, not " + jdbcUrl);
+        }
+        HikariConfig config = new HikariConfig();
+        config.setJdbcUrl(jdbcUrl);
+        config.setUsername(user);
+        config.setPassword(password);
+        config.setMaximumPoolSize(DEFAULT_POOL_SIZE);
+        config.setPoolName("dowser-postgresql");
+        // PostgreSQL waits for a lock without limit by default; H2 gives up after its lock timeout, and
+        // the store reports that as busy (55P03 here), so that a person is answered "try again".
+        config.setConnectionInitSql("SET lock_timeout = '" + LOCK_TIMEOUT_SECONDS + "s'");
+        config.setAutoCommit(true);
+        HikariDataSource ds;
+        try {
+            ds = new HikariDataSource(config);
+        } catch (RuntimeException e) {
+            throw new StoreException("cannot connect to the database at " + jdbcUrl + ": " + rootMessage(e), e);
+        }
+        try {
+            Flyway.configure().dataSource(ds).resourceProvider(Migrations.forPostgresql()).load().migrate();
+        } catch (RuntimeException e) {
+            ds.close();
+            throw new StoreException("cannot bring the database at " + jdbcUrl + " up to date: " + rootMessage(e), e);
         }
         return new Database(ds, clock);
     }

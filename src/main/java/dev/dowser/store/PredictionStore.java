@@ -57,9 +57,23 @@ public final class PredictionStore {
     public void replace(long poolId, Predictions p) {
         ByteBuffer probs = ByteBuffer.allocate(p.probabilities().length * Float.BYTES).order(ByteOrder.LITTLE_ENDIAN);
         probs.asFloatBuffer().put(p.probabilities());
-        sql.update("store the predictions of round " + p.round(), "MERGE INTO labelled_predictions (pool_id, round_no,"
-                + " class_count, row_nos, probabilities) KEY (pool_id) VALUES (?, ?, ?, ?, ?)", poolId, p.round(),
+        replace("store the predictions of round " + p.round(), "labelled_predictions", "INSERT INTO labelled_predictions"
+                + " (pool_id, round_no, class_count, row_nos, probabilities) VALUES (?, ?, ?, ?, ?)", poolId, p.round(),
                 p.classes(), packRows(p.rows()), probs.array());
+    }
+
+    /**
+     * The pool's one row of {@code table} replaced in one transaction: delete, then insert. (H2's
+     * MERGE ... KEY, used here before, is not SQL that PostgreSQL reads.)
+     */
+    private void replace(String what, String table, String insert, long poolId, Object... values) {
+        sql.transaction(what, c -> {
+            Sql.update(c, "DELETE FROM " + table + " WHERE pool_id = ?", poolId);
+            Object[] args = new Object[values.length + 1];
+            args[0] = poolId;
+            System.arraycopy(values, 0, args, 1, values.length);
+            return Sql.update(c, insert, args);
+        });
     }
 
     /** The pool's latest predictions, if a round has made any. */
@@ -77,8 +91,8 @@ public final class PredictionStore {
     public void replaceStopSet(long poolId, StopSetClasses p) {
         ByteBuffer classes = ByteBuffer.allocate(p.classes().length * Integer.BYTES).order(ByteOrder.LITTLE_ENDIAN);
         classes.asIntBuffer().put(p.classes());
-        sql.update("store the stop-set predictions of round " + p.round(), "MERGE INTO stop_set_predictions (pool_id,"
-                + " round_no, row_nos, classes) KEY (pool_id) VALUES (?, ?, ?, ?)", poolId, p.round(),
+        replace("store the stop-set predictions of round " + p.round(), "stop_set_predictions", "INSERT INTO"
+                + " stop_set_predictions (pool_id, round_no, row_nos, classes) VALUES (?, ?, ?, ?)", poolId, p.round(),
                 packRows(p.rows()), classes.array());
     }
 

@@ -61,11 +61,9 @@ public final class RoundStore {
     public Optional<Inputs> inputs(long poolId, int round) {
         return sql.first("read round " + round + " of pool " + poolId, "SELECT seed, sampler, settings, last_label_id,"
                 + " chains_from FROM rounds WHERE pool_id = ? AND round_no = ? AND seed IS NOT NULL",
-                rs -> {
-                    int from = rs.getInt(5);
-                    return new Inputs(rs.getLong(1), rs.getString(2), rs.getString(3), rs.getLong(4),
-                            rs.wasNull() ? null : from);
-                }, poolId, round);
+                // chains_from read by itself: wasNull() speaks of the last column read.
+                rs -> new Inputs(rs.getLong(1), rs.getString(2), rs.getString(3), rs.getLong(4), Sql.nullableInt(rs, 5)),
+                poolId, round);
     }
 
     public void finish(long poolId, int round, String kernel, String message, String healthJson) {

@@ -36,6 +36,11 @@ class ExportRoundTripTest {
     @TempDir
     Path dir;
 
+    /** The database of the data folder {@code data}: an H2 file here, a PostgreSQL server in {@code ExportRoundTripOnPostgresqlTest}. */
+    Database database(Path data) {
+        return TestSupport.openDb(data);
+    }
+
     @Test
     void csvRoundTripKeepsIdsAndLabels() {
         roundTrip(FileFormat.CSV);
@@ -47,7 +52,7 @@ class ExportRoundTripTest {
     }
 
     private void roundTrip(FileFormat format) {
-        try (Database db = TestSupport.openDb(dir)) {
+        try (Database db = database(dir)) {
             ImportSpec spec = TestSupport.csv("src").withId("key").withLabel("grade").withFeatures(List.of("value"))
                     .withDisplay(List.of("text", "label", "value"));
             TestSupport.importText(db, "src", SOURCE, spec);
@@ -78,7 +83,7 @@ class ExportRoundTripTest {
 
     @Test
     void jsonLinesKeepsTypesAndWhereEachRecordCameFrom() {
-        try (Database db = TestSupport.openDb(dir)) {
+        try (Database db = database(dir)) {
             TestSupport.importText(db, "typed", "id,reading,trace,code\n"
                     + "a,1.5,\"[0.5,-1,2e3]\",007\nb,-2,\"[1,2,3]\",x1\nc,3,\"[0,0,0]\",12\n",
                     TestSupport.csv("typed").withId("id").withClasses(List.of("ok", "fault"))

@@ -52,6 +52,19 @@ class ReasonsTest {
     }
 
     @Test
+    void typiclustPowerSaysWhenAPickIsATypicalRecordRatherThanADisagreement() {
+        // Below 10 labels per class the round picks typical records outright (probability 1); after, power samples.
+        QueueEntry typical = new QueueEntry(3, 0, 17, 0.10, false, BELIEF, null, null, 1, 1.0, 1, false);
+        assertEquals("Picked as the most typical record of a part of the pool that has no label yet: while labels are"
+                + " few, covering the common cases teaches the model most. On average its draws give blocked 48% and ok"
+                + " 27%; single draws put blocked about 31 points either side of that.",
+                Reasons.why(typical, Strategy.TYPICLUST_POWER, CLASSES, false));
+        QueueEntry sampled = new QueueEntry(3, 0, 17, 0.10, false, BELIEF, null, null, 1, 0.02, 1, false);
+        assertEquals(Reasons.why(sampled, Strategy.POWER, CLASSES, false),
+                Reasons.why(sampled, Strategy.TYPICLUST_POWER, CLASSES, false));
+    }
+
+    @Test
     void spotChecksFirstBatchesAndSecondOpinionsSayWhatTheyAre() {
         assertEquals("First batch: picked to cover the pool before the model has labels to learn from.",
                 Reasons.why(entry(0, false, null, 1), Strategy.BALD, CLASSES, false));

@@ -7,6 +7,8 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import dev.dowser.acquire.Pickers;
 import dev.dowser.acquire.Picks;
 import dev.dowser.acquire.PoolScorer;
+import dev.dowser.acquire.TypiClust;
+import dev.dowser.data.LabelledSet;
 import dev.dowser.model.Activation;
 import dev.dowser.model.Architecture;
 import dev.dowser.model.Layout;
@@ -22,6 +24,8 @@ class BatchPickerTest {
 
     static final int ROWS = 300;
     static final int INPUTS = 5;
+    /** No labels yet: BatchBALD does not look at them. */
+    static final LabelledSet NONE = new LabelledSet(new float[0], new int[0], new long[0], INPUTS, List.of("a", "b", "c"));
 
     @Test
     void batchBaldStartsWithTheTopBaldCandidateAndPicksDistinctShortlistedRows() {
@@ -44,11 +48,11 @@ class BatchPickerTest {
         // The joint mutual information of one record is its BALD score, so BatchBALD's first pick is
         // BALD's first (Kirsch, van Amersfoort & Gal 2019, section 3); a wrongly gathered shortlist
         // would score other records' probabilities.
-        Picks one = BatchPicker.pick(Strategy.BATCHBALD, 1, scores, x, layout, draws, new SplittableRandom(1));
+        Picks one = BatchPicker.pick(Strategy.BATCHBALD, 1, scores, x, NONE, layout, draws, new SplittableRandom(1));
         assertArrayEquals(new int[] {byBald[0]}, one.positions());
 
         int b = 4;
-        Picks batch = BatchPicker.pick(Strategy.BATCHBALD, b, scores, x, layout, draws, new SplittableRandom(1));
+        Picks batch = BatchPicker.pick(Strategy.BATCHBALD, b, scores, x, NONE, layout, draws, new SplittableRandom(1));
         int[] picked = batch.positions();
         assertEquals(b, picked.length);
         assertEquals(byBald[0], picked[0]);
@@ -57,6 +61,39 @@ class BatchPickerTest {
                 .toList();
         for (int p : picked) {
             assertTrue(shortlist.contains(p), p + " is not among the " + shortlist.size() + " best by BALD");
+        }
+    }
+
+    @Test
+    void typiclustPowerPicksTypicalRecordsBelowTenLabelsPerClassAndPowerSamplesFromThere() {
+        SplittableRandom rng = new SplittableRandom(3);
+        Layout layout = new Layout(new Architecture(INPUTS, List.of(8), 3, Activation.TANH));
+        List<float[]> draws = new ArrayList<>();
+        for (int s = 0; s < 16; s++) {
+            draws.add(Prior.start(layout, rng));
+        }
+        float[] x = new float[ROWS * INPUTS];
+        for (int i = 0; i < x.length; i++) {
+            x[i] = (float) rng.nextGaussian();
+        }
+        PoolScorer.Result scores;
+        try (PoolScorer scorer = new PoolScorer(1, 64)) {
+            scores = scorer.score(layout, draws, x, ROWS);
+        }
+        int b = 5;
+        for (int labels : new int[] {3, 29, 30, 45}) {
+            float[] lx = new float[labels * INPUTS];
+            for (int i = 0; i < lx.length; i++) {
+                lx[i] = (float) rng.nextGaussian();
+            }
+            LabelledSet known = new LabelledSet(lx, new int[labels], new long[labels], INPUTS, List.of("a", "b", "c"));
+            Picks picks = BatchPicker.pick(Strategy.TYPICLUST_POWER, b, scores, x, known, layout, draws,
+                    new SplittableRandom(labels));
+            Picks expected = labels < 30
+                    ? Picks.greedy(TypiClust.nextBatch(lx, labels, x, ROWS, INPUTS, b, new SplittableRandom(labels)))
+                    : BatchPicker.pick(Strategy.POWER, b, scores, x, known, layout, draws, new SplittableRandom(labels));
+            assertArrayEquals(expected.positions(), picks.positions(), labels + " labels over 3 classes");
+            assertArrayEquals(expected.probabilities(), picks.probabilities(), 0, labels + " labels over 3 classes");
         }
     }
 }

@@ -43,7 +43,7 @@ class RoundServiceTest {
 
     /** Iris (Fisher 1936, as shipped by Debian's python3-sklearn), imported without its labels. */
     private Database irisWithoutLabels() throws IOException {
-        Database db = TestSupport.openDb(dir.resolve("db"));
+        Database db = database(dir.resolve("db"));
         TestSupport.importIrisWithoutLabels(db, dir);
         return db;
     }
@@ -66,6 +66,11 @@ class RoundServiceTest {
             out.add(e.get());
         }
         return out;
+    }
+
+    /** The database of the data folder {@code data}: an H2 file here, a PostgreSQL server in {@code RoundServiceOnPostgresqlTest}. */
+    Database database(Path data) {
+        return TestSupport.openDb(data);
     }
 
     @Test
@@ -226,7 +231,7 @@ class RoundServiceTest {
                     "preconditioned SGLD keeps its preconditioner, a float per weight");
             stepsAfterFirst = saved.get(0).step();
         }
-        try (Database db = TestSupport.openDb(data); PoolScorer scorer = new PoolScorer(2, 64)) {
+        try (Database db = database(data); PoolScorer scorer = new PoolScorer(2, 64)) {
             PoolRow pool = db.pools().require("iris");
             assertTrue(new RoundService(db, config, scorer).run("iris").published());
             List<SavedChain> saved = db.chains().load(pool.id());

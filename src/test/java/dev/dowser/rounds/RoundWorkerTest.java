@@ -92,6 +92,36 @@ class RoundWorkerTest {
     }
 
     @Test
+    void aDeskCountTakenBeforeARoundPublishedStartsNoRoundAfterIt() throws IOException, InterruptedException {
+        // Iris (Fisher 1936, as shipped by Debian's python3-sklearn), imported without its labels.
+        try (Database db = TestSupport.openDb(dir.resolve("db")); PoolScorer scorer = new PoolScorer(2, 64)) {
+            TestSupport.importIrisWithoutLabels(db, dir);
+            PoolRow pool = db.pools().require("iris");
+            try (RoundWorker worker = new RoundWorker(new RoundService(db, RoundServiceTest.small(), scorer), "iris", 50)) {
+                worker.request();
+                await(() -> worker.roundsRun() == 1, "the first round");
+                // The desk's order: note the worker, count the open places (low: the batch is taken),
+                // then report. Here a round publishes a full batch between the count and the report.
+                int quiet = worker.quietAfter();
+                int openInBatch = 0;
+                worker.request();
+                await(() -> worker.roundsRun() == 2, "the round that publishes in between");
+                int openNow = db.queues().openInBatch(pool.id());
+                assertTrue(openNow > RoundWorker.LOW_WATER_PER_LABELLER, "the new batch is open: " + openNow);
+                worker.deskActive("ana", quiet, openInBatch);
+                Thread.sleep(200);
+                assertEquals(2, worker.roundsRun(), "a count taken before the round published must not start another");
+                assertTrue(!worker.busy(), "no round waits or runs");
+                assertEquals(2, db.rounds().list(pool.id()).size());
+                // A count that still holds at the low-water mark asks for the round.
+                int quietNow = worker.quietAfter();
+                worker.deskActive("ana", quietNow, 0);
+                await(() -> worker.roundsRun() == 3, "the round asked for by a count that still holds");
+            }
+        }
+    }
+
+    @Test
     void closingStopsARunningRoundAtASafePointAndSavesItsChains() throws IOException, InterruptedException {
         // Iris (Fisher 1936, as shipped by Debian's python3-sklearn), with its labels.
         TestSupport.OpenDataset iris = TestSupport.openDataset("iris", dir);

@@ -42,7 +42,7 @@ class QueueStoreTest {
     @BeforeEach
     void open() {
         clock = new TestSupport.MutableClock();
-        db = Database.open(dir, clock);
+        db = database(clock);
         StringBuilder csv = new StringBuilder("x\n");
         IntStream.range(0, RECORDS).forEach(i -> csv.append(i).append('\n'));
         TestSupport.importText(db, "p", csv.toString(), TestSupport.csv("p").withClasses(List.of("a", "b")));
@@ -52,6 +52,11 @@ class QueueStoreTest {
     @AfterEach
     void close() {
         db.close();
+    }
+
+    /** The database the tests run on: an H2 file here, a PostgreSQL server in {@code QueueStoreOnPostgresqlTest}. */
+    Database database(java.time.Clock clock) {
+        return Database.open(dir, clock);
     }
 
     /** Rows 0 .. size-1 in order, every tenth a spot check. */

@@ -27,7 +27,7 @@ class ResolutionTest {
 
     @BeforeEach
     void open() {
-        db = Database.open(dir, clock);
+        db = database(clock);
         TestSupport.importText(db, "p", "x\n1\n2\n3\n", TestSupport.csv("p").withClasses(List.of("a", "b", "c")));
         pool = db.pools().require("p").id();
     }
@@ -35,6 +35,11 @@ class ResolutionTest {
     @AfterEach
     void close() {
         db.close();
+    }
+
+    /** The database the tests run on: an H2 file here, a PostgreSQL server in {@code ResolutionOnPostgresqlTest}. */
+    Database database(java.time.Clock clock) {
+        return Database.open(dir, clock);
     }
 
     private void label(long row, String label, String by) {

@@ -31,7 +31,7 @@ class SqlBusyTest {
 
     @BeforeEach
     void open() {
-        db = Database.open(dir, new TestSupport.MutableClock());
+        db = database(new TestSupport.MutableClock());
         sql = new Sql(db.dataSource());
         sql.update("make a table", "CREATE TABLE counters (id INT PRIMARY KEY, n INT NOT NULL)");
         sql.update("add a row", "INSERT INTO counters VALUES (1, 0)");
@@ -40,6 +40,11 @@ class SqlBusyTest {
     @AfterEach
     void close() {
         db.close();
+    }
+
+    /** The database the tests run on: an H2 file here, a PostgreSQL server in {@code SqlBusyOnPostgresqlTest}. */
+    Database database(java.time.Clock clock) {
+        return Database.open(dir, clock);
     }
 
     @Test

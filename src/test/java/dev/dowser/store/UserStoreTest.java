@@ -26,12 +26,17 @@ class UserStoreTest {
 
     @BeforeEach
     void open() {
-        db = Database.open(dir, new TestSupport.MutableClock());
+        db = database(new TestSupport.MutableClock());
     }
 
     @AfterEach
     void close() {
         db.close();
+    }
+
+    /** The database the tests run on: an H2 file here, a PostgreSQL server in {@code UserStoreOnPostgresqlTest}. */
+    Database database(java.time.Clock clock) {
+        return Database.open(dir, clock);
     }
 
     private List<String> kinds(String name) {
