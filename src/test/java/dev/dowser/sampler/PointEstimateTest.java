@@ -12,26 +12,29 @@ import dev.dowser.stats.Splits;
 import java.nio.file.Path;
 import java.util.List;
 import java.util.Locale;
+import java.util.Map;
 import java.util.SplittableRandom;
+import java.util.concurrent.ConcurrentHashMap;
 import org.junit.jupiter.api.Tag;
 import org.junit.jupiter.api.io.TempDir;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.ValueSource;
 
 /**
- * With every training row labelled, the default posterior predictive against a point estimate of
- * the same network: an MLP trained with Adam (Kingma & Ba 2015; step 1e-3, batches of 128) on
- * 85% of the same training split, stopped early on the other 15% (the epoch with the lowest
- * validation NLL, patience 30 epochs; common practice, as in scikit-learn's MLPClassifier), with no
- * weight penalty. Both are computed here on the same stratified 70/30 split of each open dataset.
- * The posterior must be at least as accurate, with one test row of slack (1.9 to 2.2 points on the
- * small sets, 0.19 on digits).
- *
- * <p>Issue 15 also asks for a lower test NLL than the point estimate. That does not hold yet, at
- * the true posterior nor at the cold default (T = 0.1: iris 0.148 against 0.093, wine 0.070
- * against 0.050, digits 0.128 against 0.094; breast cancer 0.088 against 0.151), so it is the
- * {@code bench}-tagged test below, left out of the suite and run with
- * {@code ./dowser test -Dtest=PointEstimateTest -Ddowser.excludedGroups=}.
+ * With every training row labelled, the posterior predictive of a fit ({@link HeldOutChoice}: the
+ * prior and temperature chosen on held-out training rows, as {@code dowser fit} does) against a
+ * point estimate of the same network: an MLP trained with Adam (Kingma & Ba 2015; step 1e-3,
+ * batches of 128) on 85% of the same training split, stopped early on the other 15% (the epoch
+ * with the lowest validation NLL, patience 30 epochs; common practice, as in scikit-learn's
+ * MLPClassifier), with no weight penalty. Both are computed here on the same stratified 70/30
+ * splits of each open dataset (scikit-learn's copies, from Debian's python3-sklearn), over fixed
+ * split seeds, since one split's test NLL turns on a few rows (iris' Adam NLL runs from 0.077 to
+ * 0.270 over split seeds 1-5). Issue 15 asks that the posterior be at least as accurate, here on
+ * average over the splits with one test row of slack (1.9 to 2.2 points on the small sets, 0.19 on
+ * digits), and have a lower NLL, here a lower mean test NLL over the same splits and a lower test
+ * NLL on most of them (the pool default, without the choice, fails that on iris: lower on 2 of 5
+ * splits, though its mean 0.129 is below Adam's 0.141). It holds on iris
+ * (lower on 8 of 10 splits, mean 0.0876 against 0.1402), not yet on the other three (below).
  */
 class PointEstimateTest {
 
@@ -39,17 +42,22 @@ class PointEstimateTest {
     static final double VALIDATION_FRACTION = 0.15;
     static final int PATIENCE_EPOCHS = 30;
     static final int MAX_EPOCHS = 2_000;
+    /** Split seeds per set: fewer on digits, whose fits cost the most. */
+    static final Map<String, List<Long>> SPLIT_SEEDS = Map.of("iris", List.of(1L, 2L, 3L, 4L, 5L),
+            "wine", List.of(1L, 2L, 3L, 4L, 5L), "breast_cancer", List.of(1L, 2L, 3L), "digits", List.of(1L, 2L));
 
-    @TempDir
-    Path dir;
+    /** One computation per set, shared by the accuracy and the NLL checks. */
+    private static final Map<String, Figures> FIGURES = new ConcurrentHashMap<>();
 
-    /** Test accuracy and NLL of the default posterior predictive and of the point estimate. */
-    record Figures(String dataset, int testRows, double accBayes, double nllBayes, double accPoint, double nllPoint) {
+    /** Mean test accuracy and NLL over the split seeds, of the chosen posterior and of the point estimate. */
+    record Figures(String dataset, int testRows, double accBayes, double nllBayes, double accPoint, double nllPoint,
+                   int splits, int lowerSplits, String perSplit) {
 
         @Override
         public String toString() {
-            return String.format(Locale.ROOT, "%s: posterior accuracy %.4f NLL %.4f, Adam accuracy %.4f NLL %.4f",
-                    dataset, accBayes, nllBayes, accPoint, nllPoint);
+            return String.format(Locale.ROOT, "%s, means over the splits: posterior accuracy %.4f NLL %.4f, Adam"
+                    + " accuracy %.4f NLL %.4f; posterior NLL lower on %d of %d splits%s", dataset, accBayes, nllBayes,
+                    accPoint, nllPoint, lowerSplits, splits, perSplit);
         }
     }
 
@@ -70,33 +78,78 @@ class PointEstimateTest {
         }
     }
 
-    private Figures figures(String name) {
-        Fitted fit = Fitted.of(TestSupport.labelledOpenDataset(name, dir));
-        LabelledSet test = fit.test();
-        int classes = fit.draws().layout().architecture().classes();
-        float[] bayes = fit.predictive();
-        float[] point = Predictive.meanProbabilities(fit.draws().layout(),
-                List.of(adamEarlyStopped(fit.draws().layout(), fit.train(), 1)), test.x(), test.rows());
-        Figures f = new Figures(name, test.rows(), Metrics.accuracy(bayes, test.labels(), classes),
-                Metrics.nll(bayes, test.labels(), classes), Metrics.accuracy(point, test.labels(), classes),
-                Metrics.nll(point, test.labels(), classes));
+    private static Figures figures(String name, Path dir) {
+        return FIGURES.computeIfAbsent(name, n -> compute(n, dir));
+    }
+
+    private static Figures compute(String name, Path dir) {
+        LabelledSet all = TestSupport.labelledOpenDataset(name, dir);
+        int classes = all.classes().size();
+        double accB = 0, nllB = 0, accP = 0, nllP = 0;
+        int testRows = 0;
+        int lower = 0;
+        StringBuilder per = new StringBuilder();
+        List<Long> seeds = SPLIT_SEEDS.get(name);
+        for (long seed : seeds) {
+            Splits.Split split = Splits.stratified(all.labels(), classes, 0.3, seed);
+            LabelledSet train = all.subset(split.train());
+            LabelledSet test = all.subset(split.test());
+            testRows = test.rows();
+            HeldOutChoice.Chosen chosen = HeldOutChoice.defaults().sample(SamplerConfig.defaults(), train.x(),
+                    train.labels(), classes, new float[0], SeedTree.of(seed));
+            RoundDraws draws = chosen.draws();
+            float[] bayes = Predictive.meanProbabilities(draws.layout(), draws.draws(), test.x(), test.rows());
+            float[] point = Predictive.meanProbabilities(draws.layout(),
+                    List.of(adamEarlyStopped(draws.layout(), train, seed)), test.x(), test.rows());
+            double ab = Metrics.accuracy(bayes, test.labels(), classes);
+            double nb = Metrics.nll(bayes, test.labels(), classes);
+            double ap = Metrics.accuracy(point, test.labels(), classes);
+            double np = Metrics.nll(point, test.labels(), classes);
+            accB += ab;
+            nllB += nb;
+            accP += ap;
+            nllP += np;
+            lower += nb < np ? 1 : 0;
+            per.append(String.format(Locale.ROOT, "%n  split %d: posterior %.4f / %.4f (%s), Adam %.4f / %.4f", seed,
+                    ab, nb, chosen.why(), ap, np));
+        }
+        int k = seeds.size();
+        Figures f = new Figures(name, testRows, accB / k, nllB / k, accP / k, nllP / k, k, lower, per.toString());
         System.out.println(f);
         return f;
     }
 
+    @TempDir
+    Path dir;
+
     @ParameterizedTest
     @ValueSource(strings = {"iris", "wine", "breast_cancer", "digits"})
     void posteriorPredictiveIsAsAccurateAsAdam(String name) {
-        Figures f = figures(name);
+        Figures f = figures(name, dir);
         assertTrue(f.accBayes() >= f.accPoint() - 1.0 / f.testRows() - 1e-9, f.toString());
     }
 
+    @ParameterizedTest
+    @ValueSource(strings = {"iris"})
+    void posteriorPredictiveHasLowerNllThanAdam(String name) {
+        Figures f = figures(name, dir);
+        // Adam's NLL is heavy-tailed over splits (iris split 2: 0.27), so the mean alone could be won by one split.
+        assertTrue(f.nllBayes() < f.nllPoint() && 2 * f.lowerSplits() > f.splits(), f.toString());
+    }
+
+    /**
+     * Not yet in the suite: over more split seeds (calib notes) the chosen posterior's test NLL is
+     * lower than the point estimate's on only 6 of 10 wine splits (mean 0.0640 against 0.0879, but
+     * 0.0662 against 0.0574 on splits 1-5: this check fails there), 5 of 10 breast cancer splits
+     * (0.0856 against 0.0881; it passes on splits 1-3) and 2 of 5 digits splits (0.1031 against
+     * 0.1009; 1 of splits 1-2). Run with
+     * {@code ./dowser test -Dtest=PointEstimateTest -Ddowser.excludedGroups=}.
+     */
     @Tag("bench")
     @ParameterizedTest
-    @ValueSource(strings = {"iris", "wine", "breast_cancer", "digits"})
-    void posteriorPredictiveHasLowerNllThanAdam(String name) {
-        Figures f = figures(name);
-        assertTrue(f.nllBayes() < f.nllPoint(), f.toString());
+    @ValueSource(strings = {"wine", "breast_cancer", "digits"})
+    void posteriorPredictiveHasLowerNllThanAdamOnTheOtherSets(String name) {
+        posteriorPredictiveHasLowerNllThanAdam(name);
     }
 
     /** The point estimate: Adam on the log likelihood alone, the weights of the best validation epoch. */
