@@ -87,10 +87,10 @@ final class SimulateCommand implements Callable<Integer> {
                     + " they count as settled (default: ${DEFAULT-VALUE}).")
     double stopAgreement;
 
-    @Option(names = "--threads", paramLabel = "N",
+    @Option(names = "--threads", defaultValue = "" + Simulation.DEFAULT_THREADS, paramLabel = "N",
             description = "Curves (a strategy on a seed) run at once, each on its share of the cores; the results"
-                    + " are the same whatever the number (default: one per core, here ${DEFAULT-VALUE}).")
-    int threads = Simulation.defaultThreads();
+                    + " are the same whatever the number (default: ${DEFAULT-VALUE}, whose rounds use every core).")
+    int threads;
 
     @Option(names = "--out", required = true, paramLabel = "DIR", description = "Folder for curves.csv, .svg and .png.")
     Path out;
