@@ -27,22 +27,32 @@ class BatchPickerTest {
     /** No labels yet: BatchBALD does not look at them. */
     static final LabelledSet NONE = new LabelledSet(new float[0], new int[0], new long[0], INPUTS, List.of("a", "b", "c"));
 
+    /** 16 prior draws of a 5-8-3 network and ROWS standard-normal records, scored; drawn from {@code rng} in that order. */
+    private record Pool(Layout layout, List<float[]> draws, float[] x, PoolScorer.Result scores) {
+        static Pool random(SplittableRandom rng) {
+            Layout layout = new Layout(new Architecture(INPUTS, List.of(8), 3, Activation.TANH));
+            List<float[]> draws = new ArrayList<>();
+            for (int s = 0; s < 16; s++) {
+                draws.add(Prior.start(layout, rng));
+            }
+            float[] x = new float[ROWS * INPUTS];
+            for (int i = 0; i < x.length; i++) {
+                x[i] = (float) rng.nextGaussian();
+            }
+            try (PoolScorer scorer = new PoolScorer(1, 64)) {
+                return new Pool(layout, draws, x, scorer.score(layout, draws, x, ROWS));
+            }
+        }
+    }
+
     @Test
     void batchBaldStartsWithTheTopBaldCandidateAndPicksDistinctShortlistedRows() {
         SplittableRandom rng = new SplittableRandom(11);
-        Layout layout = new Layout(new Architecture(INPUTS, List.of(8), 3, Activation.TANH));
-        List<float[]> draws = new ArrayList<>();
-        for (int s = 0; s < 16; s++) {
-            draws.add(Prior.start(layout, rng));
-        }
-        float[] x = new float[ROWS * INPUTS];
-        for (int i = 0; i < x.length; i++) {
-            x[i] = (float) rng.nextGaussian();
-        }
-        PoolScorer.Result scores;
-        try (PoolScorer scorer = new PoolScorer(1, 64)) {
-            scores = scorer.score(layout, draws, x, ROWS);
-        }
+        Pool pool = Pool.random(rng);
+        Layout layout = pool.layout();
+        List<float[]> draws = pool.draws();
+        float[] x = pool.x();
+        PoolScorer.Result scores = pool.scores();
         int[] byBald = Pickers.topB(scores.bald(), ROWS);
 
         // The joint mutual information of one record is its BALD score, so BatchBALD's first pick is
@@ -67,19 +77,11 @@ class BatchPickerTest {
     @Test
     void typiclustPowerPicksTypicalRecordsBelowTenLabelsPerClassAndPowerSamplesFromThere() {
         SplittableRandom rng = new SplittableRandom(3);
-        Layout layout = new Layout(new Architecture(INPUTS, List.of(8), 3, Activation.TANH));
-        List<float[]> draws = new ArrayList<>();
-        for (int s = 0; s < 16; s++) {
-            draws.add(Prior.start(layout, rng));
-        }
-        float[] x = new float[ROWS * INPUTS];
-        for (int i = 0; i < x.length; i++) {
-            x[i] = (float) rng.nextGaussian();
-        }
-        PoolScorer.Result scores;
-        try (PoolScorer scorer = new PoolScorer(1, 64)) {
-            scores = scorer.score(layout, draws, x, ROWS);
-        }
+        Pool pool = Pool.random(rng);
+        Layout layout = pool.layout();
+        List<float[]> draws = pool.draws();
+        float[] x = pool.x();
+        PoolScorer.Result scores = pool.scores();
         int b = 5;
         for (int labels : new int[] {3, 29, 30, 45}) {
             float[] lx = new float[labels * INPUTS];
