@@ -32,10 +32,12 @@ class CommandLineTest {
     @TempDir
     Path dir;
 
+    /** A command's exit code and what it wrote; other command tests in this package run through it too. */
     record Run(int exit, String out, String err) {
     }
 
-    private static Run run(String... args) {
+    /** Runs a command in this JVM, as {@code Main} would, capturing both streams. */
+    static Run run(String... args) {
         CommandLine cl = Main.commandLine();
         StringWriter out = new StringWriter();
         StringWriter err = new StringWriter();

@@ -7,11 +7,10 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.dowser.PostgresServer;
 import dev.dowser.TestSupport;
+import dev.dowser.cli.CommandLineTest.Run;
 import dev.dowser.json.Json;
 import dev.dowser.store.Database;
 import dev.dowser.team.Role;
-import java.io.PrintWriter;
-import java.io.StringWriter;
 import java.net.URI;
 import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
@@ -29,7 +28,6 @@ import java.util.concurrent.TimeUnit;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.extension.RegisterExtension;
 import org.junit.jupiter.api.io.TempDir;
-import picocli.CommandLine;
 
 /**
  * A team's Dowser on a real PostgreSQL server, through the command line as people run it: the
@@ -53,9 +51,6 @@ class ServeOnPostgresqlTest {
     Path dir;
 
     final HttpClient http = HttpClient.newHttpClient();
-
-    record Run(int exit, String out, String err) {
-    }
 
     @Test
     void acknowledgedLabelsOnPostgresqlSurviveAKilledServer() throws Exception {
@@ -126,24 +121,24 @@ class ServeOnPostgresqlTest {
 
     @Test
     void aWrongAddressOrAFailedConnectionIsNamedWithItsCause() throws Exception {
-        Run mysql = inProcess("users", "list", "--database-url", "jdbc:mysql://127.0.0.1/team", "--database-user", ROLE);
+        Run mysql = CommandLineTest.run("users", "list", "--database-url", "jdbc:mysql://127.0.0.1/team", "--database-user", ROLE);
         assertEquals(ErrorHandler.EXIT_INPUT, mysql.exit());
         assertEquals("dowser: --database-url takes a PostgreSQL address, jdbc:postgresql://HOST:PORT/DB, not"
                 + " jdbc:mysql://127.0.0.1/team; change it to that form, or leave the option out to use the H2"
                 + " database in --data\n", mysql.err());
 
-        Run inUrl = inProcess("export", "--pool", "p", "--database-url", PG.server().url("team") + "?password=x",
+        Run inUrl = CommandLineTest.run("export", "--pool", "p", "--database-url", PG.server().url("team") + "?password=x",
                 "--database-user", ROLE);
         assertEquals(ErrorHandler.EXIT_INPUT, inUrl.exit());
         assertTrue(inUrl.err().contains("take password=... out of the address and set the environment variable "
                 + "DOWSER_DATABASE_PASSWORD instead"), inUrl.err());
 
-        Run noUser = inProcess("export", "--pool", "p", "--database-url", PG.server().url("team"));
+        Run noUser = CommandLineTest.run("export", "--pool", "p", "--database-url", PG.server().url("team"));
         assertEquals(ErrorHandler.EXIT_INPUT, noUser.exit());
         assertEquals("dowser: --database-url needs --database-user NAME, the PostgreSQL account to connect as\n",
                 noUser.err());
 
-        Run userAlone = inProcess("users", "list", "--database-user", ROLE, "--data", dir.toString());
+        Run userAlone = CommandLineTest.run("users", "list", "--database-user", ROLE, "--data", dir.toString());
         assertEquals(ErrorHandler.EXIT_INPUT, userAlone.exit());
         assertTrue(userAlone.err().startsWith("dowser: --database-user is for a PostgreSQL server"), userAlone.err());
         assertFalse(Database.exists(dir), "a refused command writes nothing");
@@ -157,7 +152,7 @@ class ServeOnPostgresqlTest {
         assertFalse(wrong.err().contains("a wrong password"), wrong.err());
 
         String nobody = "jdbc:postgresql://127.0.0.1:" + closedPort() + "/team";
-        Run refused = inProcess("users", "list", "--database-url", nobody, "--database-user", ROLE, "--data",
+        Run refused = CommandLineTest.run("users", "list", "--database-url", nobody, "--database-user", ROLE, "--data",
                 dir.resolve("d").toString());
         assertEquals(ErrorHandler.EXIT_INPUT, refused.exit());
         assertTrue(refused.err().startsWith("dowser: cannot connect to the database at " + nobody + ": "), refused.err());
@@ -167,7 +162,7 @@ class ServeOnPostgresqlTest {
     @Test
     void helpExplainsTheDatabaseOptions() {
         for (String command : List.of("serve", "import", "export", "users")) {
-            Run help = inProcess(command, "--help");
+            Run help = CommandLineTest.run(command, "--help");
             String text = help.out().replaceAll("\\s+", " ");
             assertTrue(text.contains("--database-url=URL") && text.contains("--database-user=NAME")
                     && text.contains("jdbc:postgresql://HOST:PORT/DB") && text.contains("DOWSER_DATABASE_PASSWORD"),
@@ -179,16 +174,6 @@ class ServeOnPostgresqlTest {
         try (java.net.ServerSocket s = new java.net.ServerSocket(0, 1, java.net.InetAddress.getLoopbackAddress())) {
             return s.getLocalPort();
         }
-    }
-
-    private static Run inProcess(String... args) {
-        CommandLine cl = Main.commandLine();
-        StringWriter out = new StringWriter();
-        StringWriter err = new StringWriter();
-        cl.setOut(new PrintWriter(out));
-        cl.setErr(new PrintWriter(err));
-        int exit = cl.execute(args);
-        return new Run(exit, out.toString(), err.toString());
     }
 
     /** The jar as its own process (so the password is in its environment, as a person would set it). */
