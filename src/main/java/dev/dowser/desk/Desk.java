@@ -68,9 +68,7 @@ public final class Desk {
         boolean served = db.queues().servedRound(pool.id()).isPresent();
         Optional<QueueEntry> next = db.leases().lease(pool.id(), person, lease(pool));
         RoundWorker worker = rounds.worker(pool.name());
-        // The worker's marker before the store's count: a round that publishes between them voids the ask.
-        int quiet = worker.quietAfter();
-        worker.deskActive(person, quiet, db.queues().openInBatch(pool.id()));
+        atDesk(worker, person, pool);
         if (next.isEmpty()) {
             return Offer.none(nothingLeft(pool, worker, served, mayStartRounds), progress(pool));
         }
@@ -83,6 +81,13 @@ public final class Desk {
         QueuedBelief belief = e.predictionJson() == null ? null : QueuedBelief.parse(e.predictionJson());
         return new Offer(e.round(), e.position(), e.copies(), e.spotCheck(), e.score(), e.leaseUntil(), record, belief,
                 reason, secondOpinion, progress(pool), null);
+    }
+
+    /** Tells the worker {@code person} is at the desk, with the served batch's free places. */
+    private void atDesk(RoundWorker worker, String person, PoolRow pool) {
+        // The worker's marker before the store's count: a round that publishes between them voids the ask.
+        int quiet = worker.quietAfter();
+        worker.deskActive(person, quiet, db.queues().openInBatch(pool.id()));
     }
 
     /** Why a desk is empty, and the way out. */
@@ -126,8 +131,7 @@ public final class Desk {
         db.labels().add(pool.id(), row, label, person, note == null || note.isBlank() ? null : note);
         RoundWorker worker = rounds.worker(pool.name());
         worker.labelAdded();
-        int quiet = worker.quietAfter();
-        worker.deskActive(person, quiet, db.queues().openInBatch(pool.id()));
+        atDesk(worker, person, pool);
         events.labelChanged(pool.name(), record, "added", worker.labelsToNextRound());
         return new Labelled(view(pool, row), progress(pool));
     }
