@@ -28,6 +28,7 @@ import picocli.CommandLine.Spec;
 
 @Command(name = "bench", mixinStandardHelpOptions = true,
         description = {"Measures this machine and prints key=value lines.",
+            "Every suite that stores records makes its own H2 databases under --work; none runs on PostgreSQL.",
             "",
             "import: a generated CSV of N rows x 64 numeric features into a fresh pool, at N/10 and at N in"
                 + " the same run; rows per second, the peak heap (what the collector let the heap grow to) and"
