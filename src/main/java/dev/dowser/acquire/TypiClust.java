@@ -9,8 +9,9 @@ import java.util.SplittableRandom;
  * unlabelled records together into |L| + b clusters by k-means, and take the most typical unlabelled
  * record of each of the b largest clusters that hold no label yet. Each batch covers a dense region
  * the labels have not reached. The paper shows that this wins while labels are few (a handful per
- * class) and that uncertainty wins later; the strategy that uses it ({@code typiclust-power})
- * hands over to power sampling once the pool has {@link #LABELS_PER_CLASS} labels per class.
+ * class) and that uncertainty wins later. {@code typiclust-power} hands over to power sampling
+ * once the pool has {@link #LABELS_PER_CLASS} labels per class; {@code typiclust-mix} ({@link
+ * #mixed}) asks, batch by batch, only for the typical records the model is still unsure of.
  */
 public final class TypiClust {
 
@@ -21,6 +22,12 @@ public final class TypiClust {
      * DEVELOPERS.md, "the low-budget phase").
      */
     public static final int LABELS_PER_CLASS = 10;
+
+    /**
+     * The gap between the two likeliest classes (posterior predictive) below which the model counts
+     * as unsure of a typical record, so that {@code typiclust-mix} asks for its label.
+     */
+    public static final double UNSURE_GAP = 0.5;
 
     private TypiClust() {
     }
@@ -83,5 +90,40 @@ public final class TypiClust {
             }
         }
         return Arrays.copyOf(picked, at);
+    }
+
+    /**
+     * A mixed batch: the {@code typical} records (from {@link #nextBatch}, in order) that the model
+     * is unsure of, each with probability 1, then power sampling (Kirsch et al. 2023, {@link
+     * Pickers#power}) on BALD among the other candidates for the rest of the batch of {@code b}.
+     * While the model cannot tell the dense regions apart, the batch is typical; once it can, the
+     * batch is power sampling's, with no count of labels to tune per pool. The rule that ends the
+     * typical picks is ours, not the paper's (it fixes the switch by the budget).
+     */
+    public static Picks mixed(int[] typical, PoolScorer.Result scores, int b, double beta, SplittableRandom rng) {
+        int n = scores.bald().length;
+        int[] kept = Arrays.stream(typical).filter(c -> 1 - scores.margin()[c] < UNSURE_GAP).limit(b).toArray();
+        boolean[] taken = new boolean[n];
+        for (int c : kept) {
+            taken[c] = true;
+        }
+        int[] rest = new int[n - kept.length];
+        double[] restBald = new double[rest.length];
+        for (int c = 0, at = 0; c < n; c++) {
+            if (!taken[c]) {
+                rest[at] = c;
+                restBald[at++] = scores.bald()[c];
+            }
+        }
+        int left = Math.min(b - kept.length, rest.length);
+        Picks sampled = left > 0 ? Pickers.power(restBald, left, beta, rng) : Picks.greedy(new int[0]);
+        int[] positions = Arrays.copyOf(kept, kept.length + sampled.size());
+        double[] probabilities = new double[positions.length];
+        Arrays.fill(probabilities, 0, kept.length, 1.0);
+        for (int m = 0; m < sampled.size(); m++) {
+            positions[kept.length + m] = rest[sampled.positions()[m]];
+            probabilities[kept.length + m] = sampled.probabilities()[m];
+        }
+        return new Picks(positions, probabilities);
     }
 }

@@ -43,7 +43,7 @@ final class SimulateCommand implements Callable<Integer> {
     SamplerOptions sampler;
 
     @Option(names = "--strategies", split = ",", defaultValue = "default,random", paramLabel = "S",
-            description = "Strategies: bald, power, typiclust-power, batchbald, entropy, margin, random, or default (what a new pool"
+            description = "Strategies: bald, power, typiclust-power, typiclust-mix, batchbald, entropy, margin, random, or default (what a new pool"
                     + " uses) (default: ${DEFAULT-VALUE}).")
     List<String> strategies;
 

@@ -36,8 +36,8 @@ final class Reasons {
         if (b == null || b.mean().length != classes.size() || classes.size() < 2) {
             return "First batch: picked to cover the pool before the model has labels to learn from." + pair;
         }
-        if (strategy == Strategy.TYPICLUST_POWER && e.pickProbability() != null && e.pickProbability() == 1) {
-            // Power sampling draws with probability below 1; a pick made outright is the low-budget phase's.
+        if ((strategy == Strategy.TYPICLUST_POWER || strategy == Strategy.TYPICLUST_MIX) && e.pickProbability() != null && e.pickProbability() == 1) {
+            // Power sampling draws with probability below 1; a pick made outright is a typical record's.
             return "Picked as the most typical record of a part of the pool that has no label yet: while labels are"
                     + " few, covering the common cases teaches the model most. " + capitalised(view(b, classes)) + "."
                     + pair;

@@ -34,6 +34,8 @@ final class BatchPicker {
                     ? Picks.greedy(TypiClust.nextBatch(known.x(), known.rows(), cx, scores.bald().length, known.cols(), b,
                     rng))
                     : Pickers.power(scores.bald(), b, POWER_BETA, rng);
+            case TYPICLUST_MIX -> TypiClust.mixed(TypiClust.nextBatch(known.x(), known.rows(), cx, scores.bald().length,
+                    known.cols(), b, rng), scores, b, POWER_BETA, rng);
             case BALD -> Picks.greedy(Pickers.topB(scores.bald(), b));
             case ENTROPY -> Picks.greedy(Pickers.topB(scores.entropy(), b));
             case MARGIN -> Picks.greedy(Pickers.topB(scores.margin(), b));

@@ -29,7 +29,7 @@ final class NextBest {
     /** The per-candidate score {@code strategy} ranks by, or null when it picks at random. */
     static double[] scoreOf(Strategy strategy, PoolScorer.Result scores) {
         return switch (strategy) {
-            case BALD, POWER, TYPICLUST_POWER, BATCHBALD -> scores.bald();
+            case BALD, POWER, TYPICLUST_POWER, TYPICLUST_MIX, BATCHBALD -> scores.bald();
             case ENTROPY -> scores.entropy();
             case MARGIN -> scores.margin();
             case RANDOM -> null;

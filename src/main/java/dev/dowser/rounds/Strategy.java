@@ -21,6 +21,17 @@ public enum Strategy implements Worded {
             return "typiclust-power";
         }
     },
+    /**
+     * Each batch takes TypiClust's typical records of the uncovered clusters that the model is
+     * still unsure of, and power sampling fills the rest: the typical phase ends when the model,
+     * not a count of labels, says the dense regions are learnt (DEVELOPERS.md, "the low-budget phase").
+     */
+    TYPICLUST_MIX {
+        @Override
+        public String word() {
+            return "typiclust-mix";
+        }
+    },
     /** Greedy BatchBALD over the best BALD candidates. */
     BATCHBALD,
     /** The b highest predictive entropies. */

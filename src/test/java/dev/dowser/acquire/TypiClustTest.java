@@ -66,4 +66,41 @@ class TypiClustTest {
         assertFalse(TypiClust.lowBudget(100, 10));
         assertTrue(TypiClust.lowBudget(19, 2));
     }
+
+    @Test
+    void aMixedBatchAsksForTheTypicalRecordsTheModelIsUnsureOfAndPowerSamplesTheRest() {
+        // Ten candidates; 1 - margin is the gap between the two likeliest classes.
+        double[] bald = {0.30, 0.01, 0.20, 0.05, 0.02, 0.40, 0.10, 0.03, 0.08, 0.06};
+        double[] gap = {0.05, 0.10, 0.90, 0.20, 0.95, 0.10, 0.60, 0.30, 0.70, 0.99};
+        double[] margin = Arrays.stream(gap).map(g -> 1 - g).toArray();
+        PoolScorer.Result scores = new PoolScorer.Result(bald, new double[bald.length], margin);
+        int[] typical = {2, 4, 1, 3};
+
+        // 1 and 3 are typical and unsure (gap below 0.5), in TypiClust's order, each picked outright; the
+        // model is sure of 2 and 4, so power sampling fills the batch from the other eight candidates.
+        Picks mixed = TypiClust.mixed(typical, scores, 5, 1.0, new SplittableRandom(4));
+        assertEquals(5, mixed.size());
+        assertEquals(1, mixed.positions()[0]);
+        assertEquals(3, mixed.positions()[1]);
+        assertEquals(1.0, mixed.probabilities()[0]);
+        assertEquals(1.0, mixed.probabilities()[1]);
+        assertEquals(5, Arrays.stream(mixed.positions()).distinct().count(), Arrays.toString(mixed.positions()));
+        // Power sampling's first pick among the eight left had probability bald_i / (sum of their bald) (Plackett-Luce).
+        double left = Arrays.stream(bald).sum() - bald[1] - bald[3];
+        assertEquals(bald[mixed.positions()[2]] / left, mixed.probabilities()[2], 1e-12);
+
+        // Sure of every typical record: exactly power sampling's batch, with the same draws.
+        double[] sureMargin = new double[bald.length];
+        PoolScorer.Result sure = new PoolScorer.Result(bald, new double[bald.length], sureMargin);
+        Picks alone = TypiClust.mixed(typical, sure, 3, 1.0, new SplittableRandom(7));
+        Picks power = Pickers.power(bald, 3, 1.0, new SplittableRandom(7));
+        assertEquals(Arrays.toString(power.positions()), Arrays.toString(alone.positions()));
+        assertEquals(Arrays.toString(power.probabilities()), Arrays.toString(alone.probabilities()));
+
+        // Unsure of every typical record and a batch no larger: the batch is TypiClust's.
+        PoolScorer.Result unsure = new PoolScorer.Result(bald, new double[bald.length], new double[] {1, 1, 1, 1, 1, 1, 1,
+                1, 1, 1});
+        Picks all = TypiClust.mixed(typical, unsure, 4, 1.0, new SplittableRandom(7));
+        assertEquals(Arrays.toString(typical), Arrays.toString(all.positions()));
+    }
 }

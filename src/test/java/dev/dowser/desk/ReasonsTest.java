@@ -62,6 +62,11 @@ class ReasonsTest {
         QueueEntry sampled = new QueueEntry(3, 0, 17, 0.10, false, BELIEF, null, null, 1, 0.02, 1, false);
         assertEquals(Reasons.why(sampled, Strategy.POWER, CLASSES, false),
                 Reasons.why(sampled, Strategy.TYPICLUST_POWER, CLASSES, false));
+        // typiclust-mix picks the typical records it is unsure of outright and power samples the rest.
+        assertEquals(Reasons.why(typical, Strategy.TYPICLUST_POWER, CLASSES, false),
+                Reasons.why(typical, Strategy.TYPICLUST_MIX, CLASSES, false));
+        assertEquals(Reasons.why(sampled, Strategy.POWER, CLASSES, false),
+                Reasons.why(sampled, Strategy.TYPICLUST_MIX, CLASSES, false));
     }
 
     @Test

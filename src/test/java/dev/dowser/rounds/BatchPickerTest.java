@@ -98,4 +98,25 @@ class BatchPickerTest {
             assertArrayEquals(expected.probabilities(), picks.probabilities(), 0, labels + " labels over 3 classes");
         }
     }
+
+    @Test
+    void typiclustMixPassesTypiClustsBatchAndTheScoresToTheMixedPicker() {
+        SplittableRandom rng = new SplittableRandom(5);
+        Pool pool = Pool.random(rng);
+        int labels = 12;
+        float[] lx = new float[labels * INPUTS];
+        for (int i = 0; i < lx.length; i++) {
+            lx[i] = (float) rng.nextGaussian();
+        }
+        LabelledSet known = new LabelledSet(lx, new int[labels], new long[labels], INPUTS, List.of("a", "b", "c"));
+        int b = 6;
+        Picks picks = BatchPicker.pick(Strategy.TYPICLUST_MIX, b, pool.scores(), pool.x(), known, pool.layout(),
+                pool.draws(), new SplittableRandom(8));
+        SplittableRandom same = new SplittableRandom(8);
+        Picks expected = TypiClust.mixed(TypiClust.nextBatch(lx, labels, pool.x(), ROWS, INPUTS, b, same), pool.scores(),
+                b, BatchPicker.POWER_BETA, same);
+        assertArrayEquals(expected.positions(), picks.positions());
+        assertArrayEquals(expected.probabilities(), picks.probabilities(), 0);
+        assertEquals(b, Arrays.stream(picks.positions()).distinct().count(), Arrays.toString(picks.positions()));
+    }
 }

@@ -56,7 +56,7 @@ class WordedTest {
     void aStrategyMayBeTheDefaultWord() {
         assertEquals(PoolSettings.DEFAULT_STRATEGY, Strategy.parse(" Default"));
         assertEquals(Strategy.BATCHBALD, Strategy.parse("batchbald"));
-        assertEquals("unknown strategy 'greedy': use bald, power, typiclust-power, batchbald, entropy, margin, random or default",
+        assertEquals("unknown strategy 'greedy': use bald, power, typiclust-power, typiclust-mix, batchbald, entropy, margin, random or default",
                 assertThrows(IllegalArgumentException.class, () -> Strategy.parse("greedy")).getMessage());
     }
 }
