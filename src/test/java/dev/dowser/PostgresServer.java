@@ -41,7 +41,7 @@ import org.junit.jupiter.api.extension.ExtensionContext;
 public final class PostgresServer implements AutoCloseable {
 
     static final String ROOT = "/usr/lib/postgresql";
-    static final String USER = "dowser";
+    public static final String USER = "dowser";
     private static final long DEADLINE_SECONDS = 120;
 
     private final Path bin;

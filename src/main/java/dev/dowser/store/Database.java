@@ -118,7 +118,10 @@ public final class Database implements AutoCloseable {
         config.setPoolName("dowser-postgresql");
         // PostgreSQL waits for a lock without limit by default; H2 gives up after its lock timeout, and
         // the store reports that as busy (55P03 here), so that a person is answered "try again".
-        config.setConnectionInitSql("SET lock_timeout = '" + LOCK_TIMEOUT_SECONDS + "s'");
+        // Acknowledged means durable: a commit returns only once PostgreSQL has flushed it to its log,
+        // whatever the server's or the database's default (synchronous_commit = off would lose the last
+        // acknowledged labels if PostgreSQL itself crashed).
+        config.setConnectionInitSql("SET lock_timeout = '" + LOCK_TIMEOUT_SECONDS + "s'; SET synchronous_commit = on");
         config.setAutoCommit(true);
         HikariDataSource ds;
         try {
