@@ -45,6 +45,13 @@ public record ChainAdvice(Level level, String summary, List<Point> points, doubl
             + " labels; the queue and the accuracy average over all of them.";
 
     /**
+     * The sentence for chains that each settled in a different mode: no setting makes them agree,
+     * and none needs to.
+     */
+    public static final String MODES = "Different modes are different good explanations of the labels; the queue and"
+            + " the accuracy average over all of them, which is why chains start apart.";
+
+    /**
      * One point of advice.
      *
      * @param text    the point in plain words
@@ -85,28 +92,62 @@ public record ChainAdvice(Level level, String summary, List<Point> points, doubl
     /**
      * Advice from a round's health: the largest function-space R-hat and the smallest bulk and
      * tail ESS (NaN when too few draws to judge), for the {@code chains} and {@code draws} that
-     * round kept; suggestions start from the settings as they are now ({@code knobs}).
+     * round kept; suggestions start from the settings as they are now ({@code knobs}). Without the
+     * within-chain figures the ESS across chains stands for both.
      */
     public static ChainAdvice of(double rhat, double essBulk, double essTail, int chains, int draws, Knobs knobs) {
+        return of(rhat, essBulk, essTail, Double.NaN, Double.NaN, chains, draws, knobs);
+    }
+
+    /**
+     * As above, with the figures within the chains ({@code rhatWithin}, {@code essWithin}: each
+     * chain judged about its own centre; NaN when not known). They tell apart two things the
+     * across-chain R-hat mixes: chains that still drift (a longer warm-up helps: act) and chains
+     * that each settled in a different mode (the predictive averages the modes on purpose, as
+     * multi-start sampling does: Wilson & Izmailov 2020, Sommer et al. 2024; a note). The ESS
+     * that asks for more draws is the within-chain one, since draws in separate modes are few
+     * across chains by construction, however well each chain mixes.
+     */
+    public static ChainAdvice of(double rhat, double essBulk, double essTail, double rhatWithin, double essWithin,
+                                 int chains, int draws, Knobs knobs) {
         int m = chains;
         int s = draws;
         if (!Double.isFinite(rhat) || !Double.isFinite(essBulk)) {
             return new ChainAdvice(Level.GOOD, "Too few draws per chain to judge the chains; nothing to do.", List.of(),
                     rhatCeiling(m, s), essFloor(s));
         }
-        double ess = Double.isFinite(essTail) ? Math.min(essBulk, essTail) : essBulk;
+        boolean split = Double.isFinite(rhatWithin) && Double.isFinite(essWithin);
+        double across = Double.isFinite(essTail) ? Math.min(essBulk, essTail) : essBulk;
+        double ess = split ? essWithin : across;
         List<Point> points = new ArrayList<>();
         boolean disagree = rhat > rhatCeiling(m, s);
+        boolean drift = split && rhatWithin > rhatCeiling(m, s);
         boolean correlated = ess < essFloor(s);
         String summary = null;
         Level level = Level.NOTE;
+        if (drift) {
+            String text = String.format(Locale.ROOT, "Some chains were still moving while they drew (R-hat within"
+                    + " the chains %.2f, above %.2f): their first and second halves disagree.", rhatWithin,
+                    rhatCeiling(m, s));
+            if (knobs.reburnInSteps() < knobs.maxReburnIn()) {
+                int more = Math.min(knobs.maxReburnIn(), Math.max(100, 2 * knobs.reburnInSteps()));
+                points.add(new Point(text + " A longer warm-up each round (" + more + " steps) lets each chain"
+                        + " settle before it draws.", "reburn_in_steps", more));
+                level = Level.ACT;
+                summary = "Some chains had not settled before drawing; a setting below would help.";
+            } else {
+                points.add(new Point(text + " The warm-up is at its longest already.", null, 0));
+                summary = "Some chains had not settled before drawing; nothing more can be set to help.";
+            }
+        }
         if (correlated) {
             String worth = String.format(Locale.ROOT, "The %d draws behave like about %d independent ones.", s,
                     Math.max(1, Math.round(ess)));
             if (knobs.draws() > draws || knobs.chains() > chains) {
                 points.add(new Point(worth + " More draws or chains have been set since; the next round uses them.",
                         null, 0));
-                summary = "Predictions rested on few independent draws; the settings have been raised since.";
+                summary = summary != null ? summary
+                        : "Predictions rested on few independent draws; the settings have been raised since.";
             } else if (knobs.draws() < knobs.maxDraws()) {
                 int more = Math.min(knobs.maxDraws(), 2 * knobs.draws());
                 points.add(new Point(worth + " Keeping more draws each round (" + more + ") makes predictions"
@@ -118,18 +159,22 @@ public record ChainAdvice(Level level, String summary, List<Point> points, doubl
                 level = Level.ACT;
             } else {
                 points.add(new Point(worth + " Draws and chains are at their largest already.", null, 0));
-                summary = "The draws lean on few independent ones; nothing more can be set to help.";
+                summary = summary != null ? summary
+                        : "The draws lean on few independent ones; nothing more can be set to help.";
             }
-            if (level == Level.ACT) {
+            if (level == Level.ACT && summary == null) {
                 summary = "Predictions rest on few independent draws; a setting below would help.";
             }
         }
         if (disagree) {
-            String text = "The chains do not settle on the same answers for every record. " + EXPLANATIONS;
+            String text = split && !drift
+                    ? String.format(Locale.ROOT, "Each chain settled (R-hat within the chains %.2f) but in a"
+                    + " different mode from the others (R-hat across them %.2f).", rhatWithin, rhat) + " " + MODES
+                    : "The chains do not settle on the same answers for every record. " + EXPLANATIONS;
             if (knobs.chains() < knobs.maxChains()) {
                 int more = Math.min(knobs.maxChains(), 2 * knobs.chains());
                 points.add(new Point(text + " More chains (" + more + ") take in more of them.", "chains", more));
-            } else if (knobs.reburnInSteps() < knobs.maxReburnIn()) {
+            } else if (!split && knobs.reburnInSteps() < knobs.maxReburnIn()) {
                 int more = Math.min(knobs.maxReburnIn(), Math.max(100, 2 * knobs.reburnInSteps()));
                 points.add(new Point(text + " A longer warm-up each round (" + more + " steps) lets each chain"
                         + " settle further.", "reburn_in_steps", more));
@@ -137,7 +182,9 @@ public record ChainAdvice(Level level, String summary, List<Point> points, doubl
                 points.add(new Point(text, null, 0));
             }
             if (summary == null) {
-                summary = "The chains tell somewhat different stories, which is usual for a neural network;"
+                summary = split && !drift
+                        ? "Each chain settled in its own mode and predictions average them; nothing needs doing."
+                        : "The chains tell somewhat different stories, which is usual for a neural network;"
                         + " nothing needs doing.";
             }
         }

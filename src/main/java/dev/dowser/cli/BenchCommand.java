@@ -130,6 +130,13 @@ final class BenchCommand implements Callable<Integer> {
                     + dev.dowser.simulate.LabelSavings.FASHION_CANDIDATES + " on fashion-mnist, every record elsewhere).")
     Integer candidates;
 
+    @Option(names = "--random-from", paramLabel = "DIR",
+            description = "labels: random's curves from an earlier run's --labels-out (DIR/<dataset>/curves.csv) instead of"
+                    + " running random again: a random curve depends only on its seed, so the same version with the same"
+                    + " settings draws the same curve. That run must cover these seeds and this budget; when it went"
+                    + " further, the savings are also given against its whole curves (a strategy can stop early).")
+    Path randomFrom;
+
     @Option(names = "--cold-start", defaultValue = dev.dowser.rounds.PoolSettings.DEFAULT_COLD_START_WORD,
             paramLabel = "kmeans++|typiclust", description = "labels: how the first batch is spread over the pool"
                     + " (default: ${DEFAULT-VALUE}).")
@@ -197,7 +204,7 @@ final class BenchCommand implements Callable<Integer> {
             LabelsBench.run(out, datasetsDir, datasets, strategies.stream().map(dev.dowser.rounds.Strategy::parse)
                     .distinct().toList(), seeds, sampler.config(), dev.dowser.rounds.PoolSettings.defaults()
                     .withColdStart(dev.dowser.acquire.ColdStart.Method.parse(coldStart)), budget, candidates,
-                    labelsOut);
+                    randomFrom, labelsOut);
         }
         if (wants("stopping")) {
             StopBench.run(out, datasetsDir, seeds, sampler.config(), labelsOut.resolve("stopping"));

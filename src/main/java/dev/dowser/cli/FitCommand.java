@@ -86,10 +86,11 @@ final class FitCommand implements Callable<Integer> {
         Health h = draws.health();
         PrintWriter out = command.commandLine().getOut();
         out.printf("train_rows=%d%ntest_rows=%d%naccuracy=%.4f%nnll=%.4f%nece=%.4f%nrhat_max=%s%n"
-                        + "ess_min=%s%nkernel=%s%nkernel_why=%s%ndraws=%d%ndivergences=%d%n",
+                        + "ess_min=%s%nrhat_within_max=%s%ness_within_min=%s%nkernel=%s%nkernel_why=%s%ndraws=%d%ndivergences=%d%n",
                 train.rows(), test.rows(), Metrics.accuracy(p, test.labels(), classes),
                 Metrics.nll(p, test.labels(), classes), Metrics.ece(p, test.labels(), classes),
                 figure(h.rhatMax(), "%.3f"), figure(Math.min(h.essBulkMin(), h.essTailMin()), "%.1f"),
+                figure(h.rhatWithinMax(), "%.3f"), figure(h.essWithinMin(), "%.1f"),
                 draws.choice().kernel().word(), draws.choice().why(), draws.draws().size(), h.divergences());
         // Only an accept-reject kernel has an acceptance rate; the others have none to print.
         if (!Double.isNaN(h.acceptance())) {
@@ -100,7 +101,8 @@ final class FitCommand implements Callable<Integer> {
         }
         // The whole fit, with the candidates' fits when the prior was chosen.
         out.printf("seconds=%.2f%n", (System.nanoTime() - begun) / 1e9);
-        ChainAdvice advice = ChainAdvice.of(h.rhatMax(), h.essBulkMin(), h.essTailMin(), sampler.chains,
+        ChainAdvice advice = ChainAdvice.of(h.rhatMax(), h.essBulkMin(), h.essTailMin(), h.rhatWithinMax(),
+                h.essWithinMin(), sampler.chains,
                 sampler.draws, new ChainAdvice.Knobs(sampler.chains, sampler.draws, sampler.burnIn,
                         PoolSettings.Sampling.MAX_CHAINS, PoolSettings.Sampling.MAX_DRAWS,
                         PoolSettings.Sampling.MAX_REBURN_IN_STEPS));

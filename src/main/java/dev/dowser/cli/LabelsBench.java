@@ -19,7 +19,8 @@ final class LabelsBench {
     }
 
     static void run(PrintWriter out, Path datasets, List<String> names, List<Strategy> strategies, int seeds,
-                    SamplerConfig sampler, PoolSettings settings, Integer budget, Integer candidates, Path dir)
+                    SamplerConfig sampler, PoolSettings settings, Integer budget, Integer candidates, Path randomFrom,
+                    Path dir)
             throws IOException {
         Files.createDirectories(dir);
         List<LabelSavings.Result> results = new ArrayList<>();
@@ -31,8 +32,9 @@ final class LabelsBench {
             }
             ProgressBar bar = new ProgressBar(System.err, "rounds of " + name);
             AtomicInteger done = new AtomicInteger();
-            int total = seeds * (strategies.size() + 1) * (2 + (setup.budget() - setup.seedLabels()) / setup.batch());
-            results.add(LabelSavings.run(setup, datasets, strategies, seeds, sampler, settings, dir, out,
+            int curves = strategies.size() + (randomFrom == null ? 1 : 0);
+            int total = seeds * curves * (2 + (setup.budget() - setup.seedLabels()) / setup.batch());
+            results.add(LabelSavings.run(setup, datasets, strategies, seeds, sampler, settings, randomFrom, dir, out,
                     k -> bar.show(done.addAndGet(k), total, done.get())));
             bar.finish();
             Strategy main = strategies.get(0);

@@ -81,8 +81,9 @@ public final class AdviceService {
         ChainAdvice.Knobs knobs = new ChainAdvice.Knobs(now.chains(), now.draws(), now.reburnInSteps(),
                 PoolSettings.Sampling.MAX_CHAINS, PoolSettings.Sampling.MAX_DRAWS,
                 PoolSettings.Sampling.MAX_REBURN_IN_STEPS);
+        // Rounds saved before the within-chain figures existed lack them: NaN, and the advice reads as it did.
         return ChainAdvice.of(number(h, "rhatMax"), number(h, "essBulkMin"), number(h, "essTailMin"),
-                kept.path("chains").asInt(now.chains()), kept.path("draws").asInt(now.draws()), knobs);
+                number(h, "rhatWithinMax"), number(h, "essWithinMin"), kept.path("chains").asInt(now.chains()), kept.path("draws").asInt(now.draws()), knobs);
     }
 
     private static double number(JsonNode n, String field) {

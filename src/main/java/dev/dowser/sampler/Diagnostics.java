@@ -36,6 +36,47 @@ public final class Diagnostics {
         return Math.min(ess(indicator(split, q05)), ess(indicator(split, q95)));
     }
 
+    /**
+     * R-hat within the chains: the same rank-normalised split R-hat (bulk and folded), with each
+     * chain ranked among its own draws, so that chains sitting apart (in different modes) no
+     * longer count and only drift inside a chain, one half against the other, does. The between
+     * and within parts of var+ are Gelman & Rubin's (1992); judging them apart for chains started
+     * at separate modes is our use, not a published diagnostic.
+     */
+    public static double rhatWithin(double[][] chains) {
+        double[][] split = split(rankNormalizeEach(chains));
+        double bulk = plainRhat(split);
+        double tail = plainRhat(split(rankNormalizeEach(foldEach(chains))));
+        return Math.max(bulk, tail);
+    }
+
+    /**
+     * Bulk ESS within the chains: the ESS of the split chains, each ranked among its own draws, so
+     * the draws are judged about their own chain's centre. For chains in different modes this is
+     * how many independent draws each mode's share of the predictive rests on, in all.
+     */
+    public static double essWithin(double[][] chains) {
+        return ess(split(rankNormalizeEach(chains)));
+    }
+
+    /** Each chain rank-normalised on its own ({@link #rankNormalize} with one chain at a time). */
+    static double[][] rankNormalizeEach(double[][] chains) {
+        double[][] out = new double[chains.length][];
+        for (int j = 0; j < chains.length; j++) {
+            out[j] = rankNormalize(new double[][] {chains[j]})[0];
+        }
+        return out;
+    }
+
+    /** Each chain folded about its own median. */
+    private static double[][] foldEach(double[][] chains) {
+        double[][] out = new double[chains.length][];
+        for (int j = 0; j < chains.length; j++) {
+            out[j] = fold(new double[][] {chains[j]})[0];
+        }
+        return out;
+    }
+
     /** R-hat of Gelman et al. (BDA3, eq. 11.4) on the chains as given: sqrt(var+ / W). */
     static double plainRhat(double[][] chains) {
         int m = chains.length;

@@ -17,9 +17,13 @@ import java.util.List;
  * @param acceptance     mean MH acceptance rate (MALA), NaN otherwise
  * @param meanStepSize   mean base step size over chains at the end
  * @param divergences    divergences recovered from
+ * @param rhatWithinMax  largest R-hat within the chains (each chain ranked on its own: drift inside a chain, not
+ *                       disagreement between chains; {@link Diagnostics#rhatWithin})
+ * @param essWithinMin   smallest bulk ESS within the chains (draws judged about their own chain's centre;
+ *                       {@link Diagnostics#essWithin})
  */
 public record Health(double rhatMax, double essBulkMin, double essTailMin, double acceptance, double meanStepSize,
-                     int divergences) {
+                     int divergences, double rhatWithinMax, double essWithinMin) {
 
     static Health of(List<ChainRun> runs, MlpPosterior target, Layout layout, float[] probe) {
         int chains = runs.size();
@@ -51,10 +55,14 @@ public record Health(double rhatMax, double essBulkMin, double essTailMin, doubl
         double rhat = Double.NaN;
         double bulk = Double.NaN;
         double tail = Double.NaN;
+        double rhatWithin = Double.NaN;
+        double essWithin = Double.NaN;
         if (draws >= 4) {
             rhat = 0;
             bulk = Double.POSITIVE_INFINITY;
             tail = Double.POSITIVE_INFINITY;
+            rhatWithin = 0;
+            essWithin = Double.POSITIVE_INFINITY;
             for (double[][] s : summaries) {
                 if (constant(s)) {
                     continue;
@@ -62,10 +70,13 @@ public record Health(double rhatMax, double essBulkMin, double essTailMin, doubl
                 rhat = finiteMax(rhat, Diagnostics.rhat(s));
                 bulk = finiteMin(bulk, Diagnostics.essBulk(s));
                 tail = finiteMin(tail, Diagnostics.essTail(s));
+                rhatWithin = finiteMax(rhatWithin, Diagnostics.rhatWithin(s));
+                essWithin = finiteMin(essWithin, Diagnostics.essWithin(s));
             }
             // No summary could be judged (too few draws per half-chain): there is no figure, not an infinite one.
             bulk = Double.isInfinite(bulk) ? Double.NaN : bulk;
             tail = Double.isInfinite(tail) ? Double.NaN : tail;
+            essWithin = Double.isInfinite(essWithin) ? Double.NaN : essWithin;
         }
         double acc = 0;
         double step = 0;
@@ -81,7 +92,7 @@ public record Health(double rhatMax, double essBulkMin, double essTailMin, doubl
             divergences += r.divergences().size();
         }
         double acceptance = withMh > 0 ? acc / withMh : Double.NaN;
-        return new Health(rhat, bulk, tail, acceptance, step / chains, divergences);
+        return new Health(rhat, bulk, tail, acceptance, step / chains, divergences, rhatWithin, essWithin);
     }
 
     /** A summary whose indicator never varies (every draw on one side of a quantile) says nothing: skip it. */

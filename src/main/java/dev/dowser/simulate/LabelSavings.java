@@ -81,8 +81,23 @@ public final class LabelSavings {
                 () -> new IllegalArgumentException("no benchmark dataset named '" + dataset + "'"));
     }
 
-    /** One dataset's result. */
-    public record Result(Setup setup, Simulation.Plan plan, List<Simulation.Point> points, double seconds) {
+    /**
+     * One dataset's result; {@code baseline} holds random's curves when they came from an earlier
+     * run (to that run's budget, which may be larger than this one's), else nothing.
+     */
+    public record Result(Setup setup, Simulation.Plan plan, List<Simulation.Point> points, double seconds,
+                         List<Simulation.Point> baseline) {
+
+        public Result {
+            points = List.copyOf(points);
+            baseline = List.copyOf(baseline);
+        }
+
+        /** Random's curves to the earlier run's budget, when they reach further than this run's; else null. */
+        LearningCurves longerBaseline() {
+            int extent = baseline.stream().mapToInt(Simulation.Point::labels).max().orElse(0);
+            return extent > setup.budget() ? LearningCurves.of(baseline, List.of(Strategy.RANDOM), plan.seeds()) : null;
+        }
     }
 
     /**
@@ -91,7 +106,20 @@ public final class LabelSavings {
      */
     public static Result run(Setup setup, Path datasetsDir, List<Strategy> strategies, int seeds, SamplerConfig sampler,
                              PoolSettings settings, Path out, PrintWriter summary, IntConsumer tick) throws IOException {
-        BenchmarkData.Dataset data = BenchmarkData.load(setup.dataset(), datasetsDir);
+        return run(setup, datasetsDir, strategies, seeds, sampler, settings, null, out, summary, tick);
+    }
+
+    /**
+     * As above; with {@code randomFrom} (not null), random is not run again: its curves come from
+     * the curves.csv of an earlier run in {@code randomFrom/<dataset>}. A random curve depends only on
+     * its seed (the split, the first batch, each round's uniform picks and the chains all come from
+     * the seed's own node of the seed tree, whatever else runs beside it), so with the same setup,
+     * settings and sampler it is the same curve; the earlier run must cover these seeds and this
+     * budget, and may go further (then the savings are also given against its whole curve).
+     */
+    public static Result run(Setup setup, Path datasetsDir, List<Strategy> strategies, int seeds, SamplerConfig sampler,
+                             PoolSettings settings, Path randomFrom, Path out, PrintWriter summary, IntConsumer tick)
+            throws IOException {
         List<Strategy> all = new ArrayList<>(strategies);
         if (!all.contains(Strategy.RANDOM)) {
             all.add(Strategy.RANDOM);
@@ -99,15 +127,40 @@ public final class LabelSavings {
         Simulation.Plan plan = new Simulation.Plan(all, seeds, setup.seedLabels(), setup.budget(),
                 Splits.DEFAULT_TEST_FRACTION, settings.withBatchSize(setup.batch()), sampler, Simulation.Plan.DEFAULT_SEED,
                 setup.candidates());
+        Simulation.Plan runs = plan;
+        List<Simulation.Point> baseline = List.of();
+        String from = "";
+        if (randomFrom != null) {
+            if (strategies.contains(Strategy.RANDOM)) {
+                throw new IllegalArgumentException("random's curves come from " + randomFrom
+                        + ": leave random out of the strategies");
+            }
+            Path csv = randomFrom.resolve(setup.dataset()).resolve(SimulationReport.CSV);
+            baseline = baseline(csv, setup, seeds);
+            runs = new Simulation.Plan(strategies, seeds, setup.seedLabels(), setup.budget(), plan.testFraction(),
+                    plan.settings(), sampler, plan.seed(), setup.candidates());
+            from = "random: not run again; its curves come from " + csv + "\n";
+        }
+        BenchmarkData.Dataset data = BenchmarkData.load(setup.dataset(), datasetsDir);
+        List<Simulation.Point> cached = baseline.stream().filter(p -> p.labels() <= setup.budget()).toList();
+        String head = from;
+        List<Simulation.Point> earlier = baseline;
         long begun = System.nanoTime();
         // After each seed but the last, the report so far: a long run stopped early still leaves its figures.
-        List<Simulation.Point> points = Simulation.run(data.pool(), data.test(), plan, tick, (done, so) -> {
+        List<Simulation.Point> points = withBaseline(Simulation.run(data.pool(), data.test(), runs, tick, (done, so) -> {
             if (done < seeds) {
-                report(out, setup, so, plan.withSeeds(done), "partial: " + done + " of " + seeds + " seeds\n");
+                report(out, new Result(setup, plan.withSeeds(done), withBaseline(so, cached, done), 0,
+                        earlier.stream().filter(p -> p.seed() < done).toList()),
+                        "partial: " + done + " of " + seeds + " seeds\n" + head);
             }
-        });
+        }), cached, seeds);
         double seconds = (System.nanoTime() - begun) / 1e9;
-        String text = report(out, setup, points, plan, "");
+        Result result = new Result(setup, plan, points, seconds, baseline);
+        String text = report(out, result, head);
+        if (randomFrom != null) {
+            summary.println(setup.dataset() + "_random_from=" + randomFrom.resolve(setup.dataset())
+                    .resolve(SimulationReport.CSV));
+        }
         for (String line : text.split("\n")) {
             if (line.contains("=")) {
                 summary.println(setup.dataset() + "_" + line);
@@ -115,18 +168,106 @@ public final class LabelSavings {
         }
         summary.printf(Locale.ROOT, "%s_seconds=%.0f%n", setup.dataset(), seconds);
         summary.flush();
-        return new Result(setup, plan, points, seconds);
+        return result;
+    }
+
+    /** Random's points for the first {@code seeds} seeds, refused unless every count of this setup's grid is there. */
+    static List<Simulation.Point> baseline(Path csv, Setup setup, int seeds) throws IOException {
+        if (!Files.isRegularFile(csv)) {
+            throw new IllegalArgumentException("no curves from an earlier run at " + csv);
+        }
+        List<Simulation.Point> random = SimulationReport.read(csv, Strategy.RANDOM).stream()
+                .filter(p -> p.seed() < seeds).toList();
+        for (int seed = 0; seed < seeds; seed++) {
+            int s = seed;
+            java.util.Set<Integer> counts = random.stream().filter(p -> p.seed() == s).map(Simulation.Point::labels)
+                    .collect(java.util.stream.Collectors.toSet());
+            for (int labels = setup.seedLabels(); ; labels = Math.min(labels + setup.batch(), setup.budget())) {
+                if (!counts.contains(labels)) {
+                    throw new IllegalArgumentException(csv + " has no random point at " + labels + " labels on seed " + s
+                            + ": it must come from a run with the same first batch (" + setup.seedLabels()
+                            + "), batch (" + setup.batch() + "), these seeds and a budget of at least "
+                            + setup.budget());
+                }
+                if (labels == setup.budget()) {
+                    break;
+                }
+            }
+        }
+        return random;
+    }
+
+    /** The run's points with the baseline's for its first {@code seeds} seeds, seed by seed. */
+    private static List<Simulation.Point> withBaseline(List<Simulation.Point> run, List<Simulation.Point> baseline,
+                                                       int seeds) {
+        List<Simulation.Point> out = new ArrayList<>(run);
+        baseline.stream().filter(p -> p.seed() < seeds).forEach(out::add);
+        out.sort(java.util.Comparator.comparingInt(Simulation.Point::seed));
+        return out;
+    }
+
+    /**
+     * When random's curves reach further than this run's budget: random's labels to each target on
+     * its whole curves, and each strategy's savings against them (a strategy that has not reached
+     * the target within its budget saves less than the baseline's count over that budget).
+     */
+    private static String longerBaselineLines(Result r) {
+        LearningCurves full = r.longerBaseline();
+        if (full == null) {
+            return "";
+        }
+        LearningCurves lc = LearningCurves.of(r.points(), r.plan().strategies(), r.plan().seeds());
+        StringBuilder t = new StringBuilder();
+        int extent = full.grid()[full.grid().length - 1];
+        for (double target : r.setup().targets()) {
+            String name = SimulationReport.targetName(target);
+            int random = full.labelsToReach(Strategy.RANDOM, target);
+            Bootstrap.Interval ri = full.labelsToReachInterval(Strategy.RANDOM, target);
+            t.append(String.format(Locale.ROOT, "labels_to_%s_random_to_%d=%s%n", name, extent,
+                    random == LearningCurves.NEVER ? "none" : Integer.toString(random)));
+            t.append(String.format(Locale.ROOT, "labels_to_%s_random_to_%d_interval=%s..%s%n", name, extent,
+                    fmt0(ri.lower()), fmt0(ri.upper())));
+            for (Strategy s : r.plan().strategies()) {
+                if (s == Strategy.RANDOM) {
+                    continue;
+                }
+                String key = String.format(Locale.ROOT, "savings_%s_%s_against_random_to_%d", name, s.word(), extent);
+                if (lc.labelsToReach(s, target) == LearningCurves.NEVER) {
+                    t.append(key).append('=').append(below(random, r.setup().budget())).append('\n');
+                    continue;
+                }
+                Bootstrap.Interval ci = lc.savingsRatioInterval(s, full, Strategy.RANDOM, target);
+                t.append(key).append('=').append(fmt(lc.savingsRatio(s, full, Strategy.RANDOM, target))).append('\n');
+                t.append(key).append("_interval=").append(fmt(ci.lower())).append("..").append(fmt(ci.upper()))
+                        .append('\n');
+            }
+        }
+        return t.toString();
+    }
+
+    /**
+     * The savings of a strategy that has not reached the target within {@code budget} labels: less
+     * than random's count over the budget ("none" when random never reached it either).
+     */
+    private static String below(int random, int budget) {
+        return random == LearningCurves.NEVER ? "none" : "below " + fmt((double) random / budget)
+                + " (not reached within " + budget + " labels)";
+    }
+
+    private static String fmt0(double v) {
+        return Double.isInfinite(v) ? "inf" : String.format(Locale.ROOT, "%.0f", v);
     }
 
     /** Writes a dataset's curves and summary.txt (after {@code head}); returns the summary. */
-    private static String report(Path out, Setup setup, List<Simulation.Point> points, Simulation.Plan plan,
-                                 String head) {
+    private static String report(Path out, Result r, String head) {
         try {
-            SimulationReport.write(out.resolve(setup.dataset()), setup.dataset(), points, plan);
+            Setup setup = r.setup();
+            SimulationReport.write(out.resolve(setup.dataset()), setup.dataset(), r.points(), r.plan());
             StringWriter text = new StringWriter();
-            SimulationReport.summary(new PrintWriter(text), points, plan, setup.targets());
-            Files.writeString(out.resolve(setup.dataset()).resolve("summary.txt"), head + text);
-            return text.toString();
+            SimulationReport.summary(new PrintWriter(text), r.points(), r.plan(), setup.targets());
+            String all = text + longerBaselineLines(r);
+            Files.writeString(out.resolve(setup.dataset()).resolve("summary.txt"), head + all);
+            return all;
         } catch (IOException e) {
             throw new java.io.UncheckedIOException(e);
         }
@@ -144,16 +285,33 @@ public final class LabelSavings {
             String auc = String.format(Locale.ROOT, "%+.4f (%+.4f to %+.4f)", lc.areaGain(strategy, Strategy.RANDOM),
                     gain.lower(), gain.upper());
             String won = lc.areaWins(strategy, Strategy.RANDOM) + "/" + lc.seeds();
+            // Random from an earlier, longer run: its labels and the savings come from its whole curves.
+            LearningCurves full = r.longerBaseline();
             for (double target : r.setup().targets()) {
-                double ratio = lc.savingsRatio(strategy, Strategy.RANDOM, target);
-                String interval = Double.isNaN(ratio) ? "" : " (" + fmt(lc.savingsRatioInterval(strategy,
-                        Strategy.RANDOM, target).lower()) + " to " + fmt(lc.savingsRatioInterval(strategy,
-                        Strategy.RANDOM, target).upper()) + ")";
-                t.append(String.format(Locale.ROOT, "| %s | %.2f | %s | %s | %s%s | %d/%d vs %d/%d | %s | %s |%n",
-                        r.setup().dataset(), target, count(lc.labelsToReach(strategy, target)),
-                        count(lc.labelsToReach(Strategy.RANDOM, target)), fmt(ratio), interval,
-                        lc.seedsReaching(strategy, target), lc.seeds(), lc.seedsReaching(Strategy.RANDOM, target),
-                        lc.seeds(), auc, won));
+                String random;
+                double ratio;
+                Bootstrap.Interval ci;
+                int randomSeeds;
+                if (full == null) {
+                    random = count(lc.labelsToReach(Strategy.RANDOM, target));
+                    ratio = lc.savingsRatio(strategy, Strategy.RANDOM, target);
+                    ci = lc.savingsRatioInterval(strategy, Strategy.RANDOM, target);
+                    randomSeeds = lc.seedsReaching(Strategy.RANDOM, target);
+                } else {
+                    int extent = full.grid()[full.grid().length - 1];
+                    random = count(full.labelsToReach(Strategy.RANDOM, target)) + " (run to " + extent + ")";
+                    ratio = lc.savingsRatio(strategy, full, Strategy.RANDOM, target);
+                    ci = lc.savingsRatioInterval(strategy, full, Strategy.RANDOM, target);
+                    randomSeeds = full.seedsReaching(Strategy.RANDOM, target);
+                }
+                String interval = Double.isNaN(ratio) ? "" : " (" + fmt(ci.lower()) + " to " + fmt(ci.upper()) + ")";
+                String savings = fmt(ratio) + interval;
+                if (full != null && lc.labelsToReach(strategy, target) == LearningCurves.NEVER) {
+                    savings = below(full.labelsToReach(Strategy.RANDOM, target), r.setup().budget());
+                }
+                t.append(String.format(Locale.ROOT, "| %s | %.2f | %s | %s | %s | %d/%d vs %d/%d | %s | %s |%n",
+                        r.setup().dataset(), target, count(lc.labelsToReach(strategy, target)), random, savings,
+                        lc.seedsReaching(strategy, target), lc.seeds(), randomSeeds, lc.seeds(), auc, won));
             }
         }
         return t.toString();

@@ -187,6 +187,25 @@ public final class LearningCurves {
                 crossing(meanCurve(s, u), target))), LEVEL);
     }
 
+    /**
+     * As {@link #savingsRatio}, with random's crossing taken from {@code baseline}: random's curves
+     * on the same seeds run to a larger budget than these, so a strategy can stop early against a
+     * baseline run once in full. 0 when the strategy does not reach the target within its curves.
+     */
+    public double savingsRatio(Strategy s, LearningCurves baseline, Strategy random, double target) {
+        return ratio(baseline.labelsToReach(random, target), labelsToReach(s, target));
+    }
+
+    /** The paired 90% bootstrap interval of the ratio above: each replicate resamples the same seeds in both. */
+    public Bootstrap.Interval savingsRatioInterval(Strategy s, LearningCurves baseline, Strategy random, double target) {
+        if (baseline.seeds != seeds) {
+            throw new IllegalArgumentException("the baseline has " + baseline.seeds + " seeds, these curves " + seeds
+                    + ": pair them on the same seeds");
+        }
+        return Bootstrap.percentile(bootstrap.replicates(u -> ratio(baseline.crossing(baseline.meanCurve(random, u),
+                target), crossing(meanCurve(s, u), target))), LEVEL);
+    }
+
     private static double ratio(int randomCount, int strategyCount) {
         if (strategyCount == NEVER) {
             return randomCount == NEVER ? Double.NaN : 0;

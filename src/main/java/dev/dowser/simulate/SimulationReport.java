@@ -8,6 +8,7 @@ import java.io.PrintWriter;
 import java.io.Writer;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 
@@ -23,6 +24,8 @@ public final class SimulationReport {
     public static final String CSV = "curves.csv";
     public static final String SVG = "curves.svg";
     public static final String PNG = "curves.png";
+    static final String HEADER = "strategy,seed,labels,accuracy,nll,ece,seconds,agreement,settled,estimate,estimate_lower,"
+            + "estimate_upper";
     /** Label counts at which accuracy and NLL are reported (the nearest on the grid), besides the budget. */
     static final int[] FIXED_COUNTS = {50, 100, 200, 500, 1000};
 
@@ -33,8 +36,7 @@ public final class SimulationReport {
             throws IOException {
         Files.createDirectories(dir);
         try (Writer w = Files.newBufferedWriter(dir.resolve(CSV))) {
-            w.write("strategy,seed,labels,accuracy,nll,ece,seconds,agreement,settled,estimate,estimate_lower,"
-                    + "estimate_upper\n");
+            w.write(HEADER + "\n");
             for (Simulation.Point p : points) {
                 AccuracyEstimate e = p.estimate() != null && p.estimate().known() ? p.estimate() : null;
                 w.write(String.format(Locale.ROOT, "%s,%d,%d,%.5f,%.5f,%.5f,%.3f,%s,%b,%s,%s,%s%n", p.strategy().word(),
@@ -47,6 +49,36 @@ public final class SimulationReport {
                 + " seeds, band: middle half", LearningCurves.of(points, plan.strategies(), plan.seeds()));
         CurvePlot.writeSvg(dir.resolve(SVG), figure);
         CurvePlot.writePng(dir.resolve(PNG), figure);
+    }
+
+    /**
+     * {@code strategy}'s points from a curves.csv that {@link #write} wrote: every column but the
+     * estimate's label count, which the file does not keep (1 stands for "known"; the reports read
+     * only the estimate and its interval).
+     */
+    static List<Simulation.Point> read(Path csv, Strategy strategy) throws IOException {
+        List<String> lines = Files.readAllLines(csv);
+        if (lines.isEmpty() || !lines.get(0).equals(HEADER)) {
+            throw new IllegalArgumentException(csv + " is not the curves.csv of a simulation: its first line must read "
+                    + HEADER);
+        }
+        List<Simulation.Point> out = new ArrayList<>();
+        for (int i = 1; i < lines.size(); i++) {
+            String[] c = lines.get(i).split(",", -1);
+            if (c.length != 12) {
+                throw new IllegalArgumentException(csv + ", line " + (i + 1) + ": 12 fields expected, found " + c.length);
+            }
+            if (!c[0].equals(strategy.word())) {
+                continue;
+            }
+            AccuracyEstimate estimate = c[9].isEmpty() ? null
+                    : new AccuracyEstimate(Double.parseDouble(c[9]), Double.parseDouble(c[10]), Double.parseDouble(c[11]),
+                    1, Double.NaN);
+            out.add(new Simulation.Point(strategy, Integer.parseInt(c[1]), Integer.parseInt(c[2]),
+                    Double.parseDouble(c[3]), Double.parseDouble(c[4]), Double.parseDouble(c[5]), Double.parseDouble(c[6]),
+                    c[7].isEmpty() ? Double.NaN : Double.parseDouble(c[7]), Boolean.parseBoolean(c[8]), estimate));
+        }
+        return out;
     }
 
     /** The table and the figures; see the class comment. */

@@ -92,4 +92,55 @@ class ChainAdviceTest {
         assertEquals(6.4, ChainAdvice.essFloor(64), 1e-9);
         assertEquals(Math.sqrt(1 + 4 / 6.4), ChainAdvice.rhatCeiling(4, 64), 1e-12);
     }
+
+    /** The advice from the across- and within-chain figures of 9 summaries, as the rounds judge them. */
+    private static ChainAdvice judgeSplit(SplittableRandom rng, double offset, double trend) {
+        double rhat = 0;
+        double bulk = Double.POSITIVE_INFINITY;
+        double tail = Double.POSITIVE_INFINITY;
+        double within = 0;
+        double essWithin = Double.POSITIVE_INFINITY;
+        for (int k = 0; k < SUMMARIES; k++) {
+            double[][] c = chains(rng, 4, 16, 0, offset);
+            for (double[] chain : c) {
+                for (int t = 0; t < chain.length; t++) {
+                    chain[t] += trend * t / chain.length;
+                }
+            }
+            rhat = Math.max(rhat, Diagnostics.rhat(c));
+            bulk = Math.min(bulk, Diagnostics.essBulk(c));
+            tail = Math.min(tail, Diagnostics.essTail(c));
+            within = Math.max(within, Diagnostics.rhatWithin(c));
+            essWithin = Math.min(essWithin, Diagnostics.essWithin(c));
+        }
+        return ChainAdvice.of(rhat, bulk, tail, within, essWithin, 4, 64, KNOBS);
+    }
+
+    @Test
+    void chainsSettledInSeparateModesAreANoteNotACallToAct() {
+        // Independent draws about centres 3 SD apart: each chain mixes, the chains disagree. On
+        // most of 100 such rounds (across-chain ESS alone would say "act": it counts about 4
+        // draws) the advice must be a note naming modes, never an act.
+        SplittableRandom rng = new SplittableRandom(34);
+        int notes = 0;
+        for (int t = 0; t < 100; t++) {
+            ChainAdvice a = judgeSplit(rng, 3, 0);
+            assertTrue(a.level() != ChainAdvice.Level.ACT || a.points().stream()
+                    .noneMatch(p -> p.text().contains(ChainAdvice.MODES)), a.toString());
+            notes += a.level() == ChainAdvice.Level.NOTE
+                    && a.points().stream().anyMatch(p -> p.text().contains(ChainAdvice.MODES)) ? 1 : 0;
+        }
+        System.out.println("separate modes read as a note in " + notes + " of 100");
+        assertTrue(notes >= 95, "a note in " + notes + " of 100");
+    }
+
+    @Test
+    void chainsStillDriftingAskForALongerWarmUp() {
+        // Each chain's mean climbs 4 SD over its 16 draws: its halves disagree.
+        ChainAdvice a = judgeSplit(new SplittableRandom(35), 0, 4);
+        assertEquals(ChainAdvice.Level.ACT, a.level(), a.toString());
+        assertEquals("reburn_in_steps", a.points().get(0).setting(), a.toString());
+        assertEquals(600, a.points().get(0).suggest());
+        assertTrue(a.points().get(0).text().startsWith("Some chains were still moving while they drew"), a.toString());
+    }
 }

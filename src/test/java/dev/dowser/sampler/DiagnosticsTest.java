@@ -96,4 +96,26 @@ class DiagnosticsTest {
         assertTrue(Diagnostics.plainRhat(Diagnostics.rankNormalize(Diagnostics.split(chains))) < 1.02);
         assertTrue(Diagnostics.rhat(chains) > 1.05, "R-hat " + Diagnostics.rhat(chains));
     }
+
+    @Test
+    void withinChainFiguresIgnoreChainsSittingApartButCatchDrift() {
+        // Four i.i.d. chains centred 3 SD apart (separate modes): R-hat across them is large, yet
+        // within each chain the halves agree (R-hat below Vehtari et al.'s 1.01) and the within ESS
+        // is near the 4,000 independent draws (tolerance 15%, as for the AR(1) checks above).
+        SplittableRandom rng = new SplittableRandom(7);
+        double[][] apart = new double[4][1000];
+        double[][] drifting = new double[4][1000];
+        for (int c = 0; c < 4; c++) {
+            for (int i = 0; i < 1000; i++) {
+                apart[c][i] = rng.nextGaussian() + 3.0 * c;
+                // A chain still moving: its mean climbs 2 SD from its first draw to its last.
+                drifting[c][i] = rng.nextGaussian() + 2.0 * i / 1000;
+            }
+        }
+        assertTrue(Diagnostics.rhat(apart) > 2, "R-hat " + Diagnostics.rhat(apart));
+        assertTrue(Diagnostics.rhatWithin(apart) < 1.01, "R-hat within " + Diagnostics.rhatWithin(apart));
+        assertEquals(4000, Diagnostics.essWithin(apart), 0.15 * 4000);
+        assertTrue(Diagnostics.rhatWithin(drifting) > 1.1, "R-hat within " + Diagnostics.rhatWithin(drifting));
+        assertTrue(Diagnostics.essWithin(drifting) < 400, "ESS within " + Diagnostics.essWithin(drifting));
+    }
 }
