@@ -38,7 +38,8 @@ function listItem(list, text) {
 }
 
 async function showAccuracy() {
-  const a = await getJson(`pools/${encodeURIComponent(pool)}/accuracy`);
+  const [a, { strategy }] = await Promise.all([getJson(`pools/${encodeURIComponent(pool)}/accuracy`),
+    getJson(`pools/${encodeURIComponent(pool)}/settings`)]);
   const facts = $('accuracy-facts');
   facts.replaceChildren();
   if (!a.model) {
@@ -52,6 +53,11 @@ async function showAccuracy() {
     if (a.picked.labels > 0) {
       listItem(facts, `From every picked record, weighted by how likely it was to be picked: ${interval(a.picked)},`
         + ` ${a.picked.labels} labels.`);
+    } else if (strategy.startsWith('typiclust-')) {
+      // A typical phase ends by itself: power sampling follows, so asking for it would change nothing.
+      listItem(facts, 'Picked records cannot tell yet: while labels are few, this pool\'s strategy'
+        + ` (${strategy}) takes the most typical records outright, and such picks cannot be weighted back to the`
+        + ' whole pool. The records it then picks by power sampling will count here as they are labelled.');
     } else {
       const li = listItem(facts, 'Picked records cannot tell: these rounds picked records outright (the best scores,'
         + ' or the typical records that come first while labels are few), and such picks cannot be weighted back to'

@@ -28,6 +28,7 @@ import picocli.CommandLine.Spec;
 
 @Command(name = "bench", mixinStandardHelpOptions = true,
         description = {"Measures this machine and prints key=value lines.",
+            "Every suite that stores records makes its own H2 databases under --work; none runs on PostgreSQL.",
             "",
             "import: a generated CSV of N rows x 64 numeric features into a fresh pool, at N/10 and at N in"
                 + " the same run; rows per second, the peak heap (what the collector let the heap grow to) and"
@@ -100,7 +101,8 @@ final class BenchCommand implements Callable<Integer> {
 
     @Option(names = "--datasets", split = ",", paramLabel = "NAME",
             description = "labels: datasets (default: digits,breast_cancer,wine,iris,pumps,fashion-mnist; fashion-mnist-pixels, its"
-                    + " raw pixels to check the principal components against, only when named).")
+                    + " raw pixels to check the principal components against, and fashion-mnist-projected, the"
+                    + " standardised pixels on 50 components without whitening, only when named).")
     java.util.List<String> datasets = java.util.List.of("digits", "breast_cancer", "wine", "iris", "pumps",
             "fashion-mnist");
 

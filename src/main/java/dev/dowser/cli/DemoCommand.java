@@ -25,7 +25,9 @@ import picocli.CommandLine.Option;
 @Command(name = "demo", mixinStandardHelpOptions = true,
         description = {"Starts the web app on a fresh database holding the demo pool.",
             "The pool holds vibration traces from the pumps of Kettlewater Works, an invented water works,"
-                + " each to be labelled with one of five conditions."})
+                + " each to be labelled with one of five conditions.",
+            "The demo always makes a new H2 database in --data; for PostgreSQL, use import and serve with"
+                + " --database-url."})
 final class DemoCommand implements Callable<Integer> {
 
     static final String DEMO_ADMIN = "demo-admin";

@@ -20,7 +20,8 @@ import picocli.CommandLine.Parameters;
 import picocli.CommandLine.Spec;
 
 @Command(name = "users", mixinStandardHelpOptions = true,
-        description = {"Manages the accounts of a data folder (the server may be stopped or running on another folder).",
+        description = {"Manages the accounts in the database: the H2 file in --data, or the PostgreSQL server given by --database-url.",
+            "On H2, stop the server on that folder first (one program at a time opens the file).",
             "A new or reset password is generated and printed once, unless --password-stdin gives one."})
 final class UsersCommand {
 

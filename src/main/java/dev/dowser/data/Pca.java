@@ -9,17 +9,25 @@ import org.ejml.interfaces.decomposition.EigenDecomposition_F64;
 /**
  * Principal components (Pearson 1901; Jolliffe 2002, "Principal Component Analysis", ch. 1): the
  * eigenvectors of the features' covariance matrix with the largest eigenvalues. Fitted on a pool
- * (no labels needed), it projects records onto its first k components, each scaled to unit
- * variance, so that a wide pool (784 pixels) becomes a narrow one the network and the scorer
- * handle quickly. The covariance is one product on BLAS; the eigenvectors come from EJML.
+ * (no labels needed), it projects records onto its first k components, so that a wide pool (784
+ * pixels) becomes a narrow one the network and the scorer handle quickly. Whitened, each
+ * projected component is scaled to unit variance; otherwise the components are orthonormal and
+ * the projection keeps the inputs' distances within their span. The covariance is one product on
+ * BLAS; the eigenvectors come from EJML.
  *
  * @param mean       the features' means
- * @param components k components of the inputs' width, row-major, each divided by its standard deviation
+ * @param components k components of the inputs' width, row-major, each divided by its standard
+ *                   deviation when whitened, of unit length otherwise
  */
 public record Pca(float[] mean, float[] components, int inputs, int k) {
 
-    /** The first {@code k} components of {@code rows} rows of x. */
+    /** The first {@code k} components of {@code rows} rows of x, whitened. */
     public static Pca fit(float[] x, int rows, int cols, int k) {
+        return fit(x, rows, cols, k, true);
+    }
+
+    /** The first {@code k} components of {@code rows} rows of x, each scaled to unit variance if {@code whiten}. */
+    public static Pca fit(float[] x, int rows, int cols, int k, boolean whiten) {
         if (k < 1 || k > cols) {
             throw new IllegalArgumentException("principal components must number 1 to " + cols + ", got " + k);
         }
@@ -59,7 +67,7 @@ public record Pca(float[] mean, float[] components, int inputs, int k) {
         float[] components = new float[k * cols];
         for (int p = 0; p < k; p++) {
             DMatrixRMaj v = eig.getEigenVector(order[p]);
-            double sd = Math.sqrt(Math.max(values[order[p]], 1e-12));
+            double sd = whiten ? Math.sqrt(Math.max(values[order[p]], 1e-12)) : 1;
             for (int j = 0; j < cols; j++) {
                 components[p * cols + j] = (float) (v.get(j, 0) / sd);
             }

@@ -128,11 +128,16 @@ public final class Desk {
         }
         pool.checkClass(label);
         long row = db.records().requireRow(pool, record);
-        db.labels().add(pool.id(), row, label, person, note == null || note.isBlank() ? null : note);
+        boolean appended = db.labels().add(pool.id(), row, label, person, note == null || note.isBlank() ? null : note)
+                .appended();
         RoundWorker worker = rounds.worker(pool.name());
-        worker.labelAdded();
+        if (appended) {
+            worker.labelAdded();
+        }
         atDesk(worker, person, pool);
-        events.labelChanged(pool.name(), record, "added", worker.labelsToNextRound());
+        if (appended) {
+            events.labelChanged(pool.name(), record, "added", worker.labelsToNextRound());
+        }
         return new Labelled(view(pool, row), progress(pool));
     }
 

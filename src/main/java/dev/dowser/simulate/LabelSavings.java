@@ -71,7 +71,9 @@ public final class LabelSavings {
             new Setup(BenchmarkData.PUMPS, 20, 10, 300, List.of(0.9)),
             new Setup(BenchmarkData.FASHION, 20, 20, 1_000, List.of(0.8), FASHION_CANDIDATES),
             // Not in the default run: the check that the principal components leave the strategies' order as it is.
-            new Setup(BenchmarkData.FASHION_PIXELS, 20, 20, 1_000, List.of(0.8), FASHION_CANDIDATES));
+            new Setup(BenchmarkData.FASHION_PIXELS, 20, 20, 1_000, List.of(0.8), FASHION_CANDIDATES),
+            // Not in the default run: the components without whitening (the notes say why).
+            new Setup(BenchmarkData.FASHION_PROJECTED, 20, 20, 1_000, List.of(0.8), FASHION_CANDIDATES));
 
     private LabelSavings() {
     }

@@ -14,6 +14,7 @@ import java.util.HashSet;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.Objects;
 import java.util.Set;
 import java.util.function.Consumer;
 
@@ -37,8 +38,20 @@ public final class LabelStore {
         this.clock = clock;
     }
 
-    /** Appends a label for the record at {@code row}; the caller has checked it against the label set. */
-    public LabelRow add(long poolId, long row, String label, String labelledBy, String note) {
+    /**
+     * A label as it stands after {@link #add}: {@code appended} is false when the person's label of the
+     * record already said exactly this (the same class and note), so nothing was written.
+     */
+    public record Added(LabelRow label, boolean appended) {
+    }
+
+    /**
+     * Appends a label for the record at {@code row}; the caller has checked it against the label set.
+     * The same label and note again from the same person, while their label stands, appends nothing: a
+     * client that retries a label it never got the answer to (a 503, a dropped connection) must not
+     * store it twice, and repeating one's opinion changes nothing.
+     */
+    public Added add(long poolId, long row, String label, String labelledBy, String note) {
         if (labelledBy == null || labelledBy.isBlank() || labelledBy.length() > MAX_LABELLER_CHARS) {
             throw new IllegalArgumentException("labelled_by must be 1 to " + MAX_LABELLER_CHARS + " characters");
         }
@@ -46,8 +59,13 @@ public final class LabelStore {
             throw new IllegalArgumentException("the note is longer than " + MAX_NOTE_CHARS + " characters");
         }
         return sql.transaction("store the label of row " + row, c -> {
+            Resolution.Opinion standing = resolution(c, poolId, row).opinions().stream()
+                    .filter(o -> o.person().equals(labelledBy)).findFirst().orElse(null);
+            if (standing != null && standing.label().equals(label) && Objects.equals(standing.note(), note)) {
+                return new Added(new LabelRow(row, label, labelledBy, standing.at(), note), false);
+            }
             Instant at = insert(c, poolId, row, label, labelledBy, note, KIND_LABEL, false);
-            return new LabelRow(row, label, labelledBy, at, note);
+            return new Added(new LabelRow(row, label, labelledBy, at, note), true);
         });
     }
 

@@ -1,6 +1,7 @@
 package dev.dowser.cli;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -69,6 +70,19 @@ class CommandLineTest {
         for (String command : List.of("serve", "demo", "import", "export", "users", "fit", "simulate", "bench")) {
             assertTrue(top.out().contains("  " + command + " "), command + " missing from:\n" + top.out());
         }
+    }
+
+    /** Each help names the database it opens: users runs on PostgreSQL too; demo and bench make H2 only. */
+    @Test
+    void helpNamesTheDatabase() {
+        String users = run("users", "--help").out().replaceAll("\\s+", " ");
+        assertFalse(users.contains("data folder"), "users also runs on PostgreSQL: " + users);
+        assertTrue(users.contains("Manages the accounts in the database: the H2 file in --data, or the PostgreSQL"
+                + " server given by --database-url."), users);
+        assertTrue(run("demo", "--help").out().replaceAll("\\s+", " ")
+                .contains("The demo always makes a new H2 database in --data"), "demo's help");
+        assertTrue(run("bench", "--help").out().replaceAll("\\s+", " ")
+                .contains("makes its own H2 databases under --work; none runs on PostgreSQL"), "bench's help");
     }
 
     @Test

@@ -66,4 +66,41 @@ class PcaTest {
         }
         assertEquals(0, cross / (n - 1), 1e-3, "uncorrelated");
     }
+
+    /** Without whitening the components are Commons Math's unit eigenvectors and each projection's variance is its eigenvalue. */
+    @Test
+    void unwhitenedComponentsKeepTheScale() {
+        SplittableRandom rng = new SplittableRandom(5);
+        int n = 4_000;
+        int d = 3;
+        float[] x = new float[n * d];
+        double[][] ref = new double[n][d];
+        for (int i = 0; i < n; i++) {
+            double a = 4 * rng.nextGaussian();
+            double b = rng.nextGaussian();
+            double[] v = {a + b, a - b, 0.1 * rng.nextGaussian() + 2};
+            for (int j = 0; j < d; j++) {
+                x[i * d + j] = (float) v[j];
+                ref[i][j] = (float) v[j];
+            }
+        }
+        Pca pca = Pca.fit(x, n, d, 2, false);
+        EigenDecomposition eig = new EigenDecomposition(new Covariance(new Array2DRowRealMatrix(ref))
+                .getCovarianceMatrix());
+        float[] y = pca.project(x, n);
+        for (int p = 0; p < 2; p++) {
+            double[] v = eig.getEigenvector(p).toArray();
+            double sign = Math.signum(v[0]) * Math.signum(pca.components()[p * d]);
+            for (int j = 0; j < d; j++) {
+                assertEquals(v[j], sign * pca.components()[p * d + j], 1e-4, "component " + p + ", input " + j);
+            }
+            double sq = 0;
+            for (int i = 0; i < n; i++) {
+                sq += y[i * 2 + p] * y[i * 2 + p];
+            }
+            assertEquals(eig.getRealEigenvalue(p), sq / (n - 1), 1e-3 * eig.getRealEigenvalue(p), "variance " + p);
+        }
+        // The first component's variance is about 2 * 16 = 32, the second's 2 * 1 = 2: the scale stays.
+        assertEquals(32, eig.getRealEigenvalue(0), 2.5);
+    }
 }

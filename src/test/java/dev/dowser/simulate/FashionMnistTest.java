@@ -80,4 +80,36 @@ class FashionMnistTest {
         double perPixel = testSquares / data.test().rows() / cols;
         assertTrue(perPixel > 0.9 && perPixel < 1.1 && Math.abs(perPixel - 1) > 1e-6, "test mean square " + perPixel);
     }
+
+    /**
+     * The unwhitened plan: 50 columns whose variances are the standardised pixels' 50 largest
+     * eigenvalues, in decreasing order, summing to less than the 784 pixels' total variance (one
+     * per pixel that varies).
+     */
+    @Test
+    void theProjectedPlanKeepsThePixelsScale() {
+        BenchmarkData.Dataset data = BenchmarkData.load(BenchmarkData.FASHION_PROJECTED, TestSupport.datasetsDir());
+        assertEquals(50, data.pool().cols());
+        assertEquals(50, data.test().cols());
+        int rows = data.pool().rows();
+        double[] var = new double[50];
+        for (int p = 0; p < 50; p++) {
+            double sum = 0;
+            double squares = 0;
+            for (int i = 0; i < rows; i++) {
+                double v = data.pool().x()[i * 50 + p];
+                sum += v;
+                squares += v * v;
+            }
+            assertEquals(0, sum / rows, 1e-3, "component " + p + "'s mean");
+            var[p] = (squares - sum * sum / rows) / (rows - 1);
+            if (p > 0) {
+                assertTrue(var[p] <= var[p - 1] * (1 + 1e-4), "component " + p + "'s variance " + var[p]);
+            }
+        }
+        double total = java.util.Arrays.stream(var).sum();
+        System.out.printf("fashion-mnist-projected: variances %.1f (first) to %.2f (50th), %.0f in all of 784%n",
+                var[0], var[49], total);
+        assertTrue(total < 784 && var[49] > 0, "total " + total);
+    }
 }

@@ -47,6 +47,21 @@ class ResolutionTest {
         db.labels().add(pool, row, label, by, null);
     }
 
+    /** A retried label (the same class and note while the person's label stands) writes nothing; H2 and PostgreSQL alike. */
+    @Test
+    void theSameLabelAgainIsNotAppended() {
+        clock.advance(Duration.ofSeconds(1));
+        assertEquals(true, db.labels().add(pool, 2, "a", "ana", "n").appended());
+        clock.advance(Duration.ofSeconds(1));
+        LabelStore.Added again = db.labels().add(pool, 2, "a", "ana", "n");
+        assertEquals(false, again.appended(), "a retry was appended");
+        assertEquals(1, db.labels().history(pool, 2).size());
+        assertEquals(true, db.labels().add(pool, 2, "a", "ana", null).appended(), "a changed note is a new label");
+        db.labels().withdraw(pool, 2, "ana");
+        assertEquals(true, db.labels().add(pool, 2, "a", "ana", null).appended(), "a label after an undo is a new label");
+        assertEquals(4, db.labels().history(pool, 2).size());
+    }
+
     @Test
     void onePersonAgreeingPeopleAndAReviewer() {
         label(0, "a", "ana");

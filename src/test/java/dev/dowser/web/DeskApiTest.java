@@ -145,6 +145,31 @@ class DeskApiTest {
                 .mapToLong(JsonNode::asLong).sum(), "only the three labels of the file remain");
     }
 
+    /**
+     * A client that never got the answer to an acknowledged label (a 503 from a later step, a dropped
+     * connection) sends it again: the label is stored once, the round counter counts it once, and the
+     * history shows one row. A changed note or class is a new label, as before.
+     */
+    @Test
+    void aRetriedLabelIsStoredOnce() throws Exception {
+        String record = ok(as("p1", "POST", "/api/v1/pools/iris/queue/next", "{}"), 200).at("/record/id").asText();
+        String body = "{\"record\":\"" + record + "\",\"label\":\"setosa\",\"note\":\"small petals\"}";
+        JsonNode first = ok(as("p1", "POST", "/api/v1/pools/iris/labels", body), 201);
+        JsonNode retry = ok(as("p1", "POST", "/api/v1/pools/iris/labels", body), 201);
+        assertEquals(9, first.at("/progress/labels_to_next_round").asInt());
+        assertEquals(9, retry.at("/progress/labels_to_next_round").asInt(), "the retry was counted again: " + retry);
+        assertEquals(first.get("labelled_at").asText(), retry.get("labelled_at").asText(),
+                "the retry answers with the label it already stored");
+        JsonNode history = ok(send("GET", "/api/v1/pools/iris/records/" + record + "/history", ""), 200);
+        assertEquals(1, history.get("history").size(), "the retried label was stored twice: " + history);
+
+        ok(as("p1", "POST", "/api/v1/pools/iris/labels", body.replace("small petals", "very small petals")), 201);
+        assertEquals(2, ok(send("GET", "/api/v1/pools/iris/records/" + record + "/history", ""), 200)
+                .get("history").size(), "a changed note is kept");
+        String export = send("GET", "/api/v1/pools/iris/export?format=csv", "").body();
+        assertEquals(1, export.lines().filter(l -> l.startsWith(record + ",")).count(), export);
+    }
+
     @Test
     void settingsAreValidatedAndNamed() throws Exception {
         HttpResponse<String> zero = send("PUT", "/api/v1/pools/iris/settings", "{\"batch_size\":0}");

@@ -1,6 +1,7 @@
 package dev.dowser.web;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
@@ -175,6 +176,43 @@ class KeepLabellingBrowserTest extends BrowserFixture {
         browser.await(d -> browser.byId("keep-line").getText().startsWith(
                 "Too early to tell: the last round learnt from 30 labels."), "the desk's line");
         browser.screenshot("keep-3-desk");
+    }
+
+    /**
+     * In a typiclust-power pool's typical phase the picks are typical records taken outright, so the
+     * accuracy card cannot weight them; it used to link "Pick by power sampling", which the strategy
+     * turns to by itself. It now says so instead.
+     */
+    @Test
+    void aTypicalPhaseDoesNotAskForPowerSampling() throws Exception {
+        TestSupport.importIrisWithoutLabels(db, dir);
+        PoolRow iris = db.pools().require("iris");
+        db.pools().updateSettings(iris.id(), new PoolSettings(10, PoolSettings.DEFAULT_SPOT_CHECK_SHARE,
+                PoolSettings.DEFAULT_LEASE_MINUTES, Strategy.TYPICLUST_POWER, 0).toJson(), LEAD);
+        serve();
+        published(1, 0);
+        label(10);
+        // Rounds also start by themselves (the low-water mark may start one before the tenth label): ask for one.
+        call(lead, "POST", "pools/iris/rounds", "{}");
+        TestSupport.await(Duration.ofSeconds(120), () -> newestRound().path("labels_at_start").asInt() >= 10
+                && "published".equals(newestRound().path("status").asText()), "a round from 10 labels");
+        label(10);
+        // Rounds also start by themselves (the low-water mark may start one before the tenth label): ask for one.
+        call(lead, "POST", "pools/iris/rounds", "{}");
+        TestSupport.await(Duration.ofSeconds(120), () -> newestRound().path("labels_at_start").asInt() >= 20
+                && "published".equals(newestRound().path("status").asText()), "a round from 20 labels");
+        assertEquals(0, call(lead, "GET", "pools/iris/accuracy", null).at("/picked/labels").asInt(),
+                "the typical phase's picks are not weighted");
+        signIn(PERSON);
+        browser.driver.get(base() + "overview.html?pool=iris");
+        String facts = browser.await(d -> {
+            String f = browser.byId("accuracy-facts").getText();
+            return f.contains("Picked records cannot tell") ? f : null;
+        }, "the accuracy card");
+        browser.screenshot("keep-typical-phase");
+        assertFalse(facts.contains("Pick by power sampling"), facts);
+        assertTrue(facts.contains("Picked records cannot tell yet: while labels are few, this pool's strategy"
+                + " (typiclust-power) takes the most typical records outright"), facts);
     }
 
     @Test
