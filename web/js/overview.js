@@ -62,23 +62,15 @@ async function showAccuracy() {
       const li = listItem(facts, 'Picked records cannot tell: these rounds picked records outright (the best scores,'
         + ' or the typical records that come first while labels are few), and such picks cannot be weighted back to'
         + ' the whole pool. ');
-      const form = $('settings');
-      // Read here rather than from the form, which the settings request fills in at the same time.
-      const { strategy } = await getJson(`pools/${encodeURIComponent(pool)}/settings`);
-      if (strategy === 'typiclust-mix' || strategy === 'typiclust-power') {
-        // The typical picks stop by themselves; sending the team away from the default would cost labels.
-        li.append('This pool passes to power sampling by itself once the model knows the common cases; until'
-          + ' then the spot checks below tell.');
-      } else {
-        const link = document.createElement('a');
-        link.href = '#settings';
-        link.textContent = 'Pick by power sampling';
-        // Like chain advice, the link fills in the setting; an admin saves it.
-        link.addEventListener('click', () => {
-          if (form && !form.elements.strategy.disabled) form.elements.strategy.value = 'power';
-        });
-        li.append(link, ' to let every label count.');
-      }
+      const link = document.createElement('a');
+      link.href = '#settings';
+      link.textContent = 'Pick by power sampling';
+      // Like chain advice, the link fills in the setting; an admin saves it.
+      link.addEventListener('click', () => {
+        const form = $('settings');
+        if (form && !form.elements.strategy.disabled) form.elements.strategy.value = 'power';
+      });
+      li.append(link, ' to let every label count.');
     }
     const s = a.spot_checks;
     if (s.labels > 0) {
