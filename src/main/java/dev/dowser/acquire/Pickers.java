@@ -14,6 +14,9 @@ public final class Pickers {
 
     /** The b highest scores, best first; ties keep the lower index first. */
     public static int[] topB(double[] scores, int b) {
+        if (b <= 0) {
+            return new int[0];
+        }
         if (b <= SMALL_BATCH) {
             return topSmall(scores, Math.min(b, scores.length));
         }

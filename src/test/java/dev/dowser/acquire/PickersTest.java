@@ -48,6 +48,14 @@ class PickersTest {
     }
 
     @Test
+    void aBatchOfNoneIsEmpty() {
+        // A mixed batch whose typical picks fill it asks power sampling for none (this threw before).
+        double[] scores = {0.3, 0.1, 0.2};
+        assertArrayEquals(new int[0], Pickers.topB(scores, 0));
+        assertEquals(0, Pickers.power(scores, 0, 1.0, new SplittableRandom(1)).size());
+    }
+
+    @Test
     void batchBaldOfOneIsBald() {
         SplittableRandom rng = new SplittableRandom(1);
         int n = 12;
